@@ -1,0 +1,17 @@
+import type { Metadata } from 'next';
+import type { ReactNode } from 'react';
+import { jbmono, plex } from './fonts';
+import './globals.css';
+
+export const metadata: Metadata = {
+  title: { default: 'Rhobook', template: '%s · Rhobook' },
+  description: 'Estimate, review and publish asset-correlation assumptions for credit portfolios.',
+};
+
+export default function RootLayout({ children }: { children: ReactNode }) {
+  return (
+    <html lang="en-GB" className={`${plex.variable} ${jbmono.variable}`}>
+      <body className="min-h-screen antialiased">{children}</body>
+    </html>
+  );
+}

@@ -1,0 +1,34 @@
+import type { Metadata } from 'next';
+import { redirect } from 'next/navigation';
+import { SignInForm } from '@/components/sign-in-form';
+import { getCurrentUser } from '@/lib/auth/session';
+
+export const metadata: Metadata = { title: 'Sign in' };
+
+function safeCallback(raw: string | string[] | undefined): string {
+  const v = Array.isArray(raw) ? raw[0] : raw;
+  // Only same-site paths: never redirect to another host after signing in.
+  return v && v.startsWith('/') && !v.startsWith('//') ? v : '/';
+}
+
+export default async function SignInPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+  const params = await searchParams;
+  const callbackUrl = safeCallback(params.callbackUrl);
+  if (await getCurrentUser()) redirect(callbackUrl);
+  return (
+    <main className="mx-auto flex min-h-screen max-w-md flex-col justify-center px-6">
+      <div className="mb-6">
+        <div className="text-2xl font-semibold tracking-tight">
+          <span className="text-[var(--color-accent)]">ρ</span> Rhobook
+        </div>
+        <p className="mt-1 text-sm text-[var(--color-muted)]">
+          Asset-correlation estimates, their evidence and their approval, in one place.
+        </p>
+      </div>
+      <div className="panel p-6">
+        <h1 className="mb-4">Sign in</h1>
+        <SignInForm callbackUrl={callbackUrl} />
+      </div>
+    </main>
+  );
+}

@@ -1,0 +1,52 @@
+'use client';
+
+import { useActionState } from 'react';
+import type { AdminActionState } from '@/app/(app)/admin/actions';
+
+type Action = (prev: AdminActionState, form: FormData) => Promise<AdminActionState>;
+
+export function UserControls({
+  userId,
+  role,
+  active,
+  changeRole,
+  setActive,
+}: {
+  userId: number;
+  role: string;
+  active: boolean;
+  changeRole: Action;
+  setActive: Action;
+}) {
+  const [roleState, roleAction, rolePending] = useActionState(changeRole, { ok: false, message: null });
+  const [activeState, activeAction, activePending] = useActionState(setActive, { ok: false, message: null });
+  const message = roleState.message ?? activeState.message;
+  const ok = roleState.message ? roleState.ok : activeState.ok;
+  return (
+    <div className="space-y-1">
+      <div className="flex flex-wrap items-center gap-2">
+        <form action={roleAction} className="flex items-center gap-1">
+          <input type="hidden" name="userId" value={userId} />
+          <label className="sr-only" htmlFor={`role-${userId}`}>Role</label>
+          <select id={`role-${userId}`} name="role" defaultValue={role} className="field w-auto py-1 text-sm">
+            <option value="viewer">Viewer</option>
+            <option value="analyst">Analyst</option>
+            <option value="validator">Validator</option>
+            <option value="admin">Administrator</option>
+          </select>
+          <button type="submit" className="btn btn-quiet px-2 py-1 text-sm" disabled={rolePending}>
+            Change role
+          </button>
+        </form>
+        <form action={activeAction}>
+          <input type="hidden" name="userId" value={userId} />
+          <input type="hidden" name="active" value={active ? 'false' : 'true'} />
+          <button type="submit" className={`btn px-2 py-1 text-sm ${active ? 'btn-danger' : 'btn-quiet'}`} disabled={activePending}>
+            {active ? 'Deactivate' : 'Reactivate'}
+          </button>
+        </form>
+      </div>
+      {message ? <p className={`text-xs ${ok ? 'text-[var(--color-good)]' : 'text-[var(--color-bad)]'}`} role="status">{message}</p> : null}
+    </div>
+  );
+}

@@ -1,0 +1,2 @@
+import 'server-only';
+export { getDb, getPool, closeDb, type Db } from './connection';

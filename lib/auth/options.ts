@@ -1,0 +1,64 @@
+import type { NextAuthOptions } from 'next-auth';
+import CredentialsProvider from 'next-auth/providers/credentials';
+import { z } from 'zod';
+import { getDb } from '@/db/client';
+import { roles } from '@/db/schema';
+import { env } from '@/lib/env';
+import { attemptSignIn } from './sign-in';
+
+const credentialsSchema = z.object({
+  email: z.string().trim().min(1).max(254),
+  password: z.string().min(1).max(200),
+});
+
+function clientAddress(headers: Record<string, unknown> | undefined): string {
+  const fwd = headers?.['x-forwarded-for'];
+  const first = typeof fwd === 'string' ? fwd.split(',')[0]?.trim() : undefined;
+  const real = headers?.['x-real-ip'];
+  return first || (typeof real === 'string' ? real : '') || 'unknown';
+}
+
+/**
+ * next-auth configuration: e-mail and password (bcrypt), JWT sessions carrying the user id and role.
+ * The role in the token is only a hint for the interface: lib/auth/session.ts reloads the user on
+ * every request, so a deactivated user or a changed role takes effect at once.
+ */
+export const authOptions: NextAuthOptions = {
+  secret: env().NEXTAUTH_SECRET,
+  session: { strategy: 'jwt', maxAge: 8 * 60 * 60 },
+  pages: { signIn: '/sign-in' },
+  providers: [
+    CredentialsProvider({
+      name: 'E-mail and password',
+      credentials: { email: { label: 'E-mail', type: 'email' }, password: { label: 'Password', type: 'password' } },
+      async authorize(credentials, req) {
+        const parsed = credentialsSchema.safeParse(credentials ?? {});
+        if (!parsed.success) throw new Error('refused');
+        const result = await attemptSignIn(getDb(), {
+          ...parsed.data,
+          clientAddress: clientAddress(req?.headers as Record<string, unknown> | undefined),
+        });
+        // The thrown message becomes the `error` the sign-in page maps to a sentence.
+        if (!result.ok) throw new Error(result.reason);
+        return { id: String(result.user.id), email: result.user.email, name: result.user.name, role: result.user.role };
+      },
+    }),
+  ],
+  callbacks: {
+    async jwt({ token, user }) {
+      if (user) {
+        const u = user as { id: string; role?: string };
+        token.uid = Number(u.id);
+        token.role = z.enum(roles).catch('viewer').parse(u.role);
+      }
+      return token;
+    },
+    async session({ session, token }) {
+      if (session.user) {
+        session.user.id = typeof token.uid === 'number' ? token.uid : 0;
+        session.user.role = token.role ?? 'viewer';
+      }
+      return session;
+    },
+  },
+};

@@ -1,0 +1,41 @@
+import type { Role } from '@/db/schema';
+
+/**
+ * What each role may do (DESIGN.md, "Who uses it"). The data access layer checks these on every
+ * read and write; pages only use them to decide what to show.
+ */
+export const permissions = {
+  'overview:read': ['viewer', 'analyst', 'validator', 'admin'],
+  'users:manage': ['admin'],
+  'tokens:manage': ['admin'],
+  'outbox:read': ['admin'],
+  'datasets:read': ['viewer', 'analyst', 'validator', 'admin'],
+  'datasets:upload': ['analyst', 'admin'],
+  'fits:read': ['viewer', 'analyst', 'validator', 'admin'],
+  'fits:run': ['analyst', 'validator'],
+  'assumptions:read': ['viewer', 'analyst', 'validator', 'admin'],
+  'assumptions:draft': ['analyst'],
+  'assumptions:review': ['validator'],
+  'assumptions:publish': ['analyst', 'validator', 'admin'],
+  'assumptions:retire': ['validator', 'admin'],
+} as const satisfies Record<string, readonly Role[]>;
+
+export type Permission = keyof typeof permissions;
+
+export function can(role: Role, permission: Permission): boolean {
+  return (permissions[permission] as readonly Role[]).includes(role);
+}
+
+export const roleLabels: Record<Role, string> = {
+  viewer: 'Viewer',
+  analyst: 'Analyst',
+  validator: 'Validator',
+  admin: 'Administrator',
+};
+
+export const roleDescriptions: Record<Role, string> = {
+  viewer: 'Reads published assumptions, their lineage and cautions; pulls values by API or CSV.',
+  analyst: 'Uploads loan performance data, runs fits and drafts correlation assumptions.',
+  validator: 'Reviews fits and drafts, requests changes, rejects or approves what others drafted.',
+  admin: 'Manages users, roles and API tokens. Cannot approve assumptions.',
+};

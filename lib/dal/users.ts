@@ -1,0 +1,192 @@
+import 'server-only';
+import { and, asc, count, desc, eq, sql } from 'drizzle-orm';
+import { z } from 'zod';
+import { getDb } from '@/db/client';
+import { adminAudit, roles, users, type Role, type User } from '@/db/schema';
+import { assertCan, type SessionUser } from '@/lib/auth/guard';
+import { generateTemporaryPassword, hashPassword } from '@/lib/auth/password';
+import { normaliseEmail } from '@/lib/auth/sign-in';
+import { AppError } from '@/lib/errors';
+import { recordAdminAction } from './admin-audit';
+
+/** What the admin screen shows of a user: never the password hash. */
+export type UserDto = {
+  id: number;
+  email: string;
+  name: string;
+  role: Role;
+  active: boolean;
+  mustChangePassword: boolean;
+  createdAt: string;
+};
+
+function toDto(u: User): UserDto {
+  return {
+    id: u.id,
+    email: u.email,
+    name: u.name,
+    role: u.role,
+    active: u.active,
+    mustChangePassword: u.mustChangePassword,
+    createdAt: u.createdAt.toISOString(),
+  };
+}
+
+export async function listUsers(actor: SessionUser): Promise<UserDto[]> {
+  assertCan(actor, 'users:manage', 'Only administrators can see the list of users.');
+  const rows = await getDb().select().from(users).orderBy(asc(users.role), asc(users.name));
+  return rows.map(toDto);
+}
+
+export const createUserSchema = z
+  .object({
+    email: z.email('Give a valid e-mail address.').max(254),
+    name: z.string().trim().min(1, 'Give the person a name.').max(120),
+    role: z.enum(roles, { message: 'Choose a role: viewer, analyst, validator or admin.' }),
+    mode: z.enum(['password', 'invitation']).default('password'),
+    password: z.string().optional(),
+  })
+  .superRefine((v, ctx) => {
+    if (v.mode === 'password' && (!v.password || v.password.length < 10)) {
+      ctx.addIssue({ code: 'custom', path: ['password'], message: 'An initial password needs at least 10 characters.' });
+    }
+  });
+export type CreateUserInput = z.input<typeof createUserSchema>;
+
+/**
+ * Creates a user. With `mode: 'invitation'` a one-time password is generated and returned once
+ * (to hand over or send); the user must change it at first sign-in.
+ */
+export async function createUser(
+  actor: SessionUser,
+  input: CreateUserInput,
+): Promise<{ user: UserDto; temporaryPassword: string | null }> {
+  assertCan(actor, 'users:manage', 'Only administrators can create users.');
+  const parsed = createUserSchema.safeParse(input);
+  if (!parsed.success) {
+    const first = parsed.error.issues[0];
+    throw new AppError('invalid:user', first?.message ?? 'The user details are not valid.', {
+      field: first?.path.join('.') ?? null,
+    });
+  }
+  const v = parsed.data;
+  const email = normaliseEmail(v.email);
+  const temporaryPassword = v.mode === 'invitation' ? generateTemporaryPassword() : null;
+  const passwordHash = await hashPassword(temporaryPassword ?? v.password!);
+  const db = getDb();
+  return db.transaction(async (tx) => {
+    const [existing] = await tx.select({ id: users.id }).from(users).where(eq(users.email, email)).limit(1);
+    if (existing) throw new AppError('conflict:user-exists', `A user with the e-mail ${email} already exists.`);
+    const [res] = await tx.insert(users).values({
+      email,
+      name: v.name,
+      role: v.role,
+      passwordHash,
+      mustChangePassword: temporaryPassword !== null,
+    });
+    const id = res.insertId;
+    const [row] = await tx.select().from(users).where(eq(users.id, id));
+    await recordAdminAction(tx, actor, {
+      action: 'user.create',
+      targetType: 'user',
+      targetId: id,
+      after: { email, name: v.name, role: v.role, active: true, invitation: temporaryPassword !== null },
+    });
+    return { user: toDto(row), temporaryPassword };
+  });
+}
+
+/** Counts active admins other than `exceptId`, locking the rows so two requests cannot race. */
+async function otherActiveAdmins(tx: Parameters<Parameters<ReturnType<typeof getDb>['transaction']>[0]>[0], exceptId: number) {
+  const rows = await tx
+    .select({ id: users.id })
+    .from(users)
+    .where(and(eq(users.role, 'admin'), eq(users.active, true)))
+    .for('update');
+  return rows.filter((r) => r.id !== exceptId).length;
+}
+
+export async function changeRole(actor: SessionUser, userId: number, role: Role): Promise<UserDto> {
+  assertCan(actor, 'users:manage', 'Only administrators can change roles.');
+  const newRole = z.enum(roles).safeParse(role);
+  if (!newRole.success) throw new AppError('invalid:role', 'Choose a role: viewer, analyst, validator or admin.');
+  return getDb().transaction(async (tx) => {
+    const [target] = await tx.select().from(users).where(eq(users.id, userId)).for('update');
+    if (!target) throw new AppError('not_found:user', 'There is no such user.');
+    if (target.role === newRole.data) return toDto(target);
+    if (target.role === 'admin' && target.active && (await otherActiveAdmins(tx, target.id)) === 0) {
+      throw new AppError('conflict:last-admin', 'This is the last active administrator: make someone else an administrator first.');
+    }
+    await tx.update(users).set({ role: newRole.data, updatedAt: sql`CURRENT_TIMESTAMP(3)` }).where(eq(users.id, userId));
+    await recordAdminAction(tx, actor, {
+      action: 'user.role',
+      targetType: 'user',
+      targetId: userId,
+      before: { role: target.role },
+      after: { role: newRole.data },
+    });
+    return toDto({ ...target, role: newRole.data });
+  });
+}
+
+export async function setUserActive(actor: SessionUser, userId: number, active: boolean): Promise<UserDto> {
+  assertCan(actor, 'users:manage', 'Only administrators can deactivate or reactivate users.');
+  return getDb().transaction(async (tx) => {
+    const [target] = await tx.select().from(users).where(eq(users.id, userId)).for('update');
+    if (!target) throw new AppError('not_found:user', 'There is no such user.');
+    if (target.active === active) return toDto(target);
+    if (!active && target.role === 'admin' && (await otherActiveAdmins(tx, target.id)) === 0) {
+      throw new AppError('conflict:last-admin', 'This is the last active administrator and cannot be deactivated.');
+    }
+    await tx.update(users).set({ active, updatedAt: sql`CURRENT_TIMESTAMP(3)` }).where(eq(users.id, userId));
+    await recordAdminAction(tx, actor, {
+      action: active ? 'user.reactivate' : 'user.deactivate',
+      targetType: 'user',
+      targetId: userId,
+      before: { active: target.active },
+      after: { active },
+    });
+    return toDto({ ...target, active });
+  });
+}
+
+export type AdminAuditDto = {
+  id: number;
+  actorEmail: string;
+  action: string;
+  targetType: string;
+  targetId: string;
+  before: unknown;
+  after: unknown;
+  at: string;
+};
+
+export async function listAdminAudit(actor: SessionUser, limit = 100): Promise<AdminAuditDto[]> {
+  assertCan(actor, 'users:manage', 'Only administrators can read the administration log.');
+  const rows = await getDb().select().from(adminAudit).orderBy(desc(adminAudit.id)).limit(Math.min(limit, 500));
+  return rows.map((r) => ({
+    id: r.id,
+    actorEmail: r.actorEmail,
+    action: r.action,
+    targetType: r.targetType,
+    targetId: r.targetId,
+    before: r.before,
+    after: r.after,
+    at: r.at.toISOString(),
+  }));
+}
+
+/** The signed-in user changes their own password (required after an invitation). */
+export async function changeOwnPassword(actor: SessionUser, newPassword: string): Promise<void> {
+  if (newPassword.length < 10) throw new AppError('invalid:password', 'A password needs at least 10 characters.');
+  const passwordHash = await hashPassword(newPassword);
+  await getDb()
+    .update(users)
+    .set({ passwordHash, mustChangePassword: false, updatedAt: sql`CURRENT_TIMESTAMP(3)` })
+    .where(eq(users.id, actor.id));
+}
+
+export async function countUsers(): Promise<number> {
+  const [r] = await getDb().select({ n: count() }).from(users);
+  return r.n;
+}

@@ -1,0 +1,78 @@
+/**
+ * The one error class of the application. Codes are stable strings of the form `kind:detail`; the
+ * kind decides the HTTP status. Messages are plain sentences a user can act on; `details` carries
+ * structured data (for example the findings of a rejected upload).
+ */
+export type ErrorKind =
+  | 'bad_request'
+  | 'invalid'
+  | 'unauthorized'
+  | 'forbidden'
+  | 'not_found'
+  | 'conflict'
+  | 'rate_limited'
+  | 'too_large'
+  | 'unavailable'
+  | 'internal';
+
+export type ErrorCode = `${ErrorKind}:${string}`;
+
+const statusByKind: Record<ErrorKind, number> = {
+  bad_request: 400,
+  invalid: 422,
+  unauthorized: 401,
+  forbidden: 403,
+  not_found: 404,
+  conflict: 409,
+  rate_limited: 429,
+  too_large: 413,
+  unavailable: 503,
+  internal: 500,
+};
+
+export class AppError extends Error {
+  readonly code: ErrorCode;
+  readonly details?: Record<string, unknown>;
+
+  constructor(code: ErrorCode, message: string, details?: Record<string, unknown>) {
+    super(message);
+    this.name = 'AppError';
+    this.code = code;
+    this.details = details;
+  }
+
+  get kind(): ErrorKind {
+    return this.code.split(':')[0] as ErrorKind;
+  }
+
+  get status(): number {
+    return statusByKind[this.kind] ?? 500;
+  }
+
+  toJSON() {
+    return { code: this.code, message: this.message, ...(this.details ?? {}) };
+  }
+
+  toResponse(): Response {
+    return Response.json(this.toJSON(), { status: this.status });
+  }
+
+  /** Rebuilds the error from a JSON answer of the API (used by the client fetcher). */
+  static fromJSON(body: unknown, fallbackStatus = 500): AppError {
+    if (body && typeof body === 'object' && 'code' in body && 'message' in body) {
+      const { code, message, ...rest } = body as { code: string; message: string };
+      if (/^[a-z_]+:/.test(code)) return new AppError(code as ErrorCode, message, rest);
+    }
+    return new AppError(fallbackStatus >= 500 ? 'internal:unknown' : 'bad_request:unknown', 'The server gave an unexpected answer.');
+  }
+}
+
+/**
+ * Turns any thrown value into a Response. AppErrors keep their status and sentence; anything else
+ * is logged with detail and shown to the user as a plain sentence.
+ */
+export function errorResponse(err: unknown): Response {
+  if (err instanceof AppError) return err.toResponse();
+  console.error('[rhobook] unexpected error', err);
+  return new AppError('internal:unexpected', 'Something went wrong on the server. The error has been logged.').toResponse();
+}

@@ -1,0 +1,74 @@
+#!/usr/bin/env node
+// `npm start`: everything needed to run Rhobook on the demo data, on a fresh clone.
+//   1. dependencies (npm ci when node_modules is missing or stale)
+//   2. MariaDB on 127.0.0.1:$DB_PORT (installed from Debian's packages when missing)
+//   3. migrations, then the demo organisation when the database is empty
+//   4. next build when the build is missing or stale
+//   5. the web app on 127.0.0.1:$PORT and the worker; Ctrl-C stops everything this started
+import { ensureDependencies, localSecret, say, startChild, tsx, ensureBuild, waitForHttp, root } from './common.mjs';
+
+const port = Number(process.env.PORT ?? 3000);
+const host = process.env.HOST ?? '127.0.0.1';
+
+async function main() {
+  ensureDependencies();
+  const mariadb = await import('../../db/mariadb.mjs');
+  const db = await mariadb.start();
+
+  const secret = localSecret();
+  const url = process.env.NEXTAUTH_URL ?? `http://${host === '0.0.0.0' ? '127.0.0.1' : host}:${port}`;
+  const env = { NEXTAUTH_SECRET: secret, NEXTAUTH_URL: url, NEXT_TELEMETRY_DISABLED: '1' };
+
+  say('applying migrations...');
+  tsx('db/migrate.ts', [], { env });
+  say('seeding the demo organisation if the database is empty...');
+  const seed = tsx('db/seed.ts', [], { env });
+  process.stdout.write(seed.stdout);
+  ensureBuild();
+
+  const children = [];
+  let stopping = false;
+  const stopAll = async (code = 0) => {
+    if (stopping) return;
+    stopping = true;
+    say('stopping...');
+    for (const c of children) if (c.exitCode === null) c.kill('SIGTERM');
+    await Promise.all(children.map((c) => (c.exitCode === null ? new Promise((r) => c.once('exit', r)) : null)));
+    if (db.started) await mariadb.stop({ quiet: false });
+    process.exit(code);
+  };
+  process.on('SIGINT', () => void stopAll(0));
+  process.on('SIGTERM', () => void stopAll(0));
+
+  const web = startChild('web', `${root}/node_modules/.bin/next`, ['start', '-H', host, '-p', String(port)], {
+    env: { ...env, NODE_ENV: 'production' },
+  });
+  const worker = startChild('worker', process.execPath, ['--conditions=react-server', '--import', 'tsx', 'workers/index.ts'], { env });
+  children.push(web, worker);
+  for (const c of children) {
+    c.on('exit', (code, signal) => {
+      if (!stopping) {
+        say(`a process exited unexpectedly (code ${code ?? signal}); stopping the rest`);
+        void stopAll(1);
+      }
+    });
+  }
+  await waitForHttp(`${url}/api/health`);
+  const password = process.env.DEMO_PASSWORD ?? 'rhobook-demo';
+  process.stdout.write(`
+Rhobook is running at ${url}
+
+Demo accounts of the invented Fenmoor Cooperative Bank (password: ${password}):
+  analyst@fenmoor.example     analyst    uploads data, runs fits, drafts assumptions
+  validator@fenmoor.example   validator  reviews and approves what others drafted
+  viewer@fenmoor.example      viewer     reads published assumptions
+  admin@fenmoor.example       admin      manages users, roles and API tokens
+
+Press Ctrl-C to stop.
+`);
+}
+
+main().catch((err) => {
+  process.stderr.write(`[rhobook] npm start failed: ${err instanceof Error ? err.message : String(err)}\n`);
+  process.exit(1);
+});

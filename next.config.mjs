@@ -1,0 +1,26 @@
+/** @type {import('next').NextConfig} */
+const nextConfig = {
+  reactStrictMode: true,
+  poweredByHeader: false,
+  // Packages that load files or native code at run time stay outside the server bundle.
+  serverExternalPackages: ['mysql2', 'bcryptjs', 'nodemailer'],
+  typedRoutes: false,
+  experimental: {
+    serverActions: { bodySizeLimit: '2mb' },
+    authInterrupts: true,
+  },
+  async headers() {
+    return [
+      {
+        source: '/:path*',
+        headers: [
+          { key: 'X-Content-Type-Options', value: 'nosniff' },
+          { key: 'Referrer-Policy', value: 'same-origin' },
+          { key: 'X-Frame-Options', value: 'DENY' },
+        ],
+      },
+    ];
+  },
+};
+
+export default nextConfig;
