@@ -1,0 +1,39 @@
+/**
+ * Shared result types of the correlation estimators (DESIGN.md, "Estimators").
+ */
+
+/**
+ * How an estimate came out:
+ * - `ok`: the definition gave a value;
+ * - `clipped`: the definition clips (the corrected moment target at 0, or the MLE at the upper
+ *   search limit) and the value is the clip point;
+ * - `undefined`: the definition gives no value for these data (`rho` and `pd` are null and
+ *   `reason` says why);
+ * - `not-converged`: an iterative step did not meet its tolerance (the value is the last iterate,
+ *   reported so that it can be inspected, and must not be used).
+ */
+export type EstimateStatus = 'ok' | 'clipped' | 'undefined' | 'not-converged';
+
+/** Result of every estimator: rho and the PD it was estimated with. */
+export interface Estimate {
+  rho: number | null;
+  pd: number | null;
+  status: EstimateStatus;
+  /** A sentence for anything but `ok`. */
+  reason?: string;
+}
+
+/** The estimator keys of DESIGN.md, in display order. */
+export const ESTIMATOR_KEYS = [
+  'binomialMle',
+  'vasicekMle',
+  'momentVariance',
+  'momentVarianceCorrected',
+  'jointDefault',
+] as const;
+export type EstimatorKey = (typeof ESTIMATOR_KEYS)[number];
+
+/** An undefined estimate with its reason. */
+export function undefinedEstimate(reason: string): Estimate {
+  return { rho: null, pd: null, status: 'undefined', reason };
+}
