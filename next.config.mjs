@@ -1,5 +1,7 @@
 /** @type {import('next').NextConfig} */
 const nextConfig = {
+  // A separate output folder per developer server (NEXT_DIST_DIR=.next-me next dev) when several run side by side.
+  distDir: process.env.NEXT_DIST_DIR ?? '.next',
   reactStrictMode: true,
   poweredByHeader: false,
   // Packages that load files or native code at run time stay outside the server bundle.

@@ -180,6 +180,8 @@ function bootstrap() {
     for (const db of databases) {
       stmts.push(`GRANT ALL PRIVILEGES ON \`${db}\`.* TO ${sqlString(appUser)}@${sqlString(host)};`);
     }
+    // Developers' and tests' own databases (rhobook_<name>_test and the like) under the same prefix.
+    stmts.push(`GRANT ALL PRIVILEGES ON \`${databases[0]}\\_%\`.* TO ${sqlString(appUser)}@${sqlString(host)};`);
   }
   client(stmts.join('\n'));
 }
