@@ -15,6 +15,7 @@ import {
   json,
   mysqlEnum,
   mysqlTable,
+  text,
   uniqueIndex,
   varchar,
 } from 'drizzle-orm/mysql-core';
@@ -91,3 +92,36 @@ export const workerHeartbeats = mysqlTable('worker_heartbeats', {
   stoppedAt: datetime('stopped_at', { mode: 'date', fsp: 3 }),
 });
 export type WorkerHeartbeat = typeof workerHeartbeats.$inferSelect;
+
+// ---------------------------------------------------------------------------------------------
+// Job queue (lib/jobs/queue.ts): claimed with SELECT ... FOR UPDATE SKIP LOCKED, leased, retried
+// ---------------------------------------------------------------------------------------------
+
+export const jobStatuses = ['queued', 'running', 'succeeded', 'failed', 'cancelled'] as const;
+export type JobStatus = (typeof jobStatuses)[number];
+
+export const jobs = mysqlTable(
+  'jobs',
+  {
+    id: bigint('id', { mode: 'number' }).autoincrement().primaryKey(),
+    kind: varchar('kind', { length: 40 }).notNull(),
+    payload: json('payload').notNull(),
+    status: mysqlEnum('status', jobStatuses).notNull().default('queued'),
+    progress: int('progress').notNull().default(0),
+    message: varchar('message', { length: 300 }),
+    attempts: int('attempts').notNull().default(0),
+    maxAttempts: int('max_attempts').notNull().default(3),
+    leaseExpiresAt: datetime('lease_expires_at', { mode: 'date', fsp: 3 }),
+    workerId: varchar('worker_id', { length: 80 }),
+    error: text('error'),
+    cancelRequested: boolean('cancel_requested').notNull().default(false),
+    result: json('result'),
+    createdBy: int('created_by'),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    startedAt: datetime('started_at', { mode: 'date', fsp: 3 }),
+    finishedAt: datetime('finished_at', { mode: 'date', fsp: 3 }),
+    updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [index('jobs_claim_idx').on(t.status, t.kind, t.id), index('jobs_lease_idx').on(t.status, t.leaseExpiresAt)],
+);
+export type Job = typeof jobs.$inferSelect;
