@@ -9,10 +9,13 @@ import { sql } from 'drizzle-orm';
 import {
   bigint,
   boolean,
+  date,
   datetime,
+  double,
   index,
   int,
   json,
+  mediumtext,
   mysqlEnum,
   mysqlTable,
   text,
@@ -125,3 +128,212 @@ export const jobs = mysqlTable(
   (t) => [index('jobs_claim_idx').on(t.status, t.kind, t.id), index('jobs_lease_idx').on(t.status, t.leaseExpiresAt)],
 );
 export type Job = typeof jobs.$inferSelect;
+
+// ---------------------------------------------------------------------------------------------
+// Assumptions (lib/assumptions, lib/dal/assumptions.ts): the library of correlation assumptions,
+// their versions under maker-checker review, the append-only audit trail, API tokens and mail
+// ---------------------------------------------------------------------------------------------
+
+/** DESIGN.md "Assumption lifecycle"; the transitions are in lib/assumptions/lifecycle.ts. */
+export const assumptionStatuses = [
+  'draft',
+  'submitted',
+  'in_review',
+  'approved',
+  'rejected',
+  'published',
+  'superseded',
+  'expired',
+  'retired',
+] as const;
+export type AssumptionStatus = (typeof assumptionStatuses)[number];
+
+/** One assumption per segment; its content lives in versions. */
+export const assumptions = mysqlTable(
+  'assumptions',
+  {
+    id: int('id').autoincrement().primaryKey(),
+    segment: varchar('segment', { length: 120 }).notNull(),
+    createdBy: int('created_by')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [uniqueIndex('assumptions_segment_uq').on(t.segment)],
+);
+export type Assumption = typeof assumptions.$inferSelect;
+
+/**
+ * A version of an assumption. Everything that ties it to its evidence (fit run, dataset hash,
+ * engine version, seeds, the estimator's value and interval) is copied in when drafted and frozen;
+ * a published version is never changed again except for its status (superseded, expired, retired).
+ */
+export const assumptionVersions = mysqlTable(
+  'assumption_versions',
+  {
+    id: int('id').autoincrement().primaryKey(),
+    assumptionId: int('assumption_id')
+      .notNull()
+      .references(() => assumptions.id, { onDelete: 'restrict' }),
+    version: int('version').notNull(),
+    status: mysqlEnum('status', assumptionStatuses).notNull().default('draft'),
+    // Evidence, frozen at drafting.
+    fitRunId: bigint('fit_run_id', { mode: 'number' }),
+    datasetId: bigint('dataset_id', { mode: 'number' }),
+    datasetSha256: varchar('dataset_sha256', { length: 64 }).notNull(),
+    engineVersion: varchar('engine_version', { length: 40 }).notNull(),
+    seeds: json('seeds').notNull(),
+    estimator: varchar('estimator', { length: 40 }).notNull(),
+    estimate: double('estimate').notNull(),
+    intervalMethod: varchar('interval_method', { length: 20 }).notNull(),
+    intervalLevel: double('interval_level').notNull(),
+    intervalLower: double('interval_lower').notNull(),
+    intervalUpper: double('interval_upper').notNull(),
+    pd: double('pd').notNull(),
+    windowFrom: varchar('window_from', { length: 20 }).notNull(),
+    windowTo: varchar('window_to', { length: 20 }).notNull(),
+    // The analyst's judgement.
+    marginData: double('margin_data').notNull().default(0),
+    marginDataRationale: text('margin_data_rationale').notNull(),
+    marginPractice: double('margin_practice').notNull().default(0),
+    marginPracticeRationale: text('margin_practice_rationale').notNull(),
+    marginGeneral: double('margin_general').notNull().default(0),
+    marginGeneralRationale: text('margin_general_rationale').notNull(),
+    conservativeValue: double('conservative_value').notNull(),
+    finalValue: double('final_value').notNull(),
+    intendedUses: text('intended_uses').notNull(),
+    limitations: text('limitations').notNull(),
+    effectiveDate: date('effective_date', { mode: 'string' }).notNull(),
+    reviewBy: date('review_by', { mode: 'string' }).notNull(),
+    contentHash: varchar('content_hash', { length: 64 }).notNull(),
+    // People and decisions.
+    authorId: int('author_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    lastEditedBy: int('last_edited_by').references(() => users.id, { onDelete: 'restrict' }),
+    validatorId: int('validator_id').references(() => users.id, { onDelete: 'restrict' }),
+    decisionComment: text('decision_comment'),
+    decidedAt: datetime('decided_at', { mode: 'date', fsp: 3 }),
+    publishedAt: datetime('published_at', { mode: 'date', fsp: 3 }),
+    endedAt: datetime('ended_at', { mode: 'date', fsp: 3 }),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [
+    uniqueIndex('assumption_versions_uq').on(t.assumptionId, t.version),
+    index('assumption_versions_status_idx').on(t.status, t.effectiveDate),
+  ],
+);
+export type AssumptionVersion = typeof assumptionVersions.$inferSelect;
+export type NewAssumptionVersion = typeof assumptionVersions.$inferInsert;
+
+/** A validator's review actions on a version; voided when the version is edited afterwards. */
+export const assumptionReviews = mysqlTable(
+  'assumption_reviews',
+  {
+    id: int('id').autoincrement().primaryKey(),
+    versionId: int('version_id')
+      .notNull()
+      .references(() => assumptionVersions.id, { onDelete: 'restrict' }),
+    reviewerId: int('reviewer_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    action: varchar('action', { length: 30 }).notNull(),
+    comment: text('comment'),
+    contentHash: varchar('content_hash', { length: 64 }).notNull(),
+    voided: boolean('voided').notNull().default(false),
+    at: datetime('at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [index('assumption_reviews_version_idx').on(t.versionId)],
+);
+export type AssumptionReview = typeof assumptionReviews.$inferSelect;
+
+/**
+ * Append-only audit trail of every edit and transition (triggers in the migration refuse UPDATE
+ * and DELETE). actor_id is null and actor_role 'system' for the scheduler.
+ */
+export const assumptionAudit = mysqlTable(
+  'assumption_audit',
+  {
+    id: bigint('id', { mode: 'number' }).autoincrement().primaryKey(),
+    assumptionId: int('assumption_id').notNull(),
+    versionId: int('version_id').notNull(),
+    version: int('version').notNull(),
+    action: varchar('action', { length: 30 }).notNull(),
+    actorId: int('actor_id'),
+    actorEmail: varchar('actor_email', { length: 254 }).notNull(),
+    actorRole: varchar('actor_role', { length: 20 }).notNull(),
+    fromStatus: varchar('from_status', { length: 20 }),
+    toStatus: varchar('to_status', { length: 20 }).notNull(),
+    comment: text('comment'),
+    contentHash: varchar('content_hash', { length: 64 }).notNull(),
+    at: datetime('at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [index('assumption_audit_assumption_idx').on(t.assumptionId, t.id), index('assumption_audit_version_idx').on(t.versionId)],
+);
+export type AssumptionAuditRow = typeof assumptionAudit.$inferSelect;
+
+/** API tokens for downstream models: only the SHA-256 of the secret is stored. */
+export const apiTokens = mysqlTable(
+  'api_tokens',
+  {
+    id: int('id').autoincrement().primaryKey(),
+    name: varchar('name', { length: 120 }).notNull(),
+    prefix: varchar('prefix', { length: 16 }).notNull(),
+    tokenHash: varchar('token_hash', { length: 64 }).notNull(),
+    scopes: json('scopes').notNull(),
+    createdBy: int('created_by')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    expiresAt: datetime('expires_at', { mode: 'date', fsp: 3 }),
+    lastUsedAt: datetime('last_used_at', { mode: 'date', fsp: 3 }),
+    revokedAt: datetime('revoked_at', { mode: 'date', fsp: 3 }),
+    revokedBy: int('revoked_by').references(() => users.id, { onDelete: 'restrict' }),
+  },
+  (t) => [uniqueIndex('api_tokens_hash_uq').on(t.tokenHash)],
+);
+export type ApiToken = typeof apiTokens.$inferSelect;
+
+export const mailStatuses = ['pending', 'sent', 'failed'] as const;
+export type MailStatus = (typeof mailStatuses)[number];
+
+/**
+ * Outgoing e-mail, written in the same transaction as the event it reports and sent by the
+ * worker's mail loop with retries. dedupe_key makes reminders go out once each.
+ */
+export const mailOutbox = mysqlTable(
+  'mail_outbox',
+  {
+    id: bigint('id', { mode: 'number' }).autoincrement().primaryKey(),
+    kind: varchar('kind', { length: 40 }).notNull(),
+    toAddress: varchar('to_address', { length: 254 }).notNull(),
+    subject: varchar('subject', { length: 300 }).notNull(),
+    body: text('body').notNull(),
+    versionId: int('version_id'),
+    dedupeKey: varchar('dedupe_key', { length: 160 }),
+    status: mysqlEnum('status', mailStatuses).notNull().default('pending'),
+    attempts: int('attempts').notNull().default(0),
+    nextAttemptAt: datetime('next_attempt_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    lastError: text('last_error'),
+    sentAt: datetime('sent_at', { mode: 'date', fsp: 3 }),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [uniqueIndex('mail_outbox_dedupe_uq').on(t.dedupeKey), index('mail_outbox_due_idx').on(t.status, t.nextAttemptAt)],
+);
+export type MailOutboxRow = typeof mailOutbox.$inferSelect;
+
+/** Messages received by the local capturing SMTP server (development and tests only). */
+export const mailCaptured = mysqlTable(
+  'mail_captured',
+  {
+    id: bigint('id', { mode: 'number' }).autoincrement().primaryKey(),
+    outboxId: bigint('outbox_id', { mode: 'number' }),
+    envelopeFrom: varchar('envelope_from', { length: 254 }).notNull(),
+    envelopeTo: json('envelope_to').notNull(),
+    raw: mediumtext('raw').notNull(),
+    receivedAt: datetime('received_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [index('mail_captured_outbox_idx').on(t.outboxId)],
+);
+export type MailCapturedRow = typeof mailCaptured.$inferSelect;
