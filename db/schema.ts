@@ -7,8 +7,10 @@
  */
 import { sql } from 'drizzle-orm';
 import {
+  type AnyMySqlColumn,
   bigint,
   boolean,
+  customType,
   date,
   datetime,
   double,
@@ -18,6 +20,7 @@ import {
   mediumtext,
   mysqlEnum,
   mysqlTable,
+  primaryKey,
   text,
   uniqueIndex,
   varchar,
@@ -337,3 +340,171 @@ export const mailCaptured = mysqlTable(
   (t) => [index('mail_captured_outbox_idx').on(t.outboxId)],
 );
 export type MailCapturedRow = typeof mailCaptured.$inferSelect;
+
+// ---------------------------------------------------------------------------------------------
+// Datasets (issue 4): segments, uploaded datasets, their compressed files, cohort rows, upload
+// reports and waivers. A dataset is never edited in place: a correction is a newer upload that
+// supersedes it. Fits and assumptions refer to datasets.id with ON DELETE RESTRICT, so a dataset
+// in use cannot be deleted (lib/dal/datasets.ts maps errno 1451 to a 409).
+// ---------------------------------------------------------------------------------------------
+
+/** Asset classes of the supervisory benchmark (BCBS 2006, paras 272-273 and 328-330). */
+export const assetClasses = [
+  'corporate',
+  'sme-corporate',
+  'residential-mortgage',
+  'qualifying-revolving',
+  'other-retail',
+  'none',
+] as const;
+export type AssetClass = (typeof assetClasses)[number];
+
+export const datasetKinds = ['cohort', 'vintage', 'loans'] as const;
+export type DatasetKind = (typeof datasetKinds)[number];
+
+/** processing: a loan tape waiting for or in its conversion job; ready: usable; failed: the job failed for a reason other than the file's content. */
+export const datasetStatuses = ['processing', 'ready', 'failed'] as const;
+export type DatasetStatus = (typeof datasetStatuses)[number];
+
+export const uploadStatuses = ['accepted', 'rejected', 'processing', 'failed'] as const;
+export type UploadStatus = (typeof uploadStatuses)[number];
+
+const longblob = customType<{ data: Buffer; driverData: Buffer }>({ dataType: () => 'longblob' });
+
+export const segments = mysqlTable(
+  'segments',
+  {
+    id: int('id').autoincrement().primaryKey(),
+    name: varchar('name', { length: 120 }).notNull(),
+    assetClass: mysqlEnum('asset_class', assetClasses).notNull().default('none'),
+    /** Annual turnover in EUR millions, for the SME size adjustment (sme-corporate only). */
+    turnoverEurMillions: double('turnover_eur_millions'),
+    description: text('description'),
+    ownerId: int('owner_id').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [uniqueIndex('segments_name_uq').on(t.name)],
+);
+export type Segment = typeof segments.$inferSelect;
+
+export const datasets = mysqlTable(
+  'datasets',
+  {
+    id: bigint('id', { mode: 'number' }).autoincrement().primaryKey(),
+    kind: mysqlEnum('kind', datasetKinds).notNull(),
+    name: varchar('name', { length: 160 }).notNull(),
+    description: text('description'),
+    /** SHA-256 of the raw uploaded bytes (lower-case hex). */
+    sha256: varchar('sha256', { length: 64 }).notNull(),
+    /** sha256 of (file hash, kind, conventions) while the dataset is live; NULL once failed, so the same bytes can be tried again. */
+    dedupeKey: varchar('dedupe_key', { length: 64 }),
+    status: mysqlEnum('status', datasetStatuses).notNull(),
+    sizeBytes: bigint('size_bytes', { mode: 'number' }).notNull(),
+    fileName: varchar('file_name', { length: 255 }).notNull(),
+    uploadedBy: int('uploaded_by')
+      .notNull()
+      .references(() => users.id),
+    /** Conversion conventions (loan tapes: reference date, exit convention, as-of; vintages: the rule) and their text. */
+    conventions: json('conventions'),
+    /** Vintage-years left out of the conversion because they were not observed for twelve months. */
+    censored: json('censored'),
+    segmentCount: int('segment_count').notNull().default(0),
+    rowCount: int('row_count').notNull().default(0),
+    warningCount: int('warning_count').notNull().default(0),
+    supersededById: bigint('superseded_by_id', { mode: 'number' }).references((): AnyMySqlColumn => datasets.id, {
+      onDelete: 'set null',
+    }),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    readyAt: datetime('ready_at', { mode: 'date', fsp: 3 }),
+  },
+  (t) => [uniqueIndex('datasets_dedupe_uq').on(t.dedupeKey), index('datasets_sha256_idx').on(t.sha256)],
+);
+export type Dataset = typeof datasets.$inferSelect;
+
+/** The raw uploaded file, gzip-compressed, in pieces of at most 4 MB (seq 0, 1, ...). */
+export const datasetFiles = mysqlTable(
+  'dataset_files',
+  {
+    datasetId: bigint('dataset_id', { mode: 'number' })
+      .notNull()
+      .references(() => datasets.id, { onDelete: 'cascade' }),
+    seq: int('seq').notNull(),
+    data: longblob('data').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.datasetId, t.seq] })],
+);
+
+export const cohortRows = mysqlTable(
+  'cohort_rows',
+  {
+    id: bigint('id', { mode: 'number' }).autoincrement().primaryKey(),
+    datasetId: bigint('dataset_id', { mode: 'number' })
+      .notNull()
+      .references(() => datasets.id, { onDelete: 'cascade' }),
+    segmentId: int('segment_id')
+      .notNull()
+      .references(() => segments.id),
+    period: int('period').notNull(),
+    obligors: int('obligors').notNull(),
+    defaults: int('defaults').notNull(),
+    /** Physical line in the uploaded cohort file; NULL for rows converted from vintages or loans. */
+    sourceLine: int('source_line'),
+    defaultDefinition: text('default_definition'),
+    note: text('note'),
+  },
+  (t) => [
+    uniqueIndex('cohort_rows_dataset_segment_period_uq').on(t.datasetId, t.segmentId, t.period),
+    index('cohort_rows_segment_idx').on(t.segmentId, t.period),
+  ],
+);
+export type CohortRowRecord = typeof cohortRows.$inferSelect;
+
+/** Every upload's validation report, accepted or rejected (a rejected upload stores only this). */
+export const uploadReports = mysqlTable(
+  'upload_reports',
+  {
+    id: bigint('id', { mode: 'number' }).autoincrement().primaryKey(),
+    datasetId: bigint('dataset_id', { mode: 'number' }).references(() => datasets.id, { onDelete: 'set null' }),
+    kind: mysqlEnum('kind', datasetKinds).notNull(),
+    name: varchar('name', { length: 160 }).notNull(),
+    fileName: varchar('file_name', { length: 255 }).notNull(),
+    sha256: varchar('sha256', { length: 64 }),
+    sizeBytes: bigint('size_bytes', { mode: 'number' }).notNull(),
+    uploadedBy: int('uploaded_by')
+      .notNull()
+      .references(() => users.id),
+    status: mysqlEnum('status', uploadStatuses).notNull(),
+    errorCount: int('error_count').notNull().default(0),
+    warningCount: int('warning_count').notNull().default(0),
+    /** Stored findings (at most 1,000 per rule) as { line, column, rule, severity, value, message }[]. */
+    findings: json('findings').notNull(),
+    /** Counts by rule, including findings beyond the stored cap. */
+    summary: json('summary').notNull(),
+    jobId: bigint('job_id', { mode: 'number' }),
+    message: varchar('message', { length: 500 }),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    finishedAt: datetime('finished_at', { mode: 'date', fsp: 3 }),
+  },
+  (t) => [index('upload_reports_dataset_idx').on(t.datasetId), index('upload_reports_user_idx').on(t.uploadedBy, t.createdAt)],
+);
+export type UploadReport = typeof uploadReports.$inferSelect;
+
+/** A warning rule waived for a dataset, with the reason given. */
+export const datasetWaivers = mysqlTable(
+  'dataset_waivers',
+  {
+    id: bigint('id', { mode: 'number' }).autoincrement().primaryKey(),
+    datasetId: bigint('dataset_id', { mode: 'number' })
+      .notNull()
+      .references(() => datasets.id, { onDelete: 'cascade' }),
+    rule: varchar('rule', { length: 60 }).notNull(),
+    reason: text('reason').notNull(),
+    waivedBy: int('waived_by')
+      .notNull()
+      .references(() => users.id),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [uniqueIndex('dataset_waivers_rule_uq').on(t.datasetId, t.rule)],
+);
+export type DatasetWaiver = typeof datasetWaivers.$inferSelect;
