@@ -1,0 +1,288 @@
+import { and, eq, inArray, lt, or, sql } from 'drizzle-orm';
+import type { MySqlTransaction } from 'drizzle-orm/mysql-core';
+import type { Db } from '@/db/connection';
+import { jobs, type Job, type JobStatus } from '@/db/schema';
+import { AppError } from '@/lib/errors';
+import { payloadSchemaFor } from './kinds';
+import './kinds/index';
+
+/**
+ * The job queue in MariaDB.
+ *
+ * - Claim: a short transaction selects the oldest claimable job with `FOR UPDATE SKIP LOCKED`
+ *   (queued, or running with an expired lease: its worker died) and marks it running with this
+ *   worker's id and a lease. Several workers, on one machine or many, never claim the same job.
+ * - Lease: the worker renews it while working (every progress report does); a job whose lease
+ *   lapses is claimed again by another worker, up to `max_attempts`, then fails with the error kept.
+ * - Completion: the handler's writer runs in the same transaction that marks the job succeeded, and
+ *   only while this worker still holds the job; a crash leaves neither half-written results nor a
+ *   duplicate.
+ * - Cancel: a queued job is cancelled at once; a running one is flagged and its worker stops at its
+ *   next progress report.
+ */
+
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+export type Tx = MySqlTransaction<any, any, any, any>;
+type DbOrTx = Db | Tx;
+
+export const DEFAULT_LEASE_MS = 60_000;
+
+export type JobDto = {
+  id: number;
+  kind: string;
+  status: JobStatus;
+  progress: number;
+  message: string | null;
+  attempts: number;
+  maxAttempts: number;
+  error: string | null;
+  cancelRequested: boolean;
+  result: unknown;
+  createdBy: number | null;
+  createdAt: string;
+  startedAt: string | null;
+  finishedAt: string | null;
+};
+
+export function toJobDto(j: Job): JobDto {
+  return {
+    id: j.id,
+    kind: j.kind,
+    status: j.status,
+    progress: j.progress,
+    message: j.message,
+    attempts: j.attempts,
+    maxAttempts: j.maxAttempts,
+    error: j.error,
+    cancelRequested: j.cancelRequested,
+    result: j.result ?? null,
+    createdBy: j.createdBy,
+    createdAt: j.createdAt.toISOString(),
+    startedAt: j.startedAt?.toISOString() ?? null,
+    finishedAt: j.finishedAt?.toISOString() ?? null,
+  };
+}
+
+/** Validates the payload against the kind's declared schema and queues the job. */
+export async function enqueueJob(
+  db: DbOrTx,
+  input: { kind: string; payload: unknown; createdBy?: number | null; maxAttempts?: number },
+): Promise<number> {
+  const schema = payloadSchemaFor(input.kind);
+  if (!schema) throw new AppError('bad_request:job-kind', `There is no job kind "${input.kind}".`);
+  const parsed = schema.safeParse(input.payload);
+  if (!parsed.success) {
+    throw new AppError('invalid:job-payload', `The ${input.kind} job's payload is not valid: ${parsed.error.issues[0]?.message ?? 'unknown'}`);
+  }
+  const [res] = await db.insert(jobs).values({
+    kind: input.kind,
+    payload: parsed.data,
+    createdBy: input.createdBy ?? null,
+    maxAttempts: input.maxAttempts ?? 3,
+  });
+  return res.insertId;
+}
+
+export async function getJob(db: DbOrTx, id: number): Promise<JobDto | null> {
+  const [row] = await db.select().from(jobs).where(eq(jobs.id, id)).limit(1);
+  return row ? toJobDto(row) : null;
+}
+
+export type ClaimedJob = { id: number; kind: string; payload: unknown; attempt: number };
+
+/**
+ * Claims the oldest claimable job of the given kinds for `workerId`, or returns null. A job whose
+ * lease expired and whose attempts are used up is failed here, with the reason kept.
+ */
+export async function claimJob(db: Db, workerId: string, kinds: string[], leaseMs = DEFAULT_LEASE_MS): Promise<ClaimedJob | null> {
+  if (kinds.length === 0) return null;
+  for (;;) {
+    const outcome = await db.transaction(async (tx) => {
+      const [row] = await tx
+        .select()
+        .from(jobs)
+        .where(
+          and(
+            inArray(jobs.kind, kinds),
+            or(eq(jobs.status, 'queued'), and(eq(jobs.status, 'running'), lt(jobs.leaseExpiresAt, sql`CURRENT_TIMESTAMP(3)`))),
+          ),
+        )
+        .orderBy(jobs.id)
+        .limit(1)
+        .for('update', { skipLocked: true });
+      if (!row) return { kind: 'none' as const };
+      if (row.status === 'running' && row.attempts >= row.maxAttempts) {
+        await tx
+          .update(jobs)
+          .set({
+            status: 'failed',
+            error: `The worker running this job stopped responding ${row.attempts} times; giving up. Last worker: ${row.workerId ?? 'unknown'}.${row.error ? ` Earlier error: ${row.error}` : ''}`,
+            finishedAt: sql`CURRENT_TIMESTAMP(3)`,
+            updatedAt: sql`CURRENT_TIMESTAMP(3)`,
+            leaseExpiresAt: null,
+          })
+          .where(eq(jobs.id, row.id));
+        return { kind: 'retry' as const };
+      }
+      if (row.cancelRequested) {
+        await tx
+          .update(jobs)
+          .set({ status: 'cancelled', finishedAt: sql`CURRENT_TIMESTAMP(3)`, updatedAt: sql`CURRENT_TIMESTAMP(3)`, leaseExpiresAt: null })
+          .where(eq(jobs.id, row.id));
+        return { kind: 'retry' as const };
+      }
+      await tx
+        .update(jobs)
+        .set({
+          status: 'running',
+          workerId,
+          attempts: row.attempts + 1,
+          leaseExpiresAt: sql`CURRENT_TIMESTAMP(3) + INTERVAL ${leaseMs * 1000} MICROSECOND`,
+          startedAt: row.startedAt ?? sql`CURRENT_TIMESTAMP(3)`,
+          updatedAt: sql`CURRENT_TIMESTAMP(3)`,
+          message: row.status === 'running' ? 'Resumed after the previous worker stopped responding' : 'Started',
+        })
+        .where(eq(jobs.id, row.id));
+      return { kind: 'claimed' as const, job: { id: row.id, kind: row.kind, payload: row.payload, attempt: row.attempts + 1 } };
+    });
+    if (outcome.kind === 'claimed') return outcome.job;
+    if (outcome.kind === 'none') return null;
+  }
+}
+
+/**
+ * Reports progress and renews the lease. Returns 'ok', 'cancel' when cancellation was requested,
+ * or 'lost' when this worker no longer holds the job (its lease lapsed and another took it).
+ */
+export async function reportProgress(
+  db: Db,
+  jobId: number,
+  workerId: string,
+  progress: number | null,
+  message: string | null,
+  leaseMs = DEFAULT_LEASE_MS,
+): Promise<'ok' | 'cancel' | 'lost'> {
+  const set: Record<string, unknown> = {
+    leaseExpiresAt: sql`CURRENT_TIMESTAMP(3) + INTERVAL ${leaseMs * 1000} MICROSECOND`,
+    updatedAt: sql`CURRENT_TIMESTAMP(3)`,
+  };
+  if (progress !== null) set.progress = Math.max(0, Math.min(99, Math.round(progress)));
+  if (message !== null) set.message = message.slice(0, 300);
+  const [res] = await db
+    .update(jobs)
+    .set(set)
+    .where(and(eq(jobs.id, jobId), eq(jobs.workerId, workerId), eq(jobs.status, 'running')));
+  if (res.affectedRows === 0) return 'lost';
+  const [row] = await db.select({ cancel: jobs.cancelRequested }).from(jobs).where(eq(jobs.id, jobId));
+  return row?.cancel ? 'cancel' : 'ok';
+}
+
+/**
+ * Runs `write` and marks the job succeeded in one transaction, only if this worker still holds it.
+ * Returns false (and writes nothing) when the job was lost or cancelled meanwhile.
+ */
+export async function completeJob(
+  db: Db,
+  jobId: number,
+  workerId: string,
+  write: (tx: Tx) => Promise<unknown>,
+): Promise<boolean> {
+  return db.transaction(async (tx) => {
+    const [row] = await tx
+      .select({ status: jobs.status, workerId: jobs.workerId, cancel: jobs.cancelRequested })
+      .from(jobs)
+      .where(eq(jobs.id, jobId))
+      .for('update');
+    if (!row || row.status !== 'running' || row.workerId !== workerId || row.cancel) return false;
+    const result = await write(tx as Tx);
+    await tx
+      .update(jobs)
+      .set({
+        status: 'succeeded',
+        progress: 100,
+        message: 'Finished',
+        result: result === undefined ? null : result,
+        error: null,
+        leaseExpiresAt: null,
+        finishedAt: sql`CURRENT_TIMESTAMP(3)`,
+        updatedAt: sql`CURRENT_TIMESTAMP(3)`,
+      })
+      .where(eq(jobs.id, jobId));
+    return true;
+  });
+}
+
+/**
+ * Records a failure. A retryable one puts the job back in the queue while attempts remain;
+ * otherwise (or when `permanent`) the job fails with the error kept.
+ */
+export async function failJob(db: Db, jobId: number, workerId: string, error: string, permanent: boolean): Promise<JobStatus | null> {
+  return db.transaction(async (tx) => {
+    const [row] = await tx.select().from(jobs).where(eq(jobs.id, jobId)).for('update');
+    if (!row || row.status !== 'running' || row.workerId !== workerId) return null;
+    const retry = !permanent && row.attempts < row.maxAttempts && !row.cancelRequested;
+    const status: JobStatus = row.cancelRequested ? 'cancelled' : retry ? 'queued' : 'failed';
+    await tx
+      .update(jobs)
+      .set({
+        status,
+        error: error.slice(0, 4000),
+        message: retry ? `Attempt ${row.attempts} failed; queued to try again` : status === 'cancelled' ? 'Cancelled' : 'Failed',
+        workerId: retry ? null : row.workerId,
+        leaseExpiresAt: null,
+        finishedAt: retry ? null : sql`CURRENT_TIMESTAMP(3)`,
+        updatedAt: sql`CURRENT_TIMESTAMP(3)`,
+      })
+      .where(eq(jobs.id, jobId));
+    return status;
+  });
+}
+
+/** Gives a running job back to the queue without counting the attempt (clean worker shutdown). */
+export async function releaseJob(db: Db, jobId: number, workerId: string): Promise<void> {
+  await db
+    .update(jobs)
+    .set({
+      status: 'queued',
+      workerId: null,
+      leaseExpiresAt: null,
+      attempts: sql`GREATEST(${jobs.attempts} - 1, 0)`,
+      message: 'Released by a worker that was shutting down; waiting for another',
+      updatedAt: sql`CURRENT_TIMESTAMP(3)`,
+    })
+    .where(and(eq(jobs.id, jobId), eq(jobs.workerId, workerId), eq(jobs.status, 'running')));
+}
+
+/** Marks a job the worker stopped because cancellation was requested. */
+export async function markCancelled(db: Db, jobId: number): Promise<void> {
+  await db
+    .update(jobs)
+    .set({ status: 'cancelled', message: 'Cancelled', leaseExpiresAt: null, finishedAt: sql`CURRENT_TIMESTAMP(3)`, updatedAt: sql`CURRENT_TIMESTAMP(3)` })
+    .where(and(eq(jobs.id, jobId), inArray(jobs.status, ['queued', 'running'])));
+}
+
+/**
+ * Cancels a job: a queued one at once, a running one by flagging it (its worker stops at its next
+ * progress report). Finished jobs cannot be cancelled.
+ */
+export async function cancelJob(db: Db, jobId: number): Promise<JobDto> {
+  return db.transaction(async (tx) => {
+    const [row] = await tx.select().from(jobs).where(eq(jobs.id, jobId)).for('update');
+    if (!row) throw new AppError('not_found:job', 'There is no such job.');
+    if (row.status === 'queued') {
+      await tx
+        .update(jobs)
+        .set({ status: 'cancelled', cancelRequested: true, message: 'Cancelled before it started', finishedAt: sql`CURRENT_TIMESTAMP(3)`, updatedAt: sql`CURRENT_TIMESTAMP(3)` })
+        .where(eq(jobs.id, jobId));
+    } else if (row.status === 'running') {
+      await tx
+        .update(jobs)
+        .set({ cancelRequested: true, message: 'Cancelling…', updatedAt: sql`CURRENT_TIMESTAMP(3)` })
+        .where(eq(jobs.id, jobId));
+    } else {
+      throw new AppError('conflict:job-finished', `This job has already ${row.status === 'succeeded' ? 'finished' : row.status}; it cannot be cancelled.`);
+    }
+    const [after] = await tx.select().from(jobs).where(eq(jobs.id, jobId));
+    return toJobDto(after);
+  });
+}
