@@ -21,9 +21,9 @@ export default async function AppLayout({ children }: { children: ReactNode }) {
           </Link>
           <AppNav items={items} />
           <div className="ml-auto flex items-center gap-3 text-sm">
-            <span data-testid="current-user">
+            <Link href="/account" data-testid="current-user" className="text-[var(--color-ink)] no-underline hover:underline">
               {user.name} <span className="badge ml-1">{roleLabels[user.role]}</span>
-            </span>
+            </Link>
             <SignOutButton />
           </div>
         </div>
