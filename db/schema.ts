@@ -508,3 +508,42 @@ export const datasetWaivers = mysqlTable(
   (t) => [uniqueIndex('dataset_waivers_rule_uq').on(t.datasetId, t.rule)],
 );
 export type DatasetWaiver = typeof datasetWaivers.$inferSelect;
+
+// ---------------------------------------------------------------------------------------------
+// Fit runs (issue 5, lib/dal/fits.ts): one estimation request over a dataset, computed by a 'fit'
+// job; the results are written in the transaction that marks the job succeeded. Everything needed
+// to reproduce the numbers is kept: dataset hash, engine version, request (window, level) and seeds.
+// ---------------------------------------------------------------------------------------------
+
+export const fitRunStatuses = ['queued', 'running', 'succeeded', 'failed', 'cancelled'] as const;
+export type FitRunStatus = (typeof fitRunStatuses)[number];
+
+export const fitRuns = mysqlTable(
+  'fit_runs',
+  {
+    id: bigint('id', { mode: 'number' }).autoincrement().primaryKey(),
+    datasetId: bigint('dataset_id', { mode: 'number' })
+      .notNull()
+      .references(() => datasets.id, { onDelete: 'restrict' }),
+    /** SHA-256 of the dataset's raw file when the fit was requested. */
+    datasetSha256: varchar('dataset_sha256', { length: 64 }).notNull(),
+    /** The validated request: segments, window, level, bootstrap and audit settings. */
+    request: json('request').notNull(),
+    engineVersion: varchar('engine_version', { length: 60 }).notNull(),
+    /** { bootstrap: number | null, audit: number | null } */
+    seeds: json('seeds').notNull(),
+    jobId: bigint('job_id', { mode: 'number' }).references(() => jobs.id, { onDelete: 'set null' }),
+    createdBy: int('created_by')
+      .notNull()
+      .references(() => users.id),
+    /** Mirrors the job for lists; the job row is the live truth while it runs. */
+    status: mysqlEnum('status', fitRunStatuses).notNull().default('queued'),
+    /** { engine: { version }, segments: [...] } in the engine's per-segment shape (issue 3 CLI). */
+    results: json('results'),
+    error: text('error'),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    finishedAt: datetime('finished_at', { mode: 'date', fsp: 3 }),
+  },
+  (t) => [index('fit_runs_dataset_idx').on(t.datasetId), index('fit_runs_created_idx').on(t.createdAt), index('fit_runs_job_idx').on(t.jobId)],
+);
+export type FitRun = typeof fitRuns.$inferSelect;
