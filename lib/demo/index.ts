@@ -1,0 +1,48 @@
+/**
+ * The demo lender's files, reproducible from fixed seeds with the engine's seeded generator
+ * (lib/stats/random.ts). The seed script feeds these through the same validation path as an
+ * upload (validateCohortText, validateVintageText, validateLoanTapeStream). All data is invented.
+ */
+import { Readable } from 'node:stream';
+import { createRng } from '@/lib/stats/random';
+import { cohortRowsCsv, DEMO_SEED, FENMOOR_SEGMENTS, generateCohortRows, generateVintageCsv } from './fenmoor';
+import { generateLoanTape } from './loan-tape';
+
+export { LENDER_NAME, FENMOOR_SEGMENTS, DEMO_SEED, conditionalPd } from './fenmoor';
+
+/** Cohort file: 5 segments x 15-25 annual cohorts (see fenmoor.ts for the parameters). */
+export function fenmoorCohortCsv(seed: number = DEMO_SEED): string {
+  return cohortRowsCsv(generateCohortRows(createRng(seed)));
+}
+
+/** Vintage file: prime auto and unsecured personal loans, vintages 2015-01..2023-12 observed to 2024-12. */
+export function fenmoorVintageCsv(seed: number = DEMO_SEED + 1): string {
+  return generateVintageCsv(createRng(seed));
+}
+
+/** Loan-level tape (default 200,000 loans, as of 2024-12-31) as CSV text chunks. */
+export function fenmoorLoanTapeChunks(seed: number = DEMO_SEED + 2, loans = 200_000): Generator<string> {
+  return generateLoanTape(createRng(seed), { loans });
+}
+
+/** The same tape as a Node Readable of UTF-8 text chunks, for validateLoanTapeStream. */
+export function fenmoorLoanTapeStream(seed: number = DEMO_SEED + 2, loans = 200_000): Readable {
+  return Readable.from(fenmoorLoanTapeChunks(seed, loans));
+}
+
+/** Small files offered for download on the upload page (public/samples). */
+export function sampleFiles(seed: number = DEMO_SEED + 3): { 'cohort.csv': string; 'vintage.csv': string; 'loans.csv': string } {
+  const rng = createRng(seed);
+  const two = FENMOOR_SEGMENTS.filter((s) => s.name === 'SME term loans' || s.name === 'Credit cards');
+  const cohort = cohortRowsCsv(generateCohortRows(rng, two), () => undefined);
+  const vintage = generateVintageCsv(rng, {
+    segments: FENMOOR_SEGMENTS.filter((s) => s.name === 'Prime auto loans'),
+    firstVintage: '2021-01',
+    lastVintage: '2021-06',
+    observedTo: '2023-12',
+    loansPerVintage: 300,
+    term: 36,
+  });
+  const loans = [...generateLoanTape(rng, { loans: 300, segments: two, weights: [1, 1] })].join('');
+  return { 'cohort.csv': cohort, 'vintage.csv': vintage, 'loans.csv': loans };
+}
