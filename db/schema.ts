@@ -181,10 +181,10 @@ export const assumptionVersions = mysqlTable(
     version: int('version').notNull(),
     status: mysqlEnum('status', assumptionStatuses).notNull().default('draft'),
     // Evidence, frozen at drafting.
-    fitRunId: bigint('fit_run_id', { mode: 'number' }),
-    datasetId: bigint('dataset_id', { mode: 'number' }),
+    fitRunId: bigint('fit_run_id', { mode: 'number' }).references(() => fitRuns.id, { onDelete: 'restrict' }),
+    datasetId: bigint('dataset_id', { mode: 'number' }).references(() => datasets.id, { onDelete: 'restrict' }),
     datasetSha256: varchar('dataset_sha256', { length: 64 }).notNull(),
-    engineVersion: varchar('engine_version', { length: 40 }).notNull(),
+    engineVersion: varchar('engine_version', { length: 60 }).notNull(),
     seeds: json('seeds').notNull(),
     estimator: varchar('estimator', { length: 40 }).notNull(),
     estimate: double('estimate').notNull(),

@@ -1,0 +1,3 @@
+ALTER TABLE `assumption_versions` MODIFY COLUMN `engine_version` varchar(60) NOT NULL;--> statement-breakpoint
+ALTER TABLE `assumption_versions` ADD CONSTRAINT `assumption_versions_fit_run_id_fit_runs_id_fk` FOREIGN KEY (`fit_run_id`) REFERENCES `fit_runs`(`id`) ON DELETE restrict ON UPDATE no action;--> statement-breakpoint
+ALTER TABLE `assumption_versions` ADD CONSTRAINT `assumption_versions_dataset_id_datasets_id_fk` FOREIGN KEY (`dataset_id`) REFERENCES `datasets`(`id`) ON DELETE restrict ON UPDATE no action;
