@@ -10,6 +10,8 @@ import { randomUUID } from 'node:crypto';
 import { closeDb, getDb } from '@/db/connection';
 import { beat, markStopped } from '@/lib/jobs/heartbeat';
 import { runJobLoop } from './job-loop';
+import { runMailLoop } from './mail-loop';
+import { runScheduler } from './scheduler';
 
 const HEARTBEAT_MS = 5_000;
 
@@ -40,7 +42,11 @@ async function main() {
   process.on('SIGTERM', () => void stop('SIGTERM'));
 
   try {
-    await runJobLoop({ db, workerId: identity.workerId, signal: controller.signal });
+    await Promise.all([
+      runJobLoop({ db, workerId: identity.workerId, signal: controller.signal }),
+      runMailLoop({ db, signal: controller.signal }),
+      runScheduler({ db, signal: controller.signal }),
+    ]);
   } finally {
     clearInterval(timer);
     await markStopped(db, identity.workerId).catch(() => undefined);

@@ -1,0 +1,179 @@
+import { createHash } from 'node:crypto';
+import { z } from 'zod';
+import { isIsoDate, reviewByProblem } from './dates';
+import { marginProblems } from './margins';
+
+/**
+ * The content of an assumption version: the frozen evidence copied from the fit run and the
+ * analyst's judgement. The content hash is the SHA-256 of this object as canonical JSON (keys
+ * sorted), so that a review can be tied to exactly what was reviewed, and an edit voids it.
+ */
+export type Evidence = {
+  fitRunId: number | null;
+  datasetId: number | null;
+  datasetSha256: string;
+  engineVersion: string;
+  seeds: unknown;
+  estimator: string;
+  estimate: number;
+  intervalMethod: string;
+  intervalLevel: number;
+  intervalLower: number;
+  intervalUpper: number;
+  pd: number;
+  windowFrom: string;
+  windowTo: string;
+};
+
+export type Judgement = {
+  marginData: number;
+  marginDataRationale: string;
+  marginPractice: number;
+  marginPracticeRationale: string;
+  marginGeneral: number;
+  marginGeneralRationale: string;
+  finalValue: number;
+  intendedUses: string;
+  limitations: string;
+  effectiveDate: string;
+  reviewBy: string;
+};
+
+export type VersionContent = Evidence & Judgement & { segment: string; conservativeValue: number };
+
+export const contentFields = [
+  'segment',
+  'fitRunId',
+  'datasetId',
+  'datasetSha256',
+  'engineVersion',
+  'seeds',
+  'estimator',
+  'estimate',
+  'intervalMethod',
+  'intervalLevel',
+  'intervalLower',
+  'intervalUpper',
+  'pd',
+  'windowFrom',
+  'windowTo',
+  'marginData',
+  'marginDataRationale',
+  'marginPractice',
+  'marginPracticeRationale',
+  'marginGeneral',
+  'marginGeneralRationale',
+  'conservativeValue',
+  'finalValue',
+  'intendedUses',
+  'limitations',
+  'effectiveDate',
+  'reviewBy',
+] as const satisfies readonly (keyof VersionContent)[];
+
+function canonical(v: unknown): string {
+  if (v === null || typeof v !== 'object') return JSON.stringify(v ?? null);
+  if (Array.isArray(v)) return `[${v.map(canonical).join(',')}]`;
+  const o = v as Record<string, unknown>;
+  return `{${Object.keys(o)
+    .filter((k) => o[k] !== undefined)
+    .sort()
+    .map((k) => `${JSON.stringify(k)}:${canonical(o[k])}`)
+    .join(',')}}`;
+}
+
+export function contentHash(c: VersionContent): string {
+  const picked: Record<string, unknown> = {};
+  for (const f of contentFields) picked[f] = c[f];
+  return createHash('sha256').update(canonical(picked)).digest('hex');
+}
+
+export const fieldLabels: Record<(typeof contentFields)[number], string> = {
+  segment: 'Segment',
+  fitRunId: 'Fit run',
+  datasetId: 'Dataset',
+  datasetSha256: 'Dataset SHA-256',
+  engineVersion: 'Engine version',
+  seeds: 'Seeds',
+  estimator: 'Estimator',
+  estimate: 'Estimate',
+  intervalMethod: 'Interval method',
+  intervalLevel: 'Interval level',
+  intervalLower: 'Interval lower',
+  intervalUpper: 'Interval upper',
+  pd: 'PD',
+  windowFrom: 'Window from',
+  windowTo: 'Window to',
+  marginData: 'Margin: data and method',
+  marginDataRationale: 'Rationale: data and method',
+  marginPractice: 'Margin: lending practice',
+  marginPracticeRationale: 'Rationale: lending practice',
+  marginGeneral: 'Margin: general estimation error',
+  marginGeneralRationale: 'Rationale: general estimation error',
+  conservativeValue: 'Estimate plus margins',
+  finalValue: 'Final value',
+  intendedUses: 'Intended uses',
+  limitations: 'Limitations',
+  effectiveDate: 'Effective date',
+  reviewBy: 'Review by',
+};
+
+export type FieldChange = { field: (typeof contentFields)[number]; label: string; before: unknown; after: unknown };
+
+/** The content fields that differ between two versions (before = a, after = b). */
+export function diffVersions(a: VersionContent, b: VersionContent): FieldChange[] {
+  return contentFields
+    .filter((f) => canonical(a[f]) !== canonical(b[f]))
+    .map((f) => ({ field: f, label: fieldLabels[f], before: a[f], after: b[f] }));
+}
+
+// ---------------------------------------------------------------------------------------------
+// The analyst's input (request bodies and form data), validated with sentences naming the field
+// ---------------------------------------------------------------------------------------------
+
+const rationale = (what: string) =>
+  z.string().trim().min(1, `Give a rationale for the margin for ${what} (say why, even when the margin is 0).`).max(4000);
+const margin = (what: string) =>
+  z.object({
+    value: z.number({ message: `The margin for ${what} must be a number.` }).min(0, `The margin for ${what} cannot be negative.`).max(0.999),
+    rationale: rationale(what),
+  });
+const isoDate = (what: string) => z.string().refine(isIsoDate, `The ${what} must be a calendar date written YYYY-MM-DD.`);
+
+export const judgementSchema = z.object({
+  margins: z.object({
+    data: margin('data and method deficiencies'),
+    practice: margin('changes in lending or recovery practice'),
+    general: margin('general estimation error'),
+  }),
+  /** Omitted: the estimate plus the margins. */
+  finalValue: z.number({ message: 'The final value must be a number.' }).optional(),
+  intendedUses: z.string().trim().min(1, 'Say what the assumption is intended for (intended uses).').max(4000),
+  limitations: z.string().trim().min(1, 'State the limitations of the assumption.').max(4000),
+  effectiveDate: isoDate('effective date'),
+  /** Omitted: twelve months after the effective date. */
+  reviewBy: isoDate('review-by date').optional(),
+});
+
+export const estimatorKeys = ['binomialMle', 'vasicekMle', 'momentVariance', 'momentVarianceCorrected', 'jointDefault'] as const;
+export const intervalMethods = ['profile', 'wald', 'bootstrap'] as const;
+
+export const draftInputSchema = judgementSchema.extend({
+  fitId: z.number({ message: 'Give the fit run (fitId) the assumption is drawn from.' }).int().positive(),
+  segment: z.string().trim().min(1, 'Give the segment.').max(120),
+  estimator: z.enum(estimatorKeys, { message: `Choose the estimator: ${estimatorKeys.join(', ')}.` }),
+  intervalMethod: z.enum(intervalMethods, { message: `Choose the interval: ${intervalMethods.join(', ')}.` }).default('profile'),
+});
+export type DraftInput = z.input<typeof draftInputSchema>;
+
+/** An edit changes the judgement only: the evidence stays frozen (draft a new version for another fit). */
+export const editInputSchema = judgementSchema.partial().strict();
+export type EditInput = z.input<typeof editInputSchema>;
+
+/** Checks the cross-field rules (margins against the estimate, review-by against effective date). */
+export function judgementProblems(estimate: number, j: Judgement): { field: string; message: string }[] {
+  const out = marginProblems(estimate, { data: j.marginData, practice: j.marginPractice, general: j.marginGeneral }, j.finalValue);
+  const rb = reviewByProblem(j.effectiveDate, j.reviewBy);
+  if (rb) out.push({ field: 'reviewBy', message: rb });
+  return out;
+}

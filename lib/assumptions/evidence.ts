@@ -1,0 +1,58 @@
+import { AppError } from '@/lib/errors';
+
+/**
+ * Picks the evidence of one segment and estimator out of a fit run's results (the JSON the engine
+ * writes: segments[].estimates.<estimator> { rho, pd, intervals: { profile|wald|bootstrap:
+ * { level, lower, upper } } }). A missing segment, an undefined estimate or a missing interval
+ * is refused with a sentence: an assumption is never drafted on evidence that is not there.
+ */
+type Interval = { level: number; lower: number; upper: number };
+type Estimate = { rho: number | null; pd: number | null; status?: string; reason?: string; intervals?: Record<string, Interval | null> };
+type SegmentResult = { segment: string; periods?: string[]; estimates: Record<string, Estimate | undefined> };
+
+export type PickedEvidence = {
+  estimate: number;
+  pd: number;
+  intervalLevel: number;
+  intervalLower: number;
+  intervalUpper: number;
+  windowFrom: string;
+  windowTo: string;
+};
+
+export function pickEvidence(
+  results: unknown,
+  segment: string,
+  estimator: string,
+  intervalMethod: string,
+): PickedEvidence {
+  const segs = (results as { segments?: SegmentResult[] } | null)?.segments;
+  const seg = Array.isArray(segs) ? segs.find((s) => s?.segment === segment) : undefined;
+  if (!seg) throw new AppError('invalid:segment', `The fit run has no results for the segment “${segment}”.`, { field: 'segment' });
+  const est = seg.estimates?.[estimator];
+  if (!est || typeof est.rho !== 'number' || typeof est.pd !== 'number') {
+    throw new AppError(
+      'invalid:estimator',
+      `The estimator ${estimator} gave no value for ${segment}${est?.reason ? `: ${est.reason}` : ''}. Choose another estimator.`,
+      { field: 'estimator' },
+    );
+  }
+  const iv = est.intervals?.[intervalMethod];
+  if (!iv || typeof iv.lower !== 'number' || typeof iv.upper !== 'number') {
+    throw new AppError(
+      'invalid:interval',
+      `The fit has no ${intervalMethod} interval for ${estimator} on ${segment}. Choose an interval the fit computed (the maximum-likelihood fit has profile and Wald intervals).`,
+      { field: 'intervalMethod' },
+    );
+  }
+  const periods = seg.periods ?? [];
+  return {
+    estimate: est.rho,
+    pd: est.pd,
+    intervalLevel: iv.level,
+    intervalLower: iv.lower,
+    intervalUpper: iv.upper,
+    windowFrom: periods[0] ?? '',
+    windowTo: periods[periods.length - 1] ?? '',
+  };
+}

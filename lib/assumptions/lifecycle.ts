@@ -1,0 +1,177 @@
+import type { AssumptionStatus, Role } from '@/db/schema';
+import { AppError } from '@/lib/errors';
+
+/**
+ * The maker-checker lifecycle of an assumption version (DESIGN.md, "Assumption lifecycle"), as a
+ * pure state machine with its role and person guards. The data access layer calls `planTransition`
+ * inside the transaction that writes the new state, so the rules hold whatever the caller.
+ *
+ *   draft --submit--> submitted --start-review--> in_review --approve--> approved --publish--> published
+ *   submitted --withdraw--> draft;  in_review --request-changes--> draft;  in_review --reject--> rejected
+ *   published --> superseded (a newer version publishes) | expired (review-by passed) | retired
+ */
+export const userActions = [
+  'submit',
+  'withdraw',
+  'start-review',
+  'request-changes',
+  'reject',
+  'approve',
+  'publish',
+  'retire',
+] as const;
+export type UserAction = (typeof userActions)[number];
+/** Transitions only the system (scheduler) makes. */
+export type SystemAction = 'supersede' | 'expire' | 'publish';
+export type Action = UserAction | SystemAction | 'draft' | 'edit';
+
+type Rule = { from: readonly AssumptionStatus[]; to: AssumptionStatus; roles: readonly Role[]; commentRequired?: boolean };
+
+export const transitionRules: Record<UserAction, Rule> = {
+  submit: { from: ['draft'], to: 'submitted', roles: ['analyst'] },
+  withdraw: { from: ['submitted'], to: 'draft', roles: ['analyst'] },
+  'start-review': { from: ['submitted'], to: 'in_review', roles: ['validator'] },
+  'request-changes': { from: ['in_review'], to: 'draft', roles: ['validator'], commentRequired: true },
+  reject: { from: ['in_review'], to: 'rejected', roles: ['validator'], commentRequired: true },
+  approve: { from: ['in_review'], to: 'approved', roles: ['validator'] },
+  publish: { from: ['approved'], to: 'published', roles: ['analyst', 'validator', 'admin'] },
+  retire: { from: ['published'], to: 'retired', roles: ['validator', 'admin'] },
+};
+
+/** Review actions: the person guard (not the maker) applies to these. */
+export const reviewActions: readonly UserAction[] = ['start-review', 'request-changes', 'reject', 'approve'];
+
+export const statusLabels: Record<AssumptionStatus, string> = {
+  draft: 'draft',
+  submitted: 'submitted',
+  in_review: 'in review',
+  approved: 'approved',
+  rejected: 'rejected',
+  published: 'published',
+  superseded: 'superseded',
+  expired: 'expired',
+  retired: 'retired',
+};
+
+export const actionLabels: Record<UserAction, string> = {
+  submit: 'Submit for review',
+  withdraw: 'Withdraw',
+  'start-review': 'Start review',
+  'request-changes': 'Request changes',
+  reject: 'Reject',
+  approve: 'Approve',
+  publish: 'Publish',
+  retire: 'Retire',
+};
+
+/** Statuses in which a version can still be edited (an edit after submission returns it to draft). */
+export const editableStatuses: readonly AssumptionStatus[] = ['draft', 'submitted', 'in_review', 'approved'];
+/** Statuses of a version still on its way to publication: at most one per assumption. */
+export const openStatuses: readonly AssumptionStatus[] = ['draft', 'submitted', 'in_review', 'approved'];
+
+export type TransitionContext = {
+  actor: { id: number; role: Role };
+  status: AssumptionStatus;
+  /** The drafter and everyone who edited the version. */
+  makerIds: readonly number[];
+  comment?: string | null;
+  effectiveDate: string;
+  /** Today's date (YYYY-MM-DD, UTC). */
+  today: string;
+};
+
+/**
+ * Decides a user's transition or throws an AppError that says why not:
+ * `forbidden:*` (403) for a role or person not allowed, `conflict:*` (409) for a state that does not
+ * allow it, `invalid:comment` (422) for a missing required comment. The role is checked first so
+ * that an administrator learns they cannot approve whatever the state.
+ */
+export function planTransition(action: UserAction, ctx: TransitionContext): { from: AssumptionStatus; to: AssumptionStatus } {
+  const rule = transitionRules[action];
+  const { actor, status } = ctx;
+  if (!rule.roles.includes(actor.role)) {
+    throw new AppError(`forbidden:${action}`, roleRefusal(action, actor.role));
+  }
+  if (!rule.from.includes(status)) {
+    throw new AppError(
+      `conflict:${action}`,
+      `A ${statusLabels[status]} version cannot be ${pastTense(action)}: only a ${rule.from.map((s) => statusLabels[s]).join(' or ')} version can.` +
+        (status === 'published' || status === 'superseded' || status === 'expired' || status === 'retired' || status === 'rejected'
+          ? ' Draft a new version instead.'
+          : ''),
+    );
+  }
+  if (reviewActions.includes(action) && ctx.makerIds.includes(actor.id)) {
+    throw new AppError(
+      `forbidden:${action}:maker`,
+      'You drafted or edited this version, so you cannot review it: another validator must (maker-checker).',
+    );
+  }
+  if (rule.commentRequired && !ctx.comment?.trim()) {
+    throw new AppError('invalid:comment', `Say why when you ${action === 'reject' ? 'reject a version' : 'request changes'}: a comment is required.`);
+  }
+  if (action === 'publish' && ctx.effectiveDate > ctx.today) {
+    throw new AppError(
+      'conflict:publish:not-yet-effective',
+      `This version becomes effective on ${ctx.effectiveDate}; it is published on that date, not before.`,
+    );
+  }
+  return { from: status, to: rule.to };
+}
+
+function roleRefusal(action: UserAction, role: Role): string {
+  if (action === 'approve' && role === 'admin') return 'An administrator cannot approve assumptions: only a validator who did not draft or edit the version can.';
+  if (action === 'submit' || action === 'withdraw') return `Only analysts draft, submit and withdraw assumptions; your role is ${role}.`;
+  if (reviewActions.includes(action)) return `Only validators review assumptions; your role is ${role}.`;
+  if (action === 'retire') return `Only validators and administrators retire published assumptions; your role is ${role}.`;
+  return `Your role (${role}) cannot ${action} assumptions.`;
+}
+
+function pastTense(action: UserAction): string {
+  switch (action) {
+    case 'submit':
+      return 'submitted';
+    case 'withdraw':
+      return 'withdrawn';
+    case 'start-review':
+      return 'taken into review';
+    case 'request-changes':
+      return 'sent back for changes';
+    case 'reject':
+      return 'rejected';
+    case 'approve':
+      return 'approved';
+    case 'publish':
+      return 'published';
+    case 'retire':
+      return 'retired';
+  }
+}
+
+/** The refusals for an edit: who may edit and in which states. */
+export function planEdit(ctx: { actor: { role: Role }; status: AssumptionStatus }): { from: AssumptionStatus; to: AssumptionStatus } {
+  if (ctx.actor.role !== 'analyst') {
+    throw new AppError('forbidden:edit', `Only analysts edit assumption drafts; your role is ${ctx.actor.role}.`);
+  }
+  if (!editableStatuses.includes(ctx.status)) {
+    throw new AppError(
+      'conflict:edit',
+      ctx.status === 'rejected'
+        ? 'A rejected version cannot be edited: draft a new version instead.'
+        : `A ${statusLabels[ctx.status]} version is immutable: a correction is a new version.`,
+    );
+  }
+  return { from: ctx.status, to: 'draft' };
+}
+
+/** The actions a person could take now (for buttons); the server still decides. */
+export function availableActions(ctx: Omit<TransitionContext, 'comment'>): UserAction[] {
+  return userActions.filter((a) => {
+    try {
+      planTransition(a, { ...ctx, comment: 'x' });
+      return true;
+    } catch {
+      return false;
+    }
+  });
+}

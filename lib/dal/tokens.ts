@@ -1,0 +1,149 @@
+import 'server-only';
+import { createHash, randomBytes, timingSafeEqual } from 'node:crypto';
+import { and, desc, eq, isNull, sql } from 'drizzle-orm';
+import { z } from 'zod';
+import { getDb } from '@/db/client';
+import { apiTokens, users } from '@/db/schema';
+import { assertCan, type SessionUser } from '@/lib/auth/guard';
+import { AppError } from '@/lib/errors';
+import { recordAdminAction } from './admin-audit';
+
+/**
+ * API tokens for downstream models (the consumer API under /api/v1). An administrator creates a
+ * token; its secret is shown once and only its SHA-256 is stored (a token has 192 random bits, so a
+ * fast hash is enough: there is nothing to guess). Tokens carry scopes, can expire, are revoked by
+ * an administrator, and record when they were last used.
+ */
+export const tokenScopes = ['assumptions:read', 'assumptions:export'] as const;
+export type TokenScope = (typeof tokenScopes)[number];
+
+export const scopeLabels: Record<TokenScope, string> = {
+  'assumptions:read': 'Read published assumptions (in force or exact version)',
+  'assumptions:export': 'Export the published library as CSV',
+};
+
+export type ApiPrincipal = { kind: 'token'; tokenId: number; name: string; scopes: TokenScope[] };
+
+export type TokenDto = {
+  id: number;
+  name: string;
+  prefix: string;
+  scopes: TokenScope[];
+  createdBy: string;
+  createdAt: string;
+  expiresAt: string | null;
+  lastUsedAt: string | null;
+  revokedAt: string | null;
+  status: 'active' | 'revoked' | 'expired';
+};
+
+const TOKEN_PREFIX = 'rhb_';
+
+export function hashToken(secret: string): string {
+  return createHash('sha256').update(secret, 'utf8').digest('hex');
+}
+
+export const createTokenSchema = z.object({
+  name: z.string().trim().min(1, 'Give the token a name that says who uses it.').max(120),
+  scopes: z
+    .array(z.enum(tokenScopes, { message: `Scopes are ${tokenScopes.join(' and ')}.` }))
+    .min(1, 'Choose at least one scope.'),
+  expiresInDays: z.number().int().min(1, 'A token lasts at least one day.').max(730, 'A token lasts at most 730 days.').nullable().optional(),
+});
+export type CreateTokenInput = z.input<typeof createTokenSchema>;
+
+function scopesOf(v: unknown): TokenScope[] {
+  const parsed = z.array(z.enum(tokenScopes)).safeParse(v);
+  return parsed.success ? parsed.data : [];
+}
+
+export async function listTokens(actor: SessionUser, now: Date = new Date()): Promise<TokenDto[]> {
+  assertCan(actor, 'tokens:manage', 'Only administrators manage API tokens.');
+  const rows = await getDb()
+    .select({ t: apiTokens, by: users.email })
+    .from(apiTokens)
+    .leftJoin(users, eq(users.id, apiTokens.createdBy))
+    .orderBy(desc(apiTokens.id));
+  return rows.map(({ t, by }) => ({
+    id: t.id,
+    name: t.name,
+    prefix: t.prefix,
+    scopes: scopesOf(t.scopes),
+    createdBy: by ?? '',
+    createdAt: t.createdAt.toISOString(),
+    expiresAt: t.expiresAt?.toISOString() ?? null,
+    lastUsedAt: t.lastUsedAt?.toISOString() ?? null,
+    revokedAt: t.revokedAt?.toISOString() ?? null,
+    status: t.revokedAt ? 'revoked' : t.expiresAt && t.expiresAt <= now ? 'expired' : 'active',
+  }));
+}
+
+/** Creates a token and returns its secret once; only the hash is kept. */
+export async function createToken(actor: SessionUser, input: CreateTokenInput): Promise<{ token: string; id: number; prefix: string }> {
+  assertCan(actor, 'tokens:manage', 'Only administrators create API tokens.');
+  const parsed = createTokenSchema.safeParse(input);
+  if (!parsed.success) {
+    const first = parsed.error.issues[0];
+    throw new AppError('invalid:token', first?.message ?? 'The token details are not valid.', { field: first?.path.join('.') ?? null });
+  }
+  const v = parsed.data;
+  const secret = TOKEN_PREFIX + randomBytes(24).toString('base64url');
+  const prefix = secret.slice(0, 12);
+  const expiresAt = v.expiresInDays ? new Date(Date.now() + v.expiresInDays * 86_400_000) : null;
+  return getDb().transaction(async (tx) => {
+    const [res] = await tx.insert(apiTokens).values({
+      name: v.name,
+      prefix,
+      tokenHash: hashToken(secret),
+      scopes: [...new Set(v.scopes)],
+      createdBy: actor.id,
+      expiresAt,
+    });
+    await recordAdminAction(tx, actor, {
+      action: 'token.create',
+      targetType: 'api_token',
+      targetId: res.insertId,
+      after: { name: v.name, prefix, scopes: v.scopes, expiresAt: expiresAt?.toISOString() ?? null },
+    });
+    return { token: secret, id: res.insertId, prefix };
+  });
+}
+
+export async function revokeToken(actor: SessionUser, id: number): Promise<void> {
+  assertCan(actor, 'tokens:manage', 'Only administrators revoke API tokens.');
+  await getDb().transaction(async (tx) => {
+    const [t] = await tx.select().from(apiTokens).where(eq(apiTokens.id, id)).for('update');
+    if (!t) throw new AppError('not_found:token', 'There is no such API token.');
+    if (t.revokedAt) return;
+    await tx.update(apiTokens).set({ revokedAt: sql`CURRENT_TIMESTAMP(3)`, revokedBy: actor.id }).where(eq(apiTokens.id, id));
+    await recordAdminAction(tx, actor, { action: 'token.revoke', targetType: 'api_token', targetId: id, before: { name: t.name, prefix: t.prefix } });
+  });
+}
+
+const REFUSED = 'The API token is missing, unknown, expired or revoked. Send it as "Authorization: Bearer <token>"; ask an administrator for a new one.';
+
+/**
+ * Authenticates an `Authorization: Bearer` header and checks the scope. Records the last use.
+ * Every refusal is the same 401 sentence (an unknown token and a revoked one look alike), except a
+ * valid token without the scope, which is 403.
+ */
+export async function authenticateToken(authorization: string | null, scope: TokenScope, now: Date = new Date()): Promise<ApiPrincipal> {
+  const m = /^Bearer\s+(\S+)\s*$/i.exec(authorization ?? '');
+  if (!m || !m[1].startsWith(TOKEN_PREFIX)) throw new AppError('unauthorized:token', REFUSED);
+  const hash = hashToken(m[1]);
+  const db = getDb();
+  const [t] = await db
+    .select()
+    .from(apiTokens)
+    .where(and(eq(apiTokens.tokenHash, hash), isNull(apiTokens.revokedAt)))
+    .limit(1);
+  if (!t || !timingSafeEqual(Buffer.from(t.tokenHash), Buffer.from(hash)) || (t.expiresAt && t.expiresAt <= now)) {
+    throw new AppError('unauthorized:token', REFUSED);
+  }
+  const scopes = scopesOf(t.scopes);
+  if (!scopes.includes(scope)) {
+    throw new AppError('forbidden:token-scope', `This API token does not carry the scope ${scope}; ask an administrator for a token that does.`);
+  }
+  await db.update(apiTokens).set({ lastUsedAt: now }).where(eq(apiTokens.id, t.id));
+  return { kind: 'token', tokenId: t.id, name: t.name, scopes };
+}

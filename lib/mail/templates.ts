@@ -1,0 +1,67 @@
+/**
+ * The e-mails of the assumption lifecycle: subject and plain-text body for each event. Pure: the
+ * DAL writes them to the outbox in the same transaction as the transition.
+ */
+export const mailKinds = [
+  'awaiting-review',
+  'changes-requested',
+  'approved',
+  'rejected',
+  'published',
+  'review-by-30',
+  'review-by-7',
+] as const;
+export type MailKind = (typeof mailKinds)[number];
+
+export type MailFacts = {
+  segment: string;
+  version: number;
+  finalValue: number;
+  effectiveDate: string;
+  reviewBy: string;
+  actorName?: string;
+  comment?: string | null;
+  url: string;
+};
+
+const footer =
+  '\n\n--\nRhobook. Approval in Rhobook is neither an independent validation nor a regulator\'s approval.\nYou receive this because of your role in this assumption.';
+
+export function renderMail(kind: MailKind, f: MailFacts): { subject: string; body: string } {
+  const what = `${f.segment} v${f.version}`;
+  const comment = f.comment?.trim() ? `\n\nComment:\n${f.comment.trim()}` : '';
+  const link = `\n\nOpen it: ${f.url}`;
+  switch (kind) {
+    case 'awaiting-review':
+      return {
+        subject: `Awaiting review: correlation assumption ${what}`,
+        body: `${f.actorName ?? 'An analyst'} submitted ${what} (final value ${f.finalValue}, effective ${f.effectiveDate}) for review. Any validator who did not draft or edit it may take it into review.${link}${footer}`,
+      };
+    case 'changes-requested':
+      return {
+        subject: `Changes requested: ${what}`,
+        body: `${f.actorName ?? 'A validator'} sent ${what} back to draft with a request for changes.${comment}${link}${footer}`,
+      };
+    case 'approved':
+      return {
+        subject: `Approved: ${what}`,
+        body: `${f.actorName ?? 'A validator'} approved ${what}. It publishes on its effective date, ${f.effectiveDate}.${comment}${link}${footer}`,
+      };
+    case 'rejected':
+      return {
+        subject: `Rejected: ${what}`,
+        body: `${f.actorName ?? 'A validator'} rejected ${what}. A rejected version stays on record; draft a new version to try again.${comment}${link}${footer}`,
+      };
+    case 'published':
+      return {
+        subject: `Published: ${what} = ${f.finalValue}`,
+        body: `${what} is published with the value ${f.finalValue}, effective ${f.effectiveDate}, to be reviewed by ${f.reviewBy}. The previous published version of the segment, if any, is superseded.${link}${footer}`,
+      };
+    case 'review-by-30':
+    case 'review-by-7':
+      return {
+        subject: `Review due in ${kind === 'review-by-30' ? 30 : 7} days: ${what}`,
+        body: `${what} must be reviewed by ${f.reviewBy}. After that date it expires and downstream models no longer receive it as the value in force.${link}${footer}`,
+      };
+  }
+}

@@ -1,0 +1,24 @@
+import type { Db } from '@/db/connection';
+import { runScheduledTransitions } from '@/lib/dal/assumptions';
+import { sleep } from './mail-loop';
+
+/**
+ * The assumption scheduler: once a minute it publishes approved versions whose effective date has
+ * come (the segment's previous published version becomes superseded), expires published versions
+ * whose review-by date has passed, and queues the 30- and 7-day review reminders (once each).
+ * Every step is idempotent and re-checks the state under a row lock, so several workers may run it.
+ */
+export async function runScheduler(opts: { db: Db; signal: AbortSignal; intervalMs?: number }): Promise<void> {
+  const interval = opts.intervalMs ?? 60_000;
+  while (!opts.signal.aborted) {
+    try {
+      const r = await runScheduledTransitions(new Date(), opts.db);
+      if (r.published.length || r.expired.length || r.reminders) {
+        console.log(`[worker] scheduler: published ${r.published.length}, expired ${r.expired.length}, reminders queued ${r.reminders}`);
+      }
+    } catch (err) {
+      console.error('[worker] scheduler error:', err instanceof Error ? err.message : err);
+    }
+    await sleep(interval, opts.signal);
+  }
+}
