@@ -181,8 +181,8 @@ const EXCESS_MAX_DEPTH = 30;
 
 /**
  * Adaptive bisection: a piece is accepted once its two-halves estimate agrees with its
- * whole-interval estimate to EXCESS_RTOL relative to the piece itself or to its width's share of the
- * global integral (the second keeps pieces whose integrand underflows from recursing forever). The
+ * whole-interval estimate to rtol (EXCESS_RTOL scaled by the exponent's size) relative to the piece
+ * itself or to its width's share of the global integral (the second keeps pieces whose integrand underflows from recursing forever). The
  * integrand has one sign, so the accepted errors add up to at most ~2 rtol |result|.
  */
 function adaptiveExcess(
@@ -228,8 +228,9 @@ function adaptiveExcess(
  * formula Phi2(0, 0; rho) = 1/4 + arcsin(rho) / (2 pi) is the case h = k = 0.)
  *
  * Method: 20-point Gauss-Legendre on [0, arcsin rho] with adaptive bisection until the halves agree
- * with the whole to 2e-15 relative. The integrand has one sign (that of rho), so this bounds the
- * relative error of the result at about 1e-14, including PD 1e-5 with rho 1e-4 (an excess of
+ * with the whole to 2e-15 max(1, (h^2 + k^2)/2) relative (the second factor is the conditioning of
+ * the result in h and k themselves). The integrand has one sign (that of rho), so this bounds the
+ * relative error of the result at about 1e-14 for |h|, |k| < 5, including PD 1e-5 with rho 1e-4 (an excess of
  * ~1e-13 that the subtraction Phi2 - Phi Phi would return with no correct digit). The exponent is
  * rearranged as (h - k)^2 / cos^2 t + 2hk / (1 + sin t) so that nothing cancels as |rho| -> 1; for
  * h = k the integrand exp(-h^2 / (1 + sin t)) is analytic on the whole range and one level of
