@@ -3,3 +3,4 @@
  * registerJobHandler for its kind, declared in lib/jobs/kinds).
  */
 import '../registry';
+import './fit';

@@ -3,3 +3,4 @@
  * or run. Add one import per kind.
  */
 import '../kinds';
+import './fit';
