@@ -11,6 +11,9 @@ export const permissions = {
   'outbox:read': ['admin'],
   'datasets:read': ['viewer', 'analyst', 'validator', 'admin'],
   'datasets:upload': ['analyst', 'admin'],
+  /** waive warnings, supersede, delete (the DAL lets analysts delete only their own uploads) */
+  'datasets:manage': ['analyst', 'admin'],
+  'segments:manage': ['analyst', 'admin'],
   'fits:read': ['viewer', 'analyst', 'validator', 'admin'],
   'fits:run': ['analyst', 'validator'],
   'assumptions:read': ['viewer', 'analyst', 'validator', 'admin'],

@@ -3,4 +3,5 @@
  * registerJobHandler for its kind, declared in lib/jobs/kinds).
  */
 import '../registry';
+import './convert-loans';
 import './fit';

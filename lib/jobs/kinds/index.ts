@@ -3,4 +3,5 @@
  * or run. Add one import per kind.
  */
 import '../kinds';
+import './convert-loans';
 import './fit';

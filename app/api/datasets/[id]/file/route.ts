@@ -1,0 +1,24 @@
+import { Readable } from 'node:stream';
+import { requireUser } from '@/lib/auth/session';
+import { openDatasetFile } from '@/lib/dal/datasets';
+import { datasetIdFrom, safeDownloadName } from '@/lib/datasets/route-params';
+import { errorResponse } from '@/lib/errors';
+
+export const runtime = 'nodejs';
+
+/** The original uploaded file, exactly as stored (gzip-compressed: `<name>.gz`). */
+export async function GET(_req: Request, ctx: { params: Promise<{ id: string }> }) {
+  try {
+    const actor = await requireUser();
+    const { fileName, pieces } = await openDatasetFile(actor, await datasetIdFrom(ctx));
+    const body = Readable.toWeb(Readable.from(pieces)) as ReadableStream<Uint8Array>;
+    return new Response(body, {
+      headers: {
+        'Content-Type': 'application/gzip',
+        'Content-Disposition': `attachment; filename="${safeDownloadName(fileName)}.gz"`,
+      },
+    });
+  } catch (err) {
+    return errorResponse(err);
+  }
+}

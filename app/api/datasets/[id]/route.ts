@@ -1,0 +1,24 @@
+import { requireUser } from '@/lib/auth/session';
+import { deleteDataset, getDataset } from '@/lib/dal/datasets';
+import { datasetIdFrom } from '@/lib/datasets/route-params';
+import { errorResponse } from '@/lib/errors';
+
+export async function GET(_req: Request, ctx: { params: Promise<{ id: string }> }) {
+  try {
+    const actor = await requireUser();
+    return Response.json({ dataset: await getDataset(actor, await datasetIdFrom(ctx)) });
+  } catch (err) {
+    return errorResponse(err);
+  }
+}
+
+/** 204 when deleted; 409 `conflict:dataset-in-use` when a fit or an assumption refers to it. */
+export async function DELETE(_req: Request, ctx: { params: Promise<{ id: string }> }) {
+  try {
+    const actor = await requireUser();
+    await deleteDataset(actor, await datasetIdFrom(ctx));
+    return new Response(null, { status: 204 });
+  } catch (err) {
+    return errorResponse(err);
+  }
+}

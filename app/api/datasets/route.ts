@@ -1,0 +1,38 @@
+import { requireUser } from '@/lib/auth/session';
+import { assertMayUpload, listDatasets, uploadDataset } from '@/lib/dal/datasets';
+import { receiveUpload, tooLargeError } from '@/lib/datasets/multipart';
+import { env } from '@/lib/env';
+import { errorResponse } from '@/lib/errors';
+import { formatBytes } from '@/lib/ingest/limits';
+
+export const runtime = 'nodejs';
+
+export async function GET() {
+  try {
+    const actor = await requireUser();
+    return Response.json({ datasets: await listDatasets(actor) });
+  } catch (err) {
+    return errorResponse(err);
+  }
+}
+
+/**
+ * Upload (multipart/form-data: kind, name, optional description, supersedes, loan-tape options, and
+ * the file in a part named "file"). 201 accepted; 202 loan tape queued for conversion; 422
+ * `invalid:upload` with the findings; 409 the same file is already a dataset; 413 over the limit.
+ */
+export async function POST(req: Request) {
+  try {
+    const actor = await requireUser();
+    assertMayUpload(actor);
+    const maxBytes = env().UPLOAD_MAX_BYTES;
+    const declared = Number(req.headers.get('content-length') ?? NaN);
+    // The body holds the file plus a little multipart framing; refuse before reading a byte.
+    if (Number.isFinite(declared) && declared > maxBytes + 64 * 1024) throw tooLargeError(formatBytes(declared), maxBytes);
+    const upload = await receiveUpload(req, maxBytes);
+    const result = await uploadDataset(actor, upload, maxBytes);
+    return Response.json(result.body, { status: result.status });
+  } catch (err) {
+    return errorResponse(err);
+  }
+}

@@ -1,0 +1,483 @@
+/**
+ * Storing uploads as datasets: the database side of data intake, shared by the data access layer
+ * (lib/dal/datasets.ts, which authorises), the loan-tape conversion job (workers/handlers) and the
+ * demo seed. Nothing here checks who the caller is: callers do.
+ *
+ * What is written, and when (DESIGN.md, "Data the user brings"):
+ * - A rejected upload writes one `upload_reports` row (status rejected, its findings) and nothing else.
+ * - An accepted cohort or vintage file writes, in ONE transaction: the segments it names (new ones
+ *   only), the dataset (sha256, size, conventions, censored list), the gzip-compressed file, its
+ *   cohort rows and its report.
+ * - A loan tape that passes the header check writes the dataset (status processing), the file, the
+ *   report (processing) and a `convert-loans` job in one transaction; the job later writes the
+ *   cohort rows, or deletes the dataset and keeps only the rejected report.
+ */
+import { and, eq, inArray, isNotNull, sql } from 'drizzle-orm';
+import { createHash } from 'node:crypto';
+import { Readable } from 'node:stream';
+import { createGunzip } from 'node:zlib';
+import type { Db } from '@/db/connection';
+import { cohortRows, datasetFiles, datasets, segments, uploadReports, type DatasetKind } from '@/db/schema';
+import { AppError } from '@/lib/errors';
+import { mapColumns, readCsvStream, type ByteSource, type CsvSink } from '@/lib/ingest/csv-reader';
+import { validateCohortStream, type CohortRow } from '@/lib/ingest/cohort';
+import { FindingCollector, type Finding, type FindingSummary } from '@/lib/ingest/findings';
+import { LOAN_COLUMNS, validateLoanTapeStream, type LoanTapeOptions, type LoanTapeValidation } from '@/lib/ingest/loan-tape';
+import { validateVintageStream, type CensoredVintageYear } from '@/lib/ingest/vintage';
+import { enqueueJob, type Tx } from '@/lib/jobs/queue';
+import { CONVERT_LOANS_JOB } from '@/lib/jobs/kinds/convert-loans';
+
+/** A database handle or a transaction (only the query builders are used). */
+type DbOrTx = Pick<Db, 'select' | 'insert' | 'update' | 'delete'>;
+
+/** Largest piece of the compressed file stored in one row. */
+export const FILE_PIECE_BYTES = 4 * 1024 * 1024;
+
+/** The shape of a finding in API answers: `row` is the file's physical line (header = 1). */
+export type UploadIssue = {
+  row: number | null;
+  column: string | null;
+  rule: string;
+  severity: 'error' | 'warning';
+  value: string | null;
+  message: string;
+};
+
+export function toIssue(f: Finding): UploadIssue {
+  return { row: f.line, column: f.column, rule: f.rule, severity: f.severity, value: f.value, message: f.message };
+}
+
+/** Conventions recorded with a dataset (shown on its page and in its cohorts CSV). */
+export type DatasetConventions = {
+  /** the plain-language rule, as written by the converter */
+  text: string;
+  referenceMonthDay?: string;
+  exitConvention?: string;
+  asOf?: string | null;
+  asOfSource?: string;
+  firstPeriod?: string | null;
+  lastPeriod?: string | null;
+};
+
+export const COHORT_CONVENTION_TEXT =
+  'Cohort counts as uploaded: obligors performing at the start of each annual period, defaults during it (one-year horizon). No conversion.';
+
+export type UploadMeta = {
+  kind: DatasetKind;
+  name: string;
+  description: string | null;
+  fileName: string;
+  sizeBytes: number;
+  sha256: string;
+  uploadedBy: number;
+  /** loan tapes only */
+  loanOptions?: Pick<LoanTapeOptions, 'asOf' | 'referenceMonthDay' | 'exitConvention'>;
+  /** id of an older dataset this upload supersedes once accepted */
+  supersedes?: number | null;
+};
+
+export type Validated = {
+  ok: boolean;
+  findings: Finding[];
+  summary: FindingSummary;
+  cohortRows: CohortRow[];
+  conventions: DatasetConventions;
+  censored: CensoredVintageYear[];
+};
+
+/**
+ * The identity used to recognise the same upload twice: the file's hash plus everything that
+ * changes what is made of it (kind; for loan tapes the as-of date, reference date and exit
+ * convention). The same bytes with another convention are a different dataset.
+ */
+export function dedupeKeyOf(meta: Pick<UploadMeta, 'kind' | 'sha256' | 'loanOptions'>): string {
+  const o = meta.kind === 'loans' ? meta.loanOptions ?? {} : {};
+  const options = meta.kind === 'loans' ? `${o.asOf ?? ''}|${o.referenceMonthDay ?? '01-01'}|${o.exitConvention ?? 'exits-stay'}` : '';
+  return createHash('sha256').update(`${meta.sha256}|${meta.kind}|${options}`).digest('hex');
+}
+
+/** Validates a cohort or vintage file completely (the conversion of vintages included). */
+export async function validateCohortOrVintage(kind: 'cohort' | 'vintage', source: ByteSource, maxBytes: number): Promise<Validated> {
+  if (kind === 'cohort') {
+    const v = await validateCohortStream(source, { maxBytes });
+    return { ok: v.ok, findings: v.findings, summary: v.summary, cohortRows: v.rows, conventions: { text: COHORT_CONVENTION_TEXT }, censored: [] };
+  }
+  const v = await validateVintageStream(source, { maxBytes });
+  return {
+    ok: v.ok,
+    findings: v.findings,
+    summary: v.summary,
+    cohortRows: v.cohortRows,
+    conventions: { text: v.convention },
+    censored: v.censored,
+  };
+}
+
+/**
+ * Checks what can be checked of a loan tape without reading it whole: encoding, delimiter, the
+ * header and the first data row's width. Row-level rules are applied by the conversion job.
+ */
+export async function checkLoanTapeHeader(source: ByteSource, maxBytes: number): Promise<{ ok: boolean; findings: Finding[]; summary: FindingSummary }> {
+  const findings = new FindingCollector();
+  let sawRow = false;
+  const sink: CsvSink = {
+    header: (names, line) => mapColumns(names, LOAN_COLUMNS, line, findings, 'loan-level') !== null,
+    row: () => {
+      sawRow = true;
+    },
+  };
+  // Stop pulling bytes once a data row has been seen.
+  async function* head(): AsyncGenerator<Uint8Array | string> {
+    for await (const chunk of source) {
+      yield chunk;
+      if (sawRow) return;
+    }
+  }
+  await readCsvStream(head(), sink, findings, { maxBytes });
+  return { ok: findings.errors === 0, findings: findings.sorted(), summary: findings.summary() };
+}
+
+/** Validates and aggregates a stored loan tape (the conversion job). */
+export async function convertLoanTape(source: ByteSource, options: LoanTapeOptions): Promise<{ validated: Validated; raw: LoanTapeValidation }> {
+  const v = await validateLoanTapeStream(source, options);
+  return {
+    raw: v,
+    validated: {
+      ok: v.ok,
+      findings: v.findings,
+      summary: v.summary,
+      cohortRows: v.cohortRows,
+      conventions: { text: v.conventionText, ...v.conventions },
+      censored: [],
+    },
+  };
+}
+
+/** Splits the compressed pieces into rows of at most FILE_PIECE_BYTES. */
+function filePieces(gz: readonly Buffer[]): Buffer[] {
+  const all = Buffer.concat(gz as Buffer[]);
+  const out: Buffer[] = [];
+  for (let i = 0; i < all.length; i += FILE_PIECE_BYTES) out.push(all.subarray(i, i + FILE_PIECE_BYTES));
+  if (out.length === 0) out.push(Buffer.alloc(0));
+  return out;
+}
+
+async function insertFile(tx: DbOrTx, datasetId: number, gz: readonly Buffer[]): Promise<void> {
+  const pieces = filePieces(gz);
+  for (let seq = 0; seq < pieces.length; seq++) await tx.insert(datasetFiles).values({ datasetId, seq, data: pieces[seq] });
+}
+
+/** The stored file of a dataset as a stream of raw (decompressed) bytes. */
+export function storedFileSource(db: DbOrTx, datasetId: number): ByteSource {
+  return (async function* () {
+    const [{ n }] = await db.select({ n: sql<number>`COUNT(*)` }).from(datasetFiles).where(eq(datasetFiles.datasetId, datasetId));
+    if (Number(n) === 0) throw new AppError('not_found:dataset-file', `Dataset ${datasetId} has no stored file.`);
+    const gunzip = createGunzip();
+    async function* pieces(): AsyncGenerator<Buffer> {
+      for (let seq = 0; seq < Number(n); seq++) {
+        const [row] = await db
+          .select({ data: datasetFiles.data })
+          .from(datasetFiles)
+          .where(and(eq(datasetFiles.datasetId, datasetId), eq(datasetFiles.seq, seq)));
+        if (!row) throw new AppError('internal:dataset-file', `Piece ${seq} of dataset ${datasetId}'s file is missing.`);
+        yield row.data;
+      }
+    }
+    const input = Readable.from(pieces());
+    input.on('error', (err) => gunzip.destroy(err));
+    input.pipe(gunzip);
+    for await (const chunk of gunzip) yield chunk as Buffer;
+  })();
+}
+
+/** The stored file of a dataset, still gzip-compressed, piece by piece. */
+export async function* storedGzipPieces(db: DbOrTx, datasetId: number): AsyncGenerator<Buffer> {
+  for (let seq = 0; ; seq++) {
+    const [row] = await db
+      .select({ data: datasetFiles.data })
+      .from(datasetFiles)
+      .where(and(eq(datasetFiles.datasetId, datasetId), eq(datasetFiles.seq, seq)));
+    if (!row) return;
+    yield row.data;
+  }
+}
+
+function isMysqlError(err: unknown, errno: number): boolean {
+  let e: unknown = err;
+  for (let i = 0; i < 4 && e && typeof e === 'object'; i++) {
+    if ((e as { errno?: number }).errno === errno) return true;
+    e = (e as { cause?: unknown }).cause;
+  }
+  return false;
+}
+
+/** MariaDB errno 1062: duplicate entry for a unique key. */
+export const isDuplicateKeyError = (err: unknown) => isMysqlError(err, 1062);
+/** MariaDB errno 1451: cannot delete or update a parent row, a foreign key constraint fails. */
+export const isForeignKeyRestrictError = (err: unknown) => isMysqlError(err, 1451);
+
+/** The live dataset with the same identity (see dedupeKeyOf), if any. */
+export async function findDuplicate(db: DbOrTx, key: string): Promise<{ id: number; name: string; createdAt: Date } | null> {
+  const [row] = await db
+    .select({ id: datasets.id, name: datasets.name, createdAt: datasets.createdAt })
+    .from(datasets)
+    .where(eq(datasets.dedupeKey, key))
+    .limit(1);
+  return row ?? null;
+}
+
+export function duplicateError(existing: { id: number; name: string; createdAt: Date }): AppError {
+  return new AppError(
+    'conflict:duplicate-upload',
+    `This file was already uploaded as dataset ${existing.id} "${existing.name}" on ${existing.createdAt.toISOString().slice(0, 10)}. Open that dataset instead; a file is stored once.`,
+    { datasetId: existing.id },
+  );
+}
+
+/**
+ * Finds or creates the named segments (new ones owned by `ownerId`) and returns name -> id.
+ * Segment names compare without regard to case and accents (the table's collation): two spellings
+ * of one name in the same upload are an error, because their rows would be merged silently.
+ */
+export async function ensureSegments(tx: DbOrTx, names: readonly string[], ownerId: number | null): Promise<Map<string, number>> {
+  const unique = [...new Set(names)];
+  const out = new Map<string, number>();
+  if (unique.length === 0) return out;
+  for (let i = 0; i < unique.length; i += 500) {
+    const part = unique.slice(i, i + 500);
+    await tx
+      .insert(segments)
+      .values(part.map((name) => ({ name, ownerId })))
+      .onDuplicateKeyUpdate({ set: { name: sql`${segments.name}` } });
+  }
+  const bySpelling = new Map<number, string>();
+  for (const name of unique) {
+    const [row] = await tx.select({ id: segments.id }).from(segments).where(eq(segments.name, name)).limit(1);
+    if (!row) throw new Error(`Segment "${name}" was not found after it was inserted.`);
+    const other = bySpelling.get(row.id);
+    if (other !== undefined) {
+      throw new AppError('invalid:upload', `The segment names "${other}" and "${name}" differ only in case or accents.`, {
+        issues: [
+          {
+            row: null,
+            column: 'segment',
+            rule: 'segment-name-clash',
+            severity: 'error',
+            value: name,
+            message: `The segment names "${other}" and "${name}" differ only in upper/lower case or accents, so Rhobook would treat them as one segment. Use one spelling for each segment.`,
+          } satisfies UploadIssue,
+        ],
+      });
+    }
+    bySpelling.set(row.id, name);
+    out.set(name, row.id);
+  }
+  return out;
+}
+
+async function insertCohortRows(tx: DbOrTx, datasetId: number, rows: readonly CohortRow[], segmentIds: Map<string, number>): Promise<void> {
+  for (let i = 0; i < rows.length; i += 1000) {
+    await tx.insert(cohortRows).values(
+      rows.slice(i, i + 1000).map((r) => ({
+        datasetId,
+        segmentId: segmentIds.get(r.segment)!,
+        period: Number(r.period),
+        obligors: r.obligors,
+        defaults: r.defaults,
+        sourceLine: r.line,
+        defaultDefinition: r.defaultDefinition ?? null,
+        note: r.note ?? null,
+      })),
+    );
+  }
+}
+
+/** Marks `olderId` as superseded by `newerId` (checked by the caller). */
+export async function linkSupersede(tx: DbOrTx, olderId: number, newerId: number): Promise<void> {
+  await tx.update(datasets).set({ supersededById: newerId }).where(eq(datasets.id, olderId));
+}
+
+export type StoredDataset = { id: number; reportId: number; segments: string[]; rows: number; warnings: UploadIssue[] };
+
+/** Writes an accepted cohort or vintage upload (call inside a transaction). */
+export async function storeAcceptedDataset(tx: DbOrTx, meta: UploadMeta, gz: readonly Buffer[], v: Validated): Promise<StoredDataset> {
+  const names = [...new Set(v.cohortRows.map((r) => r.segment))].sort();
+  const segmentIds = await ensureSegments(tx, names, meta.uploadedBy);
+  const [res] = await tx.insert(datasets).values({
+    kind: meta.kind,
+    name: meta.name,
+    description: meta.description,
+    sha256: meta.sha256,
+    dedupeKey: dedupeKeyOf(meta),
+    status: 'ready',
+    sizeBytes: meta.sizeBytes,
+    fileName: meta.fileName,
+    uploadedBy: meta.uploadedBy,
+    conventions: v.conventions,
+    censored: v.censored,
+    segmentCount: names.length,
+    rowCount: v.cohortRows.length,
+    warningCount: v.summary.warnings,
+    readyAt: new Date(),
+  });
+  const id = Number(res.insertId);
+  await insertFile(tx, id, gz);
+  await insertCohortRows(tx, id, v.cohortRows, segmentIds);
+  const [rep] = await tx.insert(uploadReports).values({
+    datasetId: id,
+    kind: meta.kind,
+    name: meta.name,
+    fileName: meta.fileName,
+    sha256: meta.sha256,
+    sizeBytes: meta.sizeBytes,
+    uploadedBy: meta.uploadedBy,
+    status: 'accepted',
+    errorCount: 0,
+    warningCount: v.summary.warnings,
+    findings: v.findings,
+    summary: v.summary,
+    finishedAt: new Date(),
+  });
+  if (meta.supersedes) await linkSupersede(tx, meta.supersedes, id);
+  return {
+    id,
+    reportId: Number(rep.insertId),
+    segments: names,
+    rows: v.cohortRows.length,
+    warnings: v.findings.filter((f) => f.severity === 'warning').map(toIssue),
+  };
+}
+
+/** Writes a loan tape waiting for its conversion job (call inside a transaction). */
+export async function storeProcessingLoanTape(
+  tx: Tx,
+  meta: UploadMeta,
+  gz: readonly Buffer[],
+  header: { findings: Finding[]; summary: FindingSummary },
+): Promise<{ id: number; reportId: number; jobId: number }> {
+  const [res] = await tx.insert(datasets).values({
+    kind: 'loans',
+    name: meta.name,
+    description: meta.description,
+    sha256: meta.sha256,
+    dedupeKey: dedupeKeyOf(meta),
+    status: 'processing',
+    sizeBytes: meta.sizeBytes,
+    fileName: meta.fileName,
+    uploadedBy: meta.uploadedBy,
+    conventions: { text: 'Conversion pending.', ...meta.loanOptions },
+    censored: [],
+  });
+  const id = Number(res.insertId);
+  await insertFile(tx, id, gz);
+  const [rep] = await tx.insert(uploadReports).values({
+    datasetId: id,
+    kind: 'loans',
+    name: meta.name,
+    fileName: meta.fileName,
+    sha256: meta.sha256,
+    sizeBytes: meta.sizeBytes,
+    uploadedBy: meta.uploadedBy,
+    status: 'processing',
+    errorCount: 0,
+    warningCount: header.summary.warnings,
+    findings: header.findings,
+    summary: header.summary,
+  });
+  const reportId = Number(rep.insertId);
+  const jobId = await enqueueJob(tx, {
+    kind: CONVERT_LOANS_JOB,
+    payload: { datasetId: id, reportId, supersedes: meta.supersedes ?? null, ...meta.loanOptions },
+    createdBy: meta.uploadedBy,
+  });
+  await tx.update(uploadReports).set({ jobId }).where(eq(uploadReports.id, reportId));
+  return { id, reportId, jobId };
+}
+
+/** Records a rejected upload: its report, and nothing else. */
+export async function recordRejectedUpload(
+  db: DbOrTx,
+  meta: Omit<UploadMeta, 'sha256'> & { sha256: string | null },
+  v: { findings: Finding[]; summary: FindingSummary },
+): Promise<number> {
+  const [rep] = await db.insert(uploadReports).values({
+    datasetId: null,
+    kind: meta.kind,
+    name: meta.name,
+    fileName: meta.fileName,
+    sha256: meta.sha256,
+    sizeBytes: meta.sizeBytes,
+    uploadedBy: meta.uploadedBy,
+    status: 'rejected',
+    errorCount: v.summary.errors,
+    warningCount: v.summary.warnings,
+    findings: v.findings,
+    summary: v.summary,
+    finishedAt: new Date(),
+  });
+  return Number(rep.insertId);
+}
+
+/**
+ * Writes the result of a loan-tape conversion (inside the job's completion transaction): the cohort
+ * rows and a ready dataset, or, for a rejected tape, the rejected report alone (the dataset and its
+ * file are deleted).
+ */
+export async function writeLoanConversion(
+  tx: DbOrTx,
+  input: { datasetId: number; reportId: number; supersedes: number | null; validated: Validated },
+): Promise<{ status: 'accepted' | 'rejected'; rows: number; errors: number; warnings: number }> {
+  const { datasetId, reportId, validated: v } = input;
+  const [ds] = await tx.select().from(datasets).where(eq(datasets.id, datasetId)).for('update');
+  if (!ds) throw new AppError('invalid:dataset-missing', `Dataset ${datasetId} was deleted before its conversion finished.`);
+  if (!v.ok) {
+    await tx
+      .update(uploadReports)
+      .set({
+        status: 'rejected',
+        datasetId: null,
+        errorCount: v.summary.errors,
+        warningCount: v.summary.warnings,
+        findings: v.findings,
+        summary: v.summary,
+        finishedAt: new Date(),
+      })
+      .where(eq(uploadReports.id, reportId));
+    await tx.delete(datasets).where(eq(datasets.id, datasetId));
+    return { status: 'rejected', rows: 0, errors: v.summary.errors, warnings: v.summary.warnings };
+  }
+  const names = [...new Set(v.cohortRows.map((r) => r.segment))].sort();
+  const segmentIds = await ensureSegments(tx, names, ds.uploadedBy);
+  await tx.delete(cohortRows).where(eq(cohortRows.datasetId, datasetId));
+  await insertCohortRows(tx, datasetId, v.cohortRows, segmentIds);
+  await tx
+    .update(datasets)
+    .set({
+      status: 'ready',
+      conventions: v.conventions,
+      censored: v.censored,
+      segmentCount: names.length,
+      rowCount: v.cohortRows.length,
+      warningCount: v.summary.warnings,
+      readyAt: new Date(),
+    })
+    .where(eq(datasets.id, datasetId));
+  await tx
+    .update(uploadReports)
+    .set({ status: 'accepted', errorCount: 0, warningCount: v.summary.warnings, findings: v.findings, summary: v.summary, finishedAt: new Date() })
+    .where(eq(uploadReports.id, reportId));
+  if (input.supersedes) {
+    const [older] = await tx.select({ id: datasets.id, by: datasets.supersededById }).from(datasets).where(eq(datasets.id, input.supersedes));
+    if (older && older.by === null) await linkSupersede(tx, older.id, datasetId);
+  }
+  return { status: 'accepted', rows: v.cohortRows.length, errors: 0, warnings: v.summary.warnings };
+}
+
+/** Frees the identity of datasets whose conversion failed, so the same file can be uploaded again. */
+export async function releaseFailedIdentity(db: DbOrTx, datasetIds: number[]): Promise<void> {
+  if (datasetIds.length === 0) return;
+  await db
+    .update(datasets)
+    .set({ dedupeKey: null, status: 'failed' })
+    .where(and(inArray(datasets.id, datasetIds), isNotNull(datasets.dedupeKey)));
+}
