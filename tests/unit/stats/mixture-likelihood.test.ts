@@ -1,0 +1,127 @@
+import { describe, expect, it } from 'vitest';
+import fixtures from '@/tests/fixtures/engine/engine-fixtures.json';
+import {
+  GAUSS_WEIGHTS,
+  KRONROD_NODES,
+  KRONROD_WEIGHTS,
+  MixtureLikelihood,
+  mixtureLogLikelihood,
+  mixturePeriodLogLikelihood,
+} from '@/lib/stats/mixture-likelihood';
+import { binomialLogPmf, logBinomialCoefficient } from '@/lib/stats/log-binomial';
+import { normalLogCdf, normalQuantile } from '@/lib/stats/normal';
+
+/** Brute force: locate the mode on a 0.001 grid over [-40, 40], then composite Simpson with
+ *  h = 1e-5 on [mode - 10, mode + 10] (the integrand is below e^-50 outside: g'' <= -1). */
+function bruteForce(n: number, d: number, p: number, rho: number): number {
+  const k = normalQuantile(p);
+  const s1 = Math.sqrt(1 - rho);
+  const sr = Math.sqrt(rho);
+  const lc = logBinomialCoefficient(n, d);
+  const g = (x: number) => {
+    const z = (k - sr * x) / s1;
+    return lc + d * normalLogCdf(z) + (n - d) * normalLogCdf(-z) - 0.5 * x * x - 0.9189385332046727;
+  };
+  let best = -Infinity;
+  let bx = 0;
+  for (let x = -40; x <= 40; x += 0.001) {
+    const v = g(x);
+    if (v > best) [best, bx] = [v, x];
+  }
+  const N = 2_000_000;
+  const a = bx - 10;
+  const h = 20 / N;
+  let s = 0;
+  for (let i = 0; i <= N; i++) {
+    const w = i === 0 || i === N ? 1 : i % 2 ? 4 : 2;
+    s += w * Math.exp(g(a + i * h) - best);
+  }
+  return best + Math.log((s * h) / 3);
+}
+
+describe('Gauss-Kronrod G10/K21 constants', () => {
+  it('integrate polynomials exactly to their degree (K21: 31, G10: 19)', () => {
+    // Kronrod (1965); QUADPACK qk21 (Piessens et al. 1983): exactness degrees 3n+1 and 2n-1.
+    for (let j = 0; j <= 31; j++) {
+      let k = 0;
+      let g = 0;
+      for (let i = 0; i < 21; i++) {
+        k += KRONROD_WEIGHTS[i] * KRONROD_NODES[i] ** j;
+        g += GAUSS_WEIGHTS[i] * KRONROD_NODES[i] ** j;
+      }
+      const exact = j % 2 === 0 ? 2 / (j + 1) : 0;
+      expect(Math.abs(k - exact)).toBeLessThan(1e-15);
+      if (j <= 19) expect(Math.abs(g - exact)).toBeLessThan(1e-15);
+    }
+    // A&S Table 25.4 (n = 10): largest node 0.973906528517172, weight 0.066671344308688
+    expect(KRONROD_NODES[19]).toBeCloseTo(0.973906528517172, 15);
+    expect(GAUSS_WEIGHTS[19]).toBeCloseTo(0.066671344308688, 15);
+  });
+});
+
+describe('mixturePeriodLogLikelihood', () => {
+  it('matches the worked value of issue 3 (n = 200000, d = 2000, p = 0.01, rho = 0.12)', () => {
+    // computed with SciPy 1.17 (issue 3): -8.590523837 (1e-7); fixed Gauss-Hermite fails this
+    expect(Math.abs(mixturePeriodLogLikelihood(200000, 2000, 0.01, 0.12) - -8.590523837)).toBeLessThan(1e-7);
+  });
+
+  it('matches SciPy QUADPACK across n, d, p and rho (d = 0, d = n, rho near 0 and 0.95)', () => {
+    // computed with SciPy 1.17 scipy.integrate.quad (tests/fixtures/engine/make_fixtures.py)
+    for (const c of fixtures.periods) {
+      const v = mixturePeriodLogLikelihood(c.n, c.d, c.p, c.rho);
+      expect(Math.abs(v - c.logLik), `n=${c.n} d=${c.d} p=${c.p} rho=${c.rho}`).toBeLessThan(1e-10 * Math.max(1, Math.abs(c.logLik)));
+    }
+  });
+
+  it('matches a brute-force Simpson integral, including the cliff of zero-default periods at high rho', () => {
+    // brute force defined above (independent of the rule: fixed grid, no mode bracketing)
+    const cases: [number, number, number, number][] = [
+      [50, 0, 0.02, 0.9],
+      [1_000_000, 0, 1e-5, 0.95],
+      [500_000, 0, 0.01, 0.9],
+      [500_000, 5000, 0.01, 0.12],
+      [50, 50, 0.9, 0.5],
+      [1000, 10, 0.01, 1e-6],
+    ];
+    for (const [n, d, p, rho] of cases) {
+      const v = mixturePeriodLogLikelihood(n, d, p, rho);
+      expect(Math.abs(v - bruteForce(n, d, p, rho)), `n=${n} d=${d} rho=${rho}`).toBeLessThan(5e-12);
+    }
+  });
+
+  it('is the binomial log-pmf at rho = 0 and tends to it as rho -> 0', () => {
+    // definition: at rho = 0 the integrand does not depend on x (p passes through Phi(Phi^-1(p)))
+    expect(Math.abs(mixturePeriodLogLikelihood(2000, 17, 0.01, 0) - binomialLogPmf(17, 2000, 0.01))).toBeLessThan(1e-13);
+    expect(Math.abs(mixturePeriodLogLikelihood(2000, 17, 0.01, 1e-12) - binomialLogPmf(17, 2000, 0.01))).toBeLessThan(1e-8);
+  });
+
+  it('sums to one over d (a probability distribution of the default count)', () => {
+    // probability: sum_d L(d) = Int sum_d C(n,d) P^d (1-P)^(n-d) phi = 1
+    for (const [n, p, rho] of [[30, 0.05, 0.3], [200, 0.01, 0.8], [12, 0.4, 0.05]] as const) {
+      let s = 0;
+      for (let d = 0; d <= n; d++) s += Math.exp(mixturePeriodLogLikelihood(n, d, p, rho));
+      expect(Math.abs(s - 1)).toBeLessThan(1e-12);
+    }
+  });
+
+  it('has the exact k-derivatives it reports (checked by central differences)', () => {
+    // calculus: finite differences of the value, step 1e-4
+    const L = new MixtureLikelihood({ obligors: [1000, 5000, 50], defaults: [12, 0, 3] });
+    const k = normalQuantile(0.01);
+    const rho = 0.2;
+    const h = 1e-4;
+    const r = L.logLikWithDerivatives(k, rho);
+    const up = L.logLik(k + h, rho);
+    const dn = L.logLik(k - h, rho);
+    expect(Math.abs(r.dk - (up - dn) / (2 * h))).toBeLessThan(1e-6 * Math.abs(r.dk));
+    expect(Math.abs(r.dkk - (up - 2 * r.value + dn) / (h * h))).toBeLessThan(1e-4 * Math.abs(r.dkk));
+  });
+
+  it('refuses bad parameters and bad counts with a sentence naming the problem', () => {
+    expect(() => mixturePeriodLogLikelihood(10, 11, 0.1, 0.1)).toThrow(/defaults = 11/);
+    expect(() => mixturePeriodLogLikelihood(10, 1, 0, 0.1)).toThrow(RangeError);
+    expect(() => mixturePeriodLogLikelihood(10, 1, 0.1, 1)).toThrow(/rho/);
+    expect(() => mixtureLogLikelihood({ obligors: [10, 20], defaults: [1] }, 0.1, 0.1)).toThrow(/periods/);
+    expect(() => mixtureLogLikelihood({ obligors: [10, 2.5], defaults: [1, 0] }, 0.1, 0.1)).toThrow(/period 2/);
+  });
+});
