@@ -40,7 +40,6 @@ export function tooLargeError(sizeText: string | null, maxBytes: number): AppErr
 /** The base name of a client-supplied file name, without path parts or control characters. */
 export function cleanFileName(name: string | undefined): string {
   const base = (name ?? '').split(/[\\/]/).pop() ?? '';
-  // eslint-disable-next-line no-control-regex
   const clean = base.replace(/[\u0000-\u001f\u007f]/g, '').trim();
   return (clean || 'upload.csv').slice(0, 255);
 }
