@@ -1,0 +1,217 @@
+import { spawn, type ChildProcess } from 'node:child_process';
+import path from 'node:path';
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { eq, inArray } from 'drizzle-orm';
+import { closeDb, getDb } from '@/db/connection';
+import { fitRuns, jobs } from '@/db/schema';
+import type { SessionUser } from '@/lib/auth/guard';
+import { createFit, getFit } from '@/lib/dal/fits';
+import type { FitResults } from '@/lib/fits/results';
+import { FIT_JOB } from '@/lib/jobs/kinds/fit';
+import { enqueueJob } from '@/lib/jobs/queue';
+import { runJobLoop } from '@/workers/job-loop';
+import { makeCohortDataset, PANEL_A } from '../../support/fit-data';
+import { makeUser } from '../../support/users';
+
+const root = path.resolve(import.meta.dirname, '../../..');
+let analyst: SessionUser;
+let dataset: { id: number; sha256: string; segments: string[] };
+const children: ChildProcess[] = [];
+
+beforeAll(async () => {
+  analyst = await makeUser('analyst');
+  dataset = await makeCohortDataset(analyst.id, [PANEL_A, { ...PANEL_A, defaults: [3, 9, 14, 22, 5, 2, 9, 17, 6, 4], assetClass: 'other-retail' }]);
+});
+afterEach(() => {
+  for (const c of children.splice(0)) if (c.exitCode === null && c.signalCode === null) c.kill('SIGKILL');
+});
+afterAll(async () => {
+  await closeDb();
+});
+
+type Worker = { proc: ChildProcess; output: () => string; id: string };
+
+function startWorker(id: string, leaseMs = 3000): Promise<Worker> {
+  let out = '';
+  const proc = spawn(process.execPath, ['--import', 'tsx', 'tests/support/fit-worker.ts'], {
+    cwd: root,
+    env: { ...process.env, WORKER_ID: id, LEASE_MS: String(leaseMs) },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  children.push(proc);
+  proc.stdout!.on('data', (b) => (out += b.toString()));
+  proc.stderr!.on('data', (b) => (out += b.toString()));
+  return new Promise((resolve, reject) => {
+    const t = setInterval(() => {
+      if (out.includes(`ready ${id}`)) {
+        clearInterval(t);
+        resolve({ proc, output: () => out, id });
+      } else if (proc.exitCode !== null) {
+        clearInterval(t);
+        reject(new Error(`worker ${id} exited: ${out}`));
+      }
+    }, 50);
+  });
+}
+
+async function stopWorker(w: Worker) {
+  if (w.proc.exitCode !== null || w.proc.signalCode !== null) return;
+  const exited = new Promise((r) => w.proc.once('exit', r));
+  w.proc.kill('SIGTERM');
+  await exited;
+}
+
+async function waitFor<T>(what: string, fn: () => Promise<T | null | undefined | false>, timeoutMs = 90_000): Promise<T> {
+  const end = Date.now() + timeoutMs;
+  for (;;) {
+    const v = await fn();
+    if (v) return v;
+    if (Date.now() > end) throw new Error(`timed out waiting for ${what}`);
+    await new Promise((r) => setTimeout(r, 150));
+  }
+}
+
+/** Runs the job loop in this process until the given jobs have finished. */
+async function drain(jobIds: number[]) {
+  const controller = new AbortController();
+  const loop = runJobLoop({ db: getDb(), workerId: 'in-test', signal: controller.signal, idleMs: 50, kinds: [FIT_JOB], log: () => undefined });
+  await waitFor('jobs to finish', async () => {
+    const rows = await getDb().select({ status: jobs.status }).from(jobs).where(inArray(jobs.id, jobIds));
+    return rows.every((r) => r.status !== 'queued' && r.status !== 'running');
+  });
+  controller.abort();
+  await loop;
+}
+
+function withoutTiming(results: FitResults) {
+  return JSON.parse(JSON.stringify(results, (k, v) => (k === 'timing' ? undefined : v)));
+}
+
+async function jobOf(fitId: number) {
+  const [run] = await getDb().select().from(fitRuns).where(eq(fitRuns.id, fitId));
+  const [job] = await getDb().select().from(jobs).where(eq(jobs.id, run.jobId!));
+  return { run, job };
+}
+
+describe('fit jobs', () => {
+  it('a fit job writes per-segment results that reproduce the SciPy reference and the request', async () => {
+    const { id } = await createFit(analyst, { datasetId: dataset.id, bootstrap: { replications: 30, seed: 5 } });
+    await drain([(await jobOf(id)).job.id]);
+    const fit = await getFit(analyst, id);
+    expect(fit.status).toBe('succeeded');
+    expect(fit.progress).toBe(100);
+    expect(fit.results!.segments.map((s) => s.segment)).toEqual(dataset.segments);
+    const a = fit.results!.segments[0];
+    // Panel A, issue 3: binomialMle rho 0.037091, pd 0.013307, logLik -33.785195, profile [0.01177, 0.1147] (SciPy 1.17).
+    expect(a.estimates.binomialMle.rho).toBeCloseTo(0.037091, 5);
+    expect(a.estimates.binomialMle.pd).toBeCloseTo(0.013307, 5);
+    expect(a.estimates.binomialMle.logLik).toBeCloseTo(-33.785195, 5);
+    expect(a.estimates.binomialMle.intervals.profile!.lower).toBeCloseTo(0.01177, 2);
+    expect(a.estimates.binomialMle.intervals.profile!.upper).toBeCloseTo(0.1147, 2);
+    expect(a.estimates.momentVariance.rho).toBeCloseTo(0.05111, 6);
+    expect(a.estimates.jointDefault.rho).toBeCloseTo(0.037745, 6);
+    expect(a.estimates.binomialMle.intervals.bootstrap).toMatchObject({ replications: 30, seed: 5 });
+  });
+
+  it('re-running a fit with the same dataset hash, engine version and seeds gives identical numbers', async () => {
+    const request = { datasetId: dataset.id, level: 0.9, bootstrap: { replications: 25, seed: 42 }, audit: { replications: 10, seed: 43 } };
+    const first = await createFit(analyst, request);
+    const second = await createFit(analyst, request);
+    await drain([(await jobOf(first.id)).job.id, (await jobOf(second.id)).job.id]);
+    const [a, b] = [await getFit(analyst, first.id), await getFit(analyst, second.id)];
+    expect(a.status).toBe('succeeded');
+    expect(a.datasetSha256).toBe(b.datasetSha256);
+    expect(a.engineVersion).toBe(b.engineVersion);
+    expect(withoutTiming(a.results!)).toEqual(withoutTiming(b.results!));
+    // A different seed must change the bootstrap: the comparison above can fail.
+    const third = await createFit(analyst, { ...request, bootstrap: { replications: 25, seed: 7 } });
+    await drain([(await jobOf(third.id)).job.id]);
+    const c = await getFit(analyst, third.id);
+    expect(c.results!.segments[0].estimates.binomialMle.intervals.bootstrap!.lower).not.toBe(
+      a.results!.segments[0].estimates.binomialMle.intervals.bootstrap!.lower,
+    );
+  });
+
+  it('a job whose payload points at a missing dataset fails at once with a clear error, not retried', async () => {
+    const { id } = await createFit(analyst, { datasetId: dataset.id });
+    const { job } = await jobOf(id);
+    // The queued job is cancelled so that only the forged one runs.
+    await getDb().update(jobs).set({ status: 'cancelled' }).where(eq(jobs.id, job.id));
+    const forged = await enqueueJob(getDb(), { kind: FIT_JOB, payload: { fitRunId: id, datasetId: 987654321, datasetSha256: dataset.sha256 } });
+    await drain([forged]);
+    const [row] = await getDb().select().from(jobs).where(eq(jobs.id, forged));
+    expect(row.status).toBe('failed');
+    expect(row.attempts).toBe(1);
+    expect(row.error).toMatch(/There is no dataset 987654321\. Fit run \d+ cannot be computed\./);
+    const [run] = await getDb().select().from(fitRuns).where(eq(fitRuns.id, id));
+    expect(run.results).toBeNull();
+  });
+
+  it('a job whose dataset changed since the request (other hash) fails with a clear error', async () => {
+    const { id } = await createFit(analyst, { datasetId: dataset.id });
+    const { job } = await jobOf(id);
+    await getDb().update(jobs).set({ status: 'cancelled' }).where(eq(jobs.id, job.id));
+    const forged = await enqueueJob(getDb(), { kind: FIT_JOB, payload: { fitRunId: id, datasetId: dataset.id, datasetSha256: 'f'.repeat(64) } });
+    await drain([forged]);
+    const [row] = await getDb().select().from(jobs).where(eq(jobs.id, forged));
+    expect(row.status).toBe('failed');
+    expect(row.error).toMatch(/hash differs/);
+  });
+
+  it('50 small jobs across 2 worker processes: every job runs exactly once', async () => {
+    const small = await makeCohortDataset(analyst.id, [{ obligors: [500, 520, 510, 530, 505], defaults: [4, 9, 2, 12, 6] }]);
+    const ids: number[] = [];
+    for (let i = 0; i < 50; i++) ids.push((await createFit(analyst, { datasetId: small.id })).id);
+    const jobIds = await Promise.all(ids.map(async (id) => (await jobOf(id)).job.id));
+    const [w1, w2] = await Promise.all([startWorker('count-1', 30_000), startWorker('count-2', 30_000)]);
+    await waitFor('50 jobs', async () => {
+      const rows = await getDb().select({ status: jobs.status }).from(jobs).where(inArray(jobs.id, jobIds));
+      return rows.every((r) => r.status === 'succeeded');
+    }, 120_000);
+    await Promise.all([stopWorker(w1), stopWorker(w2)]);
+    const rows = await getDb().select().from(jobs).where(inArray(jobs.id, jobIds));
+    expect(rows.every((r) => r.attempts === 1)).toBe(true);
+    const successes = (w: Worker) => [...w.output().matchAll(/job (\d+) \(fit\) succeeded/g)].map((m) => Number(m[1]));
+    const s1 = successes(w1);
+    const s2 = successes(w2);
+    expect([...s1, ...s2].sort((a, b) => a - b)).toEqual([...jobIds].sort((a, b) => a - b));
+    expect(s1.filter((j) => s2.includes(j))).toEqual([]);
+    expect(s1.length).toBeGreaterThan(0);
+    expect(s2.length).toBeGreaterThan(0);
+    const runs = await getDb().select().from(fitRuns).where(inArray(fitRuns.id, ids));
+    expect(runs.every((r) => r.status === 'succeeded' && r.results !== null)).toBe(true);
+  }, 180_000);
+
+  it('a worker killed (SIGKILL) in the middle of a bootstrap: another worker finishes the job exactly once', async () => {
+    const { id } = await createFit(analyst, { datasetId: dataset.id, segments: [dataset.segments[0]], bootstrap: { replications: 300, seed: 99 } });
+    const { job } = await jobOf(id);
+    const a = await startWorker('victim', 3000);
+    await waitFor('the bootstrap to be under way', async () => {
+      const [row] = await getDb().select().from(jobs).where(eq(jobs.id, job.id));
+      return row.status === 'running' && row.workerId === 'victim' && /Bootstrap \d+ of 300/.test(row.message ?? '') && row.progress >= 5;
+    });
+    const killed = new Promise((r) => a.proc.once('exit', r));
+    a.proc.kill('SIGKILL');
+    await killed;
+    const [mid] = await getDb().select().from(jobs).where(eq(jobs.id, job.id));
+    expect(mid.status).toBe('running'); // nothing was written by the dead worker
+    const [midRun] = await getDb().select().from(fitRuns).where(eq(fitRuns.id, id));
+    expect(midRun.results).toBeNull();
+
+    const b = await startWorker('rescuer', 3000);
+    await waitFor('the rescuer to finish', async () => {
+      const [row] = await getDb().select().from(jobs).where(eq(jobs.id, job.id));
+      return row.status === 'succeeded' ? row : null;
+    }, 150_000);
+    await stopWorker(b);
+    const [done] = await getDb().select().from(jobs).where(eq(jobs.id, job.id));
+    expect(done.workerId).toBe('rescuer');
+    expect(done.attempts).toBe(2);
+    expect([...b.output().matchAll(new RegExp(`job ${job.id} \\(fit\\) succeeded`, 'g'))]).toHaveLength(1);
+    expect(a.output()).not.toMatch(new RegExp(`job ${job.id} \\(fit\\) succeeded`));
+    const fit = await getFit(analyst, id);
+    expect(fit.status).toBe('succeeded');
+    expect(fit.results!.segments).toHaveLength(1);
+    expect(fit.results!.segments[0].estimates.binomialMle.intervals.bootstrap).toMatchObject({ replications: 300, seed: 99 });
+  }, 240_000);
+});
