@@ -1,7 +1,105 @@
+import { createHash } from 'node:crypto';
+import { gzipSync } from 'node:zlib';
+import { eq } from 'drizzle-orm';
+import {
+  convertLoanTape,
+  storeAcceptedDataset,
+  validateCohortOrVintage,
+  type UploadMeta,
+  type Validated,
+} from '@/lib/datasets/store';
+import { fenmoorCohortCsv, fenmoorLoanTapeChunks, fenmoorVintageCsv, LENDER_NAME } from '@/lib/demo';
 import type { Db } from './connection';
+import { segments, users, type AssetClass } from './schema';
 
 /**
- * Seeds the demo lender's datasets. Filled in by the data-intake feature; until then the demo
- * organisation has users only.
+ * Seeds the invented demo lender's data (lib/demo: generated from the Vasicek model with fixed
+ * seeds; no real institution's data) through the same validation and storage path as an upload:
+ * a cohort file (5 segments, 15-25 annual cohorts), a vintage file and a loan-level tape of
+ * 200,000 loans, converted here synchronously rather than by the worker.
  */
-export async function seedDemoData(_db: Db): Promise<void> {}
+const SEGMENT_SETTINGS: Record<string, { assetClass: AssetClass; turnoverEurMillions?: number; description: string }> = {
+  'SME term loans': {
+    assetClass: 'sme-corporate',
+    turnoverEurMillions: 12,
+    description: 'Amortising term loans to small and medium enterprises; typical annual turnover around EUR 12 million.',
+  },
+  'Owner-occupied mortgages': { assetClass: 'residential-mortgage', description: 'First-lien mortgages on owner-occupied homes.' },
+  'Prime auto loans': { assetClass: 'other-retail', description: 'Car loans to prime borrowers, 36 to 72 months.' },
+  'Unsecured personal loans': { assetClass: 'other-retail', description: 'Unsecured instalment loans to private customers.' },
+  'Credit cards': { assetClass: 'qualifying-revolving', description: 'Revolving card balances of private customers.' },
+};
+
+async function store(db: Db, meta: Omit<UploadMeta, 'sha256' | 'sizeBytes'>, bytes: Buffer, v: Validated): Promise<number> {
+  if (!v.ok) {
+    const first = v.findings.find((f) => f.severity === 'error');
+    throw new Error(`The demo ${meta.kind} file does not validate: ${first?.rule} at line ${first?.line}: ${first?.message}`);
+  }
+  const full: UploadMeta = { ...meta, sha256: createHash('sha256').update(bytes).digest('hex'), sizeBytes: bytes.length };
+  const stored = await db.transaction((tx) => storeAcceptedDataset(tx, full, [gzipSync(bytes)], v));
+  return stored.id;
+}
+
+async function* once(bytes: Buffer): AsyncGenerator<Buffer> {
+  yield bytes;
+}
+
+export async function seedDemoData(db: Db): Promise<void> {
+  const [analyst] = await db.select({ id: users.id }).from(users).where(eq(users.email, 'analyst@fenmoor.example'));
+  if (!analyst) throw new Error('The demo analyst must be seeded before the demo data.');
+  const max = Number.MAX_SAFE_INTEGER;
+  const t0 = Date.now();
+
+  const cohort = Buffer.from(fenmoorCohortCsv(), 'utf8');
+  await store(
+    db,
+    {
+      kind: 'cohort',
+      name: `${LENDER_NAME}: annual cohorts by segment`,
+      description: 'Invented demo data generated from the Vasicek one-factor model (lib/demo/fenmoor.ts).',
+      fileName: 'fenmoor-cohorts.csv',
+      uploadedBy: analyst.id,
+    },
+    cohort,
+    await validateCohortOrVintage('cohort', once(cohort), max),
+  );
+
+  const vintage = Buffer.from(fenmoorVintageCsv(), 'utf8');
+  await store(
+    db,
+    {
+      kind: 'vintage',
+      name: `${LENDER_NAME}: monthly vintages (auto and personal loans)`,
+      description: 'Invented demo data: vintages 2015-2023 observed to December 2024, converted to annual cohorts.',
+      fileName: 'fenmoor-vintages.csv',
+      uploadedBy: analyst.id,
+    },
+    vintage,
+    await validateCohortOrVintage('vintage', once(vintage), max),
+  );
+
+  const tape = Buffer.from([...fenmoorLoanTapeChunks()].join(''), 'utf8');
+  const options = { asOf: '2024-12-31', referenceMonthDay: '01-01', exitConvention: 'exits-stay' as const };
+  const { validated } = await convertLoanTape(once(tape), { ...options, maxBytes: max });
+  await store(
+    db,
+    {
+      kind: 'loans',
+      name: `${LENDER_NAME}: loan-level tape (200,000 loans)`,
+      description: 'Invented demo loan tape, aggregated by the cohort method (1 January reference dates, exits stay in the denominator).',
+      fileName: 'fenmoor-loans.csv',
+      uploadedBy: analyst.id,
+      loanOptions: options,
+    },
+    tape,
+    validated,
+  );
+
+  for (const [name, s] of Object.entries(SEGMENT_SETTINGS)) {
+    await db
+      .update(segments)
+      .set({ assetClass: s.assetClass, turnoverEurMillions: s.turnoverEurMillions ?? null, description: s.description })
+      .where(eq(segments.name, name));
+  }
+  console.log(`[seed] demo datasets stored in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
+}
