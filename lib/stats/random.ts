@@ -76,6 +76,21 @@ class MersenneTwister {
   }
 }
 
+/**
+ * The raw MT19937 stream: 32-bit outputs (genrand_int32) and 53-bit doubles (genrand_res53) from
+ * init_genrand(seed). Exposed so that the generator can be checked against the reference
+ * implementation; simulation code should use createRng.
+ *
+ * @example createMt19937(5489).nextUint32() // 3499211612 (the reference first output)
+ *
+ * Reference: Matsumoto & Nishimura (1998); mt19937ar.c (2002).
+ */
+export function createMt19937(seed: number): { nextUint32(): number; nextDouble(): number } {
+  assertSeed('createMt19937', seed);
+  const mt = new MersenneTwister(seed);
+  return { nextUint32: () => mt.nextUint32(), nextDouble: () => mt.nextDouble() };
+}
+
 function assertSeed(fn: string, seed: number): void {
   if (!Number.isInteger(seed) || seed < 0 || seed > 0xffffffff) {
     throw new RangeError(
