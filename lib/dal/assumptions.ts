@@ -879,3 +879,25 @@ export async function listPublished(consumer: Consumer, scope: TokenScope = 'ass
     .orderBy(asc(assumptions.segment));
   return versionDtos(db, rows);
 }
+
+/** Every segment's version in force on `asOf`, and the segments without one (with the reason). */
+export async function listInForce(consumer: Consumer, asOf: string): Promise<{ versions: VersionDto[]; missing: { segment: string; reason: string }[] }> {
+  assertConsumer(consumer, 'assumptions:read');
+  const segs = await getDb()
+    .selectDistinct({ segment: assumptions.segment })
+    .from(assumptions)
+    .innerJoin(assumptionVersions, eq(assumptionVersions.assumptionId, assumptions.id))
+    .where(inArray(assumptionVersions.status, everPublished))
+    .orderBy(asc(assumptions.segment));
+  const versions: VersionDto[] = [];
+  const missing: { segment: string; reason: string }[] = [];
+  for (const { segment } of segs) {
+    try {
+      versions.push(await versionInForce(consumer, segment, asOf));
+    } catch (err) {
+      if (err instanceof AppError && err.kind === 'not_found') missing.push({ segment, reason: err.message });
+      else throw err;
+    }
+  }
+  return { versions, missing };
+}

@@ -19,12 +19,12 @@ export type FitEvidence = {
 };
 
 /**
- * Loads a finished fit run's evidence inside the drafting transaction, with a shared lock so that
- * the run cannot change under the draft (fit_runs rows are written once, when the job succeeds).
- * The foreign key from assumption_versions (ON DELETE RESTRICT) keeps the run afterwards.
+ * Loads a finished fit run's evidence inside the drafting transaction. A run's results are written
+ * once, when its job succeeds, so no lock is needed (MariaDB has no FOR SHARE either); the foreign
+ * key from assumption_versions (ON DELETE RESTRICT) keeps the run from then on.
  */
 export async function loadFitEvidence(tx: Tx, fitId: number): Promise<FitEvidence> {
-  const [run] = await tx.select().from(fitRuns).where(eq(fitRuns.id, fitId)).for('share');
+  const [run] = await tx.select().from(fitRuns).where(eq(fitRuns.id, fitId));
   if (!run) throw new AppError('not_found:fit', `There is no fit run ${fitId}.`, { field: 'fitId' });
   if (run.status !== 'succeeded' || !run.results) {
     throw new AppError('conflict:fit-not-finished', `Fit run ${fitId} is ${run.status}: draft from a fit that has finished.`, { field: 'fitId' });

@@ -1,0 +1,24 @@
+import { requireUser } from '@/lib/auth/session';
+import { createToken, createTokenSchema, listTokens } from '@/lib/dal/tokens';
+import { AppError, errorResponse } from '@/lib/errors';
+
+export async function GET() {
+  try {
+    const actor = await requireUser();
+    return Response.json({ tokens: await listTokens(actor) });
+  } catch (err) {
+    return errorResponse(err);
+  }
+}
+
+/** POST { name, scopes, expiresInDays? }: 201 with the token's secret, shown this once. */
+export async function POST(req: Request) {
+  try {
+    const actor = await requireUser();
+    const body = createTokenSchema.safeParse(await req.json().catch(() => null));
+    if (!body.success) throw new AppError('invalid:token', body.error.issues[0]?.message ?? 'The token details are not valid.');
+    return Response.json(await createToken(actor, body.data), { status: 201 });
+  } catch (err) {
+    return errorResponse(err);
+  }
+}

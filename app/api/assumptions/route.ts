@@ -1,0 +1,31 @@
+import { requireUser } from '@/lib/auth/session';
+import { createDraft, listLibrary } from '@/lib/dal/assumptions';
+import { AppError, errorResponse } from '@/lib/errors';
+import { draftInputSchema } from '@/lib/assumptions/content';
+
+/** GET: the library by segment (signed-in users). POST: an analyst drafts a version from a fit: 201 { id }. */
+export async function GET() {
+  try {
+    const actor = await requireUser();
+    return Response.json({ library: await listLibrary(actor) });
+  } catch (err) {
+    return errorResponse(err);
+  }
+}
+
+export async function POST(req: Request) {
+  try {
+    const actor = await requireUser();
+    const body = await req.json().catch(() => undefined);
+    if (body === undefined) throw new AppError('bad_request:json', 'The request body must be JSON.');
+    const parsed = draftInputSchema.safeParse(body);
+    if (!parsed.success) {
+      const i = parsed.error.issues[0];
+      throw new AppError('invalid:assumption', i?.message ?? 'The draft is not valid.', { field: i?.path.join('.') ?? null });
+    }
+    const v = await createDraft(actor, parsed.data);
+    return Response.json({ id: v.id, status: v.status, version: v.version, assumptionId: v.assumptionId }, { status: 201 });
+  } catch (err) {
+    return errorResponse(err);
+  }
+}
