@@ -160,6 +160,7 @@ export function binomialLogPmf(k: number, n: number, p: number): number {
   if (typeof p !== 'number' || Number.isNaN(p) || p < 0 || p > 1) {
     throw new RangeError(`binomialLogPmf: p must be a probability in [0, 1], got ${String(p)}.`);
   }
+  if (n === 0) return 0;
   if (p === 0) return k === 0 ? 0 : -Infinity;
   if (p === 1) return k === n ? 0 : -Infinity;
   if (k === 0) return n * Math.log1p(-p);
@@ -200,6 +201,7 @@ export function binomialLogPmfFromLogs(
       `binomialLogPmfFromLogs: logP and log1mP must be logarithms of probabilities (<= 0), got ${String(logP)} and ${String(log1mP)}.`,
     );
   }
+  if (n === 0) return 0;
   if (logP === -Infinity) return k === 0 ? 0 : -Infinity;
   if (log1mP === -Infinity) return k === n ? 0 : -Infinity;
   if (k === 0) return n * log1mP;
