@@ -1,0 +1,48 @@
+/**
+ * The five correlation estimators of DESIGN.md, under DESIGN.md's keys.
+ *
+ * | key | definition (DESIGN.md, "Estimators") |
+ * |---|---|
+ * | `binomialMle` | binomial-mixture maximum likelihood (Gordy & Heitfield 2002) |
+ * | `vasicekMle` | closed-form MLE of the Vasicek default-rate distribution |
+ * | `momentVariance` | method of moments on the default-rate variance |
+ * | `momentVarianceCorrected` | the same with the finite-cohort (binomial noise) correction |
+ * | `jointDefault` | joint-default-probability moments (Gordy 2000; de Servigny & Renault 2002) |
+ *
+ * Each takes a panel `{ obligors, defaults }` and returns `{ rho, pd, status, reason? }`
+ * (types.ts); invalid counts throw RangeError naming the period.
+ */
+import { binomialMle } from './binomial-mle';
+import { jointDefault } from './joint-default';
+import { momentVariance } from './moment-variance';
+import { momentVarianceCorrected } from './moment-variance-corrected';
+import type { Panel } from '../mixture-likelihood';
+import type { Estimate, EstimatorKey } from './types';
+import { vasicekMle } from './vasicek-mle';
+
+export { binomialMle, binomialMleWithProfile, ProfileLikelihood, RHO_SEARCH_LIMIT } from './binomial-mle';
+export type { BinomialMleOptions, BinomialMleResult, ProfilePoint } from './binomial-mle';
+export { jointDefault } from './joint-default';
+export { momentVariance, sampleVariance } from './moment-variance';
+export { momentVarianceCorrected } from './moment-variance-corrected';
+export { vasicekMle } from './vasicek-mle';
+export { ESTIMATOR_KEYS, undefinedEstimate } from './types';
+export type { Estimate, EstimateStatus, EstimatorKey } from './types';
+
+/** The five estimators by DESIGN.md key (binomialMle without its intervals). */
+export const ESTIMATORS: Readonly<Record<EstimatorKey, (panel: Panel) => Estimate>> = {
+  binomialMle,
+  vasicekMle,
+  momentVariance,
+  momentVarianceCorrected,
+  jointDefault,
+};
+
+/** Plain names for display, by key. */
+export const ESTIMATOR_LABELS: Readonly<Record<EstimatorKey, string>> = {
+  binomialMle: 'Binomial-mixture maximum likelihood',
+  vasicekMle: 'Vasicek closed-form maximum likelihood',
+  momentVariance: 'Moments of the default-rate variance',
+  momentVarianceCorrected: 'Moments, finite-cohort corrected',
+  jointDefault: 'Joint-default-probability moments',
+};
