@@ -76,7 +76,7 @@ export function conditionalPd(p: number, rho: number, x: number): number {
   assertP('conditionalPd', p);
   assertRho('conditionalPd', rho);
   assertFactor('conditionalPd', x);
-  if (p === 0 || p === 1) return p;
+  if (p === 0 || p === 1 || rho === 0) return p;
   if (rho === 1) {
     const k = normalQuantile(p);
     return x < k ? 1 : x > k ? 0 : 0.5;
@@ -107,6 +107,7 @@ export function conditionalLogPd(
   assertFactor('conditionalLogPd', x);
   if (p === 0) return { logPd: -Infinity, log1mPd: 0 };
   if (p === 1) return { logPd: 0, log1mPd: -Infinity };
+  if (rho === 0) return { logPd: Math.log(p), log1mPd: Math.log1p(-p) };
   if (rho === 1) {
     const c = conditionalPd(p, rho, x);
     return { logPd: Math.log(c), log1mPd: Math.log(1 - c) };
