@@ -403,7 +403,9 @@ export function capitalImplications(
   const maturityYears = convention.maturityYears ?? null;
   const assetClass = convention.assetClass ?? null;
   const capitalAt = (r: number) =>
-    capitalRequirement(maturityYears === null ? { pd, lgd, rho: r } : { pd, lgd, rho: r, maturityYears });
+    // K = 0 at r = 0 exactly (irb.ts documents this; its formula leaves a rounding residue of
+    // Phi(Phi^-1(pd)) - pd there, ~1e-18, which would print as "-0.00%").
+    r === 0 ? 0 : capitalRequirement(maturityYears === null ? { pd, lgd, rho: r } : { pd, lgd, rho: r, maturityYears });
   const words =
     `IRB capital K per unit of exposure at default (BCBS 2006 para 272): 99.9% factor quantile, fitted PD ${pd.toPrecision(4)} (no PD floor), ` +
     `LGD ${lgd}, ${maturityYears === null ? 'no maturity adjustment' : `maturity adjustment at M = ${maturityYears} years`}; ` +

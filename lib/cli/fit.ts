@@ -1,0 +1,212 @@
+/**
+ * `rhobook fit FILE.csv [--json] [--segment NAME] [--from PERIOD] [--to PERIOD] [--level 0.95]
+ * [--bootstrap B] [--seed N] [--threads N] [--asset-class CLASS]`: fits every segment of a cohort
+ * CSV (DESIGN.md, `segment,period,obligors,defaults`) and prints issue 3's JSON document or a
+ * readable table. The file is validated by lib/ingest's validateCohortText, the same rules as an
+ * upload; any error stops the run with exit code 2 and the file's line, column and problem.
+ */
+import { readFile } from 'node:fs/promises';
+import { parseArgs } from 'node:util';
+import { validateCohortText, type CohortRow, type Finding } from '../ingest';
+import { EnginePool, fitPanelParallel } from '../engine';
+import type { PanelInput, TimedSegmentFit } from '../stats/fit-panel';
+import { ASSET_CLASSES, type AssetClass } from '../stats/irb';
+import { ENGINE_VERSION } from '../stats/version';
+import { formatTable } from './format';
+
+/** Where the CLI writes; injectable for tests. */
+export interface CliIo {
+  out: (text: string) => void;
+  err: (text: string) => void;
+}
+
+/** The JSON document printed with --json (issue 3). */
+export interface FitDocument {
+  engine: { version: string };
+  segments: TimedSegmentFit[];
+}
+
+/** A problem with the command line or the input: exit code 2, message shown as is. */
+export class CliInputError extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = 'CliInputError';
+  }
+}
+
+export const FIT_USAGE = `Usage: npm run --silent cli -- fit FILE.csv [--json] [--segment NAME] [--from PERIOD] [--to PERIOD]
+                              [--level 0.95] [--bootstrap B] [--seed N] [--threads N] [--asset-class CLASS]
+
+Fits the asset correlation of every segment of a cohort CSV (columns segment,period,obligors,defaults).
+  --json            print one JSON document (engine version, one entry per segment) instead of a table
+  --segment NAME    fit only this segment
+  --from, --to      first and last period to use (years, inclusive)
+  --level L         level of every interval, between 0 and 1 (default 0.95)
+  --bootstrap B     add a parametric bootstrap interval with B replications (2 to 100000)
+  --seed N          seed of the bootstrap, 0 to 4294967295 (default 1)
+  --threads N       worker threads for the bootstrap (default: available cores; 0 = this thread)
+  --asset-class C   compare with the Basel IRB supervisory correlation of ${ASSET_CLASSES.join(', ')}`;
+
+function parseNumber(name: string, raw: string | undefined, check: (v: number) => boolean, expected: string): number | undefined {
+  if (raw === undefined) return undefined;
+  const v = Number(raw);
+  if (raw.trim() === '' || !Number.isFinite(v) || !check(v)) throw new CliInputError(`--${name} must be ${expected}; got "${raw}".`);
+  return v;
+}
+
+function parseYear(name: string, raw: string | undefined): number | undefined {
+  if (raw === undefined) return undefined;
+  if (!/^\d{4}$/.test(raw.trim())) throw new CliInputError(`--${name} must be a year written YYYY (the cohort file's periods), for example 2010; got "${raw}".`);
+  return Number(raw.trim());
+}
+
+export interface FitArgs {
+  file: string;
+  json: boolean;
+  segment?: string;
+  from?: number;
+  to?: number;
+  level: number;
+  bootstrap?: number;
+  seed: number;
+  threads?: number;
+  assetClass?: AssetClass;
+}
+
+/** Parses the arguments after `fit`; throws CliInputError with a sentence for anything wrong. */
+export function parseFitArgs(argv: string[]): FitArgs {
+  let parsed;
+  try {
+    parsed = parseArgs({
+      args: argv,
+      allowPositionals: true,
+      strict: true,
+      options: {
+        json: { type: 'boolean' },
+        segment: { type: 'string' },
+        from: { type: 'string' },
+        to: { type: 'string' },
+        level: { type: 'string' },
+        bootstrap: { type: 'string' },
+        seed: { type: 'string' },
+        threads: { type: 'string' },
+        'asset-class': { type: 'string' },
+      },
+    });
+  } catch (err) {
+    throw new CliInputError(`${err instanceof Error ? err.message : String(err)}\n\n${FIT_USAGE}`);
+  }
+  const { values, positionals } = parsed;
+  if (positionals.length !== 1) {
+    throw new CliInputError(`fit needs exactly one cohort CSV file; got ${positionals.length === 0 ? 'none' : positionals.join(', ')}.\n\n${FIT_USAGE}`);
+  }
+  const level = parseNumber('level', values.level, (v) => v > 0 && v < 1, 'a number strictly between 0 and 1, for example 0.95') ?? 0.95;
+  const bootstrap = parseNumber('bootstrap', values.bootstrap, (v) => Number.isInteger(v) && v >= 2 && v <= 100_000, 'a whole number of replications from 2 to 100000');
+  const seed = parseNumber('seed', values.seed, (v) => Number.isInteger(v) && v >= 0 && v <= 0xffffffff, 'a whole number from 0 to 4294967295') ?? 1;
+  const threads = parseNumber('threads', values.threads, (v) => Number.isInteger(v) && v >= 0 && v <= 64, 'a whole number from 0 to 64');
+  const from = parseYear('from', values.from);
+  const to = parseYear('to', values.to);
+  if (from !== undefined && to !== undefined && from > to) throw new CliInputError(`--from (${from}) is after --to (${to}); give the earlier year first.`);
+  const rawClass = values['asset-class'];
+  if (rawClass !== undefined && !(ASSET_CLASSES as readonly string[]).includes(rawClass)) {
+    throw new CliInputError(`--asset-class must be one of ${ASSET_CLASSES.join(', ')}; got "${rawClass}".`);
+  }
+  if (values.seed !== undefined && bootstrap === undefined) {
+    throw new CliInputError('--seed is the seed of the bootstrap; give --bootstrap B as well (or leave --seed out).');
+  }
+  return {
+    file: positionals[0],
+    json: values.json ?? false,
+    ...(values.segment !== undefined ? { segment: values.segment } : {}),
+    ...(from !== undefined ? { from } : {}),
+    ...(to !== undefined ? { to } : {}),
+    level,
+    ...(bootstrap !== undefined ? { bootstrap } : {}),
+    seed,
+    ...(threads !== undefined ? { threads } : {}),
+    ...(rawClass !== undefined ? { assetClass: rawClass as AssetClass } : {}),
+  };
+}
+
+function describeFinding(file: string, f: Finding): string {
+  const where = f.line === null ? file : `${file} line ${f.line}`;
+  const column = f.column ? `, column ${f.column}` : '';
+  return `${where}${column}: ${f.message} [${f.rule}]`;
+}
+
+/** Groups validated rows into panels by segment (first-seen order), periods increasing, within [from, to]. */
+export function panelsFromRows(rows: readonly CohortRow[], args: Pick<FitArgs, 'segment' | 'from' | 'to'>): PanelInput[] {
+  const bySegment = new Map<string, CohortRow[]>();
+  for (const row of rows) {
+    const list = bySegment.get(row.segment) ?? [];
+    list.push(row);
+    bySegment.set(row.segment, list);
+  }
+  if (args.segment !== undefined && !bySegment.has(args.segment)) {
+    throw new CliInputError(`The file has no segment "${args.segment}". Its segments: ${[...bySegment.keys()].map((s) => `"${s}"`).join(', ')}.`);
+  }
+  const panels: PanelInput[] = [];
+  for (const [segment, list] of bySegment) {
+    if (args.segment !== undefined && segment !== args.segment) continue;
+    const kept = list
+      .filter((r) => (args.from === undefined || Number(r.period) >= args.from) && (args.to === undefined || Number(r.period) <= args.to))
+      .sort((a, b) => Number(a.period) - Number(b.period));
+    if (kept.length === 0) {
+      throw new CliInputError(
+        `Segment "${segment}" has no period from ${args.from ?? 'the first'} to ${args.to ?? 'the last'}; its periods run ${list.map((r) => r.period).sort()[0]}-${list.map((r) => r.period).sort().at(-1)}.`,
+      );
+    }
+    panels.push({ segment, periods: kept.map((r) => r.period), obligors: kept.map((r) => r.obligors), defaults: kept.map((r) => r.defaults) });
+  }
+  return panels;
+}
+
+/** Runs `fit`; resolves with the process exit code (0 done, 2 bad input). */
+export async function runFit(argv: string[], io: CliIo): Promise<number> {
+  const args = parseFitArgs(argv);
+  let bytes: Uint8Array;
+  try {
+    bytes = await readFile(args.file);
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    throw new CliInputError(
+      code === 'ENOENT' ? `Cannot read ${args.file}: there is no such file.` : `Cannot read ${args.file}: ${err instanceof Error ? err.message : String(err)}`,
+    );
+  }
+  const validation = validateCohortText(bytes);
+  const errors = validation.findings.filter((f) => f.severity === 'error');
+  const warnings = validation.findings.filter((f) => f.severity === 'warning');
+  for (const w of warnings) io.err(`warning: ${describeFinding(args.file, w)}`);
+  if (!validation.ok) {
+    const shown = errors.slice(0, 20).map((f) => `error: ${describeFinding(args.file, f)}`);
+    const more = validation.summary.errors - shown.length;
+    throw new CliInputError(
+      `${args.file} is not a valid cohort file (${validation.summary.errors} error${validation.summary.errors === 1 ? '' : 's'}); nothing was fitted.\n${shown.join('\n')}${more > 0 ? `\n... and ${more} more.` : ''}`,
+    );
+  }
+  const panels = panelsFromRows(validation.rows, args);
+  const anyBootstrap = args.bootstrap !== undefined;
+  const pool = anyBootstrap && args.threads !== 0 ? new EnginePool(args.threads ?? undefined) : undefined;
+  const segments: TimedSegmentFit[] = [];
+  try {
+    await pool?.start(); // thread start-up is not part of any segment's timing
+    for (const panel of panels) {
+      segments.push(
+        await fitPanelParallel(
+          panel,
+          {
+            level: args.level,
+            bootstrap: anyBootstrap ? { replications: args.bootstrap!, seed: args.seed } : null,
+            assetClass: args.assetClass ?? null,
+          },
+          { ...(pool ? { pool } : { threads: 0 }) },
+        ),
+      );
+    }
+  } finally {
+    await pool?.close();
+  }
+  const doc: FitDocument = { engine: { version: ENGINE_VERSION }, segments };
+  io.out(args.json ? JSON.stringify(doc, null, 2) : formatTable(doc));
+  return 0;
+}

@@ -1,0 +1,61 @@
+/**
+ * The readable (non-JSON) output of `fit`: one block per segment with the five estimators, the
+ * intervals of binomialMle, the main diagnostics and the warnings.
+ */
+import { ESTIMATOR_KEYS } from '../stats/estimators/types';
+import { ESTIMATOR_LABELS } from '../stats/estimators';
+import type { FitDocument } from './fit';
+
+function num(v: number | null | undefined, digits = 4): string {
+  if (v === null || v === undefined) return '-';
+  if (v === 0) return '0';
+  return Math.abs(v) >= 1e-3 ? v.toFixed(digits) : v.toExponential(2);
+}
+
+function pct(v: number | null | undefined): string {
+  return v === null || v === undefined ? '-' : `${(100 * v).toFixed(2)}%`;
+}
+
+function pad(s: string, w: number): string {
+  return s.length >= w ? s : s + ' '.repeat(w - s.length);
+}
+
+/** Renders the document as plain text tables. */
+export function formatTable(doc: FitDocument): string {
+  const lines: string[] = [`Rhobook engine ${doc.engine.version}`];
+  for (const s of doc.segments) {
+    const mle = s.estimates.binomialMle;
+    lines.push('');
+    lines.push(
+      `Segment ${s.segment}: T = ${s.T} (${s.periods[0]}-${s.periods[s.periods.length - 1]}), intervals at ${(100 * s.level).toFixed(1).replace(/\.0$/, '')}%, ${s.timing.ms.toFixed(1)} ms`,
+    );
+    const rows: string[][] = [['estimator', 'rho', 'pd', 'status']];
+    for (const key of ESTIMATOR_KEYS) {
+      const e = s.estimates[key];
+      rows.push([`${key} (${ESTIMATOR_LABELS[key]})`, num(e.rho), pct(e.pd), e.status + (e.reason ? `: ${e.reason}` : '')]);
+    }
+    const widths = [0, 1, 2].map((c) => Math.max(...rows.map((r) => r[c].length)));
+    for (const r of rows) lines.push(`  ${pad(r[0], widths[0])}  ${pad(r[1], widths[1])}  ${pad(r[2], widths[2])}  ${r[3]}`);
+    lines.push(`  binomialMle log-likelihood ${num(mle.logLik, 3)}${mle.atBoundary ? ' (maximum at rho = 0)' : ''}`);
+    const iv = mle.intervals;
+    lines.push(`  profile interval    ${iv.profile ? `[${num(iv.profile.lower)}, ${num(iv.profile.upper)}]${iv.profile.upperAtSearchLimit ? ' (upper end at the search limit)' : ''}` : '-'}`);
+    lines.push(`  Wald (logit) interval ${iv.wald ? `[${num(iv.wald.lower)}, ${num(iv.wald.upper)}], se ${num(iv.wald.se)}` : '- (none at the boundary or without an estimate)'}`);
+    if (iv.bootstrap) {
+      lines.push(
+        `  bootstrap interval  [${num(iv.bootstrap.lower)}, ${num(iv.bootstrap.upper)}], bias ${num(iv.bootstrap.bias)}, B = ${iv.bootstrap.replications}, seed ${iv.bootstrap.seed}, failed ${iv.bootstrap.failed}`,
+      );
+    }
+    const d = s.diagnostics;
+    if (d.lrTestRhoZero) lines.push(`  LR test of rho = 0: statistic ${num(d.lrTestRhoZero.statistic, 3)}, p-value ${num(d.lrTestRhoZero.pValue)}`);
+    lines.push(`  zero-default periods ${d.zeroDefaultPeriods}; implied-factor lag-1 autocorrelation ${num(d.lag1Autocorrelation, 2)}`);
+    if (d.exceedances) lines.push(`  periods above the fitted 95% / 99% default-rate quantiles: ${d.exceedances.above95} / ${d.exceedances.above99}`);
+    if (s.implications) {
+      const im = s.implications;
+      lines.push(`  99.9% default-rate quantile ${pct(im.quantile999)}; capital K at estimate ${pct(im.capital.atEstimate)}, at interval ends ${pct(im.capital.atLower)} - ${pct(im.capital.atUpper)}`);
+      if (im.supervisory) lines.push(`  supervisory rho (${im.supervisory.assetClass}) ${num(im.supervisory.rho)}, capital K ${pct(im.supervisory.capital)}`);
+      lines.push(`  (${im.convention})`);
+    }
+    for (const w of s.warnings) lines.push(`  ! ${w.message}`);
+  }
+  return lines.join('\n');
+}

@@ -1,0 +1,50 @@
+/**
+ * The units of work the engine's worker threads run: a slice [from, to) of a bootstrap's
+ * replications. A task is plain data (structured-clone safe) and runTask is the only code that
+ * executes it, in a worker thread or in the calling thread alike, so every split of the index
+ * range gives the same numbers.
+ */
+import { bootstrapRange, type BootstrapReplication, type BootstrapSpec } from '../stats/intervals/bootstrap';
+
+/** Bootstrap replications from .. to - 1 of one spec. */
+export interface BootstrapTask {
+  kind: 'bootstrap';
+  spec: BootstrapSpec;
+  from: number;
+  to: number;
+}
+
+export type EngineTask = BootstrapTask;
+
+export interface BootstrapTaskResult {
+  kind: 'bootstrap';
+  replications: BootstrapReplication[];
+}
+
+export type EngineTaskResult = BootstrapTaskResult;
+
+/** Number of replications (progress units) in a task. */
+export function taskSize(task: EngineTask): number {
+  return task.to - task.from;
+}
+
+/** Runs one task; `onItem` is called after each replication (for progress). */
+export function runTask(task: EngineTask, onItem?: () => void): EngineTaskResult {
+  switch (task.kind) {
+    case 'bootstrap':
+      return { kind: 'bootstrap', replications: bootstrapRange(task.spec, task.from, task.to, onItem && (() => onItem())) };
+    default: {
+      const unknown: never = task.kind;
+      throw new RangeError(`runTask: unknown task kind ${String(unknown)}.`);
+    }
+  }
+}
+
+/** Splits [0, total) into consecutive slices of at most `size` indices. */
+export function splitRange(total: number, size: number): { from: number; to: number }[] {
+  if (!Number.isInteger(total) || total < 0) throw new RangeError(`splitRange: total must be a whole number >= 0; got ${total}.`);
+  if (!Number.isInteger(size) || size < 1) throw new RangeError(`splitRange: size must be a whole number >= 1; got ${size}.`);
+  const out: { from: number; to: number }[] = [];
+  for (let from = 0; from < total; from += size) out.push({ from, to: Math.min(total, from + size) });
+  return out;
+}
