@@ -204,7 +204,7 @@ function OutcomeView({ outcome }: { outcome: Outcome }) {
         <section className="space-y-3" aria-label="Upload result">
           <p className="notice-good" role="status">
             Accepted: {outcome.rows} cohort rows in {outcome.segments.length} segment{outcome.segments.length === 1 ? '' : 's'}.{' '}
-            <Link href={`/data/${outcome.id}`}>Open the dataset</Link>
+            <Link className="font-medium underline" href={`/data/${outcome.id}`}>Open the dataset</Link>
             {outcome.warnings.length > 0 ? ' to review or waive its warnings.' : '.'}
           </p>
           {outcome.warnings.length > 0 ? <ReportTable issues={outcome.warnings} caption="Warnings" /> : null}
