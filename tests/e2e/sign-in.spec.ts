@@ -33,7 +33,7 @@ test('a wrong password gets a clear refusal', async ({ page }) => {
 
 test('a viewer is refused the admin screen and the admin API', async ({ page }) => {
   await signIn(page, 'viewer@fenmoor.example');
-  await expect(page.getByRole('link', { name: 'Admin' })).toHaveCount(0);
+  await expect(page.getByRole('link', { name: 'Admin', exact: true })).toHaveCount(0);
   const res = await page.goto('/admin');
   expect(res?.status()).toBe(403);
   await expect(page.getByRole('heading', { name: 'Not allowed' })).toBeVisible();
@@ -45,7 +45,7 @@ test('a viewer is refused the admin screen and the admin API', async ({ page }) 
 
 test('an admin creates a user, who can then sign in; deactivation locks them out', async ({ page, browser }) => {
   await signIn(page, 'admin@fenmoor.example');
-  await page.getByRole('link', { name: 'Admin' }).click();
+  await page.getByRole('link', { name: 'Admin', exact: true }).click();
   const form = page.getByRole('form', { name: 'Create a user' });
   await form.getByLabel('E-mail').fill('new.analyst@fenmoor.example');
   await form.getByLabel('Name').fill('Nell Ashby');
