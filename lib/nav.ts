@@ -11,6 +11,7 @@ const everyone = ['viewer', 'analyst', 'validator', 'admin'] as const;
 export const navItems: NavItem[] = [
   { href: '/', label: 'Overview', roles: everyone },
   { href: '/data', label: 'Data', roles: everyone },
+  { href: '/fits', label: 'Fits', roles: everyone },
   { href: '/pairs', label: 'Pair explorer', roles: everyone },
   { href: '/admin', label: 'Admin', roles: ['admin'] },
 ];

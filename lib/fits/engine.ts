@@ -1,18 +1,16 @@
 /**
  * Fits one segment's panel for a fit run and builds the per-segment results of lib/fits/results.ts.
  *
- * INTERIM: the engine issue (3) is still landing. This file calls what lib/stats already exports
- * (the five estimators, the profile likelihood, Brent's root finder, the normal and bivariate
- * normal) and, until lib/stats/fit-panel.ts, lib/stats/vasicek.ts, lib/stats/irb.ts, the seeded
- * generator and lib/engine's worker-thread pool exist, carries small local versions of the few
- * formulas the review needs (DESIGN.md, "The model"), each cited. When those land, replace the local
- * pieces by the engine's exports and bump FIT_ENGINE_VERSION.
+ * INTERIM: the engine issue (3) is still landing. This file assembles the per-segment results from
+ * what lib/stats exports (the five estimators, the profile likelihood, Brent's root finder, the
+ * Vasicek distribution, the IRB formulas, the seeded generator and panel simulation). When
+ * lib/stats/fit-panel.ts and lib/engine's worker-thread pool land, the estimation part should call
+ * them (bootstrap and audit on worker threads) and FIT_ENGINE_VERSION should follow ENGINE_VERSION.
  *
  * Deterministic: given the panel, the request and the seeds, the numbers are identical on every run.
  */
 import chisquareQuantile from '@stdlib/stats-base-dists-chisquare-quantile';
 import type { AssetClass } from '@/db/schema';
-import { bivariateNormalExcess } from '@/lib/stats/bivariate-normal';
 import { brentRoot } from '@/lib/stats/brent';
 import { binomialMleWithProfile, RHO_SEARCH_LIMIT, type ProfileLikelihood } from '@/lib/stats/estimators/binomial-mle';
 import { jointDefault } from '@/lib/stats/estimators/joint-default';
@@ -20,9 +18,12 @@ import { momentVariance } from '@/lib/stats/estimators/moment-variance';
 import { momentVarianceCorrected } from '@/lib/stats/estimators/moment-variance-corrected';
 import type { Estimate } from '@/lib/stats/estimators/types';
 import { vasicekMle } from '@/lib/stats/estimators/vasicek-mle';
-import { binomialLogPmf } from '@/lib/stats/log-binomial';
+import { capitalRequirement, supervisoryCorrelation, type AssetClass as IrbAssetClass } from '@/lib/stats/irb';
 import type { Panel } from '@/lib/stats/mixture-likelihood';
-import { normalCdf, normalQuantile } from '@/lib/stats/normal';
+import { normalCdf } from '@/lib/stats/normal';
+import { createRng, type Rng } from '@/lib/stats/random';
+import { simulatePanel } from '@/lib/stats/simulate';
+import { defaultCorrelation, impliedFactor as impliedFactorOf, jointDefaultProbability, vasicekCdf, vasicekQuantile } from '@/lib/stats/vasicek';
 import type {
   AuditRow,
   BinomialMleResultDto,
@@ -34,7 +35,7 @@ import type {
 } from './results';
 import { ESTIMATOR_ORDER } from './results';
 
-export const FIT_ENGINE_VERSION = 'rhobook-fit 0.1 (interim engine)';
+export const FIT_ENGINE_VERSION = 'rhobook-fit 0.2 (interim engine)';
 
 export type SegmentInput = {
   segment: string;
@@ -54,119 +55,18 @@ export type FitOptions = {
   onProgress?: (fraction: number, message: string) => Promise<void>;
 };
 
-// ---------------------------------------------------------------------------------------------
-// Small local formulas (to be replaced by lib/stats/vasicek.ts and lib/stats/irb.ts)
-// ---------------------------------------------------------------------------------------------
-
-/** Vasicek default-rate quantile Phi((k + sqrt(rho) Phi^-1(q)) / sqrt(1 - rho)) (Vasicek 2002). */
-export function vasicekQuantile(q: number, p: number, rho: number): number {
-  return normalCdf((normalQuantile(p) + Math.sqrt(rho) * normalQuantile(q)) / Math.sqrt(1 - rho));
+/** The IRB asset class of a segment, or null when the segment has none (no supervisory benchmark). */
+function irbClass(assetClass: AssetClass): IrbAssetClass | null {
+  return assetClass === 'none' ? null : assetClass;
 }
 
-/** Vasicek default-rate CDF Phi((sqrt(1 - rho) Phi^-1(x) - k) / sqrt(rho)) (Vasicek 2002). */
-export function vasicekCdf(x: number, p: number, rho: number): number {
-  if (x <= 0) return 0;
-  if (x >= 1) return 1;
-  return normalCdf((Math.sqrt(1 - rho) * normalQuantile(x) - normalQuantile(p)) / Math.sqrt(rho));
+function capital(pd: number, rho: number, lgd: number, maturityYears: number | null): number {
+  return capitalRequirement({ pd, rho, lgd, ...(maturityYears === null ? {} : { maturityYears }) });
 }
 
-/**
- * Basel IRB supervisory correlation (BCBS 2006, paras 272-273 and 328-330): corporate
- * 0.12 w + 0.24 (1 - w), w = (1 - e^{-50 PD}) / (1 - e^{-50}), SME size adjustment
- * -0.04 (1 - (S - 5) / 45) with S clipped to [5, 50]; residential mortgage 0.15; qualifying
- * revolving 0.04; other retail 0.03 w + 0.16 (1 - w) with exponent -35. Null for 'none'.
- */
-export function supervisoryCorrelation(assetClass: AssetClass, pd: number, turnover?: number | null): number | null {
-  const w50 = (1 - Math.exp(-50 * pd)) / (1 - Math.exp(-50));
-  switch (assetClass) {
-    case 'corporate':
-      return 0.12 * w50 + 0.24 * (1 - w50);
-    case 'sme-corporate': {
-      const s = Math.min(50, Math.max(5, turnover ?? 50));
-      return 0.12 * w50 + 0.24 * (1 - w50) - 0.04 * (1 - (s - 5) / 45);
-    }
-    case 'residential-mortgage':
-      return 0.15;
-    case 'qualifying-revolving':
-      return 0.04;
-    case 'other-retail': {
-      const w35 = (1 - Math.exp(-35 * pd)) / (1 - Math.exp(-35));
-      return 0.03 * w35 + 0.16 * (1 - w35);
-    }
-    default:
-      return null;
-  }
-}
-
-/**
- * IRB capital requirement K per unit of exposure (BCBS 2006, para 272):
- * LGD [Phi((Phi^-1(PD) + sqrt(R) Phi^-1(0.999)) / sqrt(1 - R)) - PD], times the maturity adjustment
- * (1 + (M - 2.5) b) / (1 - 1.5 b), b = (0.11852 - 0.05478 ln PD)^2, when maturity is given
- * (corporates). Risk weight = 12.5 K (2017 convention: no 1.06 scaling).
- */
-export function irbCapital(pd: number, rho: number, lgd: number, maturityYears: number | null): number {
-  const k = lgd * (vasicekQuantile(0.999, pd, rho) - pd);
-  if (maturityYears === null) return k;
-  const b = (0.11852 - 0.05478 * Math.log(pd)) ** 2;
-  return (k * (1 + (maturityYears - 2.5) * b)) / (1 - 1.5 * b);
-}
-
-/** Seeded generator (SplitMix32 seeding a 32-bit xorshift-multiply "mulberry32"): uniform in (0, 1). */
-export function seededUniform(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    const u = ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-    return u === 0 ? 0.5 / 4294967296 : u;
-  };
-}
-
-/**
- * Exact binomial draw by inversion, searching outward from the mode (chop-down search; Kachitvichyanukul
- * & Schmeiser 1988, section 2). Pmf values come from binomialLogPmf so large n does not underflow.
- */
-export function binomialDraw(n: number, p: number, uniform: () => number): number {
-  if (p <= 0) return 0;
-  if (p >= 1) return n;
-  const mode = Math.min(n, Math.floor((n + 1) * p));
-  let u = uniform();
-  const f0 = Math.exp(binomialLogPmf(mode, n, p));
-  u -= f0;
-  if (u <= 0) return mode;
-  let lo = mode;
-  let hi = mode;
-  let flo = f0;
-  let fhi = f0;
-  const ratio = p / (1 - p);
-  for (;;) {
-    if (hi < n) {
-      fhi *= ((n - hi) / (hi + 1)) * ratio;
-      hi += 1;
-      u -= fhi;
-      if (u <= 0) return hi;
-    }
-    if (lo > 0) {
-      flo *= lo / (n - lo + 1) / ratio;
-      lo -= 1;
-      u -= flo;
-      if (u <= 0) return lo;
-    }
-    if (hi >= n && lo <= 0) return mode; // rounding left a sliver of probability: take the mode
-  }
-}
-
-/** Simulates one panel with the given cohort sizes at (p, rho) (DESIGN.md, "The model"). */
-export function simulatePanel(obligors: readonly number[], p: number, rho: number, uniform: () => number): Panel {
-  const k = normalQuantile(p);
-  const defaults = obligors.map((n) => {
-    const x = normalQuantile(uniform());
-    const cond = normalCdf((k - Math.sqrt(rho) * x) / Math.sqrt(1 - rho));
-    return binomialDraw(n, cond, uniform);
-  });
-  return { obligors: [...obligors], defaults };
+function simulate(obligors: readonly number[], pd: number, rho: number, rng: Rng): Panel {
+  const sim = simulatePanel({ pd, rho, obligors: [...obligors] }, rng);
+  return { obligors: sim.obligors, defaults: sim.defaults };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -338,8 +238,7 @@ export async function fitSegment(input: SegmentInput, options: FitOptions): Prom
   let exceed99: number | null = null;
   let implications: SegmentResult['implications'] = null;
   if (rhoHat !== null && pHat !== null && rhoHat > 0 && rhoHat < 1) {
-    const k = normalQuantile(pHat);
-    impliedFactor = rates.map((dr) => (dr > 0 && dr < 1 ? (k - Math.sqrt(1 - rhoHat) * normalQuantile(dr)) / Math.sqrt(rhoHat) : null));
+    impliedFactor = rates.map((dr) => (dr > 0 && dr < 1 ? impliedFactorOf(dr, pHat, rhoHat) : null));
     const defined = impliedFactor.filter((x): x is number => x !== null);
     lag1Autocorrelation = defined.length === T ? lag1(defined) : null;
     if (lag1Autocorrelation !== null && Math.abs(lag1Autocorrelation) > AUTOCORRELATION_MATERIAL)
@@ -365,8 +264,13 @@ export async function fitSegment(input: SegmentInput, options: FitOptions): Prom
     const maturity = corporate ? 2.5 : null;
     const lgd = 0.45;
     const iv = mle.dto.intervals.profile;
-    const sup = supervisoryCorrelation(input.assetClass, pHat, input.turnoverEurMillions);
-    const excess = bivariateNormalExcess(k, k, rhoHat);
+    const cls = irbClass(input.assetClass);
+    const sup =
+      cls === null || (cls === 'sme-corporate' && !(input.turnoverEurMillions && input.turnoverEurMillions > 0))
+        ? null
+        : supervisoryCorrelation(cls, pHat, cls === 'sme-corporate' ? { turnoverMillions: input.turnoverEurMillions! } : {});
+    if (cls === 'sme-corporate' && sup === null)
+      warnings.push({ code: 'sme-turnover-missing', message: 'The segment is SME corporate but has no turnover recorded, so the supervisory correlation (which depends on it) is not shown.' });
     implications = {
       pd: pHat,
       rho: rhoHat,
@@ -374,12 +278,12 @@ export async function fitSegment(input: SegmentInput, options: FitOptions): Prom
       lgd,
       maturityYears: maturity,
       capital: {
-        atEstimate: irbCapital(pHat, rhoHat, lgd, maturity),
-        atLower: iv ? irbCapital(pHat, iv.lower, lgd, maturity) : null,
-        atUpper: iv ? irbCapital(pHat, Math.min(iv.upper, 0.999), lgd, maturity) : null,
+        atEstimate: capital(pHat, rhoHat, lgd, maturity),
+        atLower: iv ? capital(pHat, iv.lower, lgd, maturity) : null,
+        atUpper: iv ? capital(pHat, Math.min(iv.upper, 0.999), lgd, maturity) : null,
       },
-      supervisory: sup === null ? null : { assetClass: input.assetClass, rho: sup, capital: irbCapital(pHat, sup, lgd, maturity) },
-      pair: { joint: pHat * pHat + excess, independent: pHat * pHat, defaultCorrelation: excess / (pHat * (1 - pHat)) },
+      supervisory: sup === null ? null : { assetClass: input.assetClass, rho: sup, capital: capital(pHat, sup, lgd, maturity) },
+      pair: { joint: jointDefaultProbability(pHat, pHat, rhoHat), independent: pHat * pHat, defaultCorrelation: defaultCorrelation(pHat, pHat, rhoHat) },
     };
   }
 
@@ -389,11 +293,11 @@ export async function fitSegment(input: SegmentInput, options: FitOptions): Prom
   const totalWork = Math.max(1, bootstrapWork + auditWork);
   if (options.bootstrap && rhoHat !== null && pHat !== null && mle.dto.status !== 'undefined') {
     const { replications, seed } = options.bootstrap;
-    const uniform = seededUniform(seed);
+    const rng = createRng(seed);
     const draws: number[] = [];
     let failed = 0;
     for (let b = 0; b < replications; b++) {
-      const sim = simulatePanel(input.obligors, pHat, rhoHat, uniform);
+      const sim = simulate(input.obligors, pHat, rhoHat, rng);
       const r = quietMle(sim);
       if (r === null) failed++;
       else draws.push(r);
@@ -420,14 +324,14 @@ export async function fitSegment(input: SegmentInput, options: FitOptions): Prom
   let audit: SegmentResult['audit'] = null;
   if (options.audit && rhoHat !== null && pHat !== null && mle.dto.status !== 'undefined') {
     const { replications, seed } = options.audit;
-    const uniform = seededUniform(seed);
+    const rng = createRng(seed);
     const truthRho = rhoHat;
     const acc: Record<EstimatorKey, number[]> = { binomialMle: [], vasicekMle: [], momentVariance: [], momentVarianceCorrected: [], jointDefault: [] };
     let covered = 0;
     let withInterval = 0;
     let failed = 0;
     for (let r = 0; r < replications; r++) {
-      const sim = simulatePanel(input.obligors, pHat, truthRho, uniform);
+      const sim = simulate(input.obligors, pHat, truthRho, rng);
       const m = fitMle(sim, level);
       if (m.dto.rho === null) failed++;
       else acc.binomialMle.push(m.dto.rho);

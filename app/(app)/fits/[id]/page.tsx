@@ -1,0 +1,78 @@
+import type { Metadata } from 'next';
+import Link from 'next/link';
+import { notFound } from 'next/navigation';
+import { z } from 'zod';
+import { FitProgress } from '@/components/fits/fit-progress';
+import { SegmentReview } from '@/components/fits/segment-review';
+import { requireUser } from '@/lib/auth/session';
+import { getFit } from '@/lib/dal/fits';
+import { AppError } from '@/lib/errors';
+
+export const metadata: Metadata = { title: 'Fit review' };
+
+const paramsSchema = z.object({ id: z.coerce.number().int().positive() });
+
+export default async function FitPage({ params }: { params: Promise<{ id: string }> }) {
+  const actor = await requireUser();
+  const p = paramsSchema.safeParse(await params);
+  if (!p.success) notFound();
+  const fit = await getFit(actor, p.data.id).catch((err) => {
+    if (err instanceof AppError && err.status === 404) notFound();
+    throw err;
+  });
+  const r = fit.request;
+  return (
+    <div className="space-y-5">
+      <div className="flex flex-wrap items-baseline justify-between gap-2">
+        <div>
+          <p className="text-sm">
+            <Link href="/fits">Fits</Link> /
+          </p>
+          <h1>Fit #{fit.id}</h1>
+          <p className="mt-1 text-sm text-[var(--color-muted)]" data-testid="fit-provenance">
+            Dataset <Link href={`/data/${fit.datasetId}`}>#{fit.datasetId} {fit.datasetName}</Link> · SHA-256{' '}
+            <code className="text-xs">{fit.datasetSha256.slice(0, 12)}…</code> · window {r.from ?? 'first'}–{r.to ?? 'last'} period · level{' '}
+            {Math.round(r.level * 100)}% · bootstrap {r.bootstrap ? `B ${r.bootstrap.replications}, seed ${r.bootstrap.seed}` : 'none'} · audit{' '}
+            {r.audit ? `R ${r.audit.replications}, seed ${r.audit.seed}` : 'none'} · engine {fit.engineVersion} · started by {fit.createdBy}{' '}
+            {fit.createdAt.replace('T', ' ').slice(0, 16)} UTC
+          </p>
+        </div>
+        {fit.status === 'succeeded' && fit.segments.length > 0 ? (
+          <Link className="btn btn-quiet" href={`/fits?segment=${encodeURIComponent(fit.segments[0])}`}>
+            Compare with other runs
+          </Link>
+        ) : null}
+      </div>
+
+      {fit.status !== 'succeeded' ? (
+        <FitProgress
+          id={fit.id}
+          initial={{ id: fit.id, status: fit.status, progress: fit.progress, message: fit.message, error: fit.error, mayCancel: fit.mayCancel }}
+        />
+      ) : null}
+
+      {fit.results ? (
+        <>
+          {fit.results.segments.length > 1 ? (
+            <nav aria-label="Segments of this fit" className="flex flex-wrap gap-2 text-sm">
+              {fit.results.segments.map((s, i) => (
+                <a key={s.segment} href={`#segment-${i}`} className="badge no-underline">
+                  {s.segment}
+                </a>
+              ))}
+            </nav>
+          ) : null}
+          {fit.results.segments.map((s, i) => (
+            <div key={s.segment} id={`segment-${i}`}>
+              <SegmentReview seg={s} index={i} />
+            </div>
+          ))}
+          <p className="notice-caution text-sm">
+            The Gaussian one-factor model has no tail dependence and one constant correlation. These numbers support a judgement;
+            they are not an independent validation, and approval in Rhobook is not a regulator&apos;s approval.
+          </p>
+        </>
+      ) : null}
+    </div>
+  );
+}

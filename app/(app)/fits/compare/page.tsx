@@ -1,0 +1,119 @@
+import type { Metadata } from 'next';
+import Link from 'next/link';
+import { z } from 'zod';
+import { requireUser } from '@/lib/auth/session';
+import { getFitsForCompare } from '@/lib/dal/fits';
+import { fixed, interval, pct } from '@/lib/fits/format';
+import { ESTIMATOR_NAMES, ESTIMATOR_ORDER, type SegmentResult } from '@/lib/fits/results';
+
+export const metadata: Metadata = { title: 'Compare fits' };
+
+const querySchema = z.object({
+  ids: z
+    .union([z.string(), z.array(z.string())])
+    .transform((v) => (Array.isArray(v) ? v : v.split(',')).map((s) => Number(s)))
+    .pipe(z.array(z.number().int().positive()).min(2).max(8)),
+  segment: z.string().max(120).optional(),
+});
+
+export default async function ComparePage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+  const actor = await requireUser();
+  const q = querySchema.safeParse(await searchParams);
+  if (!q.success) {
+    return (
+      <div className="space-y-3">
+        <h1>Compare fits</h1>
+        <p className="notice-bad text-sm">Tick between two and eight finished runs on the <Link href="/fits">Fits</Link> screen to compare them.</p>
+      </div>
+    );
+  }
+  const fits = await getFitsForCompare(actor, q.data.ids);
+  const unfinished = fits.filter((f) => !f.results);
+  const segmentSets = fits.map((f) => new Set(f.results?.segments.map((s) => s.segment) ?? []));
+  const common = [...(segmentSets[0] ?? [])].filter((s) => segmentSets.every((set) => set.has(s)));
+  const segment = q.data.segment && common.includes(q.data.segment) ? q.data.segment : common[0];
+  if (unfinished.length > 0 || !segment) {
+    return (
+      <div className="space-y-3">
+        <h1>Compare fits</h1>
+        <p className="notice-bad text-sm">
+          {unfinished.length > 0
+            ? `Run${unfinished.length > 1 ? 's' : ''} ${unfinished.map((f) => `#${f.id}`).join(', ')} ${unfinished.length > 1 ? 'have' : 'has'} not finished.`
+            : 'These runs have no segment in common: compare runs of the same segment.'}{' '}
+          <Link href="/fits">Back to the fits</Link>
+        </p>
+      </div>
+    );
+  }
+  const cols = fits.map((f) => ({ fit: f, seg: f.results!.segments.find((s) => s.segment === segment) as SegmentResult }));
+  const row = (label: string, cell: (c: (typeof cols)[number]) => React.ReactNode) => (
+    <tr>
+      <th scope="row" className="text-left font-normal text-[var(--color-ink)]">
+        {label}
+      </th>
+      {cols.map((c) => (
+        <td key={c.fit.id} className="num text-right">
+          {cell(c)}
+        </td>
+      ))}
+    </tr>
+  );
+  return (
+    <div className="space-y-4">
+      <div>
+        <p className="text-sm">
+          <Link href="/fits">Fits</Link> /
+        </p>
+        <h1>Compare fits: {segment}</h1>
+        {common.length > 1 ? (
+          <p className="mt-1 text-sm">
+            Other segments in common:{' '}
+            {common
+              .filter((s) => s !== segment)
+              .map((s) => (
+                <Link key={s} className="mr-2" href={`/fits/compare?ids=${q.data.ids.join(',')}&segment=${encodeURIComponent(s)}`}>
+                  {s}
+                </Link>
+              ))}
+          </p>
+        ) : null}
+      </div>
+      <section className="panel overflow-x-auto p-4">
+        <table className="table" data-testid="compare-table">
+          <thead>
+            <tr>
+              <th />
+              {cols.map((c) => (
+                <th key={c.fit.id} className="text-right">
+                  <Link href={`/fits/${c.fit.id}`}>Fit #{c.fit.id}</Link>
+                </th>
+              ))}
+            </tr>
+          </thead>
+          <tbody>
+            {row('Dataset', (c) => `#${c.fit.datasetId} (${c.fit.datasetSha256.slice(0, 8)}…)`)}
+            {row('Window', (c) => `${c.seg.periods[0]}–${c.seg.periods[c.seg.periods.length - 1]} (T ${c.seg.T})`)}
+            {row('Level', (c) => `${Math.round(c.fit.request.level * 100)}%`)}
+            {row('Engine', (c) => c.fit.engineVersion)}
+            {ESTIMATOR_ORDER.map((k) => row(`ρ ${ESTIMATOR_NAMES[k]}`, (c) => fixed(c.seg.estimates[k].rho, 4)))}
+            {row('PD (likelihood)', (c) => pct(c.seg.estimates.binomialMle.pd))}
+            {row('Profile interval', (c) => interval(c.seg.estimates.binomialMle.intervals.profile?.lower, c.seg.estimates.binomialMle.intervals.profile?.upper))}
+            {row('Bootstrap interval', (c) =>
+              c.seg.estimates.binomialMle.intervals.bootstrap
+                ? `${interval(c.seg.estimates.binomialMle.intervals.bootstrap.lower, c.seg.estimates.binomialMle.intervals.bootstrap.upper)} B ${c.seg.estimates.binomialMle.intervals.bootstrap.replications}`
+                : '—',
+            )}
+            {row('99.9% default-rate quantile', (c) => pct(c.seg.implications?.quantile999))}
+            {row('IRB K at the estimate', (c) => pct(c.seg.implications?.capital.atEstimate))}
+            {row('Periods above 99% band', (c) => (c.seg.diagnostics.exceed99 === null ? '—' : String(c.seg.diagnostics.exceed99)))}
+            {row('Lag-1 autocorrelation', (c) => fixed(c.seg.diagnostics.lag1Autocorrelation, 2))}
+            {row('Warnings', (c) => (c.seg.warnings.length === 0 ? 'none' : c.seg.warnings.map((w) => w.code).join(', ')))}
+          </tbody>
+        </table>
+      </section>
+      <p className="text-xs text-[var(--color-muted)]">
+        Runs on different datasets or windows answer different questions: compare the hash and the window before the numbers.
+      </p>
+    </div>
+  );
+}

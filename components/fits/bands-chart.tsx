@@ -1,0 +1,86 @@
+'use client';
+
+import { ResponsiveLine, type LineCustomSvgLayerProps } from '@nivo/line';
+import { pct } from '@/lib/fits/format';
+
+type Bands = { q005: number; q025: number; q25: number; q50: number; q75: number; q975: number; q995: number };
+type Series = { id: string; data: { x: string; y: number }[] };
+
+/**
+ * Observed default rates by period against the fitted Vasicek default-rate distribution: shaded
+ * central bands holding 50%, 95% and 99% of it (the same every period under the model), and the
+ * median. Periods above the 99% band are drawn in red.
+ */
+export function BandsChart({ periods, rates, bands }: { periods: string[]; rates: number[]; bands: Bands }) {
+  const data: Series[] = [{ id: 'Observed default rate', data: periods.map((p, i) => ({ x: p, y: rates[i] })) }];
+  const maxY = Math.max(bands.q995, ...rates) * 1.12;
+
+  function BandsLayer(props: LineCustomSvgLayerProps<Series>) {
+    const { yScale, innerWidth } = props;
+    const y = (v: number) => yScale(v as never);
+    const band = (lo: number, hi: number, opacity: number, key: string) => (
+      <rect key={key} x={0} width={innerWidth} y={y(hi)} height={Math.max(0, y(lo) - y(hi))} fill="var(--color-accent)" fillOpacity={opacity} />
+    );
+    return (
+      <g>
+        {band(bands.q005, bands.q995, 0.1, '99')}
+        {band(bands.q025, bands.q975, 0.14, '95')}
+        {band(bands.q25, bands.q75, 0.22, '50')}
+        <line x1={0} x2={innerWidth} y1={y(bands.q50)} y2={y(bands.q50)} stroke="var(--color-accent)" strokeDasharray="5 4" />
+        <text x={innerWidth - 4} y={y(bands.q995) - 4} textAnchor="end" fontSize={10} fill="var(--color-muted)">
+          99% band top {pct(bands.q995)}
+        </text>
+        <text x={innerWidth - 4} y={y(bands.q50) - 4} textAnchor="end" fontSize={10} fill="var(--color-accent)">
+          median {pct(bands.q50)}
+        </text>
+      </g>
+    );
+  }
+
+  function ExceedLayer(props: LineCustomSvgLayerProps<Series>) {
+    return (
+      <g>
+        {props.points.map((p) => {
+          const over = (p.data.y as number) > bands.q995;
+          const over95 = (p.data.y as number) > bands.q975;
+          return (
+            <circle
+              key={p.id}
+              cx={p.x}
+              cy={p.y}
+              r={over ? 5 : 3.5}
+              fill={over ? 'var(--color-bad)' : over95 ? 'var(--color-caution)' : 'var(--color-ink)'}
+              stroke="white"
+              strokeWidth={1}
+            />
+          );
+        })}
+      </g>
+    );
+  }
+
+  return (
+    <div style={{ height: 280 }} role="img" aria-label="Observed default rates by period against the fitted 50%, 95% and 99% bands">
+      <ResponsiveLine<Series>
+        data={data}
+        margin={{ top: 14, right: 16, bottom: 40, left: 58 }}
+        xScale={{ type: 'point' }}
+        yScale={{ type: 'linear', min: 0, max: maxY }}
+        axisLeft={{ format: (v) => pct(Number(v), 2), tickValues: 5, legend: 'default rate', legendOffset: -52, legendPosition: 'middle' }}
+        axisBottom={{ tickRotation: periods.length > 14 ? -45 : 0 }}
+        colors={['var(--color-ink)']}
+        lineWidth={1.5}
+        enablePoints={false}
+        enableGridX={false}
+        useMesh
+        tooltip={({ point }) => (
+          <div className="panel px-2 py-1 text-xs">
+            {String(point.data.x)}: <span className="num">{pct(point.data.y as number)}</span>
+          </div>
+        )}
+        layers={['grid', BandsLayer, 'axes', 'lines', ExceedLayer, 'mesh']}
+        theme={{ text: { fontFamily: 'inherit', fontSize: 11 }, axis: { legend: { text: { fontSize: 11 } } } }}
+      />
+    </div>
+  );
+}

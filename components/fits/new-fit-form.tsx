@@ -1,0 +1,216 @@
+'use client';
+
+import { useMutation } from '@tanstack/react-query';
+import { useRouter } from 'next/navigation';
+import { useId, useMemo, useState, type FormEvent } from 'react';
+import type { AppError } from '@/lib/errors';
+import { postFit } from '@/lib/fits/queries';
+
+export type DatasetOption = {
+  id: number;
+  name: string;
+  kind: string;
+  superseded: boolean;
+  segments: { name: string; from: number; to: number; periods: number }[];
+};
+
+function intOrNaN(s: string): number {
+  return /^\s*\d+\s*$/.test(s) ? Number(s) : Number.NaN;
+}
+
+/** The New fit form: dataset, segments, window, level, optional bootstrap and audit. */
+export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
+  const id = useId();
+  const router = useRouter();
+  const [datasetId, setDatasetId] = useState<number | null>(datasets[0]?.id ?? null);
+  const dataset = datasets.find((d) => d.id === datasetId) ?? null;
+  const [chosen, setChosen] = useState<Set<string>>(() => new Set(datasets[0]?.segments.map((s) => s.name) ?? []));
+  const years = useMemo(() => {
+    if (!dataset || dataset.segments.length === 0) return [];
+    const lo = Math.min(...dataset.segments.map((s) => s.from));
+    const hi = Math.max(...dataset.segments.map((s) => s.to));
+    return Array.from({ length: hi - lo + 1 }, (_, i) => lo + i);
+  }, [dataset]);
+  const [from, setFrom] = useState('');
+  const [to, setTo] = useState('');
+  const [level, setLevel] = useState('0.95');
+  const [boot, setBoot] = useState(true);
+  const [bootB, setBootB] = useState('200');
+  const [bootSeed, setBootSeed] = useState('20260101');
+  const [audit, setAudit] = useState(false);
+  const [auditR, setAuditR] = useState('50');
+  const [auditSeed, setAuditSeed] = useState('20260102');
+  const [localError, setLocalError] = useState<string | null>(null);
+
+  const submit = useMutation({
+    mutationFn: postFit,
+    onSuccess: (res) => router.push(`/fits/${res.id}`),
+  });
+
+  function onDataset(v: string) {
+    const next = datasets.find((d) => d.id === Number(v)) ?? null;
+    setDatasetId(next?.id ?? null);
+    setChosen(new Set(next?.segments.map((s) => s.name) ?? []));
+    setFrom('');
+    setTo('');
+  }
+
+  function onSubmit(e: FormEvent) {
+    e.preventDefault();
+    setLocalError(null);
+    if (!dataset) return setLocalError('Choose a dataset.');
+    if (chosen.size === 0) return setLocalError('Choose at least one segment.');
+    const body: Record<string, unknown> = { datasetId: dataset.id, segments: [...chosen], level: Number(level) };
+    if (from) body.from = Number(from);
+    if (to) body.to = Number(to);
+    if (boot) {
+      const b = intOrNaN(bootB);
+      const s = intOrNaN(bootSeed);
+      if (!(b >= 20 && b <= 2000)) return setLocalError('Bootstrap replications: give a whole number from 20 to 2,000.');
+      if (!Number.isFinite(s)) return setLocalError('Bootstrap seed: give a whole number.');
+      body.bootstrap = { replications: b, seed: s };
+    }
+    if (audit) {
+      const r = intOrNaN(auditR);
+      const s = intOrNaN(auditSeed);
+      if (!(r >= 10 && r <= 500)) return setLocalError('Audit replications: give a whole number from 10 to 500.');
+      if (!Number.isFinite(s)) return setLocalError('Audit seed: give a whole number.');
+      body.audit = { replications: r, seed: s };
+    }
+    submit.mutate(body);
+  }
+
+  if (datasets.length === 0) {
+    return <p className="notice-caution text-sm">There is no ready dataset yet. Upload cohort data on the Data screen first.</p>;
+  }
+  const serverError = submit.error as AppError | null;
+  return (
+    <form onSubmit={onSubmit} className="space-y-5" noValidate>
+      <div>
+        <label className="label" htmlFor={`${id}-ds`}>
+          Dataset
+        </label>
+        <select id={`${id}-ds`} className="field" value={datasetId ?? ''} onChange={(e) => onDataset(e.target.value)}>
+          {datasets.map((d) => (
+            <option key={d.id} value={d.id}>
+              #{d.id} {d.name} ({d.kind}, {d.segments.length} segment{d.segments.length === 1 ? '' : 's'}){d.superseded ? ' — superseded' : ''}
+            </option>
+          ))}
+        </select>
+      </div>
+      <fieldset>
+        <legend className="label">Segments</legend>
+        <div className="grid gap-1 sm:grid-cols-2">
+          {dataset?.segments.map((s) => (
+            <label key={s.name} className="flex items-center gap-2 text-sm">
+              <input
+                type="checkbox"
+                checked={chosen.has(s.name)}
+                onChange={(e) => {
+                  const next = new Set(chosen);
+                  if (e.target.checked) next.add(s.name);
+                  else next.delete(s.name);
+                  setChosen(next);
+                }}
+              />
+              {s.name}{' '}
+              <span className="text-xs text-[var(--color-muted)]">
+                {s.from}–{s.to}, {s.periods} periods
+              </span>
+            </label>
+          ))}
+        </div>
+      </fieldset>
+      <div className="grid gap-3 sm:grid-cols-3">
+        <div>
+          <label className="label" htmlFor={`${id}-from`}>
+            Window from
+          </label>
+          <select id={`${id}-from`} className="field" value={from} onChange={(e) => setFrom(e.target.value)}>
+            <option value="">first period</option>
+            {years.map((y) => (
+              <option key={y} value={y}>
+                {y}
+              </option>
+            ))}
+          </select>
+        </div>
+        <div>
+          <label className="label" htmlFor={`${id}-to`}>
+            Window to
+          </label>
+          <select id={`${id}-to`} className="field" value={to} onChange={(e) => setTo(e.target.value)}>
+            <option value="">last period</option>
+            {years.map((y) => (
+              <option key={y} value={y}>
+                {y}
+              </option>
+            ))}
+          </select>
+        </div>
+        <div>
+          <label className="label" htmlFor={`${id}-level`}>
+            Interval level
+          </label>
+          <select id={`${id}-level`} className="field" value={level} onChange={(e) => setLevel(e.target.value)}>
+            <option value="0.9">90%</option>
+            <option value="0.95">95%</option>
+            <option value="0.99">99%</option>
+          </select>
+        </div>
+      </div>
+      <fieldset className="space-y-2">
+        <label className="flex items-center gap-2 text-sm font-medium">
+          <input type="checkbox" checked={boot} onChange={(e) => setBoot(e.target.checked)} /> Parametric bootstrap of the likelihood estimate
+        </label>
+        {boot ? (
+          <div className="grid gap-3 pl-6 sm:grid-cols-3">
+            <div>
+              <label className="label" htmlFor={`${id}-bb`}>
+                Bootstrap replications
+              </label>
+              <input id={`${id}-bb`} className="field num" inputMode="numeric" value={bootB} onChange={(e) => setBootB(e.target.value)} />
+            </div>
+            <div>
+              <label className="label" htmlFor={`${id}-bs`}>
+                Bootstrap seed
+              </label>
+              <input id={`${id}-bs`} className="field num" inputMode="numeric" value={bootSeed} onChange={(e) => setBootSeed(e.target.value)} />
+            </div>
+          </div>
+        ) : null}
+        <label className="flex items-center gap-2 text-sm font-medium">
+          <input type="checkbox" checked={audit} onChange={(e) => setAudit(e.target.checked)} /> Estimator audit at this sample size
+        </label>
+        {audit ? (
+          <div className="grid gap-3 pl-6 sm:grid-cols-3">
+            <div>
+              <label className="label" htmlFor={`${id}-ar`}>
+                Audit replications
+              </label>
+              <input id={`${id}-ar`} className="field num" inputMode="numeric" value={auditR} onChange={(e) => setAuditR(e.target.value)} />
+            </div>
+            <div>
+              <label className="label" htmlFor={`${id}-as`}>
+                Audit seed
+              </label>
+              <input id={`${id}-as`} className="field num" inputMode="numeric" value={auditSeed} onChange={(e) => setAuditSeed(e.target.value)} />
+            </div>
+          </div>
+        ) : null}
+        <p className="text-xs text-[var(--color-muted)]">
+          The bootstrap and the audit take a few seconds per hundred replications and segment. Seeds are stored with the run, so
+          the numbers can be reproduced exactly.
+        </p>
+      </fieldset>
+      {localError || serverError ? (
+        <p className="notice-bad text-sm" role="alert">
+          {localError ?? serverError?.message}
+        </p>
+      ) : null}
+      <button type="submit" className="btn" disabled={submit.isPending || submit.isSuccess}>
+        {submit.isPending || submit.isSuccess ? 'Starting…' : 'Start the fit'}
+      </button>
+    </form>
+  );
+}

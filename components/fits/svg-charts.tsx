@@ -1,0 +1,189 @@
+import { fixed, pct } from '@/lib/fits/format';
+import { ESTIMATOR_NAMES, type EstimatorKey, type SegmentResult } from '@/lib/fits/results';
+
+/** Linear scale helper. */
+function scale(d0: number, d1: number, r0: number, r1: number) {
+  return (v: number) => r0 + ((v - d0) / (d1 - d0 || 1)) * (r1 - r0);
+}
+
+function niceMax(v: number): number {
+  const steps = [0.05, 0.1, 0.15, 0.2, 0.3, 0.4, 0.5, 0.6, 0.8, 1];
+  return steps.find((s) => s >= v) ?? 1;
+}
+
+/**
+ * Forest chart: each estimator's rho with its intervals (profile and bootstrap for the likelihood
+ * estimate), the chosen estimator highlighted, the supervisory correlation as a reference line.
+ */
+export function ForestChart({ seg, supervisory }: { seg: SegmentResult; supervisory: number | null }) {
+  const keys = Object.keys(seg.estimates) as EstimatorKey[];
+  const mle = seg.estimates.binomialMle;
+  const values = [
+    ...keys.map((k) => seg.estimates[k].rho ?? 0),
+    mle.intervals.profile?.upper ?? 0,
+    mle.intervals.bootstrap?.upper ?? 0,
+    supervisory ?? 0,
+  ];
+  const max = niceMax(Math.max(...values) * 1.05);
+  const W = 640;
+  const left = 230;
+  const right = 70;
+  const rowH = 30;
+  const top = 10;
+  const H = top + keys.length * rowH + 34;
+  const x = scale(0, max, left, W - right);
+  const ticks = Array.from({ length: 6 }, (_, i) => (max * i) / 5);
+  return (
+    <svg viewBox={`0 0 ${W} ${H}`} width="100%" role="img" aria-label="Estimates of rho by estimator with intervals" data-testid="forest-chart">
+      {ticks.map((t) => (
+        <g key={t}>
+          <line x1={x(t)} x2={x(t)} y1={top} y2={H - 28} stroke="#efefea" />
+          <text x={x(t)} y={H - 14} fontSize={10} textAnchor="middle" fill="var(--color-muted)">
+            {fixed(t, 2)}
+          </text>
+        </g>
+      ))}
+      <text x={(left + W - right) / 2} y={H - 1} fontSize={10} textAnchor="middle" fill="var(--color-muted)">
+        asset correlation ρ
+      </text>
+      {supervisory !== null ? (
+        <g>
+          <line x1={x(supervisory)} x2={x(supervisory)} y1={top} y2={H - 28} stroke="var(--color-caution)" strokeDasharray="4 3" />
+          <text x={x(supervisory) + 3} y={top + 8} fontSize={9.5} fill="var(--color-caution)">
+            supervisory {fixed(supervisory, 3)}
+          </text>
+        </g>
+      ) : null}
+      {keys.map((k, i) => {
+        const e = seg.estimates[k];
+        const y = top + i * rowH + rowH / 2 + 4;
+        const chosen = k === seg.chosen;
+        return (
+          <g key={k}>
+            {chosen ? <rect x={0} y={y - rowH / 2} width={W} height={rowH} fill="var(--color-accent-soft)" /> : null}
+            <text x={6} y={y + 4} fontSize={12} fontWeight={chosen ? 600 : 400} fill="var(--color-ink)">
+              {ESTIMATOR_NAMES[k]}
+              {chosen ? ' (chosen)' : ''}
+            </text>
+            {k === 'binomialMle' && mle.intervals.profile ? (
+              <line x1={x(mle.intervals.profile.lower)} x2={x(mle.intervals.profile.upper)} y1={y} y2={y} stroke="var(--color-accent)" strokeWidth={3} />
+            ) : null}
+            {k === 'binomialMle' && mle.intervals.bootstrap ? (
+              <line x1={x(mle.intervals.bootstrap.lower)} x2={x(mle.intervals.bootstrap.upper)} y1={y + 6} y2={y + 6} stroke="var(--color-muted)" strokeWidth={1.5} />
+            ) : null}
+            {e.rho !== null ? (
+              <>
+                <circle cx={x(e.rho)} cy={y} r={chosen ? 5.5 : 4} fill={chosen ? 'var(--color-accent)' : 'white'} stroke="var(--color-accent)" strokeWidth={1.5} />
+                <text x={W - 6} y={y + 4} fontSize={11} textAnchor="end" className="num" fill="var(--color-ink)">
+                  {fixed(e.rho, 3)}
+                </text>
+              </>
+            ) : (
+              <text x={left} y={y + 4} fontSize={11} fill="var(--color-bad)">
+                undefined for these data
+              </text>
+            )}
+          </g>
+        );
+      })}
+    </svg>
+  );
+}
+
+/** Profile log-likelihood of rho with the interval cut-off line and the interval ends. */
+export function ProfileChart({ profile, estimate, interval }: {
+  profile: NonNullable<SegmentResult['profile']>;
+  estimate: number;
+  interval: { lower: number; upper: number; level: number } | null;
+}) {
+  const W = 460;
+  const H = 230;
+  const m = { l: 56, r: 12, t: 12, b: 36 };
+  const xs = profile.points.map((p) => p.rho);
+  const floor = profile.maxLogLik - Math.max(6, (profile.maxLogLik - profile.cutoff) * 3);
+  const ys = profile.points.map((p) => Math.max(p.logLik, floor));
+  const x = scale(0, Math.max(...xs), m.l, W - m.r);
+  const y = scale(floor, profile.maxLogLik + 0.3, H - m.b, m.t);
+  const path = profile.points.map((p, i) => `${i === 0 ? 'M' : 'L'}${x(p.rho).toFixed(1)},${y(ys[i]).toFixed(1)}`).join(' ');
+  const xt = Array.from({ length: 5 }, (_, i) => (Math.max(...xs) * i) / 4);
+  return (
+    <svg viewBox={`0 0 ${W} ${H}`} width="100%" role="img" aria-label="Profile log-likelihood of rho with the interval cut-off" data-testid="profile-chart">
+      <rect x={m.l} y={m.t} width={W - m.l - m.r} height={H - m.t - m.b} fill="white" stroke="var(--color-line)" />
+      {xt.map((t) => (
+        <text key={t} x={x(t)} y={H - m.b + 14} fontSize={10} textAnchor="middle" fill="var(--color-muted)">
+          {fixed(t, 2)}
+        </text>
+      ))}
+      <text x={(m.l + W - m.r) / 2} y={H - 4} fontSize={10} textAnchor="middle" fill="var(--color-muted)">
+        ρ (p re-maximised at each ρ)
+      </text>
+      <text x={12} y={H / 2} fontSize={10} textAnchor="middle" fill="var(--color-muted)" transform={`rotate(-90 12 ${H / 2})`}>
+        profile log-likelihood
+      </text>
+      <text x={m.l - 4} y={y(profile.maxLogLik) + 3} fontSize={9.5} textAnchor="end" fill="var(--color-muted)">
+        {profile.maxLogLik.toFixed(1)}
+      </text>
+      {interval ? <rect x={x(interval.lower)} y={m.t} width={x(interval.upper) - x(interval.lower)} height={H - m.t - m.b} fill="var(--color-accent-soft)" /> : null}
+      <line x1={m.l} x2={W - m.r} y1={y(profile.cutoff)} y2={y(profile.cutoff)} stroke="var(--color-bad)" strokeDasharray="5 4" />
+      <text x={W - m.r - 4} y={y(profile.cutoff) - 4} fontSize={9.5} textAnchor="end" fill="var(--color-bad)">
+        cut-off: maximum − χ²₁({interval ? interval.level : 0.95})/2
+      </text>
+      <path d={path} fill="none" stroke="var(--color-accent)" strokeWidth={2} />
+      <line x1={x(estimate)} x2={x(estimate)} y1={m.t} y2={H - m.b} stroke="var(--color-accent)" strokeOpacity={0.6} />
+    </svg>
+  );
+}
+
+/** Implied factor x_t by period (bars) and the PIT values (dots in [0, 1]). */
+export function FactorChart({ periods, factor, pit }: { periods: string[]; factor: (number | null)[]; pit: number[] | null }) {
+  const W = 460;
+  const H = 200;
+  const m = { l: 36, r: 10, t: 10, b: 30 };
+  const lim = Math.max(3, ...factor.map((f) => Math.abs(f ?? 0)));
+  const bw = (W - m.l - m.r) / periods.length;
+  const y = scale(-lim, lim, H - m.b, m.t);
+  return (
+    <svg viewBox={`0 0 ${W} ${H}`} width="100%" role="img" aria-label="Implied systematic factor by period" data-testid="factor-chart">
+      <rect x={m.l} y={m.t} width={W - m.l - m.r} height={H - m.t - m.b} fill="white" stroke="var(--color-line)" />
+      {[-2, 0, 2].map((t) => (
+        <g key={t}>
+          <line x1={m.l} x2={W - m.r} y1={y(t)} y2={y(t)} stroke={t === 0 ? 'var(--color-muted)' : '#efefea'} />
+          <text x={m.l - 4} y={y(t) + 3} fontSize={10} textAnchor="end" fill="var(--color-muted)">
+            {t}
+          </text>
+        </g>
+      ))}
+      {factor.map((f, i) => {
+        const cx = m.l + i * bw + bw / 2;
+        return (
+          <g key={periods[i]}>
+            {f === null ? (
+              <text x={cx} y={y(0) - 4} fontSize={9} textAnchor="middle" fill="var(--color-caution)">
+                n/a
+              </text>
+            ) : (
+              <rect x={cx - bw * 0.3} width={bw * 0.6} y={Math.min(y(0), y(f))} height={Math.abs(y(f) - y(0))} fill={f < 0 ? 'var(--color-bad)' : 'var(--color-accent)'} fillOpacity={0.7} />
+            )}
+            {i % Math.ceil(periods.length / 12) === 0 ? (
+              <text x={cx} y={H - m.b + 13} fontSize={9.5} textAnchor="middle" fill="var(--color-muted)">
+                {periods[i]}
+              </text>
+            ) : null}
+          </g>
+        );
+      })}
+      {pit
+        ? pit.map((u, i) => (
+            <circle key={`pit-${periods[i]}`} cx={m.l + i * bw + bw / 2} cy={scale(0, 1, H - m.b, m.t)(u)} r={2.5} fill="var(--color-ink)" />
+          ))
+        : null}
+      <text x={W - m.r - 4} y={m.t + 11} fontSize={9.5} textAnchor="end" fill="var(--color-muted)">
+        bars: implied factor xₜ (negative = bad year) · dots: PIT value on a 0–1 scale
+      </text>
+    </svg>
+  );
+}
+
+export function percentCell(v: number | null | undefined) {
+  return <span className="num">{pct(v ?? null)}</span>;
+}
