@@ -1,0 +1,127 @@
+import { execFile } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { promisify } from 'node:util';
+import { describe, expect, it } from 'vitest';
+import type { FitDocument } from '@/lib/cli/fit';
+import { main } from '@/lib/cli';
+import { ENGINE_VERSION } from '@/lib/stats/version';
+
+const run = promisify(execFile);
+const ROOT = path.resolve(import.meta.dirname, '../../..');
+const CSV = path.join(ROOT, 'tests/fixtures/cli/panels-ab.csv');
+
+/** Spawns the CLI as `npm run cli` does (tsx lib/cli/index.ts) and returns code, stdout, stderr. */
+async function cli(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
+  try {
+    const { stdout, stderr } = await run(process.execPath, ['--import', 'tsx', 'lib/cli/index.ts', ...args], { cwd: ROOT, maxBuffer: 1 << 26 });
+    return { code: 0, stdout, stderr };
+  } catch (err) {
+    const e = err as { code: number; stdout: string; stderr: string };
+    return { code: e.code, stdout: e.stdout, stderr: e.stderr };
+  }
+}
+
+function tempCsv(text: string): string {
+  const dir = mkdtempSync(path.join(tmpdir(), 'rhobook-cli-'));
+  const file = path.join(dir, 'cohorts.csv');
+  writeFileSync(file, text);
+  return file;
+}
+
+describe('cli fit --json (spawned)', () => {
+  it('prints the issue 3 document for a two-segment file, with panel A and B values', async () => {
+    const { code, stdout } = await run('npm', ['run', '--silent', 'cli', '--', 'fit', CSV, '--json'], { cwd: ROOT, maxBuffer: 1 << 26 }).then(
+      (r) => ({ code: 0, ...r }),
+    );
+    expect(code).toBe(0);
+    const doc = JSON.parse(stdout) as FitDocument;
+    expect(doc.engine).toEqual({ version: ENGINE_VERSION });
+    expect(doc.segments.map((s) => s.segment)).toEqual(['Panel A', 'Panel B']);
+    const [a, b] = doc.segments;
+    expect(a).toMatchObject({ T: 10, periods: ['2001', '2002', '2003', '2004', '2005', '2006', '2007', '2008', '2009', '2010'] });
+    for (const key of ['segment', 'T', 'periods', 'estimates', 'warnings', 'timing']) expect(a).toHaveProperty(key);
+    expect(a.timing.ms).toBeGreaterThan(0);
+    const m = a.estimates.binomialMle;
+    // issue 3, computed with SciPy 1.17
+    expect(Math.abs(m.rho! - 0.037091)).toBeLessThan(1e-5);
+    expect(Math.abs(m.pd! - 0.013307)).toBeLessThan(1e-5);
+    expect(Math.abs(m.logLik! - -33.785195)).toBeLessThan(1e-5);
+    expect(Math.abs(m.intervals.profile!.lower - 0.01177)).toBeLessThan(2e-3);
+    expect(Math.abs(m.intervals.profile!.upper - 0.1147)).toBeLessThan(2e-3);
+    expect(m.intervals.wald).toMatchObject({ level: 0.95 });
+    expect(m.intervals.wald!.se).toBeGreaterThan(0);
+    expect(m.intervals.bootstrap).toBeNull();
+    expect(Math.abs(a.estimates.momentVariance.rho! - 0.05111)).toBeLessThan(1e-6);
+    expect(Math.abs(a.estimates.jointDefault.rho! - 0.037745)).toBeLessThan(1e-6);
+    // issue 3, computed with SciPy 1.17
+    expect(b.estimates.vasicekMle).toMatchObject({ rho: null, pd: null, status: 'undefined' });
+    expect(typeof b.estimates.vasicekMle.reason).toBe('string');
+    expect(Math.abs(b.estimates.binomialMle.rho! - 0.06262)).toBeLessThan(1e-5);
+    expect(Math.abs(b.estimates.binomialMle.pd! - 0.002561)).toBeLessThan(1e-6);
+    expect(b.estimates.binomialMle.intervals.profile!.lower).toBe(0);
+    expect(Math.abs(b.estimates.binomialMle.intervals.profile!.upper - 0.344)).toBeLessThan(2e-3);
+    expect(Math.abs(b.estimates.jointDefault.rho! - 0.050346)).toBeLessThan(1e-6);
+    expect(b.warnings.map((w) => w.code)).toContain('zero-default-periods');
+  });
+
+  it('filters by segment and period window and bootstraps identically on 1 and 2 threads', async () => {
+    const args = ['fit', CSV, '--json', '--segment', 'Panel A', '--from', '2003', '--to', '2009', '--level', '0.9', '--bootstrap', '12', '--seed', '5'];
+    const [one, two] = await Promise.all([cli([...args, '--threads', '1']), cli([...args, '--threads', '2'])]);
+    expect(one.code).toBe(0);
+    expect(two.code).toBe(0);
+    const d1 = JSON.parse(one.stdout) as FitDocument;
+    const d2 = JSON.parse(two.stdout) as FitDocument;
+    expect(d1.segments).toHaveLength(1);
+    const s = d1.segments[0];
+    expect(s).toMatchObject({ segment: 'Panel A', T: 7, periods: ['2003', '2004', '2005', '2006', '2007', '2008', '2009'], level: 0.9 });
+    expect(s.estimates.binomialMle.intervals.profile!.level).toBe(0.9);
+    expect(s.estimates.binomialMle.intervals.bootstrap).toMatchObject({ level: 0.9, replications: 12, seed: 5 });
+    expect(d2.segments[0].estimates).toEqual(s.estimates);
+  });
+
+  it('bad rows: exit code 2 and a message naming the line and the problem', async () => {
+    const file = tempCsv('segment,period,obligors,defaults\nSME,2001,100,3\nSME,2002,50,70\nSME,2003,abc,1\n');
+    const { code, stdout, stderr } = await cli(['fit', file, '--json']);
+    expect(code).toBe(2);
+    expect(stdout).toBe('');
+    expect(stderr).toMatch(/line 3, column defaults: Defaults \(70\) exceed obligors \(50\)/);
+    expect(stderr).toMatch(/line 4, column obligors/);
+    expect(stderr).toMatch(/nothing was fitted/);
+  });
+
+  it('prints a readable table without --json', async () => {
+    const { code, stdout } = await cli(['fit', CSV, '--segment', 'Panel B']);
+    expect(code).toBe(0);
+    expect(stdout).toMatch(/Segment Panel B: T = 10 \(2001-2010\)/);
+    expect(stdout).toMatch(/binomialMle .*0\.0626/);
+    expect(stdout).toMatch(/vasicekMle .*undefined/);
+  });
+});
+
+describe('cli main (in process): usage errors exit 2 with a sentence', () => {
+  const io = () => {
+    const out: string[] = [];
+    const err: string[] = [];
+    return { out, err, io: { out: (t: string) => void out.push(t), err: (t: string) => void err.push(t) } };
+  };
+  it.each([
+    [['fit'], /exactly one cohort CSV file/],
+    [['fit', CSV, '--level', '95'], /--level must be a number strictly between 0 and 1/],
+    [['fit', CSV, '--bootstrap', '1'], /--bootstrap must be a whole number of replications/],
+    [['fit', CSV, '--seed', '3'], /give --bootstrap B as well/],
+    [['fit', CSV, '--from', '2010', '--to', '2001'], /--from \(2010\) is after --to \(2001\)/],
+    [['fit', CSV, '--segment', 'Retail'], /no segment "Retail".*"Panel A", "Panel B"/],
+    [['fit', CSV, '--from', '2020'], /has no period from 2020/],
+    [['fit', CSV, '--asset-class', 'bank'], /--asset-class must be one of/],
+    [['fit', CSV, '--frobnicate'], /Unknown option/],
+    [['fit', '/nonexistent/cohorts.csv'], /no such file/],
+    [['estimate'], /Unknown command "estimate"/],
+  ])('%j', async (argv, message) => {
+    const h = io();
+    expect(await main(argv as string[], h.io)).toBe(2);
+    expect(h.err.join('\n')).toMatch(message);
+    expect(h.out).toEqual([]);
+  });
+});

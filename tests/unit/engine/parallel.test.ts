@@ -1,0 +1,100 @@
+import { afterAll, describe, expect, it } from 'vitest';
+import engine from '@/tests/fixtures/engine/engine-fixtures.json';
+import { EnginePool, fitPanelParallel } from '@/lib/engine';
+import { splitRange } from '@/lib/engine/tasks';
+import { fitPanel, type PanelInput, type TimedSegmentFit } from '@/lib/stats/fit-panel';
+
+const A = engine.panels.A;
+const panelA: PanelInput = {
+  segment: 'Panel A',
+  periods: A.obligors.map((_, t) => String(2001 + t)),
+  obligors: A.obligors,
+  defaults: A.defaults,
+};
+const options = { bootstrap: { replications: 16, seed: 7 } };
+const withoutTiming = ({ timing, ...rest }: TimedSegmentFit) => {
+  expect(timing.ms).toBeGreaterThan(0);
+  return rest;
+};
+
+describe('splitRange', () => {
+  it('covers [0, total) once, in order', () => {
+    expect(splitRange(7, 3)).toEqual([{ from: 0, to: 3 }, { from: 3, to: 6 }, { from: 6, to: 7 }]);
+    expect(splitRange(0, 5)).toEqual([]);
+    expect(() => splitRange(5, 0)).toThrow(RangeError);
+  });
+});
+
+describe('fitPanelParallel', () => {
+  const pools: EnginePool[] = [];
+  afterAll(async () => {
+    await Promise.all(pools.map((p) => p.close()));
+  });
+
+  it('gives identical numbers with 2 threads, 1 thread, in this thread and in fitPanel', async () => {
+    const serial = fitPanel(panelA, options);
+    const inThread = withoutTiming(await fitPanelParallel(panelA, options, { threads: 0 }));
+    const one = withoutTiming(await fitPanelParallel(panelA, options, { threads: 1 }));
+    const pct: number[] = [];
+    const two = withoutTiming(await fitPanelParallel(panelA, options, { threads: 2, onProgress: (p) => void pct.push(p) }));
+    expect(inThread).toEqual(serial);
+    expect(one).toEqual(serial);
+    expect(two).toEqual(serial);
+    expect(two.estimates.binomialMle.intervals.bootstrap).toMatchObject({ replications: 16, seed: 7 });
+    // progress rises to 100
+    for (let i = 1; i < pct.length; i++) expect(pct[i]).toBeGreaterThanOrEqual(pct[i - 1]);
+    expect(pct.at(-1)).toBe(100);
+  });
+
+  it('reuses a started pool across segments', async () => {
+    const pool = new EnginePool(2);
+    pools.push(pool);
+    await pool.start();
+    const first = withoutTiming(await fitPanelParallel(panelA, options, { pool }));
+    const second = withoutTiming(await fitPanelParallel(panelA, { bootstrap: { replications: 6, seed: 8 } }, { pool }));
+    expect(first).toEqual(fitPanel(panelA, options));
+    expect(second.estimates.binomialMle.intervals.bootstrap!.seed).toBe(8);
+    expect(pool.isClosed).toBe(false);
+  });
+
+  it('stops on abort with an AbortError and closes its threads', async () => {
+    const controller = new AbortController();
+    const pool = new EnginePool(2);
+    pools.push(pool);
+    const run = fitPanelParallel(panelA, { bootstrap: { replications: 400, seed: 1 } }, {
+      pool,
+      signal: controller.signal,
+      onProgress: (p) => {
+        if (p > 2) controller.abort();
+      },
+    });
+    await expect(run).rejects.toMatchObject({ name: 'AbortError' });
+    expect(pool.isClosed).toBe(true);
+  });
+
+  it('stops when onProgress throws (a cancelled job) and rejects with that error', async () => {
+    const stop = new Error('job cancelled');
+    const run = fitPanelParallel(panelA, { bootstrap: { replications: 400, seed: 1 } }, {
+      threads: 2,
+      onProgress: async (p) => {
+        if (p > 2) throw stop;
+      },
+    });
+    await expect(run).rejects.toBe(stop);
+  });
+
+  it('passes a worker RangeError back as a RangeError', async () => {
+    const pool = new EnginePool(1);
+    pools.push(pool);
+    const bad = { kind: 'bootstrap' as const, spec: { obligors: [100], pd: 2, rho: 0.1, seed: 1 }, from: 0, to: 1 };
+    await expect(pool.run([bad])).rejects.toThrow(RangeError);
+    await expect(pool.run([bad])).rejects.toThrow(/closed/);
+  });
+
+  it('refuses bad input before starting threads', async () => {
+    await expect(fitPanelParallel({ ...panelA, defaults: [2000, ...A.defaults.slice(1)] }, options, { threads: 2 })).rejects.toThrow(
+      /"Panel A", period 2001/,
+    );
+    expect(() => new EnginePool(0)).toThrow(RangeError);
+  });
+});
