@@ -1,6 +1,6 @@
 /**
  * `rhobook fit FILE.csv [--json] [--segment NAME] [--from PERIOD] [--to PERIOD] [--level 0.95]
- * [--bootstrap B] [--seed N] [--threads N] [--asset-class CLASS]`: fits every segment of a cohort
+ * [--bootstrap B] [--seed N] [--threads N] [--asset-class CLASS] [--turnover S]`: fits every segment of a cohort
  * CSV (DESIGN.md, `segment,period,obligors,defaults`) and prints issue 3's JSON document or a
  * readable table. The file is validated by lib/ingest's validateCohortText, the same rules as an
  * upload; any error stops the run with exit code 2 and the file's line, column and problem.
@@ -35,7 +35,7 @@ export class CliInputError extends Error {
 }
 
 export const FIT_USAGE = `Usage: npm run --silent cli -- fit FILE.csv [--json] [--segment NAME] [--from PERIOD] [--to PERIOD]
-                              [--level 0.95] [--bootstrap B] [--seed N] [--threads N] [--asset-class CLASS]
+                              [--level 0.95] [--bootstrap B] [--seed N] [--threads N] [--asset-class CLASS] [--turnover S]
 
 Fits the asset correlation of every segment of a cohort CSV (columns segment,period,obligors,defaults).
   --json            print one JSON document (engine version, one entry per segment) instead of a table
@@ -45,7 +45,8 @@ Fits the asset correlation of every segment of a cohort CSV (columns segment,per
   --bootstrap B     add a parametric bootstrap interval with B replications (2 to 100000)
   --seed N          seed of the bootstrap, 0 to 4294967295 (default 1)
   --threads N       worker threads for the bootstrap (default: available cores; 0 = this thread)
-  --asset-class C   compare with the Basel IRB supervisory correlation of ${ASSET_CLASSES.join(', ')}`;
+  --asset-class C   compare with the Basel IRB supervisory correlation of ${ASSET_CLASSES.join(', ')}
+  --turnover S      annual turnover in EUR millions, for the SME size adjustment of sme-corporate`;
 
 function parseNumber(name: string, raw: string | undefined, check: (v: number) => boolean, expected: string): number | undefined {
   if (raw === undefined) return undefined;
@@ -71,6 +72,7 @@ export interface FitArgs {
   seed: number;
   threads?: number;
   assetClass?: AssetClass;
+  turnoverMillions?: number;
 }
 
 /** Parses the arguments after `fit`; throws CliInputError with a sentence for anything wrong. */
@@ -91,6 +93,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
         seed: { type: 'string' },
         threads: { type: 'string' },
         'asset-class': { type: 'string' },
+        turnover: { type: 'string' },
       },
     });
   } catch (err) {
@@ -111,6 +114,13 @@ export function parseFitArgs(argv: string[]): FitArgs {
   if (rawClass !== undefined && !(ASSET_CLASSES as readonly string[]).includes(rawClass)) {
     throw new CliInputError(`--asset-class must be one of ${ASSET_CLASSES.join(', ')}; got "${rawClass}".`);
   }
+  const turnover = parseNumber('turnover', values.turnover, (v) => v > 0, 'a positive number of EUR millions, for example 25');
+  if (rawClass === 'sme-corporate' && turnover === undefined) {
+    throw new CliInputError('--asset-class sme-corporate needs --turnover S, the annual turnover in EUR millions (BCBS 2006 para 273).');
+  }
+  if (turnover !== undefined && rawClass !== 'sme-corporate') {
+    throw new CliInputError('--turnover applies only to --asset-class sme-corporate (the SME size adjustment).');
+  }
   if (values.seed !== undefined && bootstrap === undefined) {
     throw new CliInputError('--seed is the seed of the bootstrap; give --bootstrap B as well (or leave --seed out).');
   }
@@ -125,6 +135,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
     seed,
     ...(threads !== undefined ? { threads } : {}),
     ...(rawClass !== undefined ? { assetClass: rawClass as AssetClass } : {}),
+    ...(turnover !== undefined ? { turnoverMillions: turnover } : {}),
   };
 }
 
@@ -198,6 +209,7 @@ export async function runFit(argv: string[], io: CliIo): Promise<number> {
             level: args.level,
             bootstrap: anyBootstrap ? { replications: args.bootstrap!, seed: args.seed } : null,
             assetClass: args.assetClass ?? null,
+            turnoverMillions: args.turnoverMillions ?? null,
           },
           { ...(pool ? { pool } : { threads: 0 }) },
         ),

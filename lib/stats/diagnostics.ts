@@ -130,6 +130,13 @@ export function lag1Autocorrelation(values: readonly number[]): number {
  * the intervals and the bootstrap all treat years as independent draws of the factor; a
  * persistent factor makes the intervals too narrow and biases the estimate of rho downwards.
  * At T = 20 the threshold is 0.44, at T = 10 it is 0.62.
+ *
+ * Special cases: T must be a positive whole number, otherwise RangeError.
+ *
+ * @example autocorrelationThreshold(20) // 0.4383
+ *
+ * Reference: Bartlett, M. S. (1946), "On the theoretical specification and sampling properties of
+ * autocorrelated time-series", JRSS Supplement 8:27-41; Box & Jenkins (1976), section 2.1.6.
  */
 export function autocorrelationThreshold(T: number): number {
   if (!(Number.isInteger(T) && T >= 1)) throw new RangeError(`autocorrelationThreshold: T must be a positive whole number; got ${T}.`);

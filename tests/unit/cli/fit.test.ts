@@ -100,6 +100,23 @@ describe('cli fit --json (spawned)', () => {
   });
 });
 
+describe('cli main (in process)', () => {
+  it('compares with the supervisory correlation of an asset class', async () => {
+    const out: string[] = [];
+    const code = await main(['fit', CSV, '--json', '--segment', 'Panel A', '--asset-class', 'sme-corporate', '--turnover', '27.5'], {
+      out: (t) => void out.push(t),
+      err: () => undefined,
+    });
+    expect(code).toBe(0);
+    const s = (JSON.parse(out[0]) as FitDocument).segments[0];
+    const pd = s.estimates.binomialMle.pd!;
+    const w = (1 - Math.exp(-50 * pd)) / (1 - Math.exp(-50));
+    // BCBS 2006 paras 272-273: corporate correlation minus 0.04 (1 - (S - 5) / 45) at S = 27.5
+    expect(s.implications!.supervisory!.rho).toBeCloseTo(0.12 * w + 0.24 * (1 - w) - 0.04 * (1 - 22.5 / 45), 12);
+    expect(s.implications!.maturityYears).toBe(2.5);
+  });
+});
+
 describe('cli main (in process): usage errors exit 2 with a sentence', () => {
   const io = () => {
     const out: string[] = [];
@@ -116,6 +133,8 @@ describe('cli main (in process): usage errors exit 2 with a sentence', () => {
     [['fit', CSV, '--from', '2020'], /has no period from 2020/],
     [['fit', CSV, '--asset-class', 'bank'], /--asset-class must be one of/],
     [['fit', CSV, '--frobnicate'], /Unknown option/],
+    [['fit', CSV, '--asset-class', 'sme-corporate'], /needs --turnover/],
+    [['fit', CSV, '--turnover', '20'], /applies only to --asset-class sme-corporate/],
     [['fit', '/nonexistent/cohorts.csv'], /no such file/],
     [['estimate'], /Unknown command "estimate"/],
   ])('%j', async (argv, message) => {
