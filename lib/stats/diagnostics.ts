@@ -11,7 +11,7 @@ import { RHO_SEARCH_LIMIT } from './estimators/binomial-mle';
 import type { EstimateStatus } from './estimators/types';
 import { capitalRequirement, supervisoryCorrelation, type AssetClass } from './irb';
 import { normalCdf } from './normal';
-import { impliedFactor, vasicekCdf, vasicekQuantile } from './vasicek';
+import { defaultCorrelation, impliedFactor, jointDefaultProbability, vasicekCdf, vasicekQuantile } from './vasicek';
 
 /** A warning about a fit, in plain words. */
 export interface FitWarning {
@@ -199,9 +199,15 @@ export interface Diagnostics {
   pit: number[] | null;
   /** Fitted 95% and 99% default-rate quantiles and how many periods exceed each; null as pit. */
   exceedances: { q95: number; q99: number; above95: number; above99: number } | null;
+  /** Fitted default-rate quantiles at 0.5%, 2.5%, 25%, 50%, 75%, 97.5%, 99.5% (the bands drawn behind the observed rates); null as pit. */
+  bands: Record<BandKey, number> | null;
   /** Why impliedFactor, pit and exceedances are null, when they are. */
   fittedNote: string | null;
 }
+
+/** Levels of the fitted default-rate bands. */
+export const BAND_LEVELS = { q005: 0.005, q025: 0.025, q25: 0.25, q50: 0.5, q75: 0.75, q975: 0.975, q995: 0.995 } as const;
+export type BandKey = keyof typeof BAND_LEVELS;
 
 /** The implications block: what the fitted (p, rho) mean. */
 export interface Implications {
@@ -217,6 +223,8 @@ export interface Implications {
   capital: { atEstimate: number; atLower: number | null; atUpper: number | null };
   /** Supervisory correlation of the asset class at the fitted PD and the capital it implies. */
   supervisory: { assetClass: AssetClass; rho: number; capital: number } | null;
+  /** Two obligors with the fitted PD: joint default probability Phi2(k, k; rho), p^2 when independent, default correlation. */
+  pair: { joint: number; independent: number; defaultCorrelation: number };
 }
 
 /**
@@ -337,6 +345,7 @@ export function panelDiagnostics(input: DiagnosticsInput): { diagnostics: Diagno
   let lag1: number | null = null;
   let pit: number[] | null = null;
   let exceedances: Diagnostics['exceedances'] = null;
+  let bands: Diagnostics['bands'] = null;
   let fittedNote: string | null = null;
   if (!usable || mle.status === 'not-converged') {
     fittedNote = 'There is no likelihood estimate, so there is no fitted distribution to compare the default rates with.';
@@ -360,6 +369,9 @@ export function panelDiagnostics(input: DiagnosticsInput): { diagnostics: Diagno
     const q95 = vasicekQuantile(0.95, pd, rho);
     const q99 = vasicekQuantile(0.99, pd, rho);
     exceedances = { q95, q99, above95: dr.filter((x) => x > q95).length, above99: dr.filter((x) => x > q99).length };
+    bands = Object.fromEntries(
+      (Object.keys(BAND_LEVELS) as BandKey[]).map((key) => [key, vasicekQuantile(BAND_LEVELS[key], pd, rho)]),
+    ) as Record<BandKey, number>;
   }
 
   return {
@@ -373,6 +385,7 @@ export function panelDiagnostics(input: DiagnosticsInput): { diagnostics: Diagno
       autocorrelationThreshold: threshold,
       pit,
       exceedances,
+      bands,
       fittedNote,
     },
     warnings,
@@ -387,7 +400,9 @@ export function panelDiagnostics(input: DiagnosticsInput): { diagnostics: Diagno
  * para 272) at r = rho_hat and at both interval ends, per unit of exposure at default, with the
  * fitted PD (not floored), LGD 0.45 unless given, and the maturity adjustment only when a
  * maturity is given. When an asset class is given, its supervisory correlation at the fitted PD
- * (BCBS 2006 paras 272-273, 328-330) and the capital it implies under the same convention.
+ * (BCBS 2006 paras 272-273, 328-330) and the capital it implies under the same convention. And
+ * for two obligors with the fitted PD: joint default probability Phi2(k, k; rho), p^2, and the
+ * default correlation (Phi2 - p^2) / (p (1 - p)) (DESIGN.md, "The model").
  *
  * Method: capitalRequirement and supervisoryCorrelation of lib/stats/irb.ts.
  *
@@ -439,5 +454,6 @@ export function capitalImplications(
       atUpper: interval ? capitalAt(interval.upper) : null,
     },
     supervisory,
+    pair: { joint: jointDefaultProbability(pd, pd, rho), independent: pd * pd, defaultCorrelation: defaultCorrelation(pd, pd, rho) },
   };
 }

@@ -30,7 +30,7 @@ import {
   type BootstrapReplication,
   type BootstrapSpec,
 } from './intervals/bootstrap';
-import { profileInterval } from './intervals/profile';
+import { chiSquare1Quantile, profileInterval } from './intervals/profile';
 import { waldInterval } from './intervals/wald';
 import type { AssetClass } from './irb';
 
@@ -82,6 +82,7 @@ export interface ObservedPeriod {
  *   warnings: [{ code, message }],
  *   level,                       // the interval level asked for
  *   profileCurve: [{ rho, logLik }],   // ~40 points of l*(rho), [] without an MLE
+ *   profileCutoff,               // logLik - chi2_1(level) / 2, null without an MLE
  *   diagnostics: Diagnostics,    // lib/stats/diagnostics.ts
  *   implications: Implications | null, // quantile999, capital at estimate / interval ends, supervisory
  *   observed: [{ period, obligors, defaults, dr }] }
@@ -103,6 +104,8 @@ export interface SegmentFit {
   level: number;
   /** Profile log-likelihood l*(rho) = max_p l(p, rho) on ~40 points of [0, span] plus the estimate and the interval ends, increasing in rho. */
   profileCurve: { rho: number; logLik: number }[];
+  /** The profile interval's cut-off, logLik - chi2_1(level) / 2 (the horizontal line of the profile chart); null without an MLE. */
+  profileCutoff: number | null;
   diagnostics: Diagnostics;
   /** Null when binomialMle gives no estimate. */
   implications: Implications | null;
@@ -325,6 +328,7 @@ export function prepareSegmentFit(input: PanelInput, options: FitPanelOptions = 
     warnings,
     level,
     profileCurve: curve,
+    profileCutoff: usable ? mle.logLik! - chiSquare1Quantile(level) / 2 : null,
     diagnostics,
     implications,
     observed: input.periods.map((period, t) => ({

@@ -100,6 +100,7 @@ describe('panelDiagnostics at the SciPy estimates', () => {
     expect(rel(d.exceedances!.q99, f.q99)).toBeLessThan(1e-12);
     expect(d.exceedances!.above95).toBe(f.above95);
     expect(d.exceedances!.above99).toBe(f.above99);
+    for (const [key, q] of Object.entries(f.bands)) expect(rel(d.bands![key as keyof typeof f.bands], q)).toBeLessThan(1e-12);
   });
 });
 
@@ -120,6 +121,10 @@ describe('capitalImplications', () => {
     expect(rel(corp.supervisory!.rho, f.supervisoryCorporate.rho)).toBeLessThan(1e-12);
     expect(rel(corp.supervisory!.capital, f.supervisoryCorporate.capitalMaturity25)).toBeLessThan(1e-11);
     expect(corp.convention).toMatch(/LGD 0\.45.*M = 2\.5.*without the 1\.06/);
+    // computed with SciPy 1.17 (scipy.stats.multivariate_normal, Genz; make_diagnostics.py)
+    expect(rel(plain.pair.joint, f.pair.joint)).toBeLessThan(1e-9);
+    expect(rel(plain.pair.defaultCorrelation, f.pair.defaultCorrelation)).toBeLessThan(1e-8);
+    expect(plain.pair.independent).toBe(f.pd * f.pd);
   });
 
   it('is 0 at an interval end of 0 and null without an interval', () => {

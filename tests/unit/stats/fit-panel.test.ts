@@ -102,6 +102,7 @@ describe('the SegmentFit shape', () => {
     // the interval ends lie on the curve at the cut-off chi2_1(0.95)/2 = 1.9207 below the top (A&S Table 26.8)
     const atUpper = c.find((p) => p.rho === f.estimates.binomialMle.intervals.profile!.upper)!;
     expect(Math.abs(top - atUpper.logLik - 1.9207294)).toBeLessThan(1e-4);
+    expect(Math.abs(f.profileCutoff! - (top - 1.9207294))).toBeLessThan(1e-6); // A&S Table 26.8
   });
 
   it('intervals at another level', () => {
@@ -140,6 +141,7 @@ describe('edge panels', () => {
     expect(f.estimates.binomialMle.intervals).toEqual({ profile: null, wald: null, bootstrap: null });
     expect(f.implications).toBeNull();
     expect(f.profileCurve).toEqual([]);
+    expect(f.profileCutoff).toBeNull();
     expect(f.warnings.map((w) => w.code)).toEqual(expect.arrayContaining(['not-identified-no-defaults', 'bootstrap-unavailable']));
   });
 
