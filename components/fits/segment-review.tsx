@@ -146,7 +146,7 @@ export function SegmentReview({ seg, index }: { seg: SegmentResult; index: numbe
               {d.lrTestRhoZero ? (
                 <p className="mt-1 text-sm">
                   Likelihood-ratio test of ρ = 0: statistic <span className="num">{d.lrTestRhoZero.statistic.toFixed(2)}</span>, p-value{' '}
-                  <span className="num">{d.lrTestRhoZero.pValue < 1e-4 ? d.lrTestRhoZero.pValue.toExponential(1) : d.lrTestRhoZero.pValue.toFixed(4)}</span>{' '}
+                  <span className="num">{d.lrTestRhoZero.pValue < 1e-12 ? 'below 10⁻¹²' : d.lrTestRhoZero.pValue < 1e-4 ? d.lrTestRhoZero.pValue.toExponential(1) : d.lrTestRhoZero.pValue.toFixed(4)}</span>{' '}
                   (null distribution: an even mixture of χ²₀ and χ²₁).{' '}
                   {d.lrTestRhoZero.pValue < 0.05 ? 'The data reject zero correlation.' : 'The data do not reject zero correlation.'}
                 </p>

@@ -6,6 +6,20 @@ function scale(d0: number, d1: number, r0: number, r1: number) {
   return (v: number) => r0 + ((v - d0) / (d1 - d0 || 1)) * (r1 - r0);
 }
 
+/** Round tick values: a step of 1, 2 or 5 times a power of ten giving at most `count` intervals. */
+function niceTicks(max: number, count = 5): number[] {
+  const raw = max / count;
+  const pow = 10 ** Math.floor(Math.log10(raw));
+  const step = [1, 2, 5, 10].map((m) => m * pow).find((s) => s >= raw * (1 - 1e-9)) ?? raw;
+  const out: number[] = [];
+  for (let t = 0; t <= max + 1e-12; t += step) out.push(Number(t.toFixed(10)));
+  return out;
+}
+
+function tickLabel(t: number): string {
+  return String(Number(t.toFixed(4)));
+}
+
 function niceMax(v: number): number {
   const steps = [0.05, 0.1, 0.15, 0.2, 0.3, 0.4, 0.5, 0.6, 0.8, 1];
   return steps.find((s) => s >= v) ?? 1;
@@ -25,21 +39,21 @@ export function ForestChart({ seg, supervisory }: { seg: SegmentResult; supervis
     supervisory ?? 0,
   ];
   const max = niceMax(Math.max(...values) * 1.05);
-  const W = 640;
-  const left = 230;
-  const right = 70;
-  const rowH = 30;
+  const W = 520;
+  const left = 200;
+  const right = 52;
+  const rowH = 32;
   const top = 10;
   const H = top + keys.length * rowH + 34;
   const x = scale(0, max, left, W - right);
-  const ticks = Array.from({ length: 6 }, (_, i) => (max * i) / 5);
+  const ticks = niceTicks(max);
   return (
     <svg viewBox={`0 0 ${W} ${H}`} width="100%" role="img" aria-label="Estimates of rho by estimator with intervals" data-testid="forest-chart">
       {ticks.map((t) => (
         <g key={t}>
           <line x1={x(t)} x2={x(t)} y1={top} y2={H - 28} stroke="#efefea" />
           <text x={x(t)} y={H - 14} fontSize={10} textAnchor="middle" fill="var(--color-muted)">
-            {fixed(t, 2)}
+            {tickLabel(t)}
           </text>
         </g>
       ))}
@@ -49,7 +63,7 @@ export function ForestChart({ seg, supervisory }: { seg: SegmentResult; supervis
       {supervisory !== null ? (
         <g>
           <line x1={x(supervisory)} x2={x(supervisory)} y1={top} y2={H - 28} stroke="var(--color-caution)" strokeDasharray="4 3" />
-          <text x={x(supervisory) + 3} y={top + 8} fontSize={9.5} fill="var(--color-caution)">
+          <text x={x(supervisory) + 3} y={H - 32} fontSize={10.5} fill="var(--color-caution)">
             supervisory {fixed(supervisory, 3)}
           </text>
         </g>
@@ -61,7 +75,7 @@ export function ForestChart({ seg, supervisory }: { seg: SegmentResult; supervis
         return (
           <g key={k}>
             {chosen ? <rect x={0} y={y - rowH / 2} width={W} height={rowH} fill="var(--color-accent-soft)" /> : null}
-            <text x={6} y={y + 4} fontSize={12} fontWeight={chosen ? 600 : 400} fill="var(--color-ink)">
+            <text x={6} y={y + 4} fontSize={13} fontWeight={chosen ? 600 : 400} fill="var(--color-ink)">
               {ESTIMATOR_NAMES[k]}
               {chosen ? ' (chosen)' : ''}
             </text>
@@ -74,7 +88,7 @@ export function ForestChart({ seg, supervisory }: { seg: SegmentResult; supervis
             {e.rho !== null ? (
               <>
                 <circle cx={x(e.rho)} cy={y} r={chosen ? 5.5 : 4} fill={chosen ? 'var(--color-accent)' : 'white'} stroke="var(--color-accent)" strokeWidth={1.5} />
-                <text x={W - 6} y={y + 4} fontSize={11} textAnchor="end" className="num" fill="var(--color-ink)">
+                <text x={W - 6} y={y + 4} fontSize={12} textAnchor="end" className="num" fill="var(--color-ink)">
                   {fixed(e.rho, 3)}
                 </text>
               </>
@@ -105,13 +119,13 @@ export function ProfileChart({ profile, estimate, interval }: {
   const x = scale(0, Math.max(...xs), m.l, W - m.r);
   const y = scale(floor, profile.maxLogLik + 0.3, H - m.b, m.t);
   const path = profile.points.map((p, i) => `${i === 0 ? 'M' : 'L'}${x(p.rho).toFixed(1)},${y(ys[i]).toFixed(1)}`).join(' ');
-  const xt = Array.from({ length: 5 }, (_, i) => (Math.max(...xs) * i) / 4);
+  const xt = niceTicks(Math.max(...xs), 5);
   return (
     <svg viewBox={`0 0 ${W} ${H}`} width="100%" role="img" aria-label="Profile log-likelihood of rho with the interval cut-off" data-testid="profile-chart">
       <rect x={m.l} y={m.t} width={W - m.l - m.r} height={H - m.t - m.b} fill="white" stroke="var(--color-line)" />
       {xt.map((t) => (
         <text key={t} x={x(t)} y={H - m.b + 14} fontSize={10} textAnchor="middle" fill="var(--color-muted)">
-          {fixed(t, 2)}
+          {tickLabel(t)}
         </text>
       ))}
       <text x={(m.l + W - m.r) / 2} y={H - 4} fontSize={10} textAnchor="middle" fill="var(--color-muted)">
@@ -134,17 +148,29 @@ export function ProfileChart({ profile, estimate, interval }: {
   );
 }
 
-/** Implied factor x_t by period (bars) and the PIT values (dots in [0, 1]). */
+/**
+ * Implied factor x_t by period (bars; negative = a bad year) and, in a strip below, the
+ * probability-integral-transform value of each period's default rate (dots on 0-1).
+ */
 export function FactorChart({ periods, factor, pit }: { periods: string[]; factor: (number | null)[]; pit: number[] | null }) {
   const W = 460;
-  const H = 200;
-  const m = { l: 36, r: 10, t: 10, b: 30 };
+  const m = { l: 40, r: 10, t: 22, b: 24 };
+  const barH = 140;
+  const gap = 30;
+  const pitH = pit ? 50 : 0;
+  const H = m.t + barH + (pit ? gap + pitH : 0) + m.b;
   const lim = Math.max(3, ...factor.map((f) => Math.abs(f ?? 0)));
   const bw = (W - m.l - m.r) / periods.length;
-  const y = scale(-lim, lim, H - m.b, m.t);
+  const y = scale(-lim, lim, m.t + barH, m.t);
+  const pitTop = m.t + barH + gap;
+  const py = scale(0, 1, pitTop + pitH, pitTop);
+  const cx = (i: number) => m.l + i * bw + bw / 2;
   return (
-    <svg viewBox={`0 0 ${W} ${H}`} width="100%" role="img" aria-label="Implied systematic factor by period" data-testid="factor-chart">
-      <rect x={m.l} y={m.t} width={W - m.l - m.r} height={H - m.t - m.b} fill="white" stroke="var(--color-line)" />
+    <svg viewBox={`0 0 ${W} ${H}`} width="100%" role="img" aria-label="Implied systematic factor by period and PIT values" data-testid="factor-chart">
+      <text x={m.l} y={12} fontSize={10.5} fill="var(--color-ink)">
+        Implied factor xₜ (below 0: a worse year than average)
+      </text>
+      <rect x={m.l} y={m.t} width={W - m.l - m.r} height={barH} fill="white" stroke="var(--color-line)" />
       {[-2, 0, 2].map((t) => (
         <g key={t}>
           <line x1={m.l} x2={W - m.r} y1={y(t)} y2={y(t)} stroke={t === 0 ? 'var(--color-muted)' : '#efefea'} />
@@ -153,33 +179,40 @@ export function FactorChart({ periods, factor, pit }: { periods: string[]; facto
           </text>
         </g>
       ))}
-      {factor.map((f, i) => {
-        const cx = m.l + i * bw + bw / 2;
-        return (
-          <g key={periods[i]}>
-            {f === null ? (
-              <text x={cx} y={y(0) - 4} fontSize={9} textAnchor="middle" fill="var(--color-caution)">
-                n/a
-              </text>
-            ) : (
-              <rect x={cx - bw * 0.3} width={bw * 0.6} y={Math.min(y(0), y(f))} height={Math.abs(y(f) - y(0))} fill={f < 0 ? 'var(--color-bad)' : 'var(--color-accent)'} fillOpacity={0.7} />
-            )}
-            {i % Math.ceil(periods.length / 12) === 0 ? (
-              <text x={cx} y={H - m.b + 13} fontSize={9.5} textAnchor="middle" fill="var(--color-muted)">
-                {periods[i]}
-              </text>
-            ) : null}
-          </g>
-        );
-      })}
-      {pit
-        ? pit.map((u, i) => (
-            <circle key={`pit-${periods[i]}`} cx={m.l + i * bw + bw / 2} cy={scale(0, 1, H - m.b, m.t)(u)} r={2.5} fill="var(--color-ink)" />
-          ))
-        : null}
-      <text x={W - m.r - 4} y={m.t + 11} fontSize={9.5} textAnchor="end" fill="var(--color-muted)">
-        bars: implied factor xₜ (negative = bad year) · dots: PIT value on a 0–1 scale
-      </text>
+      {factor.map((f, i) =>
+        f === null ? (
+          <text key={periods[i]} x={cx(i)} y={y(0) - 4} fontSize={9} textAnchor="middle" fill="var(--color-caution)">
+            n/a
+          </text>
+        ) : (
+          <rect key={periods[i]} x={cx(i) - bw * 0.3} width={bw * 0.6} y={Math.min(y(0), y(f))} height={Math.abs(y(f) - y(0))} fill={f < 0 ? 'var(--color-bad)' : 'var(--color-accent)'} fillOpacity={0.7} />
+        ),
+      )}
+      {pit ? (
+        <g>
+          <text x={m.l} y={pitTop - 8} fontSize={10.5} fill="var(--color-ink)">
+            PIT value of each year&apos;s default rate (should spread evenly over 0–1)
+          </text>
+          <rect x={m.l} y={pitTop} width={W - m.l - m.r} height={pitH} fill="white" stroke="var(--color-line)" />
+          <rect x={m.l} y={py(1)} width={W - m.l - m.r} height={py(0.9) - py(1)} fill="var(--color-caution-soft)" />
+          <rect x={m.l} y={py(0.1)} width={W - m.l - m.r} height={py(0) - py(0.1)} fill="var(--color-caution-soft)" />
+          {[0, 0.5, 1].map((t) => (
+            <text key={t} x={m.l - 4} y={py(t) + 3} fontSize={10} textAnchor="end" fill="var(--color-muted)">
+              {t}
+            </text>
+          ))}
+          {pit.map((u, i) => (
+            <circle key={periods[i]} cx={cx(i)} cy={py(u)} r={3} fill="var(--color-ink)" />
+          ))}
+        </g>
+      ) : null}
+      {periods.map((p, i) =>
+        i % Math.ceil(periods.length / 12) === 0 ? (
+          <text key={p} x={cx(i)} y={H - 8} fontSize={9.5} textAnchor="middle" fill="var(--color-muted)">
+            {p}
+          </text>
+        ) : null,
+      )}
     </svg>
   );
 }

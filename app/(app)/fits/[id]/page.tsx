@@ -31,7 +31,7 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
           <h1>Fit #{fit.id}</h1>
           <p className="mt-1 text-sm text-[var(--color-muted)]" data-testid="fit-provenance">
             Dataset <Link href={`/data/${fit.datasetId}`}>#{fit.datasetId} {fit.datasetName}</Link> · SHA-256{' '}
-            <code className="text-xs">{fit.datasetSha256.slice(0, 12)}…</code> · window {r.from ?? 'first'}–{r.to ?? 'last'} period · level{' '}
+            <code className="text-xs">{fit.datasetSha256.slice(0, 12)}…</code> · window {r.from === undefined && r.to === undefined ? 'all periods' : `${r.from ?? 'first'}–${r.to ?? 'last'}`} · level{' '}
             {Math.round(r.level * 100)}% · bootstrap {r.bootstrap ? `B ${r.bootstrap.replications}, seed ${r.bootstrap.seed}` : 'none'} · audit{' '}
             {r.audit ? `R ${r.audit.replications}, seed ${r.audit.seed}` : 'none'} · engine {fit.engineVersion} · started by {fit.createdBy}{' '}
             {fit.createdAt.replace('T', ' ').slice(0, 16)} UTC

@@ -1,0 +1,103 @@
+import { expect, test } from '@playwright/test';
+import { signIn } from './helpers';
+
+// Needs the seeded demo data and a running worker (npm test starts both).
+
+test('an analyst starts a fit with a bootstrap, follows its progress and reads the review', async ({ page }, testInfo) => {
+  test.setTimeout(240_000);
+  await signIn(page, 'analyst@fenmoor.example');
+  await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Fits' }).click();
+  await page.getByRole('link', { name: 'New fit' }).click();
+  await expect(page.getByRole('heading', { name: 'New fit' })).toBeVisible();
+
+  const datasetSelect = page.getByLabel('Dataset');
+  const cohortOption = datasetSelect.locator('option', { hasText: 'annual cohorts' });
+  await datasetSelect.selectOption((await cohortOption.first().getAttribute('value'))!);
+  // One segment keeps the run short: untick the others.
+  const boxes = page.getByRole('group', { name: 'Segments' }).getByRole('checkbox');
+  const n = await boxes.count();
+  expect(n).toBeGreaterThan(1);
+  for (let i = 1; i < n; i++) await boxes.nth(i).uncheck();
+  const segmentName = ((await boxes.nth(0).locator('..').textContent()) ?? '').split(/\d{4}–/)[0].trim();
+
+  await expect(page.getByLabel('Parametric bootstrap of the likelihood estimate')).toBeChecked();
+  await page.getByLabel('Bootstrap replications').fill('150');
+  await page.getByLabel('Bootstrap seed').fill('7');
+  await page.getByLabel('Estimator audit at this sample size').check();
+  await page.getByLabel('Audit replications').fill('20');
+  await page.getByRole('button', { name: 'Start the fit' }).click();
+
+  await page.waitForURL(/\/fits\/\d+$/);
+  const fitId = Number(page.url().split('/').pop());
+  const bar = page.getByRole('progressbar', { name: 'Fit progress' });
+  await expect(bar).toBeVisible();
+  // Progress moves while the bootstrap runs, and survives a reload of the page.
+  await expect(page.getByTestId('fit-progress-message')).toContainText(/Bootstrap \d+ of 150|Estimator audit/, { timeout: 60_000 });
+  const before = Number(await bar.getAttribute('aria-valuenow'));
+  expect(before).toBeGreaterThan(0);
+  await page.reload();
+  const review = page.getByTestId('segment-review-0');
+  await expect(bar.or(review)).toBeVisible();
+
+  await expect(review).toBeVisible({ timeout: 180_000 });
+  await expect(review.getByRole('heading', { level: 2, name: segmentName })).toBeVisible();
+  await expect(review.getByTestId('forest-chart')).toBeVisible();
+  await expect(review.getByText('(chosen)')).toBeVisible();
+  await expect(review.getByRole('img', { name: /fitted 50%, 95% and 99% bands/ }).locator('svg')).toBeVisible();
+  await expect(review.getByTestId('exceedances')).toContainText(/of \d+ periods lie above the fitted 95% quantile/);
+  await expect(review.getByTestId('profile-chart')).toBeVisible();
+  await expect(review.getByText(/Likelihood-ratio test of ρ = 0/)).toBeVisible();
+  await expect(review.getByTestId('factor-chart')).toBeVisible();
+  await expect(review.getByText(/Lag-1 autocorrelation of the implied factor/)).toBeVisible();
+  await expect(review.getByText(/Bootstrap interval/)).toBeVisible();
+  await expect(review.getByText(/B = 150, seed 7/)).toBeVisible();
+  await expect(review.getByTestId('audit-table')).toBeVisible();
+  await expect(review.getByTestId('implications')).toContainText('99.9% quantile of the yearly default rate');
+  await expect(review.getByTestId('implications')).toContainText('Supervisory correlation');
+  await expect(review.getByTestId('windows-table')).toContainText('Whole window');
+  await expect(review.getByTestId('windows-table')).toContainText('Without the worst period');
+  await expect(page.getByTestId('fit-provenance')).toContainText('bootstrap B 150, seed 7');
+
+  // The pair explorer inside the review follows the correlation at once.
+  await review.getByText('Explore two obligors at this estimate').click();
+  const joint = review.getByTestId('pair-joint');
+  const first = await joint.textContent();
+  await review.getByLabel('Asset correlation ρ').fill('0.5');
+  await expect(joint).not.toHaveText(first!);
+
+  await page.screenshot({ path: testInfo.outputPath('fit-review.png'), fullPage: true });
+  await testInfo.attach('fit-review', { path: testInfo.outputPath('fit-review.png'), contentType: 'image/png' });
+
+  // The API answers the same run.
+  const api = await page.request.get(`/api/fits/${fitId}`);
+  expect(api.status()).toBe(200);
+  const body = await api.json();
+  expect(body).toMatchObject({ id: fitId, status: 'succeeded', progress: 100, error: null });
+  expect(body.request.bootstrap).toEqual({ replications: 150, seed: 7 });
+  expect(body.results.segments[0].estimates.binomialMle.intervals.bootstrap.replications).toBe(150);
+});
+
+test('the fits API refuses viewers (403) and unavailable datasets (404)', async ({ page }) => {
+  await signIn(page, 'viewer@fenmoor.example');
+  const asViewer = await page.request.post('/api/fits', { data: { datasetId: 1 } });
+  expect(asViewer.status()).toBe(403);
+  await page.context().clearCookies();
+  await signIn(page, 'validator@fenmoor.example');
+  const missing = await page.request.post('/api/fits', { data: { datasetId: 987654321 } });
+  expect(missing.status()).toBe(404);
+  expect((await missing.json()).message).toContain('987654321');
+  const bad = await page.request.post('/api/fits', { data: { datasetId: 1, level: 2 } });
+  expect(bad.status()).toBe(422);
+  expect((await bad.json()).message).toMatch(/^level:/);
+});
+
+test('the pair explorer: two 5% obligors at 0.3 default together with about 0.71% against 0.25%', async ({ page }) => {
+  await signIn(page, 'viewer@fenmoor.example');
+  await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Pair explorer' }).click();
+  await expect(page.getByTestId('pair-joint')).toHaveText('0.7135%');
+  await expect(page.getByTestId('pair-independent')).toHaveText('0.2500%');
+  await page.getByLabel('Move the correlation').fill('0.9');
+  await expect(page.getByTestId('pair-joint')).toHaveText('3.187%');
+  await page.getByLabel('PD of obligor A (%)').fill('0');
+  await expect(page.getByTestId('pair-explorer').getByRole('alert')).toContainText('PD of obligor A must lie between');
+});
