@@ -172,6 +172,22 @@ export function panelsFromRows(rows: readonly CohortRow[], args: Pick<FitArgs, '
   return panels;
 }
 
+/** A segment whose fit failed inside the engine (not the user's input): exit code 1. */
+export class SegmentFitError extends Error {
+  constructor(segment: string, cause: unknown) {
+    super(`Fitting segment "${segment}" failed inside the engine: ${cause instanceof Error ? cause.message : String(cause)}`, { cause });
+    this.name = 'SegmentFitError';
+  }
+}
+
+async function fitSegment(panel: PanelInput, options: Parameters<typeof fitPanelParallel>[1], pool: EnginePool | undefined): Promise<TimedSegmentFit> {
+  try {
+    return await fitPanelParallel(panel, options, pool ? { pool } : { threads: 0 });
+  } catch (err) {
+    throw new SegmentFitError(panel.segment, err);
+  }
+}
+
 /** Runs `fit`; resolves with the process exit code (0 done, 2 bad input). */
 export async function runFit(argv: string[], io: CliIo): Promise<number> {
   const args = parseFitArgs(argv);
@@ -203,7 +219,7 @@ export async function runFit(argv: string[], io: CliIo): Promise<number> {
     await pool?.start(); // thread start-up is not part of any segment's timing
     for (const panel of panels) {
       segments.push(
-        await fitPanelParallel(
+        await fitSegment(
           panel,
           {
             level: args.level,
@@ -211,7 +227,7 @@ export async function runFit(argv: string[], io: CliIo): Promise<number> {
             assetClass: args.assetClass ?? null,
             turnoverMillions: args.turnoverMillions ?? null,
           },
-          { ...(pool ? { pool } : { threads: 0 }) },
+          pool,
         ),
       );
     }

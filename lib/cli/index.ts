@@ -1,9 +1,9 @@
 /**
  * Rhobook's command line: `npm run --silent cli -- fit FILE.csv --json ...` (see lib/cli/fit.ts).
  * Exit codes: 0 done; 2 bad command line or bad input (the message names the row and problem);
- * 1 an unexpected failure.
+ * 1 a failure inside the engine (the message names the segment) or any other unexpected failure.
  */
-import { CliInputError, FIT_USAGE, runFit, type CliIo } from './fit';
+import { CliInputError, FIT_USAGE, runFit, SegmentFitError, type CliIo } from './fit';
 
 const USAGE = `Rhobook command line.\n\n${FIT_USAGE}`;
 
@@ -22,10 +22,10 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
       io.err(err.message);
       return 2;
     }
-    if (err instanceof RangeError) {
-      // lib/stats refuses input it cannot use with a sentence naming the segment and period.
+    if (err instanceof SegmentFitError) {
+      // The file passed validation, so this is the engine's failure, not the user's input.
       io.err(`error: ${err.message}`);
-      return 2;
+      return 1;
     }
     io.err(`Unexpected failure: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}`);
     return 1;

@@ -43,6 +43,8 @@ interface Slot {
   busy: boolean;
   /** Resolves when the worker has loaded its code (or rejects when it fails to). */
   ready: Promise<void>;
+  /** The thread has exited (it is replaced at the next run). */
+  exited: boolean;
 }
 
 export class EnginePool {
@@ -79,7 +81,11 @@ export class EnginePool {
       worker.once('error', onError);
     });
     ready.catch(() => undefined); // observed by start() or by run()'s error listener
-    return { worker, busy: false, ready };
+    const slot: Slot = { worker, busy: false, ready, exited: false };
+    worker.once('exit', () => {
+      slot.exited = true;
+    });
+    return slot;
   }
 
   /**
@@ -105,6 +111,8 @@ export class EnginePool {
     if (options.signal?.aborted) return Promise.reject(new EngineAbortError());
     if (tasks.length === 0) return Promise.resolve([]);
     this.running = true;
+    // A thread that died between runs would never answer: replace it.
+    this.slots = this.slots.map((slot) => (slot.exited ? this.spawn() : slot));
     while (this.slots.length < Math.min(this.size, tasks.length)) this.slots.push(this.spawn());
 
     return new Promise<EngineTaskResult[]>((resolve, reject) => {
