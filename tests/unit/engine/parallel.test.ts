@@ -91,6 +91,19 @@ describe('fitPanelParallel', () => {
     await expect(pool.run([bad])).rejects.toThrow(/closed/);
   });
 
+  it('replaces a thread that died between runs', async () => {
+    const pool = new EnginePool(1);
+    pools.push(pool);
+    await pool.start();
+    const task = { kind: 'bootstrap' as const, spec: { obligors: A.obligors, pd: 0.0133, rho: 0.037, seed: 3 }, from: 0, to: 2 };
+    const before = await pool.run([task]);
+    // reach into the pool to kill its only thread, as an out-of-memory exit would
+    const slots = (pool as unknown as { slots: { worker: { terminate(): Promise<number> } }[] }).slots;
+    await slots[0].worker.terminate();
+    await new Promise((r) => setTimeout(r, 50));
+    expect(await pool.run([task])).toEqual(before);
+  });
+
   it('refuses bad input before starting threads', async () => {
     await expect(fitPanelParallel({ ...panelA, defaults: [2000, ...A.defaults.slice(1)] }, options, { threads: 2 })).rejects.toThrow(
       /"Panel A", period 2001/,
