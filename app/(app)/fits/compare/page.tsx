@@ -47,7 +47,7 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
   }
   const cols = fits.map((f) => ({ fit: f, seg: f.results!.segments.find((s) => s.segment === segment) as SegmentResult }));
   const row = (label: string, cell: (c: (typeof cols)[number]) => React.ReactNode) => (
-    <tr>
+    <tr key={label}>
       <th scope="row" className="text-left font-normal text-[var(--color-ink)]">
         {label}
       </th>
