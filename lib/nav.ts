@@ -12,8 +12,12 @@ export const navItems: NavItem[] = [
   { href: '/', label: 'Overview', roles: everyone },
   { href: '/data', label: 'Data', roles: everyone },
   { href: '/fits', label: 'Fits', roles: everyone },
+  { href: '/library', label: 'Library', roles: everyone },
+  { href: '/queue', label: 'Queue', roles: ['analyst', 'validator'] },
   { href: '/pairs', label: 'Pair explorer', roles: everyone },
   { href: '/admin', label: 'Admin', roles: ['admin'] },
+  { href: '/admin/tokens', label: 'API tokens', roles: ['admin'] },
+  { href: '/admin/outbox', label: 'Outbox', roles: ['admin'], devOnly: true },
 ];
 
 export function navFor(role: Role, isDev: boolean): NavItem[] {

@@ -1,0 +1,53 @@
+import type { Metadata } from 'next';
+import Link from 'next/link';
+import { forbidden } from 'next/navigation';
+import { DraftForm, type FitOption } from '@/components/assumptions/draft-form';
+import { todayIso } from '@/lib/assumptions/dates';
+import { can } from '@/lib/auth/permissions';
+import { requireUser } from '@/lib/auth/session';
+import { getFit, listFits } from '@/lib/dal/fits';
+
+export const metadata: Metadata = { title: 'Draft an assumption' };
+
+export default async function NewDraftPage({ searchParams }: { searchParams: Promise<{ fitId?: string; segment?: string }> }) {
+  const actor = await requireUser();
+  if (!can(actor.role, 'assumptions:draft')) forbidden();
+  const sp = await searchParams;
+  const fits = (await listFits(actor, { limit: 50 })).filter((f) => f.status === 'succeeded').slice(0, 12);
+  const options: FitOption[] = [];
+  for (const f of fits) {
+    const full = await getFit(actor, f.id);
+    for (const s of full.results?.segments ?? []) {
+      const estimates: FitOption['estimates'] = {};
+      for (const [k, e] of Object.entries(s.estimates)) {
+        const intervals: FitOption['estimates'][string]['intervals'] = {};
+        const ivs = (e as { intervals?: Record<string, { level: number; lower: number; upper: number } | null> }).intervals ?? {};
+        for (const [m, iv] of Object.entries(ivs)) if (iv) intervals[m] = { level: iv.level, lower: iv.lower, upper: iv.upper };
+        estimates[k] = { rho: e.rho, pd: e.pd, intervals };
+      }
+      options.push({ fitId: f.id, segment: s.segment, label: `Fit ${f.id} · ${f.datasetName} · ${s.segment}`, estimates });
+    }
+  }
+  const initial = sp.fitId && sp.segment ? `${sp.fitId}|${sp.segment}` : undefined;
+  return (
+    <div className="space-y-4">
+      <p className="text-sm">
+        <Link href="/library">Library</Link> / new draft
+      </p>
+      <h1>Draft an assumption</h1>
+      <p className="max-w-3xl text-sm text-[var(--color-muted)]">
+        The estimate, its interval and PD, the data window, the dataset hash, the engine version and the seeds are copied from the fit and
+        frozen. Add the margins of conservatism, each with its rationale; a validator who did not draft or edit the version reviews it.
+      </p>
+      {options.length === 0 ? (
+        <p className="notice-caution">
+          No finished fit yet. <Link href="/fits">Run a fit</Link> first, then draft from it.
+        </p>
+      ) : (
+        <section className="panel p-5">
+          <DraftForm mode="create" options={options} initialFit={initial} today={todayIso()} />
+        </section>
+      )}
+    </div>
+  );
+}

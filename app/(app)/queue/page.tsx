@@ -1,0 +1,59 @@
+import type { Metadata } from 'next';
+import Link from 'next/link';
+import { StatusBadge } from '@/components/assumptions/status-badge';
+import { requireUser } from '@/lib/auth/session';
+import { listQueue } from '@/lib/dal/assumptions';
+
+export const metadata: Metadata = { title: 'Queue' };
+
+export default async function QueuePage() {
+  const actor = await requireUser();
+  const items = await listQueue(actor);
+  const explain =
+    actor.role === 'validator'
+      ? 'Versions submitted for review that you did not draft or edit, and reviews you have started.'
+      : actor.role === 'analyst'
+        ? 'Your drafts that a validator sent back with a request for changes.'
+        : 'Only analysts and validators have a review queue.';
+  return (
+    <div className="space-y-4">
+      <h1>What awaits me</h1>
+      <p className="text-sm text-[var(--color-muted)]">{explain}</p>
+      <section className="panel p-2">
+        <table className="table" aria-label="Awaiting me">
+          <thead>
+            <tr>
+              <th>Segment</th>
+              <th>Version</th>
+              <th>State</th>
+              <th>Why</th>
+              <th>Since (UTC)</th>
+            </tr>
+          </thead>
+          <tbody>
+            {items.map((i) => (
+              <tr key={i.id}>
+                <td>
+                  <Link href={`/library/versions/${i.id}`}>{i.segment}</Link>
+                </td>
+                <td>v{i.version}</td>
+                <td>
+                  <StatusBadge status={i.status} />
+                </td>
+                <td className="whitespace-pre-wrap">{i.why}</td>
+                <td className="num whitespace-nowrap">{i.updatedAt.replace('T', ' ').slice(0, 16)}</td>
+              </tr>
+            ))}
+            {items.length === 0 ? (
+              <tr>
+                <td colSpan={5} className="text-[var(--color-muted)]">
+                  Nothing awaits you.
+                </td>
+              </tr>
+            ) : null}
+          </tbody>
+        </table>
+      </section>
+    </div>
+  );
+}

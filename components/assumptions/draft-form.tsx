@@ -1,0 +1,230 @@
+'use client';
+
+import { useMutation } from '@tanstack/react-query';
+import { useRouter } from 'next/navigation';
+import { useMemo, useState, type FormEvent } from 'react';
+import { AppError } from '@/lib/errors';
+import { apiSend } from './api';
+
+export type FitOption = {
+  fitId: number;
+  segment: string;
+  label: string;
+  estimates: Record<string, { rho: number | null; pd: number | null; intervals: Record<string, { level: number; lower: number; upper: number }> }>;
+};
+
+export type DraftValues = {
+  margins: { data: { value: number; rationale: string }; practice: { value: number; rationale: string }; general: { value: number; rationale: string } };
+  finalValue: number | null;
+  intendedUses: string;
+  limitations: string;
+  effectiveDate: string;
+  reviewBy: string;
+};
+
+const marginParts = [
+  ['data', 'Data and method deficiencies'],
+  ['practice', 'Changes in lending or recovery practice'],
+  ['general', 'General estimation error'],
+] as const;
+
+function round(x: number) {
+  return Math.round(x * 1e10) / 1e10;
+}
+
+/**
+ * The draft and edit form of an assumption version: the fit evidence (on a new draft), the three
+ * margins of conservatism each with a rationale, the final value, intended uses and limitations,
+ * and the dates. The server validates everything again and names the field it refuses.
+ */
+export function DraftForm(
+  props:
+    | { mode: 'create'; options: FitOption[]; initialFit?: string; today: string }
+    | { mode: 'edit'; versionId: number; estimate: number; initial: DraftValues; today: string },
+) {
+  const router = useRouter();
+  const [fitKey, setFitKey] = useState(props.mode === 'create' ? (props.initialFit ?? (props.options[0] ? `${props.options[0].fitId}|${props.options[0].segment}` : '')) : '');
+  const [estimator, setEstimator] = useState('binomialMle');
+  const [intervalMethod, setIntervalMethod] = useState('profile');
+  const init = props.mode === 'edit' ? props.initial : null;
+  const [margins, setMargins] = useState({
+    data: { value: String(init?.margins.data.value ?? 0), rationale: init?.margins.data.rationale ?? '' },
+    practice: { value: String(init?.margins.practice.value ?? 0), rationale: init?.margins.practice.rationale ?? '' },
+    general: { value: String(init?.margins.general.value ?? 0), rationale: init?.margins.general.rationale ?? '' },
+  });
+  const [finalValue, setFinalValue] = useState(init?.finalValue != null ? String(init.finalValue) : '');
+  const [intendedUses, setIntendedUses] = useState(init?.intendedUses ?? '');
+  const [limitations, setLimitations] = useState(init?.limitations ?? '');
+  const [effectiveDate, setEffectiveDate] = useState(init?.effectiveDate ?? props.today);
+  const [reviewBy, setReviewBy] = useState(init?.reviewBy ?? '');
+
+  const option = props.mode === 'create' ? props.options.find((o) => `${o.fitId}|${o.segment}` === fitKey) : undefined;
+  const est = option?.estimates[estimator];
+  const estimate = props.mode === 'edit' ? props.estimate : (est?.rho ?? null);
+  const interval = est?.intervals?.[intervalMethod];
+  const conservative = useMemo(() => {
+    if (estimate === null) return null;
+    const sum = estimate + Number(margins.data.value || 0) + Number(margins.practice.value || 0) + Number(margins.general.value || 0);
+    return Number.isFinite(sum) ? round(sum) : null;
+  }, [estimate, margins]);
+
+  const m = useMutation({
+    mutationFn: async () => {
+      const body = {
+        margins: {
+          data: { value: Number(margins.data.value), rationale: margins.data.rationale },
+          practice: { value: Number(margins.practice.value), rationale: margins.practice.rationale },
+          general: { value: Number(margins.general.value), rationale: margins.general.rationale },
+        },
+        ...(finalValue.trim() ? { finalValue: Number(finalValue) } : {}),
+        intendedUses,
+        limitations,
+        effectiveDate,
+        ...(reviewBy ? { reviewBy } : {}),
+      };
+      if (props.mode === 'edit') {
+        await apiSend('PATCH', `/api/assumptions/${props.versionId}`, body);
+        return props.versionId;
+      }
+      if (!option) throw new AppError('invalid:fit', 'Choose a fit and segment to draft from.');
+      const r = await apiSend<{ id: number }>('POST', '/api/assumptions', { ...body, fitId: option.fitId, segment: option.segment, estimator, intervalMethod });
+      return r.id;
+    },
+    onSuccess: (id) => {
+      router.push(`/library/versions/${id}`);
+      router.refresh();
+    },
+  });
+  const err = m.error instanceof AppError ? m.error : m.error ? new AppError('internal:client', m.error.message) : null;
+  const errField = (err?.details?.field as string | undefined) ?? null;
+
+  const onSubmit = (e: FormEvent) => {
+    e.preventDefault();
+    m.mutate();
+  };
+
+  return (
+    <form onSubmit={onSubmit} aria-label={props.mode === 'create' ? 'Draft an assumption' : 'Edit the draft'} className="space-y-5">
+      {props.mode === 'create' ? (
+        <fieldset className="grid gap-3 md:grid-cols-3">
+          <legend className="mb-2 font-semibold">Evidence (copied from the fit and frozen)</legend>
+          <div>
+            <label className="label" htmlFor="fit-segment">Fit and segment</label>
+            <select id="fit-segment" className="field" value={fitKey} onChange={(e) => setFitKey(e.target.value)}>
+              {props.options.map((o) => (
+                <option key={`${o.fitId}|${o.segment}`} value={`${o.fitId}|${o.segment}`}>
+                  {o.label}
+                </option>
+              ))}
+            </select>
+          </div>
+          <div>
+            <label className="label" htmlFor="estimator">Estimator</label>
+            <select id="estimator" className="field" value={estimator} onChange={(e) => setEstimator(e.target.value)}>
+              {Object.keys(option?.estimates ?? { binomialMle: null }).map((k) => (
+                <option key={k} value={k}>
+                  {k}
+                </option>
+              ))}
+            </select>
+          </div>
+          <div>
+            <label className="label" htmlFor="interval-method">Interval</label>
+            <select id="interval-method" className="field" value={intervalMethod} onChange={(e) => setIntervalMethod(e.target.value)}>
+              <option value="profile">profile likelihood</option>
+              <option value="wald">Wald</option>
+              <option value="bootstrap">bootstrap</option>
+            </select>
+          </div>
+          <p className="text-sm md:col-span-3" data-testid="evidence-summary">
+            Estimate <span className="num">{estimate ?? '—'}</span>, PD <span className="num">{est?.pd ?? '—'}</span>, interval{' '}
+            {interval ? (
+              <span className="num">
+                [{interval.lower}, {interval.upper}] at {interval.level}
+              </span>
+            ) : (
+              <span className="text-[var(--color-bad)]">not computed by this fit for this estimator</span>
+            )}
+          </p>
+        </fieldset>
+      ) : (
+        <p className="text-sm">
+          Estimate <span className="num">{props.estimate}</span> (the evidence is frozen; draft a new version to use another fit).
+        </p>
+      )}
+
+      <fieldset className="space-y-3">
+        <legend className="mb-1 font-semibold">Margins of conservatism (added to the estimate, on the correlation scale)</legend>
+        {marginParts.map(([k, label]) => (
+          <div key={k} className="grid gap-2 md:grid-cols-[12rem_1fr]">
+            <div>
+              <label className="label" htmlFor={`margin-${k}`}>{`Margin: ${label}`}</label>
+              <input
+                id={`margin-${k}`}
+                className="field num"
+                type="number"
+                step="any"
+                min="0"
+                value={margins[k].value}
+                aria-invalid={errField === `margins.${k}.value` || undefined}
+                onChange={(e) => setMargins({ ...margins, [k]: { ...margins[k], value: e.target.value } })}
+              />
+            </div>
+            <div>
+              <label className="label" htmlFor={`rationale-${k}`}>{`Rationale: ${label}`}</label>
+              <textarea
+                id={`rationale-${k}`}
+                className="field"
+                rows={2}
+                value={margins[k].rationale}
+                aria-invalid={errField === `margins.${k}.rationale` || undefined}
+                onChange={(e) => setMargins({ ...margins, [k]: { ...margins[k], rationale: e.target.value } })}
+              />
+            </div>
+          </div>
+        ))}
+        <div className="grid gap-3 md:grid-cols-3">
+          <div>
+            <span className="label">Estimate plus margins</span>
+            <p className="num py-1.5" data-testid="conservative-value">{conservative ?? '—'}</p>
+          </div>
+          <div>
+            <label className="label" htmlFor="final-value">Final value (empty: estimate plus margins)</label>
+            <input id="final-value" className="field num" type="number" step="any" min="0" max="0.999" value={finalValue} placeholder={conservative !== null ? String(conservative) : ''} onChange={(e) => setFinalValue(e.target.value)} aria-invalid={errField === 'finalValue' || undefined} />
+          </div>
+        </div>
+      </fieldset>
+
+      <div className="grid gap-3 md:grid-cols-2">
+        <div>
+          <label className="label" htmlFor="intended-uses">Intended uses</label>
+          <textarea id="intended-uses" className="field" rows={3} value={intendedUses} onChange={(e) => setIntendedUses(e.target.value)} aria-invalid={errField === 'intendedUses' || undefined} />
+        </div>
+        <div>
+          <label className="label" htmlFor="limitations">Limitations</label>
+          <textarea id="limitations" className="field" rows={3} value={limitations} onChange={(e) => setLimitations(e.target.value)} aria-invalid={errField === 'limitations' || undefined} />
+        </div>
+        <div>
+          <label className="label" htmlFor="effective-date">Effective date</label>
+          <input id="effective-date" className="field" type="date" value={effectiveDate} onChange={(e) => setEffectiveDate(e.target.value)} />
+        </div>
+        <div>
+          <label className="label" htmlFor="review-by">Review by (empty: 12 months after the effective date, the maximum)</label>
+          <input id="review-by" className="field" type="date" value={reviewBy} onChange={(e) => setReviewBy(e.target.value)} aria-invalid={errField === 'reviewBy' || undefined} />
+        </div>
+      </div>
+
+      {err ? (
+        <p className="notice-bad text-sm" role="alert">
+          {err.message}
+          {errField ? <span className="ml-1 text-xs">(field: {errField})</span> : null}
+        </p>
+      ) : null}
+      <div className="flex gap-2">
+        <button type="submit" className="btn" disabled={m.isPending}>
+          {props.mode === 'create' ? 'Save draft' : 'Save changes'}
+        </button>
+      </div>
+    </form>
+  );
+}

@@ -1,0 +1,61 @@
+'use client';
+
+import { useMutation } from '@tanstack/react-query';
+import { useRouter } from 'next/navigation';
+import { useState } from 'react';
+import { actionLabels, transitionRules, type UserAction } from '@/lib/assumptions/lifecycle';
+import { apiSend } from './api';
+
+/** The actions open to the signed-in person on a version; the server decides again on each. */
+export function TransitionPanel({ versionId, actions }: { versionId: number; actions: UserAction[] }) {
+  const router = useRouter();
+  const [comment, setComment] = useState('');
+  const [done, setDone] = useState<string | null>(null);
+  const m = useMutation({
+    mutationFn: (action: UserAction) =>
+      apiSend<{ status: string }>('POST', `/api/assumptions/${versionId}/transitions`, { action, comment: comment.trim() || undefined }),
+    onSuccess: (r) => {
+      setDone(`Done: the version is now ${r.status.replace('_', ' ')}.`);
+      setComment('');
+      router.refresh();
+    },
+  });
+  if (!actions.length) return <p className="text-sm text-[var(--color-muted)]">Nothing for you to do on this version now.</p>;
+  const needsComment = actions.some((a) => transitionRules[a].commentRequired);
+  return (
+    <div className="space-y-3">
+      <div>
+        <label className="label" htmlFor="transition-comment">
+          Comment{needsComment ? ' (required to request changes or reject)' : ' (optional)'}
+        </label>
+        <textarea id="transition-comment" className="field" rows={3} value={comment} onChange={(e) => setComment(e.target.value)} />
+      </div>
+      <div className="flex flex-wrap gap-2">
+        {actions.map((a) => (
+          <button
+            key={a}
+            type="button"
+            className={`btn ${a === 'reject' ? 'btn-danger' : a === 'approve' || a === 'submit' || a === 'publish' ? '' : 'btn-quiet'}`}
+            disabled={m.isPending}
+            onClick={() => {
+              setDone(null);
+              m.mutate(a);
+            }}
+          >
+            {actionLabels[a]}
+          </button>
+        ))}
+      </div>
+      {m.error ? (
+        <p className="notice-bad text-sm" role="alert">
+          {m.error.message}
+        </p>
+      ) : null}
+      {done ? (
+        <p className="notice-good text-sm" role="status">
+          {done}
+        </p>
+      ) : null}
+    </div>
+  );
+}

@@ -1,0 +1,102 @@
+import { expect, test, type APIRequestContext, type Page } from '@playwright/test';
+import { signIn } from './helpers';
+
+/**
+ * The maker-checker loop in chromium: an analyst drafts and submits, a validator requests changes,
+ * the analyst fixes and resubmits, the validator approves and publishes, and a viewer sees the
+ * published value in the library. The fit it drafts from is requested through the fits API and
+ * computed by the worker, as a person would.
+ */
+
+async function finishedFit(request: APIRequestContext): Promise<{ fitId: number; segment: string }> {
+  const datasets = (await (await request.get('/api/datasets')).json()).datasets as { id: number; kind: string; status: string }[];
+  const cohort = datasets.find((d) => d.kind === 'cohort' && d.status === 'ready');
+  expect(cohort, 'the demo data has a ready cohort dataset').toBeTruthy();
+  // A segment with no version on its way (an earlier interrupted run may have left one open).
+  const library = (await (await request.get('/api/assumptions')).json()).library as { segment: string; pending: unknown }[];
+  const busy = new Set(library.filter((e) => e.pending).map((e) => e.segment));
+  const segment = ['SME term loans', 'Prime auto loans', 'Unsecured personal loans', 'Credit cards', 'Owner-occupied mortgages'].find((s) => !busy.has(s))!;
+  const res = await request.post('/api/fits', { data: { datasetId: cohort!.id, segments: [segment] } });
+  expect(res.status(), await res.text()).toBe(202);
+  const { id } = await res.json();
+  await expect
+    .poll(async () => (await (await request.get(`/api/fits/${id}`)).json()).status, { timeout: 60_000, intervals: [500, 1000] })
+    .toBe('succeeded');
+  return { fitId: id, segment };
+}
+
+async function act(page: Page, button: string, expectState: string) {
+  await page.getByRole('button', { name: button, exact: true }).click();
+  await expect(page.getByRole('status').filter({ hasText: `now ${expectState}` })).toBeVisible({ timeout: 30_000 });
+  await expect(page.getByRole('heading', { level: 1 }).getByTestId('status-badge')).toHaveText(expectState);
+}
+
+test('draft, request changes, fix, approve, publish; a viewer sees the published value', async ({ browser }) => {
+  const analystCtx = await browser.newContext();
+  const analyst = await analystCtx.newPage();
+  await signIn(analyst, 'analyst@fenmoor.example');
+  const { fitId, segment } = await finishedFit(analyst.request);
+
+  // The analyst drafts from the fit.
+  await analyst.goto(`/library/new?fitId=${fitId}&segment=${encodeURIComponent(segment)}`);
+  const form = analyst.getByRole('form', { name: 'Draft an assumption' });
+  await expect(form.getByLabel('Fit and segment')).toHaveValue(`${fitId}|${segment}`);
+  await form.getByLabel('Margin: Data and method deficiencies').fill('0.01');
+  await form.getByLabel('Rationale: Data and method deficiencies').fill('Fifteen annual cohorts only.');
+  await form.getByLabel('Rationale: Changes in lending or recovery practice').fill('No change in underwriting over the window.');
+  await form.getByLabel('Rationale: General estimation error').fill('Placeholder.');
+  await form.getByLabel('Intended uses').fill('Economic capital and stress testing.');
+  await form.getByLabel('Limitations').fill('Valid only with the fitted PD and the 90-days-past-due default definition.');
+  await form.getByRole('button', { name: 'Save draft' }).click();
+  await expect(analyst).toHaveURL(/\/library\/versions\/\d+$/, { timeout: 60_000 });
+  const versionUrl = analyst.url();
+  await act(analyst, 'Submit for review', 'submitted');
+
+  // The validator finds it in the queue and requests changes.
+  const validatorCtx = await browser.newContext();
+  const validator = await validatorCtx.newPage();
+  await signIn(validator, 'validator@fenmoor.example');
+  await validator.getByRole('link', { name: 'Queue' }).click();
+  await validator.getByRole('table', { name: 'Awaiting me' }).getByRole('link', { name: segment }).first().click();
+  await expect(validator).toHaveURL(versionUrl, { timeout: 60_000 });
+  await act(validator, 'Start review', 'in review');
+  await validator.getByRole('button', { name: 'Request changes', exact: true }).click();
+  await expect(validator.getByRole('alert').filter({ hasText: 'a comment is required' })).toBeVisible();
+  await validator.getByLabel(/^Comment/).fill('Justify the general estimation error margin: the estimate is biased low at this T.');
+  await act(validator, 'Request changes', 'draft');
+
+  // The analyst sees the request in the queue, fixes the margin and resubmits.
+  await analyst.getByRole('link', { name: 'Queue' }).click();
+  await expect(analyst.getByRole('table', { name: 'Awaiting me' })).toContainText('Justify the general estimation error margin');
+  await analyst.goto(versionUrl);
+  await analyst.getByRole('link', { name: /^Edit/ }).click();
+  const edit = analyst.getByRole('form', { name: 'Edit the draft' });
+  await edit.getByLabel('Margin: General estimation error').fill('0.03');
+  await edit.getByLabel('Rationale: General estimation error').fill('Downward bias of the ML estimate at T = 15, about 0.02 to 0.03.');
+  await edit.getByLabel('Final value (empty: estimate plus margins)').fill('');
+  await edit.getByRole('button', { name: 'Save changes' }).click();
+  await expect(analyst).toHaveURL(versionUrl, { timeout: 60_000 });
+  const published = (await analyst.getByTestId('final-value').textContent())!.trim();
+  await act(analyst, 'Submit for review', 'submitted');
+
+  // The validator approves and publishes (effective today).
+  await validator.goto(versionUrl);
+  await act(validator, 'Start review', 'in review');
+  await act(validator, 'Approve', 'approved');
+  await act(validator, 'Publish', 'published');
+  await expect(validator.getByRole('table', { name: 'Audit trail' })).toContainText('request-changes');
+
+  // A viewer reads the published value in the library.
+  const viewerCtx = await browser.newContext();
+  const viewer = await viewerCtx.newPage();
+  await signIn(viewer, 'viewer@fenmoor.example');
+  await viewer.getByRole('link', { name: 'Library' }).click();
+  const row = viewer.getByTestId(`library-row-${segment}`);
+  await expect(row.getByTestId('library-value')).toHaveText(String(Number(Number(published).toFixed(4))));
+  await expect(row).toContainText('published');
+  await row.getByRole('link', { name: segment }).click();
+  await expect(viewer.getByTestId('final-value')).toHaveText(published);
+  await expect(viewer.getByRole('region', { name: 'Cautions' })).toContainText('no tail dependence');
+
+  for (const c of [analystCtx, validatorCtx, viewerCtx]) await c.close();
+});
