@@ -29,13 +29,14 @@ const footer =
 
 export function renderMail(kind: MailKind, f: MailFacts): { subject: string; body: string } {
   const what = `${f.segment} v${f.version}`;
+  const value = Number(f.finalValue.toFixed(6));
   const comment = f.comment?.trim() ? `\n\nComment:\n${f.comment.trim()}` : '';
   const link = `\n\nOpen it: ${f.url}`;
   switch (kind) {
     case 'awaiting-review':
       return {
         subject: `Awaiting review: correlation assumption ${what}`,
-        body: `${f.actorName ?? 'An analyst'} submitted ${what} (final value ${f.finalValue}, effective ${f.effectiveDate}) for review. Any validator who did not draft or edit it may take it into review.${link}${footer}`,
+        body: `${f.actorName ?? 'An analyst'} submitted ${what} (final value ${value}, effective ${f.effectiveDate}) for review. Any validator who did not draft or edit it may take it into review.${link}${footer}`,
       };
     case 'changes-requested':
       return {
@@ -54,8 +55,8 @@ export function renderMail(kind: MailKind, f: MailFacts): { subject: string; bod
       };
     case 'published':
       return {
-        subject: `Published: ${what} = ${f.finalValue}`,
-        body: `${what} is published with the value ${f.finalValue}, effective ${f.effectiveDate}, to be reviewed by ${f.reviewBy}. The previous published version of the segment, if any, is superseded.${link}${footer}`,
+        subject: `Published: ${what} = ${value}`,
+        body: `${what} is published with the value ${value}, effective ${f.effectiveDate}, to be reviewed by ${f.reviewBy}. The previous published version of the segment, if any, is superseded.${link}${footer}`,
       };
     case 'review-by-30':
     case 'review-by-7':
