@@ -90,13 +90,20 @@ for (let j = 0; j < 10; j++) {
 KRONROD_NODES[10] = 0;
 KRONROD_WEIGHTS[10] = WGK[10];
 
+/**
+ * Accumulators of one panel (integrals of f = exp(g - g(mode)) times):
+ * 0: 1;  1: u;  2: u^2;  3: h2;  4: v;  5: v^2;  6: u v;  7: G_k,rho;  8: G_rho,rho;
+ * with u = h1 - h1(mode) and v = G_rho - G_rho(mode) (centred at the mode so that the variances
+ * below do not cancel). h1, h2 are the first two z-derivatives of G(z) = d log Phi(z) +
+ * (n - d) log Phi(-z); G_rho etc. are derivatives of G(z(x)) in the parameters at fixed x.
+ */
+const NACC = 9;
 const F_VALUES = new Float64Array(21);
 const P_LO = new Float64Array(MAX_PANELS);
 const P_HI = new Float64Array(MAX_PANELS);
-const P_S0 = new Float64Array(MAX_PANELS);
-const P_S1 = new Float64Array(MAX_PANELS);
-const P_S2 = new Float64Array(MAX_PANELS);
 const P_ERR = new Float64Array(MAX_PANELS);
+const P_ACC = new Float64Array(MAX_PANELS * NACC);
+const TOTAL = new Float64Array(NACC);
 
 /** A default panel: obligors at the start of each period and defaults during it. */
 export interface Panel {
@@ -139,6 +146,16 @@ export interface LogLikK {
   dkk: number;
 }
 
+/** Value, gradient and Hessian of a log-likelihood in (k, rho), k = Phi^-1(p). */
+export interface LogLikFull extends LogLikK {
+  /** d l / d rho. */
+  dr: number;
+  /** d^2 l / dk d rho. */
+  dkr: number;
+  /** d^2 l / d rho^2. */
+  drr: number;
+}
+
 // Scratch results of tails(): log Phi(z), log Phi(-z), mills(z) = phi(z)/Phi(z), mills(-z).
 let tLogP = 0;
 let tLogQ = 0;
@@ -155,11 +172,12 @@ function tails(z: number): void {
   const t = z < 0 ? -z : z;
   const e = erfcx(t * Math.SQRT1_2);
   const half = 0.5 * t * t;
-  const small = 0.5 * e * Math.exp(-half); // Phi(-t)
+  const gauss = Math.exp(-half);
+  const small = 0.5 * e * gauss; // Phi(-t)
   const logSmall = Math.log(0.5 * e) - half;
   const millsSmall = SQRT_2_OVER_PI / e; // phi(t) / Phi(-t)
   const logBig = Math.log1p(-small);
-  const millsBig = (INV_SQRT_2PI * Math.exp(-half)) / (1 - small); // phi(t) / Phi(t)
+  const millsBig = (INV_SQRT_2PI * gauss) / (1 - small); // phi(t) / Phi(t)
   if (z < 0) {
     tLogP = logSmall;
     tMillsP = millsSmall;
@@ -173,11 +191,39 @@ function tails(z: number): void {
   }
 }
 
+// Scratch of logPhiDerivatives(): derivatives 1..4 of log Phi at w, given lambda = phi(w)/Phi(w).
+let dl1 = 0;
+let dl2 = 0;
+let dl3 = 0;
+let dl4 = 0;
+
+/** (log Phi)', '', ''', '''' at w from the inverse Mills ratio lambda: lambda' = -lambda (w + lambda). */
+function logPhiDerivatives(w: number, lambda: number): void {
+  dl1 = lambda;
+  dl2 = -lambda * (w + lambda);
+  dl3 = -dl2 * (w + lambda) - lambda * (1 + dl2);
+  dl4 = -dl3 * (w + 2 * lambda) - 2 * dl2 * (1 + dl2);
+}
+
+/** 0: value only; 1: value and k-derivatives; 2: value, gradient and Hessian in (k, rho). */
+type Order = 0 | 1 | 2;
+
 /**
  * Evaluates the log-likelihood of one panel at many (p, rho) quickly, keeping per-period warm
- * starts (modes and bracket widths) between calls. Results agree with a cold evaluation to the
+ * starts (modes and truncation widths) between calls. Results agree with a cold evaluation to the
  * accuracy of the rule (~1e-12 relative in L); create a new evaluator where bit-for-bit
  * reproducibility independent of call history matters.
+ *
+ * Derivatives (Method). At fixed x the integrand depends on the parameters only through
+ * z = (k - sqrt(rho) x) / sqrt(1 - rho), so every derivative of log L is a posterior moment:
+ * d log L = E[dG], d^2 log L = E[d^2 G] + Cov(dG, dG), integrated at the same nodes as L.
+ * d l / d rho uses the equivalent form E[h1] c / (2 (1 - rho)) + E[h2 + h1^2] / (2 (1 - rho)^2)
+ * (c = k / sqrt(1 - rho); Stein's identity E[x F(x)] = E[F'(x)] for the normal weight removes the
+ * 1/sqrt(rho) of dz/d rho), which stays exact as rho -> 0. At rho = 0 the derivatives are the
+ * closed forms of the heat equation d/db E[psi(c + sqrt(b) X)] = E[psi''] / 2 (b = rho/(1-rho)).
+ * The second rho-derivatives at fixed x carry 1/sqrt(rho) factors that cancel in the integral;
+ * they keep ~8 digits for rho * n >= 1e-3 and are meant for Newton steps and the observed
+ * information, not for rho below ~1e-8.
  */
 export class MixtureLikelihood {
   readonly periods: number;
@@ -185,11 +231,14 @@ export class MixtureLikelihood {
   readonly defaults: Float64Array;
   private readonly logChoose: Float64Array;
   private readonly modes: Float64Array;
+  private readonly widths: Float64Array;
   private readonly hasMode: Uint8Array;
   /** Total defaults / total obligors. */
   readonly pooledRate: number;
   /** Likelihood evaluations performed (each covers every period). */
   evaluations = 0;
+  /** Integrations that hit MAX_PANELS before meeting the tolerance (should stay 0). */
+  unconverged = 0;
 
   constructor(panel: Panel) {
     assertPanel(panel, 'MixtureLikelihood');
@@ -199,6 +248,7 @@ export class MixtureLikelihood {
     this.defaults = Float64Array.from(panel.defaults);
     this.logChoose = new Float64Array(T);
     this.modes = new Float64Array(T);
+    this.widths = new Float64Array(2 * T);
     this.hasMode = new Uint8Array(T);
     let sn = 0;
     let sd = 0;
@@ -212,15 +262,24 @@ export class MixtureLikelihood {
 
   /** Log-likelihood at (k, rho), k = Phi^-1(p). */
   logLik(k: number, rho: number): number {
-    return this.evaluate(k, rho, false).value;
+    return this.evaluate(k, rho, 0).value;
   }
 
   /** Log-likelihood and its first two derivatives in k at (k, rho). */
   logLikWithDerivatives(k: number, rho: number): LogLikK {
-    return this.evaluate(k, rho, true);
+    const r = this.evaluate(k, rho, 1);
+    return { value: r.value, dk: r.dk, dkk: r.dkk };
   }
 
-  private evaluate(k: number, rho: number, withDerivatives: boolean): LogLikK {
+  /**
+   * Log-likelihood with its gradient and Hessian in (k, rho) at (k, rho), k = Phi^-1(p).
+   * Every entry is finite for 0 <= rho < 1 (see the class comment for the accuracy of d2/drho2).
+   */
+  logLikFull(k: number, rho: number): LogLikFull {
+    return this.evaluate(k, rho, 2);
+  }
+
+  private evaluate(k: number, rho: number, order: Order): LogLikFull {
     if (!Number.isFinite(k)) {
       throw new RangeError(`mixture log-likelihood: k = Phi^-1(p) must be finite (0 < p < 1); got ${k}.`);
     }
@@ -231,43 +290,91 @@ export class MixtureLikelihood {
     let value = 0;
     let dk = 0;
     let dkk = 0;
+    let dr = 0;
+    let dkr = 0;
+    let drr = 0;
     if (rho === 0) {
-      // Plain binomial: d/dk log L = phi(k) (d/p - (n-d)/(1-p)).
+      // Plain binomial; the rho-derivatives from the heat equation in b = rho / (1 - rho) at b = 0
+      // (class comment), with h_j = G^(j)(k).
       const p = normalCdf(k);
       tails(k);
+      const lamP = tMillsP;
+      const lamQ = tMillsQ;
+      logPhiDerivatives(k, lamP);
+      const p1 = dl1, p2 = dl2, p3 = dl3, p4 = dl4;
+      logPhiDerivatives(-k, lamQ);
+      const q1 = -dl1, q2 = dl2, q3 = -dl3, q4 = dl4;
       for (let t = 0; t < this.periods; t++) {
         const n = this.obligors[t];
         const d = this.defaults[t];
+        const nd = n - d;
         value += binomialLogPmf(d, n, p);
-        if (withDerivatives) {
-          const h1 = d * tMillsP - (n - d) * tMillsQ;
-          const h2 = -d * tMillsP * (k + tMillsP) - (n - d) * tMillsQ * (tMillsQ - k);
+        if (order > 0) {
+          const h1 = d * p1 + nd * q1;
+          const h2 = d * p2 + nd * q2;
           dk += h1;
           dkk += h2;
+          if (order > 1) {
+            const h3 = d * p3 + nd * q3;
+            const h4 = d * p4 + nd * q4;
+            dr += 0.5 * (h1 * k + h2 + h1 * h1);
+            dkr += 0.5 * (h2 * k + h1 + h3 + 2 * h1 * h2);
+            drr +=
+              0.25 * h2 * k * k +
+              0.5 * (h3 + 2 * h1 * h2) * k +
+              0.25 * (h4 + 4 * h1 * h3 + 2 * h2 * h2 + 4 * h1 * h1 * h2) +
+              0.75 * k * h1 +
+              h2 +
+              h1 * h1;
+          }
         }
       }
-      return { value, dk, dkk };
+      return { value, dk, dkk, dr, dkr, drr };
     }
+    const s = Math.sqrt(rho);
     const s1 = Math.sqrt(1 - rho);
-    const a = Math.sqrt(rho) / s1;
+    const a = s / s1;
     const c = k / s1;
+    qOrder = order;
+    qZX = 1 / (2 * s * s1);
+    qZZ = 1 / (2 * (1 - rho));
+    qZXX = (1 - 2 * rho) / (4 * rho * (1 - rho) * s * s1);
+    qZZ2 = 1 / (2 * (1 - rho) * (1 - rho));
+    qZK = 1 / s1;
+    qZKR = qZK * qZZ;
     for (let t = 0; t < this.periods; t++) {
-      this.period(t, c, a, s1, withDerivatives);
+      this.period(t, c, a);
       value += pValue;
-      dk += pDk;
-      dkk += pDkk;
+      if (order > 0) {
+        const S0 = TOTAL[0];
+        const u1 = TOTAL[1] / S0;
+        const u2 = TOTAL[2] / S0;
+        const e2 = TOTAL[3] / S0;
+        const eh1 = qH1m + u1;
+        dk += eh1 * qZK;
+        dkk += (e2 + u2 - u1 * u1) * qZK * qZK;
+        if (order > 1) {
+          const v1 = TOTAL[4] / S0;
+          const v2 = TOTAL[5] / S0;
+          const uv = TOTAL[6] / S0;
+          const eh1sq = qH1m * qH1m + 2 * qH1m * u1 + u2;
+          dr += eh1 * c * qZZ + (e2 + eh1sq) * qZZ2;
+          dkr += TOTAL[7] / S0 + (uv - u1 * v1) * qZK;
+          drr += TOTAL[8] / S0 + v2 - v1 * v1;
+        }
+      }
     }
-    if (Number.isNaN(value)) {
+    if (!Number.isFinite(value) || !Number.isFinite(dk) || !Number.isFinite(dr)) {
       throw new RangeError(`mixture log-likelihood: the integral failed at k = ${k}, rho = ${rho}.`);
     }
-    return { value, dk, dkk };
+    return { value, dk, dkk, dr, dkr, drr };
   }
 
   /**
-   * One period at z(x) = c - a x. Writes pValue (log L), pDk, pDkk (derivatives in k, using
-   * dz/dk = 1/s1).
+   * One period at z(x) = c - a x. Writes pValue (log L) and the period's accumulator totals
+   * (TOTAL) for the derivatives.
    */
-  private period(t: number, c: number, a: number, s1: number, withDerivatives: boolean): void {
+  private period(t: number, c: number, a: number): void {
     const n = this.obligors[t];
     const d = this.defaults[t];
     const nd = n - d;
@@ -306,22 +413,21 @@ export class MixtureLikelihood {
     }
     const mode = x;
     this.modes[t] = mode;
-    this.hasMode[t] = 1;
     const zm = c - a * mode;
     tails(zm);
     const gmax = logC + d * tLogP + nd * tLogQ - 0.5 * mode * mode - LN_SQRT_2PI;
+    const h1m = d * tMillsP - nd * tMillsQ;
     const curvature = -(a * a * (-d * tMillsP * (zm + tMillsP) - nd * tMillsQ * (tMillsQ - zm)) - 1);
     const sigma = 1 / Math.sqrt(curvature);
 
-    // 2. Half-widths where g = gmax - L, from the Gaussian guess, by Newton on the concave g.
+    // 2. Half-widths where g = gmax - L, by Newton on the concave g from outside (monotone),
+    //    started from the previous width of this period or from the Gaussian guess.
     const target = gmax - TRUNCATION_LOG_UNITS;
-    let s0 = 0;
-    let s1k = 0;
-    let s2k = 0;
     let leftWidth = 0;
     let rightWidth = 0;
     for (let side = -1; side <= 1; side += 2) {
-      let u = Math.min(MAX_HALF_WIDTH, MAX_HALF_WIDTH * sigma);
+      const slot = 2 * t + (side > 0 ? 1 : 0);
+      let u = this.hasMode[t] ? this.widths[slot] : Math.min(MAX_HALF_WIDTH, MAX_HALF_WIDTH * sigma);
       for (let iter = 0; iter < 60; iter++) {
         const xu = mode + side * u;
         const z = c - a * xu;
@@ -340,138 +446,158 @@ export class MixtureLikelihood {
         if (next === u) break;
         u = next;
       }
+      this.widths[slot] = u;
       if (side < 0) leftWidth = u;
       else rightWidth = u;
     }
+    this.hasMode[t] = 1;
 
     // 3. Adaptive Gauss-Kronrod (G10/K21) on [mode - leftWidth, mode] and [mode, mode + rightWidth],
     //    global error control: bisect the panel with the largest error estimate until the total
     //    estimate is below RELATIVE_TOLERANCE of the integral.
-    this.state(n, d, logC, c, a, s1, gmax, withDerivatives);
+    qN = n;
+    qD = d;
+    qC = c;
+    qA = a;
+    qShift = logC - LN_SQRT_2PI - gmax;
+    qH1m = h1m;
+    qGrm = h1m * (-mode * qZX + zm * qZZ);
     let panels = 0;
     // Each side starts as two panels: a single K21 panel over a whole Gaussian-like side is
     // accurate, but its embedded G10 is not, so the error estimate would force bisection anyway.
-    panels = this.addPanel(panels, mode - leftWidth, mode - 0.5 * leftWidth);
-    panels = this.addPanel(panels, mode - 0.5 * leftWidth, mode);
-    panels = this.addPanel(panels, mode, mode + 0.5 * rightWidth);
-    panels = this.addPanel(panels, mode + 0.5 * rightWidth, mode + rightWidth);
+    panels = addPanel(panels, mode - leftWidth, mode - 0.5 * leftWidth);
+    panels = addPanel(panels, mode - 0.5 * leftWidth, mode);
+    panels = addPanel(panels, mode, mode + 0.5 * rightWidth);
+    panels = addPanel(panels, mode + 0.5 * rightWidth, mode + rightWidth);
     for (;;) {
-      let s = 0;
+      let sum = 0;
       let err = 0;
       let worst = 0;
       for (let i = 0; i < panels; i++) {
-        s += P_S0[i];
+        sum += P_ACC[i * NACC];
         err += P_ERR[i];
         if (P_ERR[i] > P_ERR[worst]) worst = i;
       }
-      if (err <= RELATIVE_TOLERANCE * s || panels >= MAX_PANELS) {
-        if (err > RELATIVE_TOLERANCE * s) this.unconverged++;
+      if (err <= RELATIVE_TOLERANCE * sum || panels >= MAX_PANELS) {
+        if (err > RELATIVE_TOLERANCE * sum) this.unconverged++;
         break;
       }
-      const lo = P_LO[worst];
-      const hi = P_HI[worst];
-      const mid = 0.5 * (lo + hi);
-      // replace the worst panel by its left half, append the right half
+      const plo = P_LO[worst];
+      const phi = P_HI[worst];
+      const mid = 0.5 * (plo + phi);
+      // replace the worst panel by the last one, then append both halves
       panels--;
-      this.copyPanel(panels, worst);
-      panels = this.addPanel(panels, lo, mid);
-      panels = this.addPanel(panels, mid, hi);
+      copyPanel(panels, worst);
+      panels = addPanel(panels, plo, mid);
+      panels = addPanel(panels, mid, phi);
     }
-    for (let i = 0; i < panels; i++) {
-      s0 += P_S0[i];
-      s1k += P_S1[i];
-      s2k += P_S2[i];
+    const nacc = qOrder === 0 ? 1 : qOrder === 1 ? 4 : NACC;
+    for (let j = 0; j < nacc; j++) {
+      let acc = 0;
+      for (let i = 0; i < panels; i++) acc += P_ACC[i * NACC + j];
+      TOTAL[j] = acc;
     }
-    pValue = gmax + Math.log(s0);
-    if (withDerivatives) {
-      const m1 = s1k / s0;
-      pDk = m1;
-      pDkk = s2k / s0 - m1 * m1;
-    } else {
-      pDk = 0;
-      pDkk = 0;
-    }
-  }
-  /** Integrations that hit MAX_PANELS before meeting the tolerance (should stay 0). */
-  unconverged = 0;
-
-  private state(n: number, d: number, logC: number, c: number, a: number, s1: number, gmax: number, derivs: boolean): void {
-    qN = n;
-    qD = d;
-    qLogC = logC;
-    qC = c;
-    qA = a;
-    qS1 = s1;
-    qGmax = gmax;
-    qDerivs = derivs;
-  }
-
-  /** Gauss-Kronrod 21-point rule on [lo, hi] for exp(g - gmax) (and its k-moments) into slot i. */
-  private addPanel(i: number, lo: number, hi: number): number {
-    const half = 0.5 * (hi - lo);
-    const centre = 0.5 * (hi + lo);
-    const nd = qN - qD;
-    let resK = 0;
-    let resG = 0;
-    let m1 = 0;
-    let m2 = 0;
-    for (let j = 0; j < 21; j++) {
-      const xi = centre + half * KRONROD_NODES[j];
-      const z = qC - qA * xi;
-      tails(z);
-      const f = Math.exp(qLogC + qD * tLogP + nd * tLogQ - 0.5 * xi * xi - LN_SQRT_2PI - qGmax);
-      F_VALUES[j] = f;
-      resK += KRONROD_WEIGHTS[j] * f;
-      resG += GAUSS_WEIGHTS[j] * f;
-      if (qDerivs) {
-        const h1 = qD * tMillsP - nd * tMillsQ;
-        const h2 = -qD * tMillsP * (z + tMillsP) - nd * tMillsQ * (tMillsQ - z);
-        const gk = h1 / qS1;
-        m1 += KRONROD_WEIGHTS[j] * f * gk;
-        m2 += KRONROD_WEIGHTS[j] * f * (h2 / (qS1 * qS1) + gk * gk);
-      }
-    }
-    // QUADPACK's error estimate (Piessens et al. 1983, qk21): resasc = Int |f - mean f|.
-    const mean = 0.5 * resK;
-    let resAsc = 0;
-    for (let j = 0; j < 21; j++) resAsc += KRONROD_WEIGHTS[j] * Math.abs(F_VALUES[j] - mean);
-    resAsc *= half;
-    let err = Math.abs((resK - resG) * half);
-    if (resAsc !== 0 && err !== 0) err = resAsc * Math.min(1, Math.pow((200 * err) / resAsc, 1.5));
-    const roundoff = 50 * Number.EPSILON * resK * half;
-    if (err < roundoff) err = roundoff;
-    P_LO[i] = lo;
-    P_HI[i] = hi;
-    P_S0[i] = resK * half;
-    P_S1[i] = m1 * half;
-    P_S2[i] = m2 * half;
-    P_ERR[i] = err;
-    return i + 1;
-  }
-
-  private copyPanel(from: number, to: number): void {
-    P_LO[to] = P_LO[from];
-    P_HI[to] = P_HI[from];
-    P_S0[to] = P_S0[from];
-    P_S1[to] = P_S1[from];
-    P_S2[to] = P_S2[from];
-    P_ERR[to] = P_ERR[from];
+    pValue = gmax + Math.log(TOTAL[0]);
   }
 }
 
 // Current integrand (module scratch: evaluation is synchronous and not re-entrant).
 let qN = 0;
 let qD = 0;
-let qLogC = 0;
 let qC = 0;
 let qA = 0;
-let qS1 = 1;
-let qGmax = 0;
-let qDerivs = false;
+let qShift = 0;
+let qOrder: Order = 0;
+let qH1m = 0;
+let qGrm = 0;
+// dz/drho = -x qZX + z qZZ; d2z/drho2 = x qZXX + (dz/drho) qZZ + z qZZ2; dz/dk = qZK; d2z/dk drho = qZKR.
+let qZX = 0;
+let qZZ = 0;
+let qZXX = 0;
+let qZZ2 = 0;
+let qZK = 1;
+let qZKR = 0;
 
 let pValue = 0;
-let pDk = 0;
-let pDkk = 0;
+
+/** Gauss-Kronrod 21-point rule on [lo, hi] for exp(g - gmax) (and its moments) into slot i. */
+function addPanel(i: number, lo: number, hi: number): number {
+  const half = 0.5 * (hi - lo);
+  const centre = 0.5 * (hi + lo);
+  const d = qD;
+  const nd = qN - qD;
+  const order = qOrder;
+  let resK = 0;
+  let resG = 0;
+  let m1 = 0;
+  let m2 = 0;
+  let m3 = 0;
+  let m4 = 0;
+  let m5 = 0;
+  let m6 = 0;
+  let m7 = 0;
+  let m8 = 0;
+  for (let j = 0; j < 21; j++) {
+    const xi = centre + half * KRONROD_NODES[j];
+    const z = qC - qA * xi;
+    tails(z);
+    const f = Math.exp(qShift + d * tLogP + nd * tLogQ - 0.5 * xi * xi);
+    F_VALUES[j] = f;
+    const w = KRONROD_WEIGHTS[j];
+    resK += w * f;
+    resG += GAUSS_WEIGHTS[j] * f;
+    if (order > 0) {
+      const wf = w * f;
+      const h1 = d * tMillsP - nd * tMillsQ;
+      const h2 = -d * tMillsP * (z + tMillsP) - nd * tMillsQ * (tMillsQ - z);
+      const u = h1 - qH1m;
+      m1 += wf * u;
+      m2 += wf * u * u;
+      m3 += wf * h2;
+      if (order > 1) {
+        const zr = -xi * qZX + z * qZZ;
+        const zrr = xi * qZXX + zr * qZZ + z * qZZ2;
+        const gr = h1 * zr;
+        const v = gr - qGrm;
+        m4 += wf * v;
+        m5 += wf * v * v;
+        m6 += wf * u * v;
+        m7 += wf * (h2 * zr * qZK + h1 * qZKR);
+        m8 += wf * (h2 * zr * zr + h1 * zrr);
+      }
+    }
+  }
+  // QUADPACK's error estimate (Piessens et al. 1983, qk21): resasc = Int |f - mean f|.
+  const mean = 0.5 * resK;
+  let resAsc = 0;
+  for (let j = 0; j < 21; j++) resAsc += KRONROD_WEIGHTS[j] * Math.abs(F_VALUES[j] - mean);
+  resAsc *= half;
+  let err = Math.abs((resK - resG) * half);
+  if (resAsc !== 0 && err !== 0) err = resAsc * Math.min(1, Math.pow((200 * err) / resAsc, 1.5));
+  const roundoff = 50 * Number.EPSILON * resK * half;
+  if (err < roundoff) err = roundoff;
+  P_LO[i] = lo;
+  P_HI[i] = hi;
+  P_ERR[i] = err;
+  const base = i * NACC;
+  P_ACC[base] = resK * half;
+  P_ACC[base + 1] = m1 * half;
+  P_ACC[base + 2] = m2 * half;
+  P_ACC[base + 3] = m3 * half;
+  P_ACC[base + 4] = m4 * half;
+  P_ACC[base + 5] = m5 * half;
+  P_ACC[base + 6] = m6 * half;
+  P_ACC[base + 7] = m7 * half;
+  P_ACC[base + 8] = m8 * half;
+  return i + 1;
+}
+
+function copyPanel(from: number, to: number): void {
+  P_LO[to] = P_LO[from];
+  P_HI[to] = P_HI[from];
+  P_ERR[to] = P_ERR[from];
+  for (let j = 0; j < NACC; j++) P_ACC[to * NACC + j] = P_ACC[from * NACC + j];
+}
 
 function assertParameters(fn: string, p: number, rho: number): void {
   if (!(p > 0 && p < 1)) {

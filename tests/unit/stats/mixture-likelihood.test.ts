@@ -117,6 +117,54 @@ describe('mixturePeriodLogLikelihood', () => {
     expect(Math.abs(r.dkk - (up - 2 * r.value + dn) / (h * h))).toBeLessThan(1e-4 * Math.abs(r.dkk));
   });
 
+  it('has the exact gradient and Hessian in (k, rho) it reports (checked by central differences)', () => {
+    // calculus: central differences of the value and of the analytic first derivatives
+    const panels = [
+      { obligors: [1000, 5000, 50], defaults: [12, 0, 3] },
+      { obligors: [200000, 210000, 190000], defaults: [2100, 3900, 1500] },
+      { obligors: [48, 52, 50, 55], defaults: [2, 0, 5, 1] },
+    ];
+    const k = normalQuantile(0.012);
+    for (const panel of panels) {
+      for (const rho of [1e-4, 0.01, 0.2, 0.9]) {
+        const at = (kk: number, rr: number) => new MixtureLikelihood(panel).logLikFull(kk, rr);
+        const r = at(k, rho);
+        const hk = 1e-3;
+        const hr = Math.min(1e-5, rho * 1e-3);
+        const ku = at(k + hk, rho);
+        const kd = at(k - hk, rho);
+        const ru = at(k, rho + hr);
+        const rd = at(k, rho - hr);
+        const close = (got: number, fd: number, tol: number, what: string) =>
+          expect(Math.abs(got - fd), `${what} n=${panel.obligors[0]} rho=${rho}`).toBeLessThan(tol * Math.abs(fd) + 1e-8);
+        close(r.dr, (ru.value - rd.value) / (2 * hr), 1e-5, 'dr');
+        close(r.dkr, (ru.dk - rd.dk) / (2 * hr), 1e-4, 'dkr');
+        close(r.dkr, (ku.dr - kd.dr) / (2 * hk), 1e-4, 'dkr');
+        close(r.drr, (ru.dr - rd.dr) / (2 * hr), 1e-4, 'drr');
+        close(r.dkk, (ku.dk - kd.dk) / (2 * hk), 1e-5, 'dkk');
+        // the k-derivatives agree with the k-only evaluation
+        const kOnly = new MixtureLikelihood(panel).logLikWithDerivatives(k, rho);
+        expect(Math.abs(kOnly.dk - r.dk)).toBeLessThan(1e-9 * Math.abs(r.dk) + 1e-9);
+        expect(Math.abs(kOnly.value - r.value)).toBeLessThan(1e-12 * Math.abs(r.value));
+      }
+    }
+  });
+
+  it('has rho-derivatives at rho = 0 that continue those at small rho (heat equation)', () => {
+    // calculus: second-order one-sided differences at rho = 0, h = 1e-7 and 2e-7
+    const panel = { obligors: [1000, 5000, 50, 2000], defaults: [12, 40, 3, 31] };
+    const k = normalQuantile(0.012);
+    const at = (rr: number) => new MixtureLikelihood(panel).logLikFull(k, rr);
+    const r0 = at(0);
+    const h = 1e-7;
+    const a = at(h);
+    const b = at(2 * h);
+    const fd = (x0: number, x1: number, x2: number) => (4 * x1 - x2 - 3 * x0) / (2 * h);
+    expect(Math.abs(r0.dr - fd(r0.value, a.value, b.value))).toBeLessThan(1e-6 * Math.abs(r0.dr));
+    expect(Math.abs(r0.dkr - fd(r0.dk, a.dk, b.dk))).toBeLessThan(1e-5 * Math.abs(r0.dkr));
+    expect(Math.abs(r0.drr - fd(r0.dr, a.dr, b.dr))).toBeLessThan(1e-5 * Math.abs(r0.drr));
+  });
+
   it('refuses bad parameters and bad counts with a sentence naming the problem', () => {
     expect(() => mixturePeriodLogLikelihood(10, 11, 0.1, 0.1)).toThrow(/defaults = 11/);
     expect(() => mixturePeriodLogLikelihood(10, 1, 0, 0.1)).toThrow(RangeError);
