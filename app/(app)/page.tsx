@@ -3,6 +3,7 @@ import Link from 'next/link';
 import { roleDescriptions, roleLabels } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { getHealth } from '@/lib/dal/health';
+import { listLibrary, listQueue } from '@/lib/dal/assumptions';
 import type { Role } from '@/db/schema';
 
 export const metadata: Metadata = { title: 'Overview' };
@@ -13,34 +14,37 @@ function nextSteps(role: Role): NextStep[] {
   switch (role) {
     case 'analyst':
       return [
-        { text: 'Upload cohort default counts, vintage curves or a loan-level tape for a segment.' },
-        { text: 'Fit the asset correlation of each segment by maximum likelihood and by moments, with intervals.' },
-        { text: 'Draft an assumption with its margin of conservatism and submit it for review.' },
+        { text: 'Upload cohort default counts, vintage curves or a loan-level tape for a segment.', href: '/data/upload' },
+        { text: 'Fit the asset correlation of each segment by maximum likelihood and by moments, with intervals.', href: '/fits/new' },
+        { text: 'Draft an assumption with its margin of conservatism and submit it for review.', href: '/library/new' },
       ];
     case 'validator':
       return [
-        { text: 'Review submitted assumptions: intervals, diagnostics, backtest and the estimator audit.' },
-        { text: 'Run your own fits to challenge a draft; request changes, reject or approve.' },
+        { text: 'Review submitted assumptions: intervals, diagnostics, backtest and the estimator audit.', href: '/queue' },
+        { text: 'Run your own fits to challenge a draft; request changes, reject or approve.', href: '/fits/new' },
         { text: 'You cannot approve a version you drafted or edited: the system refuses it.' },
       ];
     case 'admin':
       return [
         { text: 'Manage users and their roles.', href: '/admin' },
-        { text: 'Create API tokens for downstream models that read published assumptions.' },
+        { text: 'Create API tokens for downstream models that read published assumptions.', href: '/admin/tokens' },
         { text: 'Administrators cannot approve assumptions.' },
       ];
     default:
       return [
-        { text: 'Read published correlation assumptions with their interval, PD and cautions.' },
-        { text: 'See what a correlation means for two obligors: joint default probability and default correlation.' },
+        { text: 'Read published correlation assumptions with their interval, PD and cautions.', href: '/library' },
+        { text: 'See what a correlation means for two obligors: joint default probability and default correlation.', href: '/pairs' },
       ];
   }
 }
 
 export default async function OverviewPage() {
   const user = await requireUser();
-  const health = await getHealth();
+  const [health, queue, library] = await Promise.all([getHealth(), listQueue(user), listLibrary(user)]);
   const steps = nextSteps(user.role);
+  const expiring = library.filter((e) => e.health === 'expiring');
+  const expired = library.filter((e) => e.health === 'expired');
+  const published = library.filter((e) => e.current?.status === 'published');
   return (
     <div className="space-y-6">
       <section>
@@ -51,6 +55,71 @@ export default async function OverviewPage() {
           versioned assumption that capital, stress-test, provisioning and securitisation models read through an API.
         </p>
       </section>
+
+      <div className="grid gap-4 md:grid-cols-2">
+      {user.role === 'analyst' || user.role === 'validator' ? (
+        <section className="panel p-5" aria-label="Needs your action">
+          <div className="flex items-baseline justify-between">
+            <h2>Needs your action</h2>
+            <Link href="/queue" className="text-sm">
+              Open the queue
+            </Link>
+          </div>
+          {queue.length === 0 ? (
+            <p className="mt-2 text-sm text-[var(--color-muted)]">Nothing awaits you.</p>
+          ) : (
+            <ul className="mt-2 space-y-1">
+              {queue.slice(0, 6).map((q) => (
+                <li key={q.id} className="flex flex-wrap gap-x-3">
+                  <Link href={`/library/versions/${q.id}`}>
+                    {q.segment} v{q.version}
+                  </Link>
+                  <span className="text-sm text-[var(--color-muted)]">{q.why}</span>
+                </li>
+              ))}
+              {queue.length > 6 ? <li className="text-sm text-[var(--color-muted)]">and {queue.length - 6} more</li> : null}
+            </ul>
+          )}
+        </section>
+      ) : null}
+
+      <section className={`panel p-5 ${user.role === 'analyst' || user.role === 'validator' ? '' : 'md:col-span-2'}`} aria-label="Library health">
+        <div className="flex items-baseline justify-between">
+          <h2>Library health</h2>
+          <Link href="/library" className="text-sm">
+            Open the library
+          </Link>
+        </div>
+        <p className="mt-2 text-sm">
+          {published.length === 0 ? 'No published assumption is in force yet' : <><span className="num">{published.length}</span> published assumption{published.length === 1 ? '' : 's'} in force</>}
+          {expiring.length ? (
+            <>
+              {' · '}
+              <span className="font-medium text-[var(--color-caution)]">{expiring.length} due for review within 30 days</span>
+            </>
+          ) : null}
+          {expired.length ? (
+            <>
+              {' · '}
+              <span className="font-medium text-[var(--color-bad)]">{expired.length} past review-by</span>
+            </>
+          ) : null}
+        </p>
+        {[...expired, ...expiring].length ? (
+          <ul className="mt-2 space-y-1 text-sm">
+            {[...expired, ...expiring].slice(0, 6).map((e) => (
+              <li key={e.assumptionId}>
+                {e.current ? <Link href={`/library/versions/${e.current.id}`}>{e.segment}</Link> : e.segment}
+                <span className="ml-2 text-[var(--color-muted)]">
+                  review by {e.current?.reviewBy ?? '—'}
+                  {e.daysToReview !== null ? (e.daysToReview < 0 ? ` (${-e.daysToReview} days ago)` : ` (in ${e.daysToReview} days)`) : ''}
+                </span>
+              </li>
+            ))}
+          </ul>
+        ) : null}
+      </section>
+      </div>
 
       <section className="grid gap-4 md:grid-cols-3">
         <div className="panel p-5 md:col-span-2">
