@@ -2,13 +2,18 @@
 
 import Link from 'next/link';
 import { usePathname } from 'next/navigation';
+import { activeNavHref } from '@/lib/nav';
 
 export function AppNav({ items }: { items: { href: string; label: string }[] }) {
   const pathname = usePathname();
+  const activeHref = activeNavHref(
+    items.map((i) => i.href),
+    pathname,
+  );
   return (
     <nav aria-label="Main" className="flex flex-wrap gap-1">
       {items.map((item) => {
-        const active = item.href === '/' ? pathname === '/' : pathname === item.href || pathname.startsWith(item.href + '/');
+        const active = item.href === activeHref;
         return (
           <Link
             key={item.href}

@@ -6,12 +6,13 @@ import { Providers } from '@/components/providers';
 import { SignOutButton } from '@/components/sign-out-button';
 import { roleLabels } from '@/lib/auth/permissions';
 import { getCurrentUser } from '@/lib/auth/session';
+import { mailIsCaptured } from '@/lib/dal/outbox';
 import { navFor } from '@/lib/nav';
 
 export default async function AppLayout({ children }: { children: ReactNode }) {
   const user = await getCurrentUser();
   if (!user) redirect('/sign-in');
-  const items = navFor(user.role, process.env.NODE_ENV !== 'production').map(({ href, label }) => ({ href, label }));
+  const items = navFor(user.role, mailIsCaptured()).map(({ href, label }) => ({ href, label }));
   return (
     <Providers>
       <header className="border-b border-[var(--color-line)] bg-white">

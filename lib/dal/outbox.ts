@@ -4,6 +4,7 @@ import { getDb } from '@/db/client';
 import { mailCaptured, mailOutbox, type MailStatus } from '@/db/schema';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { env } from '@/lib/env';
+import { AppError } from '@/lib/errors';
 
 export type OutboxDto = {
   id: number;
@@ -17,7 +18,7 @@ export type OutboxDto = {
   lastError: string | null;
   sentAt: string | null;
   createdAt: string;
-  /** When the local capture server received it (development and tests). */
+  /** When the local capture server received it. */
   capturedAt: string | null;
   capturedTo: string[] | null;
 };
@@ -28,13 +29,18 @@ export function mailIsCaptured(): boolean {
 }
 
 /**
- * The outbox for administrators: every message with its delivery state (retries and errors shown),
- * and, when mail is captured locally, what the capture server received. Message bodies are shown
- * only in capture mode: with a real SMTP server they are other people's mail.
+ * The outbox of the local mail capture, for administrators: every message with its delivery state
+ * (retries and errors shown) and what the capture server received. It exists only while mail is
+ * captured locally (no SMTP_URL, whatever NODE_ENV: `npm start` runs the web app in production mode
+ * and still captures); with a real SMTP server the messages are other people's mail, and the
+ * outbox answers "not found".
  */
 export async function listOutbox(actor: SessionUser, limit = 100): Promise<OutboxDto[]> {
   assertCan(actor, 'outbox:read', 'Only administrators can read the mail outbox.');
   const captured = mailIsCaptured();
+  if (!captured) {
+    throw new AppError('not_found:outbox', 'Mail is sent through the SMTP server in SMTP_URL; there is no local outbox to show.');
+  }
   const rows = await getDb()
     .select({ m: mailOutbox, capturedAt: mailCaptured.receivedAt, capturedTo: mailCaptured.envelopeTo })
     .from(mailOutbox)
@@ -46,7 +52,7 @@ export async function listOutbox(actor: SessionUser, limit = 100): Promise<Outbo
     kind: m.kind,
     to: m.toAddress,
     subject: m.subject,
-    body: captured ? m.body : '',
+    body: m.body,
     status: m.status,
     attempts: m.attempts,
     nextAttemptAt: m.nextAttemptAt.toISOString(),

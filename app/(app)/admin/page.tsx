@@ -1,9 +1,11 @@
 import type { Metadata } from 'next';
+import Link from 'next/link';
 import { forbidden } from 'next/navigation';
 import { CreateUserForm } from '@/components/admin/create-user-form';
 import { UserControls } from '@/components/admin/user-controls';
 import { can, roleLabels } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
+import { mailIsCaptured } from '@/lib/dal/outbox';
 import { listAdminAudit, listUsers } from '@/lib/dal/users';
 import { changeRoleAction, createUserAction, setActiveAction } from './actions';
 
@@ -16,6 +18,10 @@ export default async function AdminPage() {
   return (
     <div className="space-y-6">
       <h1>Admin</h1>
+      <nav aria-label="Administration" className="flex flex-wrap gap-4 text-sm">
+        <Link href="/admin/tokens">API tokens</Link>
+        {mailIsCaptured() ? <Link href="/admin/outbox">Mail outbox (local capture)</Link> : null}
+      </nav>
       <section className="panel p-5">
         <h2 className="mb-3">Users</h2>
         <div className="overflow-x-auto">

@@ -1,6 +1,6 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
-import { forbidden } from 'next/navigation';
+import { forbidden, notFound } from 'next/navigation';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { listOutbox, mailIsCaptured } from '@/lib/dal/outbox';
@@ -12,19 +12,20 @@ const at = (s: string | null) => (s ? s.replace('T', ' ').slice(0, 19) : '—');
 export default async function OutboxPage() {
   const actor = await requireUser();
   if (!can(actor.role, 'outbox:read')) forbidden();
+  // The outbox is the local capture's: with a real SMTP server (SMTP_URL) there is none to show.
+  if (!mailIsCaptured()) notFound();
   const mail = await listOutbox(actor);
-  const captured = mailIsCaptured();
   return (
     <div className="space-y-5">
       <p className="text-sm">
         <Link href="/admin">Admin</Link> / mail outbox
       </p>
-      <h1>Mail outbox</h1>
-      <p className={`${captured ? 'notice-caution' : 'notice-good'} text-sm`}>
-        {captured
-          ? 'Development mode: no SMTP_URL is set, so the worker delivers mail to a capturing SMTP server on loopback. Nothing leaves this machine; the messages are shown below.'
-          : 'Mail is sent through the SMTP server in SMTP_URL. Delivery state is shown; message bodies are not.'}{' '}
-        A failed send is retried with backoff and never blocks a transition.
+      <h1>Mail outbox (local capture)</h1>
+      <p className="notice-caution text-sm" data-testid="capture-notice">
+        This is the local mail capture. No SMTP_URL is set, so the worker delivers every message to a capturing SMTP server
+        on loopback (127.0.0.1) inside the worker: nothing leaves this machine, and the messages are shown below. Set
+        SMTP_URL to send through a real mail server; this screen then disappears. A failed send is retried with backoff and
+        never blocks a transition.
       </p>
       <section className="space-y-2">
         {mail.map((m) => (
@@ -50,7 +51,7 @@ export default async function OutboxPage() {
                 Sent {at(m.sentAt)}; captured {at(m.capturedAt)}
                 {m.capturedTo ? ` for ${m.capturedTo.join(', ')}` : ''}
               </p>
-              {captured ? <pre className="mt-2 whitespace-pre-wrap font-sans">{m.body}</pre> : null}
+              <pre className="mt-2 whitespace-pre-wrap font-sans">{m.body}</pre>
             </div>
           </details>
         ))}
