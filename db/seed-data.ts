@@ -10,6 +10,7 @@ import {
 } from '@/lib/datasets/store';
 import { fenmoorCohortCsv, fenmoorLoanTapeChunks, fenmoorVintageCsv, LENDER_NAME } from '@/lib/demo';
 import type { Db } from './connection';
+import { seedDemoAssumptions } from './seed-assumptions';
 import { segments, users, type AssetClass } from './schema';
 
 /**
@@ -102,4 +103,5 @@ export async function seedDemoData(db: Db): Promise<void> {
       .where(eq(segments.name, name));
   }
   console.log(`[seed] demo datasets stored in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
+  await seedDemoAssumptions(db);
 }
