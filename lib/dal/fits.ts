@@ -4,12 +4,12 @@ import { getDb } from '@/db/client';
 import { cohortRows, datasets, fitRuns, jobs, segments, users, type FitRunStatus } from '@/db/schema';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { AppError } from '@/lib/errors';
-import { FIT_ENGINE_VERSION } from '@/lib/fits/engine';
 import { loadFittableDataset, loadPanels } from '@/lib/fits/panels';
 import { fitRequestSchema, type FitRequest, type FitRequestInput } from '@/lib/fits/request';
 import type { FitResults } from '@/lib/fits/results';
 import { FIT_JOB } from '@/lib/jobs/kinds/fit';
 import { cancelJob, enqueueJob } from '@/lib/jobs/queue';
+import { ENGINE_VERSION } from '@/lib/stats/version';
 
 /**
  * Fit runs. Who may do what (lib/auth/permissions.ts): every signed-in role reads fits; analysts and
@@ -118,7 +118,7 @@ export async function createFit(actor: SessionUser, input: FitRequestInput | unk
       datasetId: dataset.id,
       datasetSha256: dataset.sha256,
       request,
-      engineVersion: FIT_ENGINE_VERSION,
+      engineVersion: ENGINE_VERSION,
       seeds: { bootstrap: request.bootstrap?.seed ?? null, audit: request.audit?.seed ?? null },
       createdBy: actor.id,
     });

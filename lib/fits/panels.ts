@@ -1,9 +1,19 @@
 import { and, asc, eq, gte, inArray, lte } from 'drizzle-orm';
 import type { Db } from '@/db/connection';
-import { cohortRows, datasets, segments, type Dataset } from '@/db/schema';
+import { cohortRows, datasets, segments, type AssetClass, type Dataset } from '@/db/schema';
 import { AppError } from '@/lib/errors';
-import type { SegmentInput } from './engine';
 import { MIN_PERIODS, type FitRequest } from './request';
+
+/** One segment's panel as read from a dataset, with the settings the fit needs. */
+export type SegmentInput = {
+  segment: string;
+  assetClass: AssetClass;
+  /** Annual turnover in EUR millions (SME size adjustment). */
+  turnoverEurMillions?: number | null;
+  periods: string[];
+  obligors: number[];
+  defaults: number[];
+};
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 type DbLike = Db | any;

@@ -1,11 +1,16 @@
 /**
- * The results of a fit run, per segment, as stored in fit_runs.results and answered by
- * GET /api/fits/:id. The core is the per-segment shape of the engine CLI (issue 3): segment, T,
- * periods, estimates of the five estimators with intervals, warnings, timing. The review screens
- * need a little more, kept in the same object under plain names: the panel itself, the profile
- * curve, diagnostics, what the estimate means, the estimator audit and the window comparison.
+ * The results of a fit run, as stored in fit_runs.results and answered by GET /api/fits/:id.
+ *
+ * `{ engine: { version }, segments: [...] }` is the JSON document of the engine CLI (issue 3,
+ * lib/cli/fit.ts): each segment is the engine's own TimedSegmentFit (lib/stats/fit-panel.ts:
+ * estimates of the five estimators with the profile, Wald and bootstrap intervals of binomialMle,
+ * warnings, level, profileCurve, profileCutoff, diagnostics, implications, observed, timing),
+ * untouched, so a run's numbers can be compared field by field with the CLI's. The fit run adds a
+ * few fields of its own beside them, under plain names: the segment's asset class as set in the
+ * dataset, the estimator the review leads with, the estimator audit and the window comparison.
  */
 import type { AssetClass } from '@/db/schema';
+import type { EstimateDto, TimedSegmentFit } from '@/lib/stats/fit-panel';
 
 export type EstimatorKey = 'binomialMle' | 'vasicekMle' | 'momentVariance' | 'momentVarianceCorrected' | 'jointDefault';
 
@@ -25,87 +30,76 @@ export const ESTIMATOR_NAMES: Record<EstimatorKey, string> = {
   jointDefault: 'Joint-default moments',
 };
 
-export type EstimateStatus = 'ok' | 'clipped' | 'undefined' | 'not-converged';
+/** A warning of the fit run itself (not of the engine), same shape as the engine's. */
+export type RunWarning = { code: 'sme-turnover-missing'; message: string };
 
-export type IntervalResult = { level: number; lower: number; upper: number };
-
-export type EstimateResult = { rho: number | null; pd: number | null; status: EstimateStatus; reason?: string };
-
-export type BinomialMleResultDto = EstimateResult & {
-  logLik: number | null;
-  atBoundary: boolean;
-  intervals: {
-    profile: IntervalResult | null;
-    wald: (IntervalResult & { se: number }) | null;
-    bootstrap: (IntervalResult & { bias: number; replications: number; seed: number; failed: number }) | null;
-  };
-};
-
-export type Warning = { code: string; message: string };
-
+/** One estimator's sampling behaviour in the audit. */
 export type AuditRow = {
   estimator: EstimatorKey;
-  /** Replications where the estimator gave a value. */
+  /** Replications in which the estimator gave a value. */
   defined: number;
+  /** mean(estimate) - true rho over the replications with a value. */
   bias: number | null;
+  /** Root mean squared error over the replications with a value. */
   rmse: number | null;
-  /** Share of replications whose profile interval covered the true rho (binomialMle only). */
+  /** binomialMle only: share of replications whose profile interval covered the true rho. */
   profileCoverage: number | null;
+  /** binomialMle only: share of replications whose Wald interval covered the true rho (replications without a Wald interval are left out; see waldMissing). */
+  waldCoverage: number | null;
+  /** binomialMle only: replications with an estimate but no Wald interval (maximum at rho = 0). */
+  waldMissing: number | null;
 };
 
+/** The estimator audit of one segment: panels simulated at the fitted values with the segment's own n_t. */
+export type AuditResult = {
+  /** Which code produced it: the interim path of lib/fits/interim-audit.ts until lib/stats/audit.ts lands. */
+  implementation: string;
+  replications: number;
+  seed: number;
+  level: number;
+  truth: { pd: number; rho: number };
+  rows: AuditRow[];
+};
+
+/** The same segment fitted over another window (fitPanel on the sub-panel, no bootstrap). */
 export type WindowResult = {
   label: string;
   periods: string[];
   T: number;
-  binomialMle: { rho: number | null; pd: number | null; lower: number | null; upper: number | null; status: EstimateStatus };
+  binomialMle: {
+    rho: number | null;
+    pd: number | null;
+    status: EstimateDto['status'];
+    profile: { lower: number; upper: number } | null;
+  };
   momentVarianceCorrected: number | null;
   jointDefault: number | null;
+  /** Codes of the engine's warnings for this window. */
+  warnings: string[];
 };
 
-export type SegmentResult = {
-  segment: string;
-  T: number;
-  periods: string[];
-  estimates: {
-    binomialMle: BinomialMleResultDto;
-    vasicekMle: EstimateResult;
-    momentVariance: EstimateResult;
-    momentVarianceCorrected: EstimateResult;
-    jointDefault: EstimateResult;
-  };
-  warnings: Warning[];
-  timing: { ms: number };
-  /** The estimator the review leads with (binomialMle unless it is undefined). */
-  chosen: EstimatorKey;
+/** One segment of a fit run: the engine's TimedSegmentFit plus the run's own fields. */
+export type FitSegmentResult = Omit<TimedSegmentFit, 'warnings'> & {
+  warnings: (TimedSegmentFit['warnings'][number] | RunWarning)[];
+  /** The segment's asset class as set on the dataset ('none': no supervisory benchmark). */
   assetClass: AssetClass;
-  panel: { obligors: number[]; defaults: number[] };
-  profile: { points: { rho: number; logLik: number }[]; cutoff: number; maxLogLik: number } | null;
-  diagnostics: {
-    zeroDefaultPeriods: number;
-    /** Likelihood-ratio test of rho = 0 (50:50 mixture of chi-square 0 and 1 under the null). */
-    lrTestRhoZero: { statistic: number; pValue: number } | null;
-    /** Implied factor x_t; null where the default rate is 0 or 1. */
-    impliedFactor: (number | null)[] | null;
-    lag1Autocorrelation: number | null;
-    /** Probability-integral-transform value of each period's default rate under the fitted model. */
-    pit: number[] | null;
-    /** Fitted Vasicek default-rate quantiles (the same for every period). */
-    bands: Record<'q005' | 'q025' | 'q25' | 'q50' | 'q75' | 'q975' | 'q995', number> | null;
-    exceed95: number | null;
-    exceed99: number | null;
-  };
-  implications: {
-    pd: number;
-    rho: number;
-    quantile999: number;
-    lgd: number;
-    maturityYears: number | null;
-    capital: { atEstimate: number; atLower: number | null; atUpper: number | null };
-    supervisory: { assetClass: AssetClass; rho: number; capital: number } | null;
-    pair: { joint: number; independent: number; defaultCorrelation: number };
-  } | null;
-  audit: { replications: number; seed: number; truth: { pd: number; rho: number }; rows: AuditRow[]; failed: number } | null;
+  /** The estimator the review leads with: binomialMle unless it gives no value. */
+  chosen: EstimatorKey;
+  audit: AuditResult | null;
   windows: WindowResult[];
 };
 
-export type FitResults = { engine: { version: string }; segments: SegmentResult[] };
+export type FitResults = { engine: { version: string }; segments: FitSegmentResult[] };
+
+/**
+ * True when stored results have the shape above. Runs computed before the engine landed (engine
+ * "rhobook-fit 0.2 (interim engine)") have another shape; the screens say so instead of guessing.
+ */
+export function isCurrentResults(results: unknown): results is FitResults {
+  const r = results as FitResults | null;
+  return (
+    !!r &&
+    Array.isArray(r.segments) &&
+    r.segments.every((s) => Array.isArray(s?.observed) && Array.isArray(s?.profileCurve) && Array.isArray(s?.windows) && typeof s?.level === 'number')
+  );
+}

@@ -1,4 +1,6 @@
 import { spawn, type ChildProcess } from 'node:child_process';
+import { mkdtemp, rm, writeFile } from 'node:fs/promises';
+import os from 'node:os';
 import path from 'node:path';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { eq, inArray } from 'drizzle-orm';
@@ -6,7 +8,9 @@ import { closeDb, getDb } from '@/db/connection';
 import { fitRuns, jobs } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
 import { createFit, getFit } from '@/lib/dal/fits';
+import { runFit } from '@/lib/cli/fit';
 import type { FitResults } from '@/lib/fits/results';
+import { ENGINE_VERSION } from '@/lib/stats/version';
 import { FIT_JOB } from '@/lib/jobs/kinds/fit';
 import { enqueueJob } from '@/lib/jobs/queue';
 import { runJobLoop } from '@/workers/job-loop';
@@ -110,7 +114,69 @@ describe('fit jobs', () => {
     expect(a.estimates.binomialMle.intervals.profile!.upper).toBeCloseTo(0.1147, 2);
     expect(a.estimates.momentVariance.rho).toBeCloseTo(0.05111, 6);
     expect(a.estimates.jointDefault.rho).toBeCloseTo(0.037745, 6);
-    expect(a.estimates.binomialMle.intervals.bootstrap).toMatchObject({ replications: 30, seed: 5 });
+    expect(a.estimates.binomialMle.intervals.bootstrap).toMatchObject({ replications: 30, seed: 5, level: 0.95 });
+    // The engine's Wald interval (logit scale) is there, around the estimate, with its standard error.
+    const wald = a.estimates.binomialMle.intervals.wald!;
+    expect(wald.lower).toBeLessThan(0.037091);
+    expect(wald.upper).toBeGreaterThan(0.037091);
+    expect(wald.se).toBeGreaterThan(0);
+    expect(fit.engineVersion).toBe(ENGINE_VERSION);
+    expect(fit.results!.engine.version).toBe(ENGINE_VERSION);
+    // The run's own fields: the whole window first in the window comparison, no audit asked for.
+    expect(a.windows[0]).toMatchObject({ label: 'Whole window', T: 10, binomialMle: { rho: a.estimates.binomialMle.rho } });
+    expect(a.windows.map((w) => w.label)).toContain('Without the worst period (2013)');
+    expect(a.audit).toBeNull();
+  });
+
+  it('the stored results of a segment are the CLI\'s JSON for the same panel, field for field (engine, seeds, level)', async () => {
+    const { id } = await createFit(analyst, { datasetId: dataset.id, segments: [dataset.segments[0]], level: 0.9, bootstrap: { replications: 40, seed: 5 } });
+    await drain([(await jobOf(id)).job.id]);
+    const fit = await getFit(analyst, id);
+    expect(fit.status).toBe('succeeded');
+    const dir = await mkdtemp(path.join(os.tmpdir(), 'rhobook-f5-'));
+    try {
+      const csv = path.join(dir, 'panel-a.csv');
+      const name = dataset.segments[0];
+      await writeFile(csv, ['segment,period,obligors,defaults', ...PANEL_A.obligors.map((n, t) => `${name},${2010 + t},${n},${PANEL_A.defaults[t]}`)].join('\n') + '\n');
+      let out = '';
+      const code = await runFit([csv, '--json', '--level', '0.9', '--bootstrap', '40', '--seed', '5', '--threads', '1', '--asset-class', 'corporate'], {
+        out: (t) => (out += t),
+        err: () => undefined,
+      });
+      expect(code).toBe(0);
+      const cli = withoutTiming(JSON.parse(out));
+      const stored = withoutTiming(fit.results!);
+      expect(stored.engine).toEqual(cli.engine);
+      const { assetClass, chosen, audit, windows, ...engineFields } = stored.segments[0];
+      expect({ assetClass, chosen, audit }).toEqual({ assetClass: 'corporate', chosen: 'binomialMle', audit: null });
+      expect(windows.length).toBeGreaterThan(1);
+      expect(engineFields).toEqual(cli.segments[0]);
+      // Panel A's numbers in both (issue 3, SciPy 1.17), so the equality is not between two wrong answers.
+      expect(cli.segments[0].estimates.binomialMle.rho).toBeCloseTo(0.037091, 5);
+      expect(cli.segments[0].estimates.binomialMle.intervals.bootstrap).toMatchObject({ replications: 40, seed: 5, level: 0.9 });
+    } finally {
+      await rm(dir, { recursive: true, force: true });
+    }
+  });
+
+  it('the estimator audit: every estimator on panels simulated at the fit, coverage shares in [0, 1], seeded', async () => {
+    const request = { datasetId: dataset.id, segments: [dataset.segments[0]], audit: { replications: 12, seed: 3 } };
+    const first = await createFit(analyst, request);
+    const second = await createFit(analyst, { ...request, audit: { replications: 12, seed: 4 } });
+    await drain([(await jobOf(first.id)).job.id, (await jobOf(second.id)).job.id]);
+    const a = (await getFit(analyst, first.id)).results!.segments[0];
+    const b = (await getFit(analyst, second.id)).results!.segments[0];
+    expect(a.audit).not.toBeNull();
+    expect(a.audit!.truth).toEqual({ pd: a.estimates.binomialMle.pd, rho: a.estimates.binomialMle.rho });
+    expect(a.audit!.rows.map((r) => r.estimator)).toEqual(['binomialMle', 'vasicekMle', 'momentVariance', 'momentVarianceCorrected', 'jointDefault']);
+    const mle = a.audit!.rows[0];
+    expect(mle.defined).toBe(12);
+    expect(mle.rmse!).toBeGreaterThanOrEqual(Math.abs(mle.bias!)); // RMSE^2 = bias^2 + variance
+    expect(mle.profileCoverage!).toBeGreaterThanOrEqual(0);
+    expect(mle.profileCoverage!).toBeLessThanOrEqual(1);
+    expect(a.audit!.rows[2].profileCoverage).toBeNull(); // intervals belong to the likelihood estimate only
+    // Another seed, other simulated panels.
+    expect(b.audit!.rows[0].bias).not.toBe(mle.bias);
   });
 
   it('re-running a fit with the same dataset hash, engine version and seeds gives identical numbers', async () => {

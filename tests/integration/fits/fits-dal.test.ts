@@ -5,7 +5,7 @@ import { fitRuns, jobs } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
 import { cancelFit, createFit, getFit } from '@/lib/dal/fits';
 import { AppError } from '@/lib/errors';
-import { FIT_ENGINE_VERSION } from '@/lib/fits/engine';
+import { ENGINE_VERSION } from '@/lib/stats/version';
 import { makeCohortDataset } from '../../support/fit-data';
 import { makeUser } from '../../support/users';
 
@@ -44,7 +44,7 @@ describe('requesting a fit', () => {
     expect(res.status).toBe('queued');
     const [row] = await getDb().select().from(fitRuns).where(eq(fitRuns.id, res.id));
     expect(row.datasetSha256).toBe(dataset.sha256);
-    expect(row.engineVersion).toBe(FIT_ENGINE_VERSION);
+    expect(row.engineVersion).toBe(ENGINE_VERSION);
     expect(row.seeds).toEqual({ bootstrap: 11, audit: null });
     expect(row.createdBy).toBe(analyst.id);
     const [job] = await getDb().select().from(jobs).where(eq(jobs.id, row.jobId!));
