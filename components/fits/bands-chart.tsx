@@ -9,9 +9,10 @@ type Series = { id: string; data: { x: string; y: number }[] };
 /**
  * Observed default rates by period against the fitted Vasicek default-rate distribution: shaded
  * central bands holding 50%, 95% and 99% of it (the same every period under the model), and the
- * median. Periods above the 99% band are drawn in red.
+ * median. Periods above the fitted 99% quantile are drawn in red, above the 95% quantile in amber
+ * (the exceedances counted by the engine's diagnostics).
  */
-export function BandsChart({ periods, rates, bands }: { periods: string[]; rates: number[]; bands: Bands }) {
+export function BandsChart({ periods, rates, bands, q95, q99 }: { periods: string[]; rates: number[]; bands: Bands; q95: number; q99: number }) {
   const data: Series[] = [{ id: 'Observed default rate', data: periods.map((p, i) => ({ x: p, y: rates[i] })) }];
   const maxY = Math.max(bands.q995, ...rates) * 1.12;
 
@@ -41,8 +42,8 @@ export function BandsChart({ periods, rates, bands }: { periods: string[]; rates
     return (
       <g>
         {props.points.map((p) => {
-          const over = (p.data.y as number) > bands.q995;
-          const over95 = (p.data.y as number) > bands.q975;
+          const over = (p.data.y as number) > q99;
+          const over95 = (p.data.y as number) > q95;
           return (
             <circle
               key={p.id}

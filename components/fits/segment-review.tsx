@@ -1,8 +1,8 @@
 import { PairExplorer } from '@/components/pairs/pair-explorer';
 import { fixed, interval, pct } from '@/lib/fits/format';
-import { ESTIMATOR_NAMES, ESTIMATOR_ORDER, type SegmentResult } from '@/lib/fits/results';
+import { ESTIMATOR_NAMES, ESTIMATOR_ORDER, type FitSegmentResult } from '@/lib/fits/results';
 import { BandsChart } from './bands-chart';
-import { FactorChart, ForestChart, ProfileChart } from './svg-charts';
+import { FactorChart, ProfileChart, ForestChart } from './svg-charts';
 
 const ASSET_CLASS_NAMES: Record<string, string> = {
   corporate: 'corporate',
@@ -13,10 +13,23 @@ const ASSET_CLASS_NAMES: Record<string, string> = {
   none: 'no asset class',
 };
 
-/** Warnings that are cautions of DESIGN.md get the caution style; others are listed plainly. */
-const CAUTION_CODES = new Set(['short-series', 'not-identified-short', 'zero-default-periods', 'boundary', 'autocorrelation', 'flat-profile', 'upper-limit']);
+/** Warnings that are cautions of DESIGN.md (short series, zero-default years, boundary, autocorrelation, identification). */
+const CAUTION_CODES = new Set([
+  'not-identified-no-defaults',
+  'not-identified-all-defaults',
+  'not-identified-short',
+  'not-identified-flat',
+  'short-series',
+  'zero-default-periods',
+  'all-default-periods',
+  'at-boundary',
+  'at-search-limit',
+  'mle-not-converged',
+  'autocorrelation',
+  'bootstrap-failures',
+]);
 
-function Section({ title, children, id }: { title: string; children: React.ReactNode; id?: string }) {
+function Section({ title, children, id }: { title: string; children: React.ReactNode; id: string }) {
   return (
     <section className="panel p-4" aria-labelledby={id}>
       <h3 id={id} className="mb-2">
@@ -27,17 +40,34 @@ function Section({ title, children, id }: { title: string; children: React.React
   );
 }
 
-/** The review of one segment of a fit run: every part a validator needs to judge the correlation. */
-export function SegmentReview({ seg, index }: { seg: SegmentResult; index: number }) {
+function signed(x: number | null, digits = 4): string {
+  if (x === null) return '—';
+  return `${x >= 0 ? '+' : '−'}${fixed(Math.abs(x), digits)}`;
+}
+
+function pValue(p: number): string {
+  if (p < 1e-12) return 'below 10⁻¹²';
+  if (p < 1e-4) return p.toExponential(1);
+  return p.toFixed(4);
+}
+
+/**
+ * The review of one segment of a fit run: every part a validator needs to judge the correlation,
+ * drawn from the engine's SegmentFit (lib/stats/fit-panel.ts) and the run's audit and windows.
+ */
+export function SegmentReview({ seg, index, bootstrapRequested }: { seg: FitSegmentResult; index: number; bootstrapRequested: boolean }) {
   const mle = seg.estimates.binomialMle;
+  const iv = mle.intervals;
   const chosen = seg.estimates[seg.chosen];
-  const rates = seg.panel.defaults.map((d, i) => d / seg.panel.obligors[i]);
+  const rates = seg.observed.map((o) => o.dr);
   const imp = seg.implications;
   const d = seg.diagnostics;
   const prefix = `seg-${index}`;
+  const levelPct = `${Math.round(seg.level * 1000) / 10}%`;
   const cautions = seg.warnings.filter((w) => CAUTION_CODES.has(w.code));
   const others = seg.warnings.filter((w) => !CAUTION_CODES.has(w.code));
   const mleAudit = seg.audit?.rows.find((r) => r.estimator === 'binomialMle');
+  const hasMle = mle.rho !== null && mle.logLik !== null && mle.status !== 'not-converged';
   return (
     <article className="space-y-4" data-testid={`segment-review-${index}`}>
       <header className="panel p-4">
@@ -46,28 +76,27 @@ export function SegmentReview({ seg, index }: { seg: SegmentResult; index: numbe
           {chosen.rho !== null ? (
             <>
               Estimated asset correlation <strong className="num">ρ = {fixed(chosen.rho, 3)}</strong> by {ESTIMATOR_NAMES[seg.chosen].toLowerCase()}
-              {seg.chosen === 'binomialMle' && mle.intervals.profile ? (
+              {seg.chosen === 'binomialMle' && iv.profile ? (
                 <>
-                  , {Math.round(mle.intervals.profile.level * 100)}% profile-likelihood interval{' '}
-                  <span className="num">{interval(mle.intervals.profile.lower, mle.intervals.profile.upper)}</span>
+                  , {levelPct} profile-likelihood interval <span className="num">{interval(iv.profile.lower, iv.profile.upper)}</span>
                 </>
               ) : null}
               , fitted with PD <span className="num">{pct(chosen.pd)}</span>
             </>
           ) : (
-            <>No estimator gives a correlation for these data.</>
+            <>No estimator gives a correlation for these data</>
           )}
           . {seg.T} periods, {seg.periods[0]}–{seg.periods[seg.periods.length - 1]}; {ASSET_CLASS_NAMES[seg.assetClass]}.
         </p>
         {cautions.length > 0 ? (
-          <ul className="notice-caution mt-3 list-disc space-y-1 pl-8 text-sm" data-testid="cautions">
+          <ul className="notice-caution mt-3 list-disc space-y-1 pl-8 text-sm" data-testid="cautions" aria-label="Cautions">
             {cautions.map((w) => (
               <li key={w.code}>{w.message}</li>
             ))}
           </ul>
         ) : null}
         {others.length > 0 ? (
-          <ul className="mt-2 list-disc pl-5 text-sm text-[var(--color-muted)]">
+          <ul className="mt-2 list-disc pl-5 text-sm text-[var(--color-muted)]" aria-label="Notes">
             {others.map((w) => (
               <li key={w.code}>{w.message}</li>
             ))}
@@ -79,8 +108,9 @@ export function SegmentReview({ seg, index }: { seg: SegmentResult; index: numbe
         <Section title="Estimates of all five estimators" id={`${prefix}-forest`}>
           <ForestChart seg={seg} supervisory={imp?.supervisory?.rho ?? null} />
           <p className="mt-1 text-xs text-[var(--color-muted)]">
-            Thick bar: profile-likelihood interval; thin bar below: bootstrap percentile interval. The moment and
-            closed-form estimators have no interval here; their spread at this sample size is in the estimator audit.
+            Intervals at {levelPct} for the likelihood estimate: profile likelihood, Wald (built on the logit scale of ρ), and the
+            parametric bootstrap when it was run. The moment and closed-form estimators have no interval; their spread at this sample
+            size is what the estimator audit shows.
           </p>
           <table className="table mt-2 text-sm">
             <thead>
@@ -99,61 +129,114 @@ export function SegmentReview({ seg, index }: { seg: SegmentResult; index: numbe
                     <td>{ESTIMATOR_NAMES[k]}</td>
                     <td className="num text-right">{fixed(e.rho, 4)}</td>
                     <td className="num text-right">{pct(e.pd)}</td>
-                    <td className="text-xs">{e.status === 'ok' ? 'ok' : `${e.status}: ${e.reason ?? ''}`}</td>
+                    <td className="text-xs">{e.status === 'ok' ? 'ok' : `${e.status}${e.reason ? `: ${e.reason}` : ''}`}</td>
                   </tr>
                 );
               })}
             </tbody>
           </table>
-          <dl className="mt-2 grid grid-cols-[auto_1fr] gap-x-4 text-sm">
-            <dt className="text-[var(--color-muted)]">Profile interval</dt>
-            <dd className="num">{mle.intervals.profile ? interval(mle.intervals.profile.lower, mle.intervals.profile.upper) : '—'}</dd>
-            <dt className="text-[var(--color-muted)]">Wald interval</dt>
-            <dd>{mle.intervals.wald ? <span className="num">{interval(mle.intervals.wald.lower, mle.intervals.wald.upper)}</span> : <span className="text-xs">not computed by this engine version{mle.atBoundary ? ' (and not defined at the boundary)' : ''}</span>}</dd>
-            <dt className="text-[var(--color-muted)]">Bootstrap interval</dt>
-            <dd>
-              {mle.intervals.bootstrap ? (
-                <span className="num">
-                  {interval(mle.intervals.bootstrap.lower, mle.intervals.bootstrap.upper)}, bias {mle.intervals.bootstrap.bias >= 0 ? '+' : ''}
-                  {fixed(mle.intervals.bootstrap.bias, 4)} (B = {mle.intervals.bootstrap.replications}, seed {mle.intervals.bootstrap.seed})
-                </span>
-              ) : (
-                <span className="text-xs">not requested</span>
-              )}
-            </dd>
-          </dl>
+          <table className="table mt-3 text-sm" data-testid="intervals-table">
+            <caption className="mb-1 text-left text-sm text-[var(--color-muted)]">
+              {levelPct} intervals of the likelihood estimate
+              {mle.logLik !== null ? (
+                <>
+                  {' '}
+                  (log-likelihood at the estimate <span className="num">{mle.logLik.toFixed(3)}</span>, binomial coefficients included)
+                </>
+              ) : null}
+            </caption>
+            <thead>
+              <tr>
+                <th>Method</th>
+                <th className="text-right">Interval</th>
+                <th>Note</th>
+              </tr>
+            </thead>
+            <tbody>
+              <tr>
+                <td>Profile likelihood</td>
+                <td className="num text-right">{iv.profile ? interval(iv.profile.lower, iv.profile.upper) : '—'}</td>
+                <td className="text-xs">
+                  {iv.profile
+                    ? iv.profile.upperAtSearchLimit
+                      ? 'The upper end is the search limit: the data do not bound ρ from above.'
+                      : iv.profile.lower === 0
+                        ? 'The lower end is 0: the data do not exclude independence.'
+                        : 'p re-maximised at each ρ.'
+                    : 'No likelihood estimate.'}
+                </td>
+              </tr>
+              <tr>
+                <td>Wald</td>
+                <td className="num text-right">{iv.wald ? interval(iv.wald.lower, iv.wald.upper) : '—'}</td>
+                <td className="text-xs">
+                  {iv.wald ? (
+                    <>
+                      standard error of ρ <span className="num">{fixed(iv.wald.se, 4)}</span>
+                    </>
+                  ) : mle.atBoundary ? (
+                    'Not defined at ρ = 0 (the boundary); read the profile interval.'
+                  ) : hasMle ? (
+                    'Not available: the observed information is not positive definite.'
+                  ) : (
+                    'No likelihood estimate.'
+                  )}
+                </td>
+              </tr>
+              <tr>
+                <td>Parametric bootstrap</td>
+                <td className="num text-right">{iv.bootstrap ? interval(iv.bootstrap.lower, iv.bootstrap.upper) : '—'}</td>
+                <td className="text-xs">
+                  {iv.bootstrap ? (
+                    <>
+                      bias <span className="num">{signed(iv.bootstrap.bias)}</span>, B = {iv.bootstrap.replications}, seed {iv.bootstrap.seed}
+                      {iv.bootstrap.failed > 0 ? `, ${iv.bootstrap.failed} replications without an estimate` : ''}
+                    </>
+                  ) : bootstrapRequested ? (
+                    'Asked for but not possible for these data (see the notes above).'
+                  ) : (
+                    'Not requested for this fit.'
+                  )}
+                </td>
+              </tr>
+            </tbody>
+          </table>
         </Section>
 
         <Section title="Default rates against the fitted model" id={`${prefix}-bands`}>
-          {d.bands ? (
+          {d.bands && d.exceedances ? (
             <>
-              <BandsChart periods={seg.periods} rates={rates} bands={d.bands} />
+              <BandsChart periods={seg.periods} rates={rates} bands={d.bands} q95={d.exceedances.q95} q99={d.exceedances.q99} />
               <p className="mt-1 text-sm" data-testid="exceedances">
-                {d.exceed95} of {seg.T} periods lie above the fitted 95% quantile (about {(0.05 * seg.T).toFixed(1)} expected) and {d.exceed99} above
-                the 99% quantile (about {(0.01 * seg.T).toFixed(1)} expected). Shaded: the central 50%, 95% and 99% of the fitted
-                default-rate distribution.
+                {d.exceedances.above95} of {seg.T} periods lie above the fitted 95% quantile ({pct(d.exceedances.q95)}; about{' '}
+                {(0.05 * seg.T).toFixed(1)} expected) and {d.exceedances.above99} above the 99% quantile ({pct(d.exceedances.q99)}; about{' '}
+                {(0.01 * seg.T).toFixed(1)} expected). Shaded: the central 50%, 95% and 99% of the fitted default-rate distribution of an
+                infinitely large pool; small cohorts scatter more than the bands.
               </p>
             </>
           ) : (
-            <p className="text-sm text-[var(--color-muted)]">No bands: the model has no positive correlation to draw them with.</p>
+            <p className="text-sm text-[var(--color-muted)]">{d.fittedNote ?? 'No fitted distribution to draw.'}</p>
           )}
         </Section>
 
         <Section title="Profile log-likelihood of ρ" id={`${prefix}-profile`}>
-          {seg.profile && mle.rho !== null ? (
+          {hasMle && seg.profileCurve.length > 1 && seg.profileCutoff !== null ? (
             <>
-              <ProfileChart profile={seg.profile} estimate={mle.rho} interval={mle.intervals.profile} />
+              <ProfileChart curve={seg.profileCurve} cutoff={seg.profileCutoff} estimate={mle.rho!} logLik={mle.logLik!} interval={iv.profile} />
+              <p className="mt-1 text-xs text-[var(--color-muted)]">
+                Dashed line: the cut-off {seg.profileCutoff.toFixed(2)} ({levelPct} interval: every ρ whose profile stays above it). Shaded:
+                the profile interval.
+              </p>
               {d.lrTestRhoZero ? (
-                <p className="mt-1 text-sm">
+                <p className="mt-1 text-sm" data-testid="lr-test">
                   Likelihood-ratio test of ρ = 0: statistic <span className="num">{d.lrTestRhoZero.statistic.toFixed(2)}</span>, p-value{' '}
-                  <span className="num">{d.lrTestRhoZero.pValue < 1e-12 ? 'below 10⁻¹²' : d.lrTestRhoZero.pValue < 1e-4 ? d.lrTestRhoZero.pValue.toExponential(1) : d.lrTestRhoZero.pValue.toFixed(4)}</span>{' '}
-                  (null distribution: an even mixture of χ²₀ and χ²₁).{' '}
-                  {d.lrTestRhoZero.pValue < 0.05 ? 'The data reject zero correlation.' : 'The data do not reject zero correlation.'}
+                  <span className="num">{pValue(d.lrTestRhoZero.pValue)}</span> (null distribution: an even mixture of χ²₀ and χ²₁).{' '}
+                  {d.lrTestRhoZero.pValue < 0.05 ? 'The data reject zero correlation at 5%.' : 'The data do not reject zero correlation at 5%.'}
                 </p>
               ) : null}
             </>
           ) : (
-            <p className="text-sm text-[var(--color-muted)]">No profile: the likelihood estimate is undefined for these data.</p>
+            <p className="text-sm text-[var(--color-muted)]">No profile: the likelihood estimate is not available for these data.</p>
           )}
         </Section>
 
@@ -161,16 +244,31 @@ export function SegmentReview({ seg, index }: { seg: SegmentResult; index: numbe
           {d.impliedFactor ? (
             <>
               <FactorChart periods={seg.periods} factor={d.impliedFactor} pit={d.pit} />
-              <p className="mt-1 text-sm">
+              <p className="mt-1 text-sm" data-testid="autocorrelation">
                 Lag-1 autocorrelation of the implied factor:{' '}
-                <span className="num">{d.lag1Autocorrelation === null ? 'not computed (a period has a 0% default rate)' : fixed(d.lag1Autocorrelation, 2)}</span>.
-                The model assumes independent years; a value above about 0.3 means the intervals are too narrow.
-                {d.pit ? ` PIT values should spread evenly over 0–1; here ${d.pit.filter((u) => u < 0.1 || u > 0.9).length} of ${seg.T} lie in the outer 10% on either side (about ${(0.2 * seg.T).toFixed(1)} expected).` : ''}
+                {d.lag1Autocorrelation === null ? (
+                  <span>not computed (a period with a 0% or 100% default rate has no finite factor, or fewer than 5 periods)</span>
+                ) : (
+                  <>
+                    <span className="num">{fixed(d.lag1Autocorrelation, 2)}</span>, against ±{fixed(d.autocorrelationThreshold, 2)} for
+                    independent years (1.96/√T).{' '}
+                    {Math.abs(d.lag1Autocorrelation) > d.autocorrelationThreshold
+                      ? 'Material: the intervals are too narrow.'
+                      : 'Within that band.'}
+                  </>
+                )}
+                {d.pit
+                  ? ` PIT values should spread evenly over 0–1; here ${d.pit.filter((u) => u < 0.1 || u > 0.9).length} of ${seg.T} lie in the outer tenths (about ${(0.2 * seg.T).toFixed(1)} expected).`
+                  : ''}
               </p>
             </>
           ) : (
-            <p className="text-sm text-[var(--color-muted)]">No implied factor: the fitted correlation is 0 or undefined.</p>
+            <p className="text-sm text-[var(--color-muted)]">{d.fittedNote ?? 'No implied factor.'}</p>
           )}
+          <p className="mt-1 text-xs text-[var(--color-muted)]">
+            {d.zeroDefaultPeriods} period{d.zeroDefaultPeriods === 1 ? '' : 's'} without a default, {d.allDefaultPeriods} with every obligor
+            in default.
+          </p>
         </Section>
       </div>
 
@@ -178,17 +276,17 @@ export function SegmentReview({ seg, index }: { seg: SegmentResult; index: numbe
         {seg.audit ? (
           <>
             <p className="mb-2 text-sm">
-              {seg.audit.replications} panels simulated with this segment&apos;s own cohort sizes and {seg.T} periods at the fitted
-              values (ρ = {fixed(seg.audit.truth.rho, 3)}, PD {pct(seg.audit.truth.pd)}; seed {seg.audit.seed}).{' '}
+              {seg.audit.replications} panels simulated with this segment&apos;s own cohort sizes and {seg.T} periods at the fitted values
+              (ρ = {fixed(seg.audit.truth.rho, 3)}, PD {pct(seg.audit.truth.pd)}; seed {seg.audit.seed}), every estimator run on each.{' '}
               {mleAudit && mleAudit.bias !== null && mleAudit.rmse !== null ? (
                 <>
-                  The likelihood estimate misses the true value by {fixed(mleAudit.rmse, 3)} on average (RMSE) and is biased by{' '}
-                  {mleAudit.bias >= 0 ? '+' : ''}
-                  {fixed(mleAudit.bias, 3)}
-                  {mleAudit.profileCoverage !== null
-                    ? `; its ${Math.round((mle.intervals.profile?.level ?? 0.95) * 100)}% profile interval covered the truth in ${pct(mleAudit.profileCoverage, 3)} of the panels`
+                  The likelihood estimate misses the value it was simulated from by {fixed(mleAudit.rmse, 3)} (RMSE), with a bias of{' '}
+                  {signed(mleAudit.bias, 3)}
+                  {mleAudit.profileCoverage !== null ? `; its ${levelPct} profile interval covered it in ${pct(mleAudit.profileCoverage, 3)} of the panels` : ''}
+                  .{' '}
+                  {Math.abs(mleAudit.bias) > 0.25 * seg.audit.truth.rho
+                    ? 'The bias is large against the estimate: a margin of conservatism is worth considering.'
                     : ''}
-                  . {Math.abs(mleAudit.bias) > 0.25 * seg.audit.truth.rho ? 'The bias is large relative to the estimate: consider a margin of conservatism.' : ''}
                 </>
               ) : null}
             </p>
@@ -196,10 +294,11 @@ export function SegmentReview({ seg, index }: { seg: SegmentResult; index: numbe
               <thead>
                 <tr>
                   <th>Estimator</th>
-                  <th className="text-right">Defined in</th>
+                  <th className="text-right">Gave a value</th>
                   <th className="text-right">Bias</th>
                   <th className="text-right">RMSE</th>
                   <th className="text-right">Profile coverage</th>
+                  <th className="text-right">Wald coverage</th>
                 </tr>
               </thead>
               <tbody>
@@ -209,16 +308,22 @@ export function SegmentReview({ seg, index }: { seg: SegmentResult; index: numbe
                     <td className="num text-right">
                       {r.defined} / {seg.audit!.replications}
                     </td>
-                    <td className="num text-right">{r.bias === null ? '—' : `${r.bias >= 0 ? '+' : ''}${fixed(r.bias, 4)}`}</td>
+                    <td className="num text-right">{signed(r.bias)}</td>
                     <td className="num text-right">{fixed(r.rmse, 4)}</td>
                     <td className="num text-right">{r.profileCoverage === null ? '—' : pct(r.profileCoverage, 3)}</td>
+                    <td className="num text-right">
+                      {r.waldCoverage === null ? '—' : pct(r.waldCoverage, 3)}
+                      {r.waldMissing ? <span className="text-xs text-[var(--color-muted)]"> ({r.waldMissing} at ρ = 0, none)</span> : null}
+                    </td>
                   </tr>
                 ))}
               </tbody>
             </table>
             <p className="mt-1 text-xs text-[var(--color-muted)]">
-              With {seg.audit.replications} replications a coverage share is itself uncertain by about ±
-              {pct(2 * Math.sqrt(0.95 * 0.05 / seg.audit.replications), 2)} (two standard errors).
+              The audit simulates at the estimate, not at the unknown true value: it tells how the estimators behave if the estimate
+              were right. With {seg.audit.replications} replications a coverage share is itself uncertain by about ±
+              {pct(2 * Math.sqrt((seg.level * (1 - seg.level)) / seg.audit.replications), 2)} (two standard errors). Computed by{' '}
+              {seg.audit.implementation}.
             </p>
           </>
         ) : (
@@ -238,12 +343,12 @@ export function SegmentReview({ seg, index }: { seg: SegmentResult; index: numbe
                 <tr>
                   <td>
                     IRB capital K at the estimate (LGD {pct(imp.lgd, 2)}
-                    {imp.maturityYears !== null ? `, maturity ${imp.maturityYears} years` : ', no maturity adjustment (retail)'})
+                    {imp.maturityYears !== null ? `, maturity ${imp.maturityYears} years` : ', no maturity adjustment'})
                   </td>
                   <td className="num text-right">{pct(imp.capital.atEstimate)}</td>
                 </tr>
                 <tr>
-                  <td>K at the interval ends</td>
+                  <td>K at the ends of the profile interval {iv.profile ? interval(iv.profile.lower, iv.profile.upper) : ''}</td>
                   <td className="num text-right">
                     {pct(imp.capital.atLower)} – {pct(imp.capital.atUpper)}
                   </td>
@@ -254,7 +359,11 @@ export function SegmentReview({ seg, index }: { seg: SegmentResult; index: numbe
                     {imp.supervisory ? ' and K with it' : ''}
                   </td>
                   <td className="num text-right">
-                    {imp.supervisory ? `ρ ${fixed(imp.supervisory.rho, 3)} · K ${pct(imp.supervisory.capital)}` : 'no asset class set for this segment'}
+                    {imp.supervisory
+                      ? `ρ ${fixed(imp.supervisory.rho, 3)} · K ${pct(imp.supervisory.capital)}`
+                      : seg.assetClass === 'none'
+                        ? 'no asset class set for this segment'
+                        : 'not available (see the notes above)'}
                   </td>
                 </tr>
                 <tr>
@@ -268,9 +377,8 @@ export function SegmentReview({ seg, index }: { seg: SegmentResult; index: numbe
               </tbody>
             </table>
             <p className="text-xs text-[var(--color-muted)]">
-              K per unit of exposure by the IRB formula (BCBS 2006, para 272; risk weight = 12.5 K without the 1.06 scaling).
-              Supervisory correlations are policy settings, not estimates. A correlation is valid only with the PD and the
-              definition of default it was fitted on.
+              {imp.convention} Supervisory correlations are policy settings, not estimates. A correlation is valid only with the PD and
+              the definition of default it was fitted on.
             </p>
             <details>
               <summary className="cursor-pointer text-sm text-[var(--color-accent)]">Explore two obligors at this estimate</summary>
@@ -280,7 +388,7 @@ export function SegmentReview({ seg, index }: { seg: SegmentResult; index: numbe
             </details>
           </div>
         ) : (
-          <p className="text-sm text-[var(--color-muted)]">Nothing to show: there is no positive correlation estimate.</p>
+          <p className="text-sm text-[var(--color-muted)]">Nothing to show: there is no likelihood estimate to draw implications from.</p>
         )}
       </Section>
 
@@ -305,10 +413,11 @@ export function SegmentReview({ seg, index }: { seg: SegmentResult; index: numbe
                   <span className="text-xs text-[var(--color-muted)]">
                     {w.periods[0]}–{w.periods[w.periods.length - 1]}
                   </span>
+                  {w.warnings.includes('at-boundary') ? <span className="badge ml-1 text-xs">ρ = 0</span> : null}
                 </td>
                 <td className="num text-right">{w.T}</td>
                 <td className="num text-right">{fixed(w.binomialMle.rho, 3)}</td>
-                <td className="num text-right">{interval(w.binomialMle.lower, w.binomialMle.upper)}</td>
+                <td className="num text-right">{interval(w.binomialMle.profile?.lower, w.binomialMle.profile?.upper)}</td>
                 <td className="num text-right">{pct(w.binomialMle.pd)}</td>
                 <td className="num text-right">{fixed(w.momentVarianceCorrected, 3)}</td>
                 <td className="num text-right">{fixed(w.jointDefault, 3)}</td>
@@ -317,9 +426,38 @@ export function SegmentReview({ seg, index }: { seg: SegmentResult; index: numbe
           </tbody>
         </table>
         <p className="mt-1 text-xs text-[var(--color-muted)]">
-          Shorter windows give wider intervals; a large move when one year is left out means the estimate rests on that year.
+          Each window fitted by the same engine at {levelPct}. Shorter windows give wider intervals; a large move when one year is left out
+          means the estimate rests on that year.
         </p>
       </Section>
+
+      <details className="panel p-4">
+        <summary className="cursor-pointer text-sm text-[var(--color-accent)]">The data of this segment, period by period</summary>
+        <table className="table mt-2 text-sm" data-testid="observed-table">
+          <thead>
+            <tr>
+              <th>Period</th>
+              <th className="text-right">Obligors</th>
+              <th className="text-right">Defaults</th>
+              <th className="text-right">Default rate</th>
+              <th className="text-right">Implied factor</th>
+              <th className="text-right">PIT</th>
+            </tr>
+          </thead>
+          <tbody>
+            {seg.observed.map((o, t) => (
+              <tr key={o.period}>
+                <td>{o.period}</td>
+                <td className="num text-right">{o.obligors.toLocaleString('en-GB')}</td>
+                <td className="num text-right">{o.defaults.toLocaleString('en-GB')}</td>
+                <td className="num text-right">{pct(o.dr)}</td>
+                <td className="num text-right">{fixed(d.impliedFactor?.[t] ?? null, 2)}</td>
+                <td className="num text-right">{fixed(d.pit?.[t] ?? null, 3)}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </details>
     </article>
   );
 }

@@ -1,5 +1,5 @@
 import { fixed, pct } from '@/lib/fits/format';
-import { ESTIMATOR_NAMES, type EstimatorKey, type SegmentResult } from '@/lib/fits/results';
+import { ESTIMATOR_NAMES, ESTIMATOR_ORDER, type FitSegmentResult } from '@/lib/fits/results';
 
 /** Linear scale helper. */
 function scale(d0: number, d1: number, r0: number, r1: number) {
@@ -26,16 +26,19 @@ function niceMax(v: number): number {
 }
 
 /**
- * Forest chart: each estimator's rho with its intervals (profile and bootstrap for the likelihood
- * estimate), the chosen estimator highlighted, the supervisory correlation as a reference line.
+ * Forest chart: each estimator's rho; for the likelihood estimate its three intervals stacked
+ * (profile, Wald on the logit scale, bootstrap percentile when run), the chosen estimator
+ * highlighted, the supervisory correlation as a dashed reference line.
  */
-export function ForestChart({ seg, supervisory }: { seg: SegmentResult; supervisory: number | null }) {
-  const keys = Object.keys(seg.estimates) as EstimatorKey[];
+export function ForestChart({ seg, supervisory }: { seg: FitSegmentResult; supervisory: number | null }) {
+  const keys = ESTIMATOR_ORDER;
   const mle = seg.estimates.binomialMle;
+  const iv = mle.intervals;
   const values = [
     ...keys.map((k) => seg.estimates[k].rho ?? 0),
-    mle.intervals.profile?.upper ?? 0,
-    mle.intervals.bootstrap?.upper ?? 0,
+    iv.profile?.upper ?? 0,
+    iv.wald?.upper ?? 0,
+    iv.bootstrap?.upper ?? 0,
     supervisory ?? 0,
   ];
   const max = niceMax(Math.max(...values) * 1.05);
@@ -43,12 +46,18 @@ export function ForestChart({ seg, supervisory }: { seg: SegmentResult; supervis
   const left = 200;
   const right = 52;
   const rowH = 32;
+  const mleH = 62;
   const top = 10;
-  const H = top + keys.length * rowH + 34;
+  const H = top + mleH + (keys.length - 1) * rowH + 34;
   const x = scale(0, max, left, W - right);
   const ticks = niceTicks(max);
+  const rowTop = (i: number) => (i === 0 ? top : top + mleH + (i - 1) * rowH);
+  const intervalLines: { key: string; label: string; level: number; lo: number; hi: number; width: number; colour: string }[] = [];
+  if (iv.profile) intervalLines.push({ key: 'profile', label: 'profile', level: iv.profile.level, lo: iv.profile.lower, hi: iv.profile.upper, width: 3.5, colour: 'var(--color-accent)' });
+  if (iv.wald) intervalLines.push({ key: 'wald', label: 'Wald', level: iv.wald.level, lo: iv.wald.lower, hi: iv.wald.upper, width: 2, colour: 'var(--color-ink)' });
+  if (iv.bootstrap) intervalLines.push({ key: 'bootstrap', label: 'bootstrap', level: iv.bootstrap.level, lo: iv.bootstrap.lower, hi: iv.bootstrap.upper, width: 2, colour: 'var(--color-caution)' });
   return (
-    <svg viewBox={`0 0 ${W} ${H}`} width="100%" role="img" aria-label="Estimates of rho by estimator with intervals" data-testid="forest-chart">
+    <svg viewBox={`0 0 ${W} ${H}`} width="100%" role="img" aria-label="Estimates of rho by estimator; profile, Wald and bootstrap intervals of the likelihood estimate" data-testid="forest-chart">
       {ticks.map((t) => (
         <g key={t}>
           <line x1={x(t)} x2={x(t)} y1={top} y2={H - 28} stroke="#efefea" />
@@ -70,21 +79,29 @@ export function ForestChart({ seg, supervisory }: { seg: SegmentResult; supervis
       ) : null}
       {keys.map((k, i) => {
         const e = seg.estimates[k];
-        const y = top + i * rowH + rowH / 2 + 4;
+        const isMle = k === 'binomialMle';
+        const h = isMle ? mleH : rowH;
+        // The likelihood row has the name on its own line and its intervals stacked below it.
+        const nameY = rowTop(i) + (isMle ? 16 : rowH / 2 + 4);
+        const y = isMle ? rowTop(i) + 30 : nameY;
         const chosen = k === seg.chosen;
         return (
           <g key={k}>
-            {chosen ? <rect x={0} y={y - rowH / 2} width={W} height={rowH} fill="var(--color-accent-soft)" /> : null}
-            <text x={6} y={y + 4} fontSize={13} fontWeight={chosen ? 600 : 400} fill="var(--color-ink)">
+            {chosen ? <rect x={0} y={rowTop(i)} width={W} height={h} fill="var(--color-accent-soft)" /> : null}
+            <text x={6} y={nameY + 4} fontSize={13} fontWeight={chosen ? 600 : 400} fill="var(--color-ink)">
               {ESTIMATOR_NAMES[k]}
               {chosen ? ' (chosen)' : ''}
             </text>
-            {k === 'binomialMle' && mle.intervals.profile ? (
-              <line x1={x(mle.intervals.profile.lower)} x2={x(mle.intervals.profile.upper)} y1={y} y2={y} stroke="var(--color-accent)" strokeWidth={3} />
-            ) : null}
-            {k === 'binomialMle' && mle.intervals.bootstrap ? (
-              <line x1={x(mle.intervals.bootstrap.lower)} x2={x(mle.intervals.bootstrap.upper)} y1={y + 6} y2={y + 6} stroke="var(--color-muted)" strokeWidth={1.5} />
-            ) : null}
+            {isMle
+              ? intervalLines.map((l, j) => (
+                  <g key={l.key}>
+                    <line x1={x(l.lo)} x2={x(l.hi)} y1={y + j * 11} y2={y + j * 11} stroke={l.colour} strokeWidth={l.width} />
+                    <text x={left - 8} y={y + j * 11 + 3.5} fontSize={10} textAnchor="end" fill={l.colour}>
+                      {l.label} {Math.round(l.level * 100)}%
+                    </text>
+                  </g>
+                ))
+              : null}
             {e.rho !== null ? (
               <>
                 <circle cx={x(e.rho)} cy={y} r={chosen ? 5.5 : 4} fill={chosen ? 'var(--color-accent)' : 'white'} stroke="var(--color-accent)" strokeWidth={1.5} />
@@ -94,7 +111,7 @@ export function ForestChart({ seg, supervisory }: { seg: SegmentResult; supervis
               </>
             ) : (
               <text x={left} y={y + 4} fontSize={11} fill="var(--color-bad)">
-                undefined for these data
+                {e.status === 'not-converged' ? 'did not converge' : 'undefined for these data'}
               </text>
             )}
           </g>
@@ -105,20 +122,22 @@ export function ForestChart({ seg, supervisory }: { seg: SegmentResult; supervis
 }
 
 /** Profile log-likelihood of rho with the interval cut-off line and the interval ends. */
-export function ProfileChart({ profile, estimate, interval }: {
-  profile: NonNullable<SegmentResult['profile']>;
+export function ProfileChart({ curve, cutoff, estimate, logLik, interval }: {
+  curve: { rho: number; logLik: number }[];
+  cutoff: number;
   estimate: number;
-  interval: { lower: number; upper: number; level: number } | null;
+  logLik: number;
+  interval: { lower: number; upper: number; level: number; upperAtSearchLimit: boolean } | null;
 }) {
   const W = 460;
   const H = 230;
   const m = { l: 56, r: 12, t: 12, b: 36 };
-  const xs = profile.points.map((p) => p.rho);
-  const floor = profile.maxLogLik - Math.max(6, (profile.maxLogLik - profile.cutoff) * 3);
-  const ys = profile.points.map((p) => Math.max(p.logLik, floor));
+  const xs = curve.map((p) => p.rho);
+  const floor = logLik - Math.max(6, (logLik - cutoff) * 3);
+  const ys = curve.map((p) => Math.max(p.logLik, floor));
   const x = scale(0, Math.max(...xs), m.l, W - m.r);
-  const y = scale(floor, profile.maxLogLik + 0.3, H - m.b, m.t);
-  const path = profile.points.map((p, i) => `${i === 0 ? 'M' : 'L'}${x(p.rho).toFixed(1)},${y(ys[i]).toFixed(1)}`).join(' ');
+  const y = scale(floor, logLik + 0.3, H - m.b, m.t);
+  const path = curve.map((p, i) => `${i === 0 ? 'M' : 'L'}${x(p.rho).toFixed(1)},${y(ys[i]).toFixed(1)}`).join(' ');
   const xt = niceTicks(Math.max(...xs), 5);
   return (
     <svg viewBox={`0 0 ${W} ${H}`} width="100%" role="img" aria-label="Profile log-likelihood of rho with the interval cut-off" data-testid="profile-chart">
@@ -134,12 +153,12 @@ export function ProfileChart({ profile, estimate, interval }: {
       <text x={12} y={H / 2} fontSize={10} textAnchor="middle" fill="var(--color-muted)" transform={`rotate(-90 12 ${H / 2})`}>
         profile log-likelihood
       </text>
-      <text x={m.l - 4} y={y(profile.maxLogLik) + 3} fontSize={9.5} textAnchor="end" fill="var(--color-muted)">
-        {profile.maxLogLik.toFixed(1)}
+      <text x={m.l - 4} y={y(logLik) + 3} fontSize={9.5} textAnchor="end" fill="var(--color-muted)">
+        {logLik.toFixed(1)}
       </text>
       {interval ? <rect x={x(interval.lower)} y={m.t} width={x(interval.upper) - x(interval.lower)} height={H - m.t - m.b} fill="var(--color-accent-soft)" /> : null}
-      <line x1={m.l} x2={W - m.r} y1={y(profile.cutoff)} y2={y(profile.cutoff)} stroke="var(--color-bad)" strokeDasharray="5 4" />
-      <text x={W - m.r - 4} y={y(profile.cutoff) - 4} fontSize={9.5} textAnchor="end" fill="var(--color-bad)">
+      <line x1={m.l} x2={W - m.r} y1={y(cutoff)} y2={y(cutoff)} stroke="var(--color-bad)" strokeDasharray="5 4" />
+      <text x={W - m.r - 4} y={y(cutoff) - 4} fontSize={9.5} textAnchor="end" fill="var(--color-bad)">
         cut-off: maximum − χ²₁({interval ? interval.level : 0.95})/2
       </text>
       <path d={path} fill="none" stroke="var(--color-accent)" strokeWidth={2} />

@@ -7,6 +7,7 @@ import { SegmentReview } from '@/components/fits/segment-review';
 import { requireUser } from '@/lib/auth/session';
 import { getFit } from '@/lib/dal/fits';
 import { AppError } from '@/lib/errors';
+import { isCurrentResults } from '@/lib/fits/results';
 
 export const metadata: Metadata = { title: 'Fit review' };
 
@@ -51,7 +52,14 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
         />
       ) : null}
 
-      {fit.results ? (
+      {fit.results && !isCurrentResults(fit.results) ? (
+        <p className="notice-caution text-sm" data-testid="old-results">
+          This run was computed by an earlier interim engine ({fit.engineVersion}) whose results have another layout; they are kept as
+          stored (GET /api/fits/{fit.id}) but not drawn here. Start a new fit on the same dataset to review it here.
+        </p>
+      ) : null}
+
+      {fit.results && isCurrentResults(fit.results) ? (
         <>
           {fit.results.segments.length > 1 ? (
             <nav aria-label="Segments of this fit" className="flex flex-wrap gap-2 text-sm">
@@ -64,12 +72,13 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
           ) : null}
           {fit.results.segments.map((s, i) => (
             <div key={s.segment} id={`segment-${i}`}>
-              <SegmentReview seg={s} index={i} />
+              <SegmentReview seg={s} index={i} bootstrapRequested={!!r.bootstrap} />
             </div>
           ))}
           <p className="notice-caution text-sm">
-            The Gaussian one-factor model has no tail dependence and one constant correlation. These numbers support a judgement;
-            they are not an independent validation, and approval in Rhobook is not a regulator&apos;s approval.
+            The Gaussian one-factor model has no tail dependence and one constant correlation; 10–25 yearly observations give wide
+            intervals and a downward bias. These numbers support a judgement: they do not replace independent validation, local
+            regulation or licensed practice, and approval in Rhobook is not a regulator&apos;s approval.
           </p>
         </>
       ) : null}

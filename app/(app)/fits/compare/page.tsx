@@ -4,7 +4,7 @@ import { z } from 'zod';
 import { requireUser } from '@/lib/auth/session';
 import { getFitsForCompare } from '@/lib/dal/fits';
 import { fixed, interval, pct } from '@/lib/fits/format';
-import { ESTIMATOR_NAMES, ESTIMATOR_ORDER, type SegmentResult } from '@/lib/fits/results';
+import { ESTIMATOR_NAMES, ESTIMATOR_ORDER, isCurrentResults, type FitSegmentResult } from '@/lib/fits/results';
 
 export const metadata: Metadata = { title: 'Compare fits' };
 
@@ -29,23 +29,26 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
   }
   const fits = await getFitsForCompare(actor, q.data.ids);
   const unfinished = fits.filter((f) => !f.results);
+  const outdated = fits.filter((f) => f.results && !isCurrentResults(f.results));
   const segmentSets = fits.map((f) => new Set(f.results?.segments.map((s) => s.segment) ?? []));
   const common = [...(segmentSets[0] ?? [])].filter((s) => segmentSets.every((set) => set.has(s)));
   const segment = q.data.segment && common.includes(q.data.segment) ? q.data.segment : common[0];
-  if (unfinished.length > 0 || !segment) {
+  if (unfinished.length > 0 || outdated.length > 0 || !segment) {
     return (
       <div className="space-y-3">
         <h1>Compare fits</h1>
         <p className="notice-bad text-sm">
           {unfinished.length > 0
             ? `Run${unfinished.length > 1 ? 's' : ''} ${unfinished.map((f) => `#${f.id}`).join(', ')} ${unfinished.length > 1 ? 'have' : 'has'} not finished.`
-            : 'These runs have no segment in common: compare runs of the same segment.'}{' '}
+            : outdated.length > 0
+              ? `Run${outdated.length > 1 ? 's' : ''} ${outdated.map((f) => `#${f.id}`).join(', ')} came from an earlier interim engine with another result layout; fit again to compare.`
+              : 'These runs have no segment in common: compare runs of the same segment.'}{' '}
           <Link href="/fits">Back to the fits</Link>
         </p>
       </div>
     );
   }
-  const cols = fits.map((f) => ({ fit: f, seg: f.results!.segments.find((s) => s.segment === segment) as SegmentResult }));
+  const cols = fits.map((f) => ({ fit: f, seg: f.results!.segments.find((s) => s.segment === segment) as FitSegmentResult }));
   const row = (label: string, cell: (c: (typeof cols)[number]) => React.ReactNode) => (
     <tr key={label}>
       <th scope="row" className="text-left font-normal text-[var(--color-ink)]">
@@ -98,6 +101,7 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
             {ESTIMATOR_ORDER.map((k) => row(`ρ ${ESTIMATOR_NAMES[k]}`, (c) => fixed(c.seg.estimates[k].rho, 4)))}
             {row('PD (likelihood)', (c) => pct(c.seg.estimates.binomialMle.pd))}
             {row('Profile interval', (c) => interval(c.seg.estimates.binomialMle.intervals.profile?.lower, c.seg.estimates.binomialMle.intervals.profile?.upper))}
+            {row('Wald interval', (c) => interval(c.seg.estimates.binomialMle.intervals.wald?.lower, c.seg.estimates.binomialMle.intervals.wald?.upper))}
             {row('Bootstrap interval', (c) =>
               c.seg.estimates.binomialMle.intervals.bootstrap
                 ? `${interval(c.seg.estimates.binomialMle.intervals.bootstrap.lower, c.seg.estimates.binomialMle.intervals.bootstrap.upper)} B ${c.seg.estimates.binomialMle.intervals.bootstrap.replications}`
@@ -105,9 +109,10 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
             )}
             {row('99.9% default-rate quantile', (c) => pct(c.seg.implications?.quantile999))}
             {row('IRB K at the estimate', (c) => pct(c.seg.implications?.capital.atEstimate))}
-            {row('Periods above 99% band', (c) => (c.seg.diagnostics.exceed99 === null ? '—' : String(c.seg.diagnostics.exceed99)))}
+            {row('Periods above the fitted 99% quantile', (c) => (c.seg.diagnostics.exceedances === null ? '—' : String(c.seg.diagnostics.exceedances.above99)))}
             {row('Lag-1 autocorrelation', (c) => fixed(c.seg.diagnostics.lag1Autocorrelation, 2))}
             {row('Warnings', (c) => (c.seg.warnings.length === 0 ? 'none' : c.seg.warnings.map((w) => w.code).join(', ')))}
+            {row('Estimator audit: RMSE of the likelihood estimate', (c) => fixed(c.seg.audit?.rows.find((r) => r.estimator === 'binomialMle')?.rmse ?? null, 4))}
           </tbody>
         </table>
       </section>
