@@ -24,5 +24,8 @@ export async function proxy(req: NextRequest) {
 }
 
 export const config = {
-  matcher: ['/((?!_next/static|_next/image|favicon.ico).*)'],
+  // Not the upload route (/api/datasets): Next buffers a copy of every request body that passes
+  // through the proxy, and cuts it at 10 MB, which corrupted larger uploads and would hold whole
+  // files in memory. The route streams the body and answers 401 itself without a session.
+  matcher: ['/((?!_next/static|_next/image|favicon.ico|api/datasets$).*)'],
 };

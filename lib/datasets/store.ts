@@ -119,21 +119,13 @@ export async function validateCohortOrVintage(kind: 'cohort' | 'vintage', source
  */
 export async function checkLoanTapeHeader(source: ByteSource, maxBytes: number): Promise<{ ok: boolean; findings: Finding[]; summary: FindingSummary }> {
   const findings = new FindingCollector();
-  let sawRow = false;
   const sink: CsvSink = {
     header: (names, line) => mapColumns(names, LOAN_COLUMNS, line, findings, 'loan-level') !== null,
-    row: () => {
-      sawRow = true;
-    },
+    row: () => undefined,
   };
-  // Stop pulling bytes once a data row has been seen.
-  async function* head(): AsyncGenerator<Uint8Array | string> {
-    for await (const chunk of source) {
-      yield chunk;
-      if (sawRow) return;
-    }
-  }
-  await readCsvStream(head(), sink, findings, { maxBytes });
+  // The reader stops after the first data row (not by cutting the bytes: a cut would leave a
+  // partial line that reads as a row with too few fields).
+  await readCsvStream(source, sink, findings, { maxBytes, maxDataRows: 1 });
   return { ok: findings.errors === 0, findings: findings.sorted(), summary: findings.summary() };
 }
 

@@ -41,6 +41,11 @@ export interface CsvSink {
 export interface ReadOptions {
   /** Largest accepted raw size in bytes; default DEFAULT_MAX_UPLOAD_BYTES (100 MB). */
   maxBytes?: number;
+  /**
+   * Stop after this many data rows (blank lines not counted): for checks of a file's head. The
+   * rest of the source is not read, and a partial line where reading stopped is never a row.
+   */
+  maxDataRows?: number;
 }
 
 /** Facts about the file as read, for the report and the stored dataset. */
@@ -366,6 +371,7 @@ class RowFeeder {
     private readonly findings: FindingCollector,
     private readonly gate: TextGate,
     private readonly delimiter: Delimiter,
+    private readonly maxDataRows = Infinity,
   ) {
     this.delimiterName = delimiter === ';' ? 'semicolons' : 'commas';
   }
@@ -394,6 +400,7 @@ class RowFeeder {
         continue;
       }
       this.dataRows++;
+      if (this.dataRows >= this.maxDataRows) this.stopped = true;
       if (fields.length !== this.width && !this.fixWidth(fields, line)) continue;
       this.sink.row(fields, line);
     }
@@ -554,7 +561,7 @@ export function readCsvText(input: string | Uint8Array, sink: CsvSink, findings:
   if (normalised === null) return infoOf(bytes, bom, ',', gate, null, true);
   const all = normalised + gate.finish();
   const delimiter = detectDelimiter(firstLineOf(all));
-  const feeder = new RowFeeder(sink, findings, gate, delimiter);
+  const feeder = new RowFeeder(sink, findings, gate, delimiter, options.maxDataRows);
   if (all.length > 0) Papa.parse<string[]>(all, { ...papaConfig(delimiter, feeder), chunkSize: 4 * 1024 * 1024, complete: () => undefined });
   feeder.finish({ stopped: false });
   return infoOf(bytes, bom, delimiter, gate, feeder, false);
@@ -613,7 +620,7 @@ export async function readCsvStream(source: ByteSource, sink: CsvSink, findings:
   const stoppedEarly = bytesGate.stopped || gate.stopped;
   const delimiter = detectDelimiter(firstLineOf(head));
   if (stoppedEarly) return infoOf(bytesGate.bytes, bytesGate.bom, delimiter, gate, null, true);
-  const rowFeeder = new RowFeeder(sink, findings, gate, delimiter);
+  const rowFeeder = new RowFeeder(sink, findings, gate, delimiter, options.maxDataRows);
   feeder = rowFeeder;
 
   if (head.length > 0) {
