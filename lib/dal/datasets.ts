@@ -43,6 +43,7 @@ import { AppError } from '@/lib/errors';
 import { parseIsoDate } from '@/lib/ingest/dates';
 import type { CensoredVintageYear } from '@/lib/ingest/vintage';
 import type { Finding, FindingSummary } from '@/lib/ingest/findings';
+import { conversionFailureMessage } from '@/lib/jobs/kinds/convert-loans';
 import type { Tx } from '@/lib/jobs/queue';
 
 /**
@@ -95,6 +96,8 @@ export type ReportDto = {
   sha256: string | null;
   sizeBytes: number;
   status: UploadStatus;
+  /** why a conversion failed or was cancelled (loan tapes), in a sentence */
+  message: string | null;
   errorCount: number;
   warningCount: number;
   issues: UploadIssue[];
@@ -205,6 +208,8 @@ async function reportDto(r: typeof uploadReports.$inferSelect): Promise<ReportDt
       .where(eq(jobs.id, r.jobId));
     job = j ?? null;
   }
+  // Reports of conversions that failed before the give-up hook existed are still 'processing'.
+  const failedJob = r.status === 'processing' && job !== null && (job.status === 'failed' || job.status === 'cancelled');
   return {
     id: r.id,
     datasetId: r.datasetId,
@@ -213,7 +218,8 @@ async function reportDto(r: typeof uploadReports.$inferSelect): Promise<ReportDt
     fileName: r.fileName,
     sha256: r.sha256,
     sizeBytes: r.sizeBytes,
-    status: r.status === 'processing' && job && (job.status === 'failed' || job.status === 'cancelled') ? 'failed' : r.status,
+    status: failedJob ? 'failed' : r.status,
+    message: r.message ?? (failedJob ? conversionFailureMessage(job!.status === 'cancelled' ? 'cancelled' : 'failed', job!.error) : null),
     errorCount: r.errorCount,
     warningCount: r.warningCount,
     issues: (r.findings as Finding[]).map(toIssue),

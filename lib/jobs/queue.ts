@@ -3,7 +3,7 @@ import type { MySqlTransaction } from 'drizzle-orm/mysql-core';
 import type { Db } from '@/db/connection';
 import { jobs, type Job, type JobStatus } from '@/db/schema';
 import { AppError } from '@/lib/errors';
-import { payloadSchemaFor } from './kinds';
+import { giveUpHookFor, payloadSchemaFor } from './kinds';
 import './kinds/index';
 
 /**
@@ -19,6 +19,8 @@ import './kinds/index';
  *   duplicate.
  * - Cancel: a queued job is cancelled at once; a running one is flagged and its worker stops at its
  *   next progress report.
+ * - Giving up: when a job ends failed or cancelled, its kind's give-up hook (defineJobKind's
+ *   onGiveUp) runs in the same transaction, so what waited for the job is marked with it.
  */
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
@@ -88,6 +90,20 @@ export async function getJob(db: DbOrTx, id: number): Promise<JobDto | null> {
   return row ? toJobDto(row) : null;
 }
 
+/**
+ * Runs the kind's give-up hook (see JobGiveUpHook) inside `tx`, behind a savepoint: a hook that
+ * throws is rolled back alone and logged, and the job still ends.
+ */
+async function runGiveUpHook(tx: Tx, job: Pick<Job, 'id' | 'kind' | 'payload'>, status: 'failed' | 'cancelled', error: string | null): Promise<void> {
+  const hook = giveUpHookFor(job.kind);
+  if (!hook) return;
+  try {
+    await tx.transaction(async (sp) => hook(sp as Tx, { jobId: job.id, payload: job.payload, status, error }));
+  } catch (err) {
+    console.error(`[jobs] the give-up hook of job ${job.id} (${job.kind}) failed; the job ends anyway:`, err);
+  }
+}
+
 export type ClaimedJob = { id: number; kind: string; payload: unknown; attempt: number };
 
 /**
@@ -112,16 +128,18 @@ export async function claimJob(db: Db, workerId: string, kinds: string[], leaseM
         .for('update', { skipLocked: true });
       if (!row) return { kind: 'none' as const };
       if (row.status === 'running' && row.attempts >= row.maxAttempts) {
+        const error = `The worker running this job stopped responding ${row.attempts} times; giving up. Last worker: ${row.workerId ?? 'unknown'}.${row.error ? ` Earlier error: ${row.error}` : ''}`;
         await tx
           .update(jobs)
           .set({
             status: 'failed',
-            error: `The worker running this job stopped responding ${row.attempts} times; giving up. Last worker: ${row.workerId ?? 'unknown'}.${row.error ? ` Earlier error: ${row.error}` : ''}`,
+            error,
             finishedAt: sql`CURRENT_TIMESTAMP(3)`,
             updatedAt: sql`CURRENT_TIMESTAMP(3)`,
             leaseExpiresAt: null,
           })
           .where(eq(jobs.id, row.id));
+        await runGiveUpHook(tx as Tx, row, 'failed', error);
         return { kind: 'retry' as const };
       }
       if (row.cancelRequested) {
@@ -129,6 +147,7 @@ export async function claimJob(db: Db, workerId: string, kinds: string[], leaseM
           .update(jobs)
           .set({ status: 'cancelled', finishedAt: sql`CURRENT_TIMESTAMP(3)`, updatedAt: sql`CURRENT_TIMESTAMP(3)`, leaseExpiresAt: null })
           .where(eq(jobs.id, row.id));
+        await runGiveUpHook(tx as Tx, row, 'cancelled', null);
         return { kind: 'retry' as const };
       }
       await tx
@@ -234,6 +253,7 @@ export async function failJob(db: Db, jobId: number, workerId: string, error: st
         updatedAt: sql`CURRENT_TIMESTAMP(3)`,
       })
       .where(eq(jobs.id, jobId));
+    if (status !== 'queued') await runGiveUpHook(tx as Tx, row, status, status === 'failed' ? error : null);
     return status;
   });
 }
@@ -255,10 +275,15 @@ export async function releaseJob(db: Db, jobId: number, workerId: string): Promi
 
 /** Marks a job the worker stopped because cancellation was requested. */
 export async function markCancelled(db: Db, jobId: number): Promise<void> {
-  await db
-    .update(jobs)
-    .set({ status: 'cancelled', message: 'Cancelled', leaseExpiresAt: null, finishedAt: sql`CURRENT_TIMESTAMP(3)`, updatedAt: sql`CURRENT_TIMESTAMP(3)` })
-    .where(and(eq(jobs.id, jobId), inArray(jobs.status, ['queued', 'running'])));
+  await db.transaction(async (tx) => {
+    const [row] = await tx.select().from(jobs).where(eq(jobs.id, jobId)).for('update');
+    if (!row || (row.status !== 'queued' && row.status !== 'running')) return;
+    await tx
+      .update(jobs)
+      .set({ status: 'cancelled', message: 'Cancelled', leaseExpiresAt: null, finishedAt: sql`CURRENT_TIMESTAMP(3)`, updatedAt: sql`CURRENT_TIMESTAMP(3)` })
+      .where(eq(jobs.id, jobId));
+    await runGiveUpHook(tx as Tx, row, 'cancelled', null);
+  });
 }
 
 /**
@@ -274,6 +299,7 @@ export async function cancelJob(db: Db, jobId: number): Promise<JobDto> {
         .update(jobs)
         .set({ status: 'cancelled', cancelRequested: true, message: 'Cancelled before it started', finishedAt: sql`CURRENT_TIMESTAMP(3)`, updatedAt: sql`CURRENT_TIMESTAMP(3)` })
         .where(eq(jobs.id, jobId));
+      await runGiveUpHook(tx as Tx, row, 'cancelled', null);
     } else if (row.status === 'running') {
       await tx
         .update(jobs)

@@ -1,4 +1,6 @@
+import { and, eq, sql } from 'drizzle-orm';
 import { z } from 'zod';
+import { datasets, uploadReports } from '@/db/schema';
 import { defineJobKind } from '../kinds';
 
 /**
@@ -18,4 +20,30 @@ export const convertLoansPayloadSchema = z.object({
 });
 export type ConvertLoansPayload = z.infer<typeof convertLoansPayloadSchema>;
 
-defineJobKind(CONVERT_LOANS_JOB, convertLoansPayloadSchema);
+/** The sentence stored on the upload report of a conversion that failed or was cancelled. */
+export function conversionFailureMessage(status: 'failed' | 'cancelled', error: string | null): string {
+  const why =
+    status === 'cancelled'
+      ? 'The conversion was cancelled before it finished.'
+      : `The conversion did not finish: ${error ?? 'no detail was recorded'}.`;
+  return `${why} No cohort rows were stored. Upload the same file again to retry; if it fails again, tell an administrator (the worker's log has the detail).`.slice(0, 500);
+}
+
+defineJobKind(CONVERT_LOANS_JOB, convertLoansPayloadSchema, {
+  // A conversion that ends without a result (a crash after the last attempt, a permanent error, a
+  // cancel) marks its dataset and report failed in the same transaction, and frees the file's
+  // identity so that the same bytes can be uploaded again. A validation rejection is not this: the
+  // job succeeds and its writer stores the rejected report.
+  onGiveUp: async (tx, end) => {
+    const p = convertLoansPayloadSchema.safeParse(end.payload);
+    if (!p.success) return;
+    await tx
+      .update(datasets)
+      .set({ status: 'failed', dedupeKey: null })
+      .where(and(eq(datasets.id, p.data.datasetId), eq(datasets.status, 'processing')));
+    await tx
+      .update(uploadReports)
+      .set({ status: 'failed', message: conversionFailureMessage(end.status, end.error), finishedAt: sql`CURRENT_TIMESTAMP(3)` })
+      .where(and(eq(uploadReports.id, p.data.reportId), eq(uploadReports.status, 'processing')));
+  },
+});
