@@ -263,6 +263,37 @@ function checkVintage(raw: string, line: number, findings: FindingCollector): st
   return null;
 }
 
+/**
+ * A file (error) or a segment (warning) whose vintages give no complete observation year would
+ * otherwise be stored as an empty dataset or vanish without a word.
+ */
+function noCompleteYear(rows: readonly VintageRow[], converted: readonly CohortRow[], findings: FindingCollector): void {
+  const rule = 'Each year needs, from vintages originated before it, all twelve months from January to December on record.';
+  if (converted.length === 0) {
+    findings.error(
+      'no-complete-cohort',
+      null,
+      null,
+      null,
+      `No annual cohort can be formed: no vintage is observed for a full calendar year after the year it was originated. ${rule} Add the later months on book, or upload the data as cohort counts.`,
+    );
+    return;
+  }
+  const withRows = new Set(converted.map((r) => r.segment));
+  const firstLine = new Map<string, number | null>();
+  for (const r of rows) if (!firstLine.has(r.segment)) firstLine.set(r.segment, r.line);
+  for (const [segment, line] of firstLine) {
+    if (withRows.has(segment)) continue;
+    findings.warning(
+      'segment-without-cohorts',
+      line,
+      'segment',
+      segment,
+      `Segment "${segment}" gives no annual cohort: none of its vintages is observed for a full calendar year after the year it was originated, so it is left out of the dataset. ${rule}`,
+    );
+  }
+}
+
 function finish(sink: VintageSink, findings: FindingCollector, file: ReadInfo): VintageValidation {
   if (findings.errors === 0) sink.finishChecks();
   let conversion: VintageConversion = { cohortRows: [], censored: [], convention: VINTAGE_CONVENTION };
@@ -283,6 +314,7 @@ function finish(sink: VintageSink, findings: FindingCollector, file: ReadInfo): 
       }
     }
     conversion.cohortRows = good;
+    if (sink.rows.length > 0) noCompleteYear(sink.rows, good, findings);
     checkPanel(good, findings, 'converted');
   }
   return { kind: 'vintage', ok: findings.errors === 0, rows: sink.rows, ...conversion, findings: findings.sorted(), summary: findings.summary(), file };

@@ -24,7 +24,10 @@ vi.mock('@/lib/auth/session', async () => {
   };
 });
 
-import { closeDb } from '@/db/connection';
+import { count } from 'drizzle-orm';
+import { closeDb, getDb } from '@/db/connection';
+import { jobs } from '@/db/schema';
+import { cancelJob } from '@/lib/jobs/queue';
 import { POST } from '@/app/api/datasets/route';
 import { GET as getReportCsv } from '@/app/api/datasets/reports/[reportId]/report.csv/route';
 import { makeUser } from '../../support/users';
@@ -186,6 +189,10 @@ describe('bad vintage files', () => {
   it('34. the same month on book twice', async () => {
     await expectRejected('vintage', `${V}\nAuto,2016-01,1,100,1\nAuto,2016-01,1,100,1\n`, 'duplicate-month', 3, 'months_on_book');
   });
+  it('34a. vintages never observed for a full calendar year (found in QA: stored as an empty dataset)', async () => {
+    const body = await expectRejected('vintage', `${V}\nAuto,2020-01,1,100,1\nAuto,2020-01,2,99,0\nAuto,2020-01,3,99,1\n`, 'no-complete-cohort', null);
+    expect(body.issues.find((i) => i.rule === 'no-complete-cohort')!.message).toMatch(/full calendar year/);
+  });
 });
 
 describe('bad loan tapes refused at upload (header-level problems; row-level ones go to the conversion job)', () => {
@@ -197,6 +204,20 @@ describe('bad loan tapes refused at upload (header-level problems; row-level one
   });
   it('37. a workbook sent as a loan tape', async () => {
     await expectRejected('loans', new Uint8Array([0x50, 0x4b, 0x03, 0x04, 0, 0, 0, 0]), 'binary-content', 1);
+  });
+  it('37a. a loan tape with a header only (blank lines after it) is refused at upload, no job is queued', async () => {
+    const [{ n: jobsBefore }] = await getDb().select({ n: count() }).from(jobs);
+    await expectRejected('loans', 'loan_id,segment,start_date,default_date,exit_date\r\n\r\n\r\n', 'no-data-rows', 1);
+    const [{ n: jobsAfter }] = await getDb().select({ n: count() }).from(jobs);
+    expect(jobsAfter).toBe(jobsBefore);
+  });
+  it('37b. a valid loan tape of about 0.5 MB (many read chunks) is not refused by the header check (found in QA)', async () => {
+    let tape = 'loan_id,segment,start_date,default_date,exit_date\n';
+    for (let i = 1; i <= 15_000; i++) tape += `Q${i},Chunked seg,2014-0${1 + (i % 9)}-1${i % 10},,\n`;
+    const res = await POST(uploadRequest({ kind: 'loans', name: 'big enough' }, tape));
+    const body = await res.json();
+    expect(res.status, JSON.stringify(body).slice(0, 400)).toBe(202);
+    await cancelJob(getDb(), body.jobId);
   });
 });
 

@@ -11,6 +11,27 @@ import { chunked, expectFinding } from './helpers';
 const H = 'segment,vintage,months_on_book,active,defaults\n';
 
 describe('vintage: bad files', () => {
+  // Found in QA: a file whose vintages never cover a full calendar year was accepted as a dataset
+  // with no cohort rows. By the DESIGN.md rule, vintage 2020-01 with months on book 1-3
+  // (February-April 2020) can only ever feed 2021 and later, which it does not reach.
+  it('no complete year anywhere is an error, and nothing is converted', () => {
+    const r = validateVintageText(H + 'A,2020-01,1,100,1\nA,2020-01,2,99,0\nA,2020-01,3,99,1\n');
+    expectFinding(r.findings, 'no-complete-cohort', 'error', null);
+    expect(r.ok).toBe(false);
+  });
+
+  it('a segment without a complete year is a warning naming it; the others convert', () => {
+    let text = H;
+    // B: vintage 2019-12, months on book 1-12 = January-December 2020: one complete year (2020).
+    for (let m = 1; m <= 12; m++) text += `B,2019-12,${m},${100 - m},${m === 5 ? 1 : 0}\n`;
+    text += 'C,2020-06,1,50,0\nC,2020-06,2,50,0\n'; // lines 14-15: July-August 2020 only
+    const r = validateVintageText(text);
+    expect(r.ok).toBe(true);
+    expect(r.cohortRows.map((c) => [c.segment, c.period, c.obligors, c.defaults])).toEqual([['B', '2020', 99, 1]]);
+    const w = expectFinding(r.findings, 'segment-without-cohorts', 'warning', 14, 'segment');
+    expect(w.value).toBe('C');
+  });
+
   it('vintage not YYYY-MM', () => {
     const r = validateVintageText(H + 'A,2016-13,1,100,0\nA,2016/03,1,100,0\n');
     const hits = r.findings.filter((f) => f.rule === 'vintage-unparseable');
