@@ -81,7 +81,10 @@ export function RevokeTokenButton({ id, name }: { id: number; name: string }) {
   const m = useMutation({ mutationFn: () => apiSend('DELETE', `/api/admin/tokens/${id}`), onSuccess: () => router.refresh() });
   return (
     <span>
-      <button type="button" className="btn btn-danger px-2 py-1 text-sm" disabled={m.isPending} onClick={() => m.mutate()} aria-label={`Revoke ${name}`}>
+      <button type="button" className="btn btn-danger px-2 py-1 text-sm" disabled={m.isPending} onClick={() => {
+          if (window.confirm(`Revoke the token “${name}”? Requests that use it are refused from now on; this cannot be undone.`)) m.mutate();
+        }}
+        aria-label={`Revoke ${name}`}>
         Revoke
       </button>
       {m.error ? (

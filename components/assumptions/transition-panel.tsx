@@ -6,6 +6,11 @@ import { useState } from 'react';
 import { actionLabels, transitionRules, type UserAction } from '@/lib/assumptions/lifecycle';
 import { apiSend } from './api';
 
+const confirmText = {
+  retire: 'Retire this published version? Consumers will no longer receive it, and it cannot be published again.',
+  reject: 'Reject this version? A rejected version cannot be reopened; the analyst drafts a new one.',
+} as const;
+
 /** The actions open to the signed-in person on a version; the server decides again on each. */
 export function TransitionPanel({ versionId, actions }: { versionId: number; actions: UserAction[] }) {
   const router = useRouter();
@@ -39,6 +44,8 @@ export function TransitionPanel({ versionId, actions }: { versionId: number; act
             disabled={m.isPending}
             onClick={() => {
               setDone(null);
+              // Retiring and rejecting cannot be undone: ask once.
+              if ((a === 'retire' || a === 'reject') && !window.confirm(confirmText[a])) return;
               m.mutate(a);
             }}
           >

@@ -56,7 +56,7 @@ test('draft, request changes, fix, approve, publish; a viewer sees the published
   const validatorCtx = await browser.newContext();
   const validator = await validatorCtx.newPage();
   await signIn(validator, 'validator@fenmoor.example');
-  await validator.getByRole('link', { name: 'Queue' }).click();
+  await validator.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Queue', exact: true }).click();
   await validator.getByRole('table', { name: 'Awaiting me' }).getByRole('link', { name: segment }).first().click();
   await expect(validator).toHaveURL(versionUrl, { timeout: 60_000 });
   await act(validator, 'Start review', 'in review');
@@ -66,7 +66,7 @@ test('draft, request changes, fix, approve, publish; a viewer sees the published
   await act(validator, 'Request changes', 'draft');
 
   // The analyst sees the request in the queue, fixes the margin and resubmits.
-  await analyst.getByRole('link', { name: 'Queue' }).click();
+  await analyst.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Queue', exact: true }).click();
   await expect(analyst.getByRole('table', { name: 'Awaiting me' })).toContainText('Justify the general estimation error margin');
   await analyst.goto(versionUrl);
   await analyst.getByRole('link', { name: /^Edit/ }).click();
@@ -90,7 +90,7 @@ test('draft, request changes, fix, approve, publish; a viewer sees the published
   const viewerCtx = await browser.newContext();
   const viewer = await viewerCtx.newPage();
   await signIn(viewer, 'viewer@fenmoor.example');
-  await viewer.getByRole('link', { name: 'Library' }).click();
+  await viewer.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Library', exact: true }).click();
   const row = viewer.getByTestId(`library-row-${segment}`);
   await expect(row.getByTestId('library-value')).toHaveText(String(Number(Number(published).toFixed(4))));
   await expect(row).toContainText('published');

@@ -51,7 +51,7 @@ export default async function LibraryPage() {
                 <td className="num text-right font-semibold" data-testid="library-value">{e.current ? fmt(e.current.finalValue) : '—'}</td>
                 <td className="num text-right">{e.current ? `${fmt(e.current.estimate)} (${e.current.estimator})` : '—'}</td>
                 <td className="num">
-                  {e.current ? `[${fmt(e.current.intervalLower)}, ${fmt(e.current.intervalUpper)}] ${e.current.intervalMethod} ${e.current.intervalLevel * 100}%` : '—'}
+                  {e.current ? `[${fmt(e.current.intervalLower)}, ${fmt(e.current.intervalUpper)}] ${e.current.intervalMethod} ${fmt(e.current.intervalLevel * 100, 2)}%` : '—'}
                 </td>
                 <td className="num text-right">{e.current ? fmt(e.current.pd, 5) : '—'}</td>
                 <td className="num">{e.current?.effectiveDate ?? '—'}</td>

@@ -1,11 +1,13 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { forbidden } from 'next/navigation';
+import { z } from 'zod';
 import { DraftForm, type FitOption } from '@/components/assumptions/draft-form';
 import { todayIso } from '@/lib/assumptions/dates';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { getFit, listFits } from '@/lib/dal/fits';
+import { AppError } from '@/lib/errors';
 
 export const metadata: Metadata = { title: 'Draft an assumption' };
 
@@ -13,10 +15,18 @@ export default async function NewDraftPage({ searchParams }: { searchParams: Pro
   const actor = await requireUser();
   if (!can(actor.role, 'assumptions:draft')) forbidden();
   const sp = await searchParams;
-  const fits = (await listFits(actor, { limit: 50 })).filter((f) => f.status === 'succeeded').slice(0, 12);
+  const recent = (await listFits(actor, { limit: 50 })).filter((f) => f.status === 'succeeded').slice(0, 12).map((f) => f.id);
+  // The fit named in the link (from a fit review) is offered even when it is not among the recent ones.
+  const asked = z.coerce.number().int().positive().safeParse(sp.fitId);
+  const ids = asked.success && !recent.includes(asked.data) ? [asked.data, ...recent] : recent;
   const options: FitOption[] = [];
-  for (const f of fits) {
-    const full = await getFit(actor, f.id);
+  for (const id of ids) {
+    const full = await getFit(actor, id).catch((err) => {
+      if (err instanceof AppError && err.kind === 'not_found') return null;
+      throw err;
+    });
+    if (!full || full.status !== 'succeeded') continue;
+    const f = full;
     for (const s of full.results?.segments ?? []) {
       const estimates: FitOption['estimates'] = {};
       for (const [k, e] of Object.entries(s.estimates)) {
@@ -28,7 +38,10 @@ export default async function NewDraftPage({ searchParams }: { searchParams: Pro
       options.push({ fitId: f.id, segment: s.segment, label: `Fit ${f.id} · ${f.datasetName} · ${s.segment}`, estimates });
     }
   }
-  const initial = sp.fitId && sp.segment ? `${sp.fitId}|${sp.segment}` : undefined;
+  // A fit and segment from the link; a segment alone picks the newest fit that has it.
+  const initial =
+    options.find((o) => String(o.fitId) === sp.fitId && o.segment === sp.segment) ??
+    (!sp.fitId && sp.segment ? options.find((o) => o.segment === sp.segment) : undefined);
   return (
     <div className="space-y-4">
       <p className="text-sm">
@@ -45,7 +58,7 @@ export default async function NewDraftPage({ searchParams }: { searchParams: Pro
         </p>
       ) : (
         <section className="panel p-5">
-          <DraftForm mode="create" options={options} initialFit={initial} today={todayIso()} />
+          <DraftForm mode="create" options={options} initialFit={initial ? `${initial.fitId}|${initial.segment}` : undefined} today={todayIso()} />
         </section>
       )}
     </div>

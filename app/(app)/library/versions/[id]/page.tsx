@@ -5,13 +5,26 @@ import { z } from 'zod';
 import { Cautions } from '@/components/assumptions/cautions';
 import { fmt, StatusBadge } from '@/components/assumptions/status-badge';
 import { TransitionPanel } from '@/components/assumptions/transition-panel';
-import { editableStatuses } from '@/lib/assumptions/lifecycle';
+import { editableStatuses, statusLabels } from '@/lib/assumptions/lifecycle';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { getVersionPage } from '@/lib/dal/assumptions';
 import { AppError } from '@/lib/errors';
 
 export const metadata: Metadata = { title: 'Assumption' };
+
+/** The fit's seeds ({ bootstrap, audit }) in words; anything else as JSON. */
+function seedsText(seeds: unknown): string {
+  if (seeds && typeof seeds === 'object' && !Array.isArray(seeds)) {
+    const o = seeds as Record<string, unknown>;
+    const parts = Object.entries(o).map(([k, val]) => `${k} ${val === null || val === undefined ? 'not run' : String(val)}`);
+    return parts.length ? parts.join('; ') : 'none';
+  }
+  return show(seeds);
+}
+
+const label = (s: string) => statusLabels[s as keyof typeof statusLabels] ?? s;
+const when = (s: string | null) => (s ? `${s.replace('T', ' ').slice(0, 16)} UTC` : '—');
 
 function show(v: unknown): string {
   if (v === null || v === undefined || v === '') return '—';
@@ -55,7 +68,7 @@ export default async function VersionPage({ params }: { params: Promise<{ id: st
             </dd>
             <dt>Interval</dt>
             <dd className="num">
-              [{fmt(v.intervalLower, 6)}, {fmt(v.intervalUpper, 6)}] {v.intervalMethod}, level {v.intervalLevel}
+              [{fmt(v.intervalLower, 6)}, {fmt(v.intervalUpper, 6)}] {v.intervalMethod}, {fmt(v.intervalLevel * 100, 2)}%
             </dd>
             <dt>Data window</dt>
             <dd>
@@ -68,9 +81,11 @@ export default async function VersionPage({ params }: { params: Promise<{ id: st
               {v.lineage.datasetUrl ? <Link href={v.lineage.datasetUrl}>dataset {v.datasetId}</Link> : '—'}{' '}
               <span className="num text-xs break-all">SHA-256 {v.datasetSha256}</span>
             </dd>
-            <dt>Engine, seeds</dt>
-            <dd className="num text-xs">
-              {v.engineVersion}; {show(v.seeds)}
+            <dt>Engine version</dt>
+            <dd className="num">{v.engineVersion}</dd>
+            <dt>Seeds</dt>
+            <dd className="num" data-testid="seeds">
+              {seedsText(v.seeds)}
             </dd>
             <dt>Content hash</dt>
             <dd className="num text-xs break-all">{v.contentHash}</dd>
@@ -117,12 +132,37 @@ export default async function VersionPage({ params }: { params: Promise<{ id: st
               <p className="whitespace-pre-wrap">{v.limitations}</p>
             </div>
           </div>
-          <p className="mt-3 text-sm text-[var(--color-muted)]">
-            Drafted by {v.author?.name ?? '—'}
-            {v.lastEditedBy ? `, last edited by ${v.lastEditedBy.name}` : ''}
-            {v.validator ? `; decided by ${v.validator.name}` : ''}
-            {v.decisionComment ? `: “${v.decisionComment}”` : ''}
-          </p>
+          <h3 className="mt-4 mb-1">People and dates</h3>
+          <dl className="grid grid-cols-[12rem_1fr] gap-x-4 gap-y-1 text-sm" data-testid="people-and-dates">
+            <dt>Author</dt>
+            <dd>
+              {v.author?.name ?? '—'} <span className="text-[var(--color-muted)]">drafted {when(v.createdAt)}</span>
+            </dd>
+            {v.lastEditedBy ? (
+              <>
+                <dt>Last edited by</dt>
+                <dd>
+                  {v.lastEditedBy.name} <span className="text-[var(--color-muted)]">{when(v.updatedAt)}</span>
+                </dd>
+              </>
+            ) : null}
+            <dt>Validator</dt>
+            <dd>{v.validator ? `${v.validator.name}, decided ${when(v.decidedAt)}` : 'not decided yet'}</dd>
+            <dt>{v.status === 'draft' && v.decisionComment ? 'Changes requested' : 'Decision comment'}</dt>
+            <dd className="whitespace-pre-wrap">{v.decisionComment ?? '—'}</dd>
+            <dt>Effective date</dt>
+            <dd className="num">{v.effectiveDate}</dd>
+            <dt>Review by</dt>
+            <dd className="num">{v.reviewBy}</dd>
+            <dt>Published</dt>
+            <dd>{when(v.publishedAt)}</dd>
+            {v.endedAt ? (
+              <>
+                <dt>{v.status === 'superseded' ? 'Superseded' : v.status === 'expired' ? 'Expired' : 'Retired'}</dt>
+                <dd>{when(v.endedAt)}</dd>
+              </>
+            ) : null}
+          </dl>
         </div>
         <div className="panel space-y-3 p-5">
           <h2>Your action</h2>
@@ -131,6 +171,12 @@ export default async function VersionPage({ params }: { params: Promise<{ id: st
             <Link className="btn btn-quiet no-underline" href={`/library/versions/${v.id}/edit`}>
               Edit{v.status !== 'draft' ? ' (returns it to draft)' : ''}
             </Link>
+          ) : null}
+          {can(actor.role, 'assumptions:draft') && !page.versions.some((o) => editableStatuses.includes(o.status)) ? (
+            <p className="text-sm">
+              A published version is never changed: a correction is a new version.{' '}
+              <Link href={`/library/new?segment=${encodeURIComponent(v.segment)}`}>Draft a new version</Link> from a finished fit.
+            </p>
           ) : null}
           {actor.role === 'validator' && page.makerIds.includes(actor.id) ? (
             <p className="notice-caution text-sm">You drafted or edited this version: another validator must review it.</p>
@@ -244,7 +290,7 @@ export default async function VersionPage({ params }: { params: Promise<{ id: st
                     {a.actorEmail} <span className="badge">{a.actorRole}</span>
                   </td>
                   <td>
-                    {a.fromStatus ?? '—'} → {a.toStatus}
+                    {a.fromStatus ? label(a.fromStatus) : '—'} → {label(a.toStatus)}
                   </td>
                   <td className="whitespace-pre-wrap">{a.comment ?? ''}</td>
                   <td className="num text-xs" title={a.contentHash}>
