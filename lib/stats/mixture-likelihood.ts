@@ -47,6 +47,8 @@ const LN_SQRT_2PI = 0.9189385332046727418;
 const INV_SQRT_2PI = 0.3989422804014326779;
 const SQRT_2_OVER_PI = 0.7978845608028654;
 const MAX_HALF_WIDTH = Math.sqrt(2 * TRUNCATION_LOG_UNITS);
+/** Below this rho the rho-slope is taken in Stein's form (see MixtureLikelihood). */
+const STEIN_BELOW = 1e-6;
 
 // Gauss-Kronrod G10/K21 on [-1, 1] (QUADPACK qk21; Piessens et al. 1983). Nodes in increasing
 // order; GAUSS_WEIGHTS is zero at the Kronrod-only nodes. Checked in the tests: K21 integrates
@@ -216,10 +218,13 @@ type Order = 0 | 1 | 2;
  *
  * Derivatives (Method). At fixed x the integrand depends on the parameters only through
  * z = (k - sqrt(rho) x) / sqrt(1 - rho), so every derivative of log L is a posterior moment:
- * d log L = E[dG], d^2 log L = E[d^2 G] + Cov(dG, dG), integrated at the same nodes as L.
- * d l / d rho uses the equivalent form E[h1] c / (2 (1 - rho)) + E[h2 + h1^2] / (2 (1 - rho)^2)
- * (c = k / sqrt(1 - rho); Stein's identity E[x F(x)] = E[F'(x)] for the normal weight removes the
- * 1/sqrt(rho) of dz/d rho), which stays exact as rho -> 0. At rho = 0 the derivatives are the
+ * d log L = E[dG], d^2 log L = E[d^2 G] + Cov(dG, dG), integrated at the same nodes as L, with
+ * the variances taken about the values at the mode (no cancellation of large means). Below
+ * rho = 1e-6, d l / d rho uses the equivalent form E[h1] c / (2 (1 - rho)) + E[h2 + h1^2] /
+ * (2 (1 - rho)^2) (c = k / sqrt(1 - rho); Stein's identity E[x F(x)] = E[F'(x)] for the normal
+ * weight removes the 1/sqrt(rho) of dz/d rho), which stays exact as rho -> 0 but cancels terms of
+ * order n, so for large cohorts at ordinary rho the direct form is the accurate one (measured:
+ * relative noise 1e-11 against 1e-2 at n = 1e8, rho = 0.8). At rho = 0 the derivatives are the
  * closed forms of the heat equation d/db E[psi(c + sqrt(b) X)] = E[psi''] / 2 (b = rho/(1-rho)).
  * The second rho-derivatives at fixed x carry 1/sqrt(rho) factors that cancel in the integral;
  * they keep ~8 digits for rho * n >= 1e-3 and are meant for Newton steps and the observed
@@ -358,7 +363,8 @@ export class MixtureLikelihood {
           const v2 = TOTAL[5] / S0;
           const uv = TOTAL[6] / S0;
           const eh1sq = qH1m * qH1m + 2 * qH1m * u1 + u2;
-          dr += eh1 * c * qZZ + (e2 + eh1sq) * qZZ2;
+          // E[G_rho] directly (centred at the mode), or by Stein's identity for tiny rho (class comment)
+          dr += rho >= STEIN_BELOW ? qGrm + v1 : eh1 * c * qZZ + (e2 + eh1sq) * qZZ2;
           dkr += TOTAL[7] / S0 + (uv - u1 * v1) * qZK;
           drr += TOTAL[8] / S0 + v2 - v1 * v1;
         }

@@ -209,7 +209,7 @@ export interface BinomialMleResult extends Estimate {
 
 /** Options of {@link binomialMle}. */
 export interface BinomialMleOptions {
-  /** Absolute tolerance on rho of the search (default 1e-9). */
+  /** Absolute tolerance on rho of the search (default 1e-9; never finer than 1e-6 standard errors of rho). */
   tolerance?: number;
 }
 
@@ -239,7 +239,7 @@ function undefinedMle(reason: string): BinomialMleResult {
  * between it and its neighbour (or the search limit 0.995) with slope > 0 at the left end and < 0
  * at the right end holds a stationary point, found as the root of the slope by safeguarded Newton
  * (the profile's curvature as derivative, bisection when a step leaves the bracket; absolute
- * tolerance 1e-9 in rho by default). If the slopes do not bracket a sign change (a local minimum
+ * tolerance 1e-9 in rho by default, or 1e-6 standard errors of rho if coarser). If the slopes do not bracket a sign change (a local minimum
  * between grid points), Brent's minimiser (1973) searches the two grid intervals around the best
  * point instead. So the search is not trapped at a stationary start point and finds the best of
  * several local maxima if the grid separates them. The integral is the mode-bracketed adaptive
@@ -323,6 +323,11 @@ export function binomialMleWithProfile(
     const left = at(ends[i]);
     const right = at(ends[i + 1]);
     if (left.slope >= 0 && right.slope <= 0) {
+      // Stop at 1e-6 standard errors of rho (1 / sqrt(-curvature)) if that is coarser than the
+      // tolerance: for cohorts of millions the slope carries quadrature noise of ~1e-8 relative
+      // to its terms, which no finer tolerance can beat, and such a step is statistically nil.
+      const start = left.logLik >= right.logLik ? left : right;
+      const tol = start.curvature < 0 ? Math.max(tolerance, 1e-6 / Math.sqrt(-start.curvature)) : tolerance;
       let last = left;
       const search = safeguardedNewtonRoot(
         (rho) => {
@@ -333,11 +338,11 @@ export function binomialMleWithProfile(
         right.rho,
         left.slope,
         right.slope,
-        { tolerance, start: left.logLik >= right.logLik ? left.rho : right.rho, maxIterations: 100 },
+        { tolerance: tol, start: start.rho, maxIterations: 100 },
       );
       iterations = search.iterations;
       searchConverged = search.converged;
-      top = search.value === last.rho ? last : search.value === left.rho ? left : right;
+      top = search.value === last.rho ? last : profile.at(search.value); // evaluated before: cached
       break;
     }
     if (left.slope > 0 && right.slope > 0 && direction >= 0) {
