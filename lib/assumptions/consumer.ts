@@ -32,6 +32,10 @@ export const consumerVersionSchema = z.object({
   effectiveDate: z.string().describe('YYYY-MM-DD'),
   reviewBy: z.string().describe('YYYY-MM-DD'),
   publishedAt: z.string().nullable(),
+  endedAt: z
+    .string()
+    .nullable()
+    .describe('When the version stopped being the published one (superseded, expired or retired); null while it is published.'),
   intendedUses: z.string(),
   limitations: z.string(),
   approvedBy: z.string().nullable(),
@@ -68,6 +72,7 @@ type VersionLike = VersionContent & {
   status: (typeof assumptionStatuses)[number];
   contentHash: string;
   publishedAt: string | null;
+  endedAt: string | null;
   validator: { name: string } | null;
   lineage: { fitUrl: string | null; datasetUrl: string | null };
 };
@@ -93,6 +98,7 @@ export function toConsumerVersion(v: VersionLike): ConsumerVersion {
     effectiveDate: v.effectiveDate,
     reviewBy: v.reviewBy,
     publishedAt: v.publishedAt,
+    endedAt: v.endedAt,
     intendedUses: v.intendedUses,
     limitations: v.limitations,
     approvedBy: v.validator?.name ?? null,

@@ -76,6 +76,8 @@ describe('the version in force at a date', () => {
     const a = res.body.assumption as Record<string, any>; // eslint-disable-line @typescript-eslint/no-explicit-any
     expect(a.version).toBe(1);
     expect(a.status).toBe('superseded');
+    // When it stopped being the published one: when version 2 published (not null, an ISO time).
+    expect(a.endedAt).toMatch(/^\d{4}-\d{2}-\d{2}T/);
     // 0.037091 + 0.01 + 0 + 0.02 (the margins of draftBody), by hand.
     expect(a.value).toBe(0.067091);
     expect(a.pd).toBe(0.013307);
@@ -92,6 +94,7 @@ describe('the version in force at a date', () => {
     const res = await inForce(`segment=${encodeURIComponent(segment)}`);
     expect(res.body.asOf).toBe(today);
     expect((res.body.assumption as { version: number; value: number }).version).toBe(2);
+    expect((res.body.assumption as { endedAt: string | null }).endedAt).toBeNull();
     expect((res.body.assumption as { value: number }).value).toBe(0.08);
   });
 
