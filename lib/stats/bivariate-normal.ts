@@ -56,7 +56,7 @@ function bvnd(dh: number, dk: number, r: number): number {
   const xs = GL_X[ng];
   const ws = GL_W[ng];
   const lg = xs.length;
-  let h = dh;
+  const h = dh;
   let k = dk;
   let hk = h * k;
   let bvn = 0;
