@@ -58,6 +58,11 @@ export async function computeFitRun(panels: readonly SegmentInput[], request: Fi
   const pool = request.bootstrap && options.threads > 0 ? new EnginePool(options.threads) : null;
   const segments: FitSegmentResult[] = [];
   try {
+    if (pool) {
+      // Thread start-up (loading the engine in each thread) takes a second or two: say so rather than sit at "done".
+      await report(0, `Starting ${options.threads} worker thread${options.threads === 1 ? '' : 's'} for the bootstrap`);
+      await pool.start();
+    }
     for (let i = 0; i < panels.length; i++) {
       const input = panels[i];
       const name = input.segment;

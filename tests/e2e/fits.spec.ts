@@ -21,10 +21,10 @@ test('an analyst starts a fit with a bootstrap, follows its progress and reads t
   const segmentName = ((await boxes.nth(0).locator('..').textContent()) ?? '').split(/\d{4}–/)[0].trim();
 
   await expect(page.getByLabel('Parametric bootstrap of the likelihood estimate')).toBeChecked();
-  await page.getByLabel('Bootstrap replications').fill('150');
+  await page.getByLabel('Bootstrap replications').fill('1000');
   await page.getByLabel('Bootstrap seed').fill('7');
   await page.getByLabel('Estimator audit at this sample size').check();
-  await page.getByLabel('Audit replications').fill('20');
+  await page.getByLabel('Audit replications').fill('100');
   await page.getByRole('button', { name: 'Start the fit' }).click();
 
   await page.waitForURL(/\/fits\/\d+$/);
@@ -32,7 +32,7 @@ test('an analyst starts a fit with a bootstrap, follows its progress and reads t
   const bar = page.getByRole('progressbar', { name: 'Fit progress' });
   await expect(bar).toBeVisible();
   // Progress moves while the bootstrap runs, and survives a reload of the page.
-  await expect(page.getByTestId('fit-progress-message')).toContainText(/Bootstrap \d+ of 150|Estimator audit/, { timeout: 60_000 });
+  await expect(page.getByTestId('fit-progress-message')).toContainText(/Bootstrap \d+ of 1000|Estimator audit/, { timeout: 60_000 });
   const before = Number(await bar.getAttribute('aria-valuenow'));
   expect(before).toBeGreaterThan(0);
   await page.reload();
@@ -46,17 +46,21 @@ test('an analyst starts a fit with a bootstrap, follows its progress and reads t
   await expect(review.getByRole('img', { name: /fitted 50%, 95% and 99% bands/ }).locator('svg')).toBeVisible();
   await expect(review.getByTestId('exceedances')).toContainText(/of \d+ periods lie above the fitted 95% quantile/);
   await expect(review.getByTestId('profile-chart')).toBeVisible();
-  await expect(review.getByText(/Likelihood-ratio test of ρ = 0/)).toBeVisible();
+  await expect(review.getByTestId('lr-test')).toContainText(/Likelihood-ratio test of ρ = 0: statistic \d+\.\d\d/);
+  await expect(review.getByText(/^Dashed line: the cut-off -?\d+\.\d\d/)).toBeVisible();
   await expect(review.getByTestId('factor-chart')).toBeVisible();
-  await expect(review.getByText(/Lag-1 autocorrelation of the implied factor/)).toBeVisible();
-  await expect(review.getByText(/Bootstrap interval/)).toBeVisible();
-  await expect(review.getByText(/B = 150, seed 7/)).toBeVisible();
-  await expect(review.getByTestId('audit-table')).toBeVisible();
+  await expect(review.getByTestId('autocorrelation')).toContainText(/Lag-1 autocorrelation of the implied factor: (-?\d\.\d\d, against ±\d\.\d\d|not computed)/);
+  // The three intervals of the likelihood estimate: profile, Wald (with its standard error) and the bootstrap asked for.
+  const intervals = review.getByTestId('intervals-table');
+  await expect(intervals.getByRole('row', { name: /Profile likelihood \[0\.\d{3}, 0\.\d{3}\]/ })).toBeVisible();
+  await expect(intervals.getByRole('row', { name: /Wald \[0\.\d{3}, 0\.\d{3}\] standard error of ρ 0\.\d{4}/ })).toBeVisible();
+  await expect(intervals.getByRole('row', { name: /Parametric bootstrap \[0\.\d{3}, 0\.\d{3}\] bias [+−]0\.\d{4}, B = 1000, seed 7/ })).toBeVisible();
+  await expect(review.getByTestId('audit-table').getByRole('row', { name: /^Binomial-mixture ML 100 \/ 100 / })).toBeVisible();
   await expect(review.getByTestId('implications')).toContainText('99.9% quantile of the yearly default rate');
   await expect(review.getByTestId('implications')).toContainText('Supervisory correlation');
   await expect(review.getByTestId('windows-table')).toContainText('Whole window');
   await expect(review.getByTestId('windows-table')).toContainText('Without the worst period');
-  await expect(page.getByTestId('fit-provenance')).toContainText('bootstrap B 150, seed 7');
+  await expect(page.getByTestId('fit-provenance')).toContainText('bootstrap B 1000, seed 7');
 
   // The pair explorer inside the review follows the correlation at once.
   await review.getByText('Explore two obligors at this estimate').click();
@@ -73,8 +77,10 @@ test('an analyst starts a fit with a bootstrap, follows its progress and reads t
   expect(api.status()).toBe(200);
   const body = await api.json();
   expect(body).toMatchObject({ id: fitId, status: 'succeeded', progress: 100, error: null });
-  expect(body.request.bootstrap).toEqual({ replications: 150, seed: 7 });
-  expect(body.results.segments[0].estimates.binomialMle.intervals.bootstrap.replications).toBe(150);
+  expect(body.request.bootstrap).toEqual({ replications: 1000, seed: 7 });
+  expect(body.results.segments[0].estimates.binomialMle.intervals.bootstrap.replications).toBe(1000);
+  expect(body.results.engine.version).toBe(body.engineVersion);
+  expect(body.results.segments[0].estimates.binomialMle.intervals.wald.se).toBeGreaterThan(0);
 });
 
 test('the fits API refuses viewers (403) and unavailable datasets (404)', async ({ page }) => {
