@@ -32,8 +32,13 @@ export class EngineAbortError extends Error {
 
 /** Options of {@link EnginePool.run}. */
 export interface RunOptions {
-  /** Called after each finished replication with the total done so far (synchronous; keep it cheap). */
+  /**
+   * Called after each finished replication with the work done so far: the sum over replications
+   * of weight(task) (synchronous; keep it cheap).
+   */
   onItems?: (done: number) => void;
+  /** Cost of one replication of a task, for progress (default 1). */
+  weight?: (task: EngineTask) => number;
   /** Stops the run: workers are terminated, the pool is closed and run() rejects with EngineAbortError. */
   signal?: AbortSignal;
 }
@@ -153,7 +158,7 @@ export class EnginePool {
           if (msg.type === 'progress') {
             const before = partial.get(msg.id) ?? 0;
             partial.set(msg.id, msg.done);
-            doneItems += msg.done - before;
+            doneItems += (msg.done - before) * (options.weight ? options.weight(tasks[msg.id]) : 1);
             options.onItems?.(doneItems);
           } else if (msg.type === 'done') {
             partial.delete(msg.id);
@@ -212,7 +217,7 @@ export class EnginePool {
   }
 }
 
-/** Total replications of a list of tasks. */
-export function totalItems(tasks: readonly EngineTask[]): number {
-  return tasks.reduce((s, t) => s + taskSize(t), 0);
+/** Total work of a list of tasks: replications times weight (default 1). */
+export function totalItems(tasks: readonly EngineTask[], weight: (task: EngineTask) => number = () => 1): number {
+  return tasks.reduce((s, t) => s + taskSize(t) * weight(t), 0);
 }

@@ -1,9 +1,10 @@
 /**
- * The units of work the engine's worker threads run: a slice [from, to) of a bootstrap's
- * replications. A task is plain data (structured-clone safe) and runTask is the only code that
+ * The units of work the engine's worker threads run: a slice [from, to) of a bootstrap's or an
+ * estimator audit's replications. A task is plain data (structured-clone safe) and runTask is the only code that
  * executes it, in a worker thread or in the calling thread alike, so every split of the index
  * range gives the same numbers.
  */
+import { auditRange, type AuditReplication, type AuditSpec } from '../stats/audit';
 import { bootstrapRange, type BootstrapReplication, type BootstrapSpec } from '../stats/intervals/bootstrap';
 
 /** Bootstrap replications from .. to - 1 of one spec. */
@@ -14,14 +15,27 @@ export interface BootstrapTask {
   to: number;
 }
 
-export type EngineTask = BootstrapTask;
+/** Estimator-audit replications from .. to - 1 of one spec (lib/stats/audit.ts). */
+export interface AuditTask {
+  kind: 'audit';
+  spec: AuditSpec;
+  from: number;
+  to: number;
+}
+
+export type EngineTask = BootstrapTask | AuditTask;
 
 export interface BootstrapTaskResult {
   kind: 'bootstrap';
   replications: BootstrapReplication[];
 }
 
-export type EngineTaskResult = BootstrapTaskResult;
+export interface AuditTaskResult {
+  kind: 'audit';
+  replications: AuditReplication[];
+}
+
+export type EngineTaskResult = BootstrapTaskResult | AuditTaskResult;
 
 /** Number of replications (progress units) in a task. */
 export function taskSize(task: EngineTask): number {
@@ -33,9 +47,11 @@ export function runTask(task: EngineTask, onItem?: () => void): EngineTaskResult
   switch (task.kind) {
     case 'bootstrap':
       return { kind: 'bootstrap', replications: bootstrapRange(task.spec, task.from, task.to, onItem && (() => onItem())) };
+    case 'audit':
+      return { kind: 'audit', replications: auditRange(task.spec, task.from, task.to, onItem && (() => onItem())) };
     default: {
-      const unknown: never = task.kind;
-      throw new RangeError(`runTask: unknown task kind ${String(unknown)}.`);
+      const unknown: never = task;
+      throw new RangeError(`runTask: unknown task kind ${String((unknown as { kind: unknown }).kind)}.`);
     }
   }
 }

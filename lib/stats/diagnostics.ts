@@ -34,6 +34,7 @@ export const WARNING_CODES = [
   'autocorrelation',
   'bootstrap-failures',
   'bootstrap-unavailable',
+  'audit-unavailable',
 ] as const;
 export type WarningCode = (typeof WARNING_CODES)[number];
 

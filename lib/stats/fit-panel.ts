@@ -1,13 +1,15 @@
 /**
  * The fit of one segment's panel: the five estimators, the intervals of binomialMle, the
- * diagnostics, what the estimate implies, and (optionally) the parametric bootstrap. Its result,
+ * diagnostics, what the estimate implies, and (optionally) the parametric bootstrap and the
+ * estimator audit (lib/stats/audit.ts). Its result,
  * {@link SegmentFit}, is the per-segment JSON of the engine CLI (issue 3) minus `timing`, plus the
  * fields the review screens need (profileCurve, diagnostics, implications, observed).
  *
- * Pure and single-threaded. For large bootstraps, lib/engine's fitPanelParallel runs the same
- * stages (prepareSegmentFit, then bootstrap slices in worker threads, then attachBootstrap) and
- * gives identical numbers.
+ * Pure and single-threaded. For large bootstraps and audits, lib/engine's fitPanelParallel runs the
+ * same stages (prepareSegmentFit, then bootstrap and audit slices in worker threads, then
+ * completeSegmentFit) and gives identical numbers.
  */
+import { auditRange, MAX_AUDIT_REPLICATIONS, mergeAudit, type AuditReplication, type AuditSpec, type AuditSummary } from './audit';
 import { binomialMleWithProfile, RHO_SEARCH_LIMIT, type ProfileLikelihood } from './estimators/binomial-mle';
 import { jointDefault } from './estimators/joint-default';
 import { momentVariance } from './estimators/moment-variance';
@@ -85,7 +87,8 @@ export interface ObservedPeriod {
  *   profileCutoff,               // logLik - chi2_1(level) / 2, null without an MLE
  *   diagnostics: Diagnostics,    // lib/stats/diagnostics.ts
  *   implications: Implications | null, // quantile999, capital at estimate / interval ends, supervisory
- *   observed: [{ period, obligors, defaults, dr }] }
+ *   observed: [{ period, obligors, defaults, dr }],
+ *   estimatorAudit: AuditSummary | null }  // lib/stats/audit.ts
  * ```
  */
 export interface SegmentFit {
@@ -110,6 +113,12 @@ export interface SegmentFit {
   /** Null when binomialMle gives no estimate. */
   implications: Implications | null;
   observed: ObservedPeriod[];
+  /**
+   * The estimator audit (lib/stats/audit.ts): R panels simulated at the fitted (p, rho) with these
+   * n_t, every estimator's bias, sd and RMSE, and the coverage of the profile and Wald intervals.
+   * Null unless requested (and possible).
+   */
+  estimatorAudit: AuditSummary | null;
 }
 
 /** {@link SegmentFit} with the compute time, as printed by the CLI. */
@@ -136,6 +145,8 @@ export interface FitPanelOptions {
   level?: number;
   /** Parametric bootstrap: B replications, master seed. Null or absent: none. */
   bootstrap?: { replications: number; seed: number } | null;
+  /** Estimator audit: R replications, master seed (use another seed than the bootstrap's). Null or absent: none. */
+  audit?: { replications: number; seed: number } | null;
   /** Asset class for the supervisory comparison; null or absent: none. */
   assetClass?: AssetClass | null;
   /** Annual turnover in EUR millions ('sme-corporate'). */
@@ -196,6 +207,17 @@ function assertOptions(options: FitPanelOptions): void {
       throw new RangeError(`fitPanel: the bootstrap seed must be a whole number from 0 to 4294967295; got ${b.seed}.`);
     }
   }
+  const a = options.audit;
+  if (a) {
+    if (!Number.isInteger(a.replications) || a.replications < 2 || a.replications > MAX_AUDIT_REPLICATIONS) {
+      throw new RangeError(
+        `fitPanel: the estimator audit needs a whole number of replications from 2 to ${MAX_AUDIT_REPLICATIONS}; got ${a.replications}.`,
+      );
+    }
+    if (!Number.isInteger(a.seed) || a.seed < 0 || a.seed > 0xffffffff) {
+      throw new RangeError(`fitPanel: the audit seed must be a whole number from 0 to 4294967295; got ${a.seed}.`);
+    }
+  }
   const points = options.profileCurvePoints ?? 40;
   if (!Number.isInteger(points) || points < 2 || points > 1000) {
     throw new RangeError(`fitPanel: profileCurvePoints must be a whole number from 2 to 1000; got ${points}.`);
@@ -231,26 +253,29 @@ function profileCurve(
 
 const CORPORATE_CLASSES: readonly AssetClass[] = ['corporate', 'sme-corporate'];
 
-/** The work left after {@link prepareSegmentFit}: the bootstrap to run, if any. */
+/** The work left after {@link prepareSegmentFit}: the bootstrap and the audit to run, if any. */
 export interface PreparedFit {
   fit: SegmentFit;
   /** What to simulate when a bootstrap was asked for and is possible; else null. */
   bootstrap: { spec: BootstrapSpec; replications: number } | null;
+  /** What to simulate when an audit was asked for and is possible; else null. */
+  audit: { spec: AuditSpec; replications: number } | null;
 }
 
 /**
- * Stage 1 of a segment fit: everything but the bootstrap.
+ * Stage 1 of a segment fit: everything but the bootstrap and the audit.
  *
  * Runs binomialMle (with its profile object) and the four other estimators (DESIGN.md keys), the
  * profile interval and the logit-scale Wald interval at `level`, the profile curve, the LR test
  * of rho = 0 and the other diagnostics (diagnostics.ts), and the implications (quantile999,
- * capital at the estimate and at the profile interval's ends). The bootstrap, when asked for, is
- * described in `bootstrap` for the caller to run (bootstrapRange over any split of [0, B)) and
- * attach with {@link attachBootstrap}.
+ * capital at the estimate and at the profile interval's ends). The bootstrap and the audit, when
+ * asked for, are described in `bootstrap` and `audit` for the caller to run (bootstrapRange and
+ * auditRange over any split of their index ranges) and attach with {@link completeSegmentFit}.
  *
  * Special cases: binomialMle undefined or not converged: its intervals, profile curve and
- * implications are null/empty and a warning says why; a bootstrap asked for then becomes the
- * `bootstrap-unavailable` warning. Invalid input throws RangeError naming the segment and period.
+ * implications are null/empty and a warning says why; a bootstrap or audit asked for then becomes
+ * the `bootstrap-unavailable` or `audit-unavailable` warning. Invalid input throws RangeError
+ * naming the segment and period.
  */
 export function prepareSegmentFit(input: PanelInput, options: FitPanelOptions = {}): PreparedFit {
   assertPanelInput(input);
@@ -301,7 +326,7 @@ export function prepareSegmentFit(input: PanelInput, options: FitPanelOptions = 
 
   let bootstrap: PreparedFit['bootstrap'] = null;
   if (options.bootstrap) {
-    if (usable && mle.rho! < 1) {
+    if (usable) {
       bootstrap = {
         spec: { obligors: panel.obligors, pd: mle.pd!, rho: mle.rho!, seed: options.bootstrap.seed },
         replications: options.bootstrap.replications,
@@ -310,6 +335,21 @@ export function prepareSegmentFit(input: PanelInput, options: FitPanelOptions = 
       warnings.push({
         code: 'bootstrap-unavailable',
         message: 'No bootstrap was run: it simulates at the likelihood estimate, and there is none for these data.',
+      });
+    }
+  }
+
+  let audit: PreparedFit['audit'] = null;
+  if (options.audit) {
+    if (usable) {
+      audit = {
+        spec: { obligors: panel.obligors, pd: mle.pd!, rho: mle.rho!, seed: options.audit.seed, level },
+        replications: options.audit.replications,
+      };
+    } else {
+      warnings.push({
+        code: 'audit-unavailable',
+        message: 'No estimator audit was run: it simulates at the likelihood estimate, and there is none for these data.',
       });
     }
   }
@@ -337,45 +377,64 @@ export function prepareSegmentFit(input: PanelInput, options: FitPanelOptions = 
       defaults: panel.defaults[t],
       dr: panel.defaults[t] / panel.obligors[t],
     })),
+    estimatorAudit: null,
   };
-  return { fit, bootstrap };
+  return { fit, bootstrap, audit };
 }
 
 /** Share of failed bootstrap replications above which a warning is added (5%). */
 export const BOOTSTRAP_FAILURE_WARNING_SHARE = 0.05;
 
+/** The replications computed for a prepared fit (each merged from any split of its index range). */
+export interface FitReplications {
+  bootstrap?: readonly BootstrapReplication[];
+  audit?: readonly AuditReplication[];
+}
+
 /**
- * Stage 2 of a segment fit: puts the bootstrap replications (all of [0, B), merged from any
- * split) into the fit as `estimates.binomialMle.intervals.bootstrap` (summariseBootstrap), adding
- * a `bootstrap-failures` warning when more than 5% of the replications gave no estimate, or
- * `bootstrap-unavailable` when fewer than 2 did. Returns a new object; the input is not changed.
+ * Stage 2 of a segment fit: puts the replications planned by {@link prepareSegmentFit} into the
+ * fit. Bootstrap: `estimates.binomialMle.intervals.bootstrap` (summariseBootstrap), with a
+ * `bootstrap-failures` warning when more than 5% of the replications gave no estimate, or
+ * `bootstrap-unavailable` when fewer than 2 did. Audit: `estimatorAudit` (mergeAudit). Returns a
+ * new object; the input is not changed.
+ *
+ * Special cases: replications for a part that was not planned, a planned part without its
+ * replications, or the wrong number of them throw RangeError.
+ *
+ * @example completeSegmentFit(prepared, { bootstrap: bootstrapRange(prepared.bootstrap.spec, 0, B) })
  */
-export function attachBootstrap(
-  prepared: PreparedFit,
-  replications: readonly BootstrapReplication[],
-): SegmentFit {
-  const { fit, bootstrap } = prepared;
-  if (bootstrap === null) throw new RangeError('attachBootstrap: this fit did not plan a bootstrap.');
-  if (replications.length !== bootstrap.replications) {
-    throw new RangeError(`attachBootstrap: expected ${bootstrap.replications} replications, got ${replications.length}.`);
+export function completeSegmentFit(prepared: PreparedFit, replications: FitReplications): SegmentFit {
+  const { fit } = prepared;
+  for (const part of ['bootstrap', 'audit'] as const) {
+    const planned = prepared[part];
+    const got = replications[part];
+    if (planned === null && got !== undefined) throw new RangeError(`completeSegmentFit: this fit did not plan a ${part}.`);
+    if (planned !== null && got === undefined) throw new RangeError(`completeSegmentFit: the ${part} replications are missing.`);
+    if (planned !== null && got!.length !== planned.replications) {
+      throw new RangeError(`completeSegmentFit: expected ${planned.replications} ${part} replications, got ${got!.length}.`);
+    }
   }
   const warnings = fit.warnings.slice();
   let interval: BootstrapInterval | null = null;
-  const failed = replications.filter((r) => r.rho === null).length;
-  if (replications.length - failed < 2) {
-    warnings.push({
-      code: 'bootstrap-unavailable',
-      message: `Only ${replications.length - failed} of ${replications.length} bootstrap replications gave an estimate, so there is no bootstrap interval.`,
-    });
-  } else {
-    interval = summariseBootstrap(replications, bootstrap.spec, fit.level);
-    if (interval.failed > BOOTSTRAP_FAILURE_WARNING_SHARE * interval.replications) {
+  if (prepared.bootstrap !== null) {
+    const reps = replications.bootstrap!;
+    const failed = reps.filter((r) => r.rho === null).length;
+    if (reps.length - failed < 2) {
       warnings.push({
-        code: 'bootstrap-failures',
-        message: `${interval.failed} of ${interval.replications} bootstrap replications gave no estimate (most often: ${interval.failures[0].reason}). The interval and bias use the others, so they describe the estimator only when it gives a value.`,
+        code: 'bootstrap-unavailable',
+        message: `Only ${reps.length - failed} of ${reps.length} bootstrap replications gave an estimate, so there is no bootstrap interval.`,
       });
+    } else {
+      interval = summariseBootstrap(reps, prepared.bootstrap.spec, fit.level);
+      if (interval.failed > BOOTSTRAP_FAILURE_WARNING_SHARE * interval.replications) {
+        warnings.push({
+          code: 'bootstrap-failures',
+          message: `${interval.failed} of ${interval.replications} bootstrap replications gave no estimate (most often: ${interval.failures[0].reason}). The interval and bias use the others, so they describe the estimator only when it gives a value.`,
+        });
+      }
     }
   }
+  const estimatorAudit = prepared.audit === null ? null : mergeAudit([replications.audit!], prepared.audit.spec);
   return {
     ...fit,
     estimates: {
@@ -383,12 +442,14 @@ export function attachBootstrap(
       binomialMle: { ...fit.estimates.binomialMle, intervals: { ...fit.estimates.binomialMle.intervals, bootstrap: interval } },
     },
     warnings,
+    estimatorAudit,
   };
 }
 
 /**
  * Fits one segment's panel in this thread: {@link prepareSegmentFit}, the bootstrap over [0, B)
- * when asked for, and {@link attachBootstrap}. See SegmentFit for the result.
+ * and the audit over [0, R) when asked for, and {@link completeSegmentFit}. See SegmentFit for the
+ * result.
  *
  * @example fitPanel({ segment: 'SME', periods: ['2015', '2016', ...], obligors: [...], defaults: [...] }, { level: 0.95 })
  *
@@ -396,7 +457,9 @@ export function attachBootstrap(
  */
 export function fitPanel(input: PanelInput, options: FitPanelOptions = {}): SegmentFit {
   const prepared = prepareSegmentFit(input, options);
-  if (prepared.bootstrap === null) return prepared.fit;
-  const reps = bootstrapRange(prepared.bootstrap.spec, 0, prepared.bootstrap.replications);
-  return attachBootstrap(prepared, reps);
+  if (prepared.bootstrap === null && prepared.audit === null) return prepared.fit;
+  return completeSegmentFit(prepared, {
+    ...(prepared.bootstrap ? { bootstrap: bootstrapRange(prepared.bootstrap.spec, 0, prepared.bootstrap.replications) } : {}),
+    ...(prepared.audit ? { audit: auditRange(prepared.audit.spec, 0, prepared.audit.replications) } : {}),
+  });
 }

@@ -46,6 +46,15 @@ describe('fitPanelParallel', () => {
     expect(pct.at(-1)).toBe(100);
   });
 
+  it('runs the estimator audit beside the bootstrap with the same numbers as fitPanel', async () => {
+    const both = { bootstrap: { replications: 8, seed: 7 }, audit: { replications: 6, seed: 9 } };
+    const messages: string[] = [];
+    const two = withoutTiming(await fitPanelParallel(panelA, both, { threads: 2, onProgress: (_, m) => void messages.push(m) }));
+    expect(two).toEqual(fitPanel(panelA, both));
+    expect(two.estimatorAudit!.replications).toBe(6);
+    expect(messages.at(-1)).toMatch(/Bootstrap and estimator audit: 100%/);
+  });
+
   it('reuses a started pool across segments', async () => {
     const pool = new EnginePool(2);
     pools.push(pool);

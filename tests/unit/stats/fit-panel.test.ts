@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import engine from '@/tests/fixtures/engine/engine-fixtures.json';
 import ref from '@/tests/fixtures/engine/diagnostics-fixtures.json';
-import { attachBootstrap, fitPanel, prepareSegmentFit, type PanelInput } from '@/lib/stats/fit-panel';
+import { completeSegmentFit, fitPanel, prepareSegmentFit, type PanelInput } from '@/lib/stats/fit-panel';
+import { auditRange } from '@/lib/stats/audit';
 import { bootstrapRange } from '@/lib/stats/intervals/bootstrap';
 import { ESTIMATOR_KEYS } from '@/lib/stats/estimators/types';
 import { ENGINE_VERSION } from '@/lib/stats/version';
@@ -155,16 +156,33 @@ describe('edge panels', () => {
   });
 });
 
-describe('bootstrap in fitPanel', () => {
-  it('equals prepare + any split of the replications + attach', () => {
-    const opts = { bootstrap: { replications: 12, seed: 42 } };
+describe('bootstrap and audit in fitPanel', () => {
+  it('equal prepare + any split of the replications + complete', () => {
+    const opts = { bootstrap: { replications: 12, seed: 42 }, audit: { replications: 6, seed: 43 } };
     const whole = fitPanel(input('A'), opts);
     const prepared = prepareSegmentFit(input('A'), opts);
     const spec = prepared.bootstrap!.spec;
     const reps = [...bootstrapRange(spec, 7, 12), ...bootstrapRange(spec, 0, 7)];
-    expect(attachBootstrap(prepared, reps)).toEqual(whole);
+    const audit = [...auditRange(prepared.audit!.spec, 4, 6), ...auditRange(prepared.audit!.spec, 0, 4)];
+    expect(completeSegmentFit(prepared, { bootstrap: reps, audit })).toEqual(whole);
     const b = whole.estimates.binomialMle.intervals.bootstrap!;
     expect(b).toMatchObject({ level: 0.95, replications: 12, seed: 42, failed: 0 });
     expect(b.lower).toBeLessThanOrEqual(b.upper);
+    // the audit simulates at the fitted values with the segment's own n_t (issue 3)
+    expect(whole.estimatorAudit).toMatchObject({ replications: 6, seed: 43, periods: 10 });
+    expect(whole.estimatorAudit!.truth).toEqual({ pd: whole.estimates.binomialMle.pd, rho: whole.estimates.binomialMle.rho });
+    expect(() => completeSegmentFit(prepared, { bootstrap: reps })).toThrow(/audit replications are missing/);
+    expect(() => completeSegmentFit(prepareSegmentFit(input('A')), { bootstrap: reps })).toThrow(/did not plan a bootstrap/);
+  });
+
+  it('no audit without an estimate, and none unless asked for', () => {
+    expect(fitPanel(input('A')).estimatorAudit).toBeNull();
+    const f = fitPanel(
+      { segment: 'quiet', periods: years(6), obligors: [100, 100, 100, 100, 100, 100], defaults: [0, 0, 0, 0, 0, 0] },
+      { audit: { replications: 5, seed: 1 } },
+    );
+    expect(f.estimatorAudit).toBeNull();
+    expect(f.warnings.map((w) => w.code)).toContain('audit-unavailable');
+    expect(() => fitPanel(input('A'), { audit: { replications: 1, seed: 1 } })).toThrow(/audit needs/);
   });
 });
