@@ -1,0 +1,199 @@
+/**
+ * Estimation-engine benchmark (`npm run bench`), on the T = 20 panel with cohorts of 5,000-48,700
+ * obligors that is also in the SciPy fixtures (panel E of tests/fixtures/engine/make_fixtures.py).
+ * Prints the median wall time (and the median CPU time of the whole process, all threads) of:
+ *
+ * 1. each moment estimator and the closed form;
+ * 2. binomialMle alone, and binomialMle with the profile and Wald intervals (target < 25 ms);
+ * 3. a parametric bootstrap of B = 1000 through lib/engine's worker threads (target < 3 s), and
+ *    for comparison the same in this thread;
+ * 4. an estimator audit of R = 200 (through the worker threads when lib/engine has an audit task,
+ *    otherwise in this thread; the table says which);
+ * 5. the SciPy reference (python3 tests/fixtures/engine/reference_mle.py: the same full MLE with the
+ *    profile interval, its own timer around the computation only) on the same panel, with the
+ *    speed ratio and the differences of the answers (target: >= 20 times faster, same answer).
+ *
+ * Wall times depend on what else runs on the machine: the load average is printed beside them.
+ * Options: --runs N (repetitions of the slow items, default 3), --threads N (default: available
+ * parallelism), --no-scipy.
+ */
+import { spawnSync } from 'node:child_process';
+import os from 'node:os';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import fixtures from '@/tests/fixtures/engine/engine-fixtures.json';
+import { EnginePool, defaultThreads, splitRange, type EngineTask } from '@/lib/engine';
+import { estimatorAudit, mergeAudit, type AuditReplication, type AuditSpec, type AuditSummary } from '@/lib/stats/audit';
+import { binomialMle, binomialMleWithProfile } from '@/lib/stats/estimators/binomial-mle';
+import { jointDefault } from '@/lib/stats/estimators/joint-default';
+import { momentVariance } from '@/lib/stats/estimators/moment-variance';
+import { momentVarianceCorrected } from '@/lib/stats/estimators/moment-variance-corrected';
+import { vasicekMle } from '@/lib/stats/estimators/vasicek-mle';
+import { parametricBootstrap, summariseBootstrap, type BootstrapReplication, type BootstrapSpec } from '@/lib/stats/intervals/bootstrap';
+import { profileInterval } from '@/lib/stats/intervals/profile';
+import { waldInterval } from '@/lib/stats/intervals/wald';
+
+const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
+const panel = { obligors: fixtures.panels.E.obligors, defaults: fixtures.panels.E.defaults };
+
+function arg(name: string, fallback: string): string {
+  const i = process.argv.indexOf(name);
+  return i >= 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
+}
+const RUNS = Math.max(1, Number(arg('--runs', '3')));
+const THREADS = Math.max(1, Number(arg('--threads', String(defaultThreads()))));
+
+const median = (xs: number[]) => {
+  const s = [...xs].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+};
+
+interface Timing {
+  wallMs: number;
+  cpuMs: number;
+  bestMs: number;
+}
+
+/** Median wall and CPU time of fn over `runs` runs (after `warmup` unmeasured runs). */
+async function time(fn: () => unknown, runs: number, warmup = 1): Promise<Timing> {
+  for (let i = 0; i < warmup; i++) await fn();
+  const wall: number[] = [];
+  const cpu: number[] = [];
+  for (let i = 0; i < runs; i++) {
+    const c0 = process.cpuUsage();
+    const t0 = performance.now();
+    await fn();
+    wall.push(performance.now() - t0);
+    const c = process.cpuUsage(c0);
+    cpu.push((c.user + c.system) / 1000);
+  }
+  return { wallMs: median(wall), cpuMs: median(cpu), bestMs: Math.min(...wall) };
+}
+
+const fmt = (ms: number) => (ms < 1 ? `${(ms * 1000).toFixed(1)} us` : ms < 1000 ? `${ms.toFixed(2)} ms` : `${(ms / 1000).toFixed(2)} s`);
+const rows: [string, string, string, string, string][] = [];
+function row(name: string, t: Timing, note = ''): void {
+  rows.push([name, fmt(t.wallMs), fmt(t.bestMs), fmt(t.cpuMs), note]);
+}
+
+function fullMle() {
+  const { result, profile } = binomialMleWithProfile(panel);
+  const p = profileInterval(profile!, result);
+  const w = waldInterval(profile!, result);
+  return { result, profile: p, wald: w, evaluations: profile!.likelihood.evaluations };
+}
+
+async function main(): Promise<void> {
+  const load0 = os.loadavg();
+  console.log(`Rhobook engine benchmark: T = ${panel.obligors.length}, cohorts ${Math.min(...panel.obligors)}-${Math.max(...panel.obligors)} (fixture panel E)`);
+  console.log(`node ${process.version}, ${os.cpus().length} CPUs, load average ${load0.map((x) => x.toFixed(2)).join(' ')}\n`);
+
+  for (const [name, fn] of [
+    ['momentVariance', () => momentVariance(panel)],
+    ['momentVarianceCorrected', () => momentVarianceCorrected(panel)],
+    ['jointDefault', () => jointDefault(panel)],
+    ['vasicekMle', () => vasicekMle(panel)],
+  ] as const) {
+    row(name, await time(fn, 201, 20));
+  }
+  row('binomialMle', await time(() => binomialMle(panel), 31, 3));
+  const full = fullMle();
+  const fullTiming = await time(fullMle, 31, 3);
+  row('binomialMle + profile + Wald', fullTiming, `${full.evaluations} likelihood evaluations; target < 25 ms`);
+
+  const spec: BootstrapSpec = { obligors: panel.obligors, pd: full.result.pd!, rho: full.result.rho!, seed: 7 };
+  const B = 1000;
+  const pool = new EnginePool(THREADS);
+  await pool.start();
+  let threaded: ReturnType<typeof summariseBootstrap> | null = null;
+  const tasks: EngineTask[] = splitRange(B, 25).map(({ from, to }) => ({ kind: 'bootstrap', spec, from, to }));
+  const poolTiming = await time(
+    async () => {
+      const results = await pool.run(tasks);
+      const reps: BootstrapReplication[] = results.flatMap((r) => (r.kind === 'bootstrap' ? r.replications : []));
+      threaded = summariseBootstrap(reps, spec);
+    },
+    RUNS,
+    0,
+  );
+  row(`bootstrap B = ${B}, ${THREADS} worker threads`, poolTiming, 'lib/engine pool (started beforehand); target < 3 s; CPU: whole process, all threads');
+  let inProcess: ReturnType<typeof parametricBootstrap> | null = null;
+  row(`bootstrap B = ${B}, this thread`, await time(() => (inProcess = parametricBootstrap(spec, B)), 1, 0), 'for comparison');
+  const same = JSON.stringify(threaded) === JSON.stringify(inProcess);
+
+  // The audit through the pool when lib/engine knows an 'audit' task (kind checked at run time, so
+  // this file does not depend on that task type), otherwise in this thread.
+  const auditSpec: AuditSpec = { ...spec, seed: 11 };
+  let audit: AuditSummary | null = null;
+  let auditNote = 'in this thread';
+  const auditTasks = splitRange(200, 10).map(({ from, to }) => ({ kind: 'audit', spec: auditSpec, from, to }) as unknown as EngineTask);
+  try {
+    const probe = await pool.run(auditTasks.slice(0, 1));
+    if ((probe[0] as { kind: string }).kind !== 'audit') throw new Error('no audit task');
+    auditNote = `lib/engine pool, ${THREADS} worker threads`;
+  } catch {
+    auditNote = 'in this thread (lib/engine has no audit task)';
+  }
+  if (auditNote.startsWith('lib/engine')) {
+    row('estimator audit R = 200', await time(async () => {
+      const results = await pool.run(auditTasks);
+      const parts = results.map((r) => (r as unknown as { replications: AuditReplication[] }).replications);
+      audit = mergeAudit(parts, auditSpec);
+    }, RUNS, 0), auditNote);
+  } else {
+    row('estimator audit R = 200', await time(() => (audit = estimatorAudit(auditSpec, 200), 0), RUNS, 0), auditNote);
+  }
+  await pool.close();
+
+  let scipyLine = 'SciPy reference skipped (--no-scipy)';
+  let agreement = '';
+  if (!process.argv.includes('--no-scipy')) {
+    const script = path.join(ROOT, 'tests/fixtures/engine/reference_mle.py');
+    const secs: number[] = [];
+    let ref: { rho: number; pd: number; logLik: number; profile: { lower: number; upper: number }; scipy: string } | null = null;
+    for (let i = 0; i < RUNS; i++) {
+      const out = spawnSync('python3', [script, JSON.stringify({ ...panel, level: 0.95 })], { encoding: 'utf8' });
+      if (out.status !== 0) throw new Error(`reference_mle.py failed: ${out.stderr}`);
+      const parsed = JSON.parse(out.stdout);
+      secs.push(parsed.seconds);
+      ref = parsed;
+    }
+    const scipyMs = median(secs) * 1000;
+    rows.push([`SciPy ${ref!.scipy} reference (MLE + profile)`, fmt(scipyMs), fmt(Math.min(...secs) * 1000), '', 'its own timer, computation only']);
+    scipyLine = `speed ratio SciPy / Rhobook (MLE + profile + Wald, medians): ${(scipyMs / fullTiming.wallMs).toFixed(1)}x (target >= 20x)`;
+    const r = full.result;
+    agreement = [
+      `agreement with SciPy: |d rho| = ${Math.abs(r.rho! - ref!.rho).toExponential(1)}`,
+      `|d pd| = ${Math.abs(r.pd! - ref!.pd).toExponential(1)}`,
+      `|d logLik| = ${Math.abs(r.logLik! - ref!.logLik).toExponential(1)}`,
+      `|d lower| = ${Math.abs(full.profile.lower - ref!.profile.lower).toExponential(1)}`,
+      `|d upper| = ${Math.abs(full.profile.upper - ref!.profile.upper).toExponential(1)}`,
+    ].join(', ');
+  }
+
+  const header: [string, string, string, string, string] = ['item', 'median', 'best', 'median CPU', 'note'];
+  const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
+  const line = (r: string[]) => r.map((c, i) => (i === 0 || i === 4 ? c.padEnd(widths[i]) : c.padStart(widths[i]))).join('  ');
+  console.log(line(header));
+  for (const r of rows) console.log(line(r));
+  const b = threaded as ReturnType<typeof summariseBootstrap> | null;
+  const a = audit as AuditSummary | null;
+  console.log(`\nestimate: rho = ${full.result.rho!.toFixed(6)}, pd = ${full.result.pd!.toFixed(6)}, logLik = ${full.result.logLik!.toFixed(6)}`);
+  console.log(`profile 95%: [${full.profile.lower.toFixed(6)}, ${full.profile.upper.toFixed(6)}]; Wald 95%: [${full.wald!.lower.toFixed(6)}, ${full.wald!.upper.toFixed(6)}], se ${full.wald!.se.toFixed(6)}`);
+  if (b) console.log(`bootstrap 95%: [${b.lower.toFixed(6)}, ${b.upper.toFixed(6)}], bias ${b.bias.toFixed(6)}, failed ${b.failed}; threads and this thread give the same result: ${same}`);
+  if (a) {
+    console.log(
+      `audit: binomialMle bias ${a.estimators.binomialMle.bias!.toFixed(5)} (mcse ${a.estimators.binomialMle.biasMcse!.toFixed(5)}), RMSE ${a.estimators.binomialMle.rmse!.toFixed(5)}; ` +
+        `profile coverage ${a.coverage.profile.coverage!.toFixed(3)}, Wald ${a.coverage.wald.coverage!.toFixed(3)} (mcse ${a.coverage.profile.mcse!.toFixed(3)})`,
+    );
+  }
+  console.log(scipyLine);
+  if (agreement) console.log(agreement);
+  console.log(`load average at the end: ${os.loadavg().map((x) => x.toFixed(2)).join(' ')}`);
+}
+
+main().catch((err) => {
+  console.error(err instanceof Error ? err.message : err);
+  process.exit(1);
+});
