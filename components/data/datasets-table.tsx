@@ -26,7 +26,7 @@ function sortValue(d: DatasetDto, key: SortKey): string | number {
 }
 
 /** The datasets, sortable by any column and filtered by text, kind and status. */
-export function DatasetsTable({ initial }: { initial: DatasetDto[] }) {
+export function DatasetsTable({ initial, canUpload = false }: { initial: DatasetDto[]; canUpload?: boolean }) {
   const { data = [] } = useQuery(datasetsQuery(initial));
   const [text, setText] = useState('');
   const [kind, setKind] = useState('');
@@ -118,12 +118,20 @@ export function DatasetsTable({ initial }: { initial: DatasetDto[] }) {
                 <td>{d.uploadedBy.name}</td>
                 <td className="num whitespace-nowrap text-xs">{formatWhen(d.createdAt)}</td>
                 <td className="num text-right">
-                  {d.rowCount}
-                  <div className="text-xs text-[var(--color-muted)]">{d.segmentCount} seg.</div>
+                  {d.status === 'ready' ? d.rowCount.toLocaleString('en-GB') : '—'}
+                  {d.status === 'ready' ? (
+                    <div className="text-xs text-[var(--color-muted)]">
+                      {d.segmentCount} segment{d.segmentCount === 1 ? '' : 's'}
+                    </div>
+                  ) : null}
                 </td>
                 <td className="whitespace-nowrap">
                   <StatusBadge d={d} />
-                  {d.warningCount > 0 ? <div className="text-xs text-[var(--color-caution)]">{d.warningCount} warnings</div> : null}
+                  {d.warningCount > 0 ? (
+                    <div className="text-xs text-[var(--color-caution)]">
+                      {d.warningCount.toLocaleString('en-GB')} warning{d.warningCount === 1 ? '' : 's'}
+                    </div>
+                  ) : null}
                 </td>
                 <td className="num text-xs" title={d.sha256}>
                   {d.sha256.slice(0, 12)}…
@@ -132,17 +140,27 @@ export function DatasetsTable({ initial }: { initial: DatasetDto[] }) {
             ))}
             {rows.length === 0 ? (
               <tr>
-                <td colSpan={8} className="text-[var(--color-muted)]">
-                  {data.length === 0 ? 'No datasets yet.' : 'No dataset matches the filter.'}
+                <td colSpan={8} className="py-6 text-center text-[var(--color-muted)]">
+                  {data.length > 0 ? (
+                    'No dataset matches the filter.'
+                  ) : canUpload ? (
+                    <>
+                      No datasets yet — <Link href="/data/upload">upload one</Link> (a sample file of each kind is offered there).
+                    </>
+                  ) : (
+                    'No datasets yet. Analysts upload them; they will appear here.'
+                  )}
                 </td>
               </tr>
             ) : null}
           </tbody>
         </table>
       </div>
-      <p className="text-xs text-[var(--color-muted)]">
-        {rows.length} of {data.length} datasets shown.
-      </p>
+      {data.length > 0 ? (
+        <p className="text-xs text-[var(--color-muted)]">
+          {rows.length} of {data.length} dataset{data.length === 1 ? '' : 's'} shown. Click a column heading to sort.
+        </p>
+      ) : null}
     </div>
   );
 }
@@ -157,7 +175,7 @@ export function StatusBadge({ d }: { d: Pick<DatasetDto, 'status' | 'job'> }) {
   return (
     <span className={`badge ${cls}`}>
       {statusLabels[d.status]}
-      {d.status === 'processing' && d.job ? ` ${d.job.progress}%` : ''}
+      {d.status === 'processing' && d.job ? (d.job.status === 'queued' ? ', waiting' : ` ${d.job.progress}%`) : ''}
     </span>
   );
 }

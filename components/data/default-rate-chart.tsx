@@ -11,14 +11,20 @@ export function DefaultRateChart({ name, rows }: { name: string; rows: { period:
     },
   ];
   const mean = rows.reduce((s, r) => s + r.defaults, 0) / Math.max(1, rows.reduce((s, r) => s + r.obligors, 0));
+  // Whole years only on the axis (a linear scale would label 2015.2, 2015.4, ... for short histories).
+  const first = Math.min(...rows.map((r) => r.period));
+  const last = Math.max(...rows.map((r) => r.period));
+  const step = Math.max(1, Math.ceil((last - first) / 10));
+  const ticks: number[] = [];
+  for (let y = first; y <= last; y += step) ticks.push(y);
   return (
     <figure className="h-56" aria-label={`Default rate by period, ${name}`} data-testid="default-rate-chart">
       <ResponsiveLine
         data={data}
         margin={{ top: 12, right: 16, bottom: 36, left: 52 }}
-        xScale={{ type: 'linear', min: 'auto', max: 'auto' }}
+        xScale={{ type: 'linear', min: first, max: Math.max(last, first + 1) }}
         yScale={{ type: 'linear', min: 0, max: 'auto' }}
-        axisBottom={{ tickSize: 4, legend: 'period', legendOffset: 28, legendPosition: 'middle', format: (v) => String(v) }}
+        axisBottom={{ tickSize: 4, tickValues: ticks, legend: 'period', legendOffset: 28, legendPosition: 'middle', format: (v) => String(v) }}
         axisLeft={{ tickSize: 4, legend: 'default rate, %', legendOffset: -44, legendPosition: 'middle' }}
         colors={['#1f5f6b']}
         pointSize={5}

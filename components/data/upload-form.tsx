@@ -4,7 +4,9 @@ import { useQuery } from '@tanstack/react-query';
 import Link from 'next/link';
 import { useRef, useState, type DragEvent } from 'react';
 import type { UploadIssue } from '@/lib/datasets/store';
+import type { FindingSummary } from '@/lib/ingest/findings';
 import { formatSize } from './format';
+import { ProgressBar } from './progress-bar';
 import { uploadReportQuery } from './queries';
 import { ReportTable } from './report-table';
 
@@ -19,7 +21,7 @@ const kinds: { value: Kind; label: string; columns: string; sample: string }[] =
 type Outcome =
   | { type: 'accepted'; id: number; rows: number; segments: string[]; warnings: UploadIssue[] }
   | { type: 'queued'; id: number; reportId: number }
-  | { type: 'rejected'; message: string; issues: UploadIssue[]; reportId: number | null }
+  | { type: 'rejected'; message: string; issues: UploadIssue[]; reportId: number | null; summary?: FindingSummary }
   | { type: 'duplicate'; message: string; datasetId: number }
   | { type: 'error'; message: string };
 
@@ -42,7 +44,10 @@ function toOutcome(status: number, body: Record<string, unknown>): Outcome {
   if (status === 201) return { type: 'accepted', id: body.id as number, rows: body.rows as number, segments: body.segments as string[], warnings: body.warnings as UploadIssue[] };
   if (status === 202) return { type: 'queued', id: body.id as number, reportId: body.reportId as number };
   const message = typeof body.message === 'string' ? body.message : `The server answered ${status}.`;
-  if (status === 422 && body.code === 'invalid:upload') return { type: 'rejected', message, issues: body.issues as UploadIssue[], reportId: (body.reportId as number) ?? null };
+  if (status === 422 && body.code === 'invalid:upload') {
+    return { type: 'rejected', message, issues: body.issues as UploadIssue[], reportId: (body.reportId as number) ?? null, summary: body.summary as FindingSummary | undefined };
+  }
+  if (status === 0) return { type: 'error', message };
   if (status === 409 && typeof body.datasetId === 'number') return { type: 'duplicate', message, datasetId: body.datasetId };
   return { type: 'error', message };
 }
@@ -77,6 +82,11 @@ export function UploadForm({ supersedable }: { supersedable: { id: number; name:
     const { status, body } = await send(data, setProgress);
     setProgress(null);
     setOutcome(toOutcome(status, body));
+    if (status === 201 || status === 202) {
+      // A new dataset: clear the chosen file so that the same bytes are not sent twice by mistake.
+      setFile(null);
+      if (inputRef.current) inputRef.current.value = '';
+    }
   }
 
   return (
@@ -174,15 +184,22 @@ export function UploadForm({ supersedable }: { supersedable: { id: number; name:
 
         <div className="flex items-center gap-4">
           <button type="submit" className="btn" disabled={progress !== null}>
-            {progress !== null ? 'Uploading…' : 'Upload and validate'}
+            {progress === null ? 'Upload and validate' : progress < 1 ? 'Uploading…' : 'Checking…'}
           </button>
           {progress !== null ? (
-            <div className="flex flex-1 items-center gap-2">
-              <label htmlFor="upload-progress" className="text-sm text-[var(--color-muted)]">
-                Sent
-              </label>
-              <progress id="upload-progress" max={1} value={progress} className="h-2 flex-1 accent-[var(--color-accent)]" />
-              <span className="num text-sm">{Math.round(progress * 100)}%</span>
+            <div className="flex flex-1 items-center gap-3" role="status">
+              <span className="w-44 text-sm text-[var(--color-muted)]">
+                {progress < 1 ? (
+                  <>
+                    Sending <span className="num">{Math.round(progress * 100)}%</span>
+                  </>
+                ) : kind === 'loans' ? (
+                  'Sent; storing the tape…'
+                ) : (
+                  'Sent; checking every row…'
+                )}
+              </span>
+              <ProgressBar value={progress < 1 ? progress : null} label="Upload progress" />
             </div>
           ) : null}
         </div>
@@ -207,13 +224,13 @@ function OutcomeView({ outcome }: { outcome: Outcome }) {
             <Link className="font-medium underline" href={`/data/${outcome.id}`}>Open the dataset</Link>
             {outcome.warnings.length > 0 ? ' to review or waive its warnings.' : '.'}
           </p>
-          {outcome.warnings.length > 0 ? <ReportTable issues={outcome.warnings} caption="Warnings" /> : null}
+          {outcome.warnings.length > 0 ? <ReportTable issues={outcome.warnings} caption="Warnings of the accepted file" /> : null}
         </section>
       );
     case 'queued':
       return <QueuedView id={outcome.id} reportId={outcome.reportId} />;
     case 'rejected':
-      return <RejectedView message={outcome.message} issues={outcome.issues} reportId={outcome.reportId} />;
+      return <RejectedView message={outcome.message} issues={outcome.issues} reportId={outcome.reportId} summary={outcome.summary} />;
     case 'duplicate':
       return (
         <p className="notice-caution" role="alert">
@@ -229,21 +246,23 @@ function OutcomeView({ outcome }: { outcome: Outcome }) {
   }
 }
 
-function RejectedView({ message, issues, reportId }: { message: string; issues: UploadIssue[]; reportId: number | null }) {
+function RejectedView({ message, issues, reportId, summary }: { message: string; issues: UploadIssue[]; reportId: number | null; summary?: FindingSummary }) {
   return (
     <section className="space-y-3" aria-label="Validation report">
       <p className="notice-bad" role="alert">
         {message}
       </p>
-      <div className="flex items-center justify-between">
-        <h2>Validation report</h2>
-        {reportId !== null ? (
-          <a className="btn btn-quiet text-sm" href={`/api/datasets/reports/${reportId}/report.csv`} download>
-            Download the report (CSV)
-          </a>
-        ) : null}
+      <div className="panel space-y-3 p-5">
+        <div className="flex items-center justify-between">
+          <h2>Validation report</h2>
+          {reportId !== null ? (
+            <a className="btn btn-quiet text-sm" href={`/api/datasets/reports/${reportId}/report.csv`} download>
+              Download the report (CSV)
+            </a>
+          ) : null}
+        </div>
+        <ReportTable issues={issues} caption="Validation report" summary={summary} />
       </div>
-      <ReportTable issues={issues} caption="Validation report" />
     </section>
   );
 }
@@ -251,30 +270,47 @@ function RejectedView({ message, issues, reportId }: { message: string; issues: 
 function QueuedView({ id, reportId }: { id: number; reportId: number }) {
   const { data: report } = useQuery(uploadReportQuery(reportId));
   if (report?.status === 'rejected') {
-    return <RejectedView message={`The loan tape was not accepted: ${report.errorCount} errors. Nothing was stored except this report.`} issues={report.issues} reportId={reportId} />;
+    const n = report.errorCount;
+    return (
+      <RejectedView
+        message={`The loan tape was not accepted: ${n.toLocaleString('en-GB')} error${n === 1 ? '' : 's'}. Nothing was stored except this report; fix the rows listed below and upload the file again.`}
+        issues={report.issues}
+        reportId={reportId}
+        summary={report.summary}
+      />
+    );
   }
   if (report?.status === 'accepted') {
     return (
       <p className="notice-good" role="status">
-        Converted: the loan tape is now a dataset of annual cohorts. <Link href={`/data/${id}`}>Open the dataset</Link>.
+        Converted: the loan tape is now a dataset of annual cohorts{report.warningCount > 0 ? ` with ${report.warningCount} warning${report.warningCount === 1 ? '' : 's'}` : ''}.{' '}
+        <Link className="font-medium underline" href={`/data/${id}`}>
+          Open the dataset
+        </Link>
+        .
       </p>
     );
   }
   if (report?.status === 'failed') {
     return (
       <p className="notice-bad" role="alert">
-        The conversion failed: {report.job?.error ?? 'unknown error'}. The file is kept; you can delete the dataset and upload it again.
+        {report.message ?? 'The conversion did not finish.'} <Link href={`/data/${id}`}>Dataset no. {id}</Link>
       </p>
     );
   }
-  const pct = report?.job?.progress ?? 0;
+  const job = report?.job ?? null;
+  const waiting = !job || job.status === 'queued';
   return (
     <div className="panel space-y-2 p-4" role="status">
       <p>
-        Stored. The worker is validating and aggregating the loan tape (dataset no. {id}).{' '}
-        {report?.job?.status === 'queued' ? 'Waiting for a worker…' : report?.job?.message ?? ''}
+        Stored as dataset no. {id}. The worker checks every row and counts the annual cohorts; you can leave this page, the
+        dataset list shows the progress too.
       </p>
-      <progress max={100} value={pct} className="h-2 w-full" aria-label="Conversion progress" />
+      <div className="flex items-center gap-3">
+        <ProgressBar value={waiting ? null : job.progress / 100} label="Conversion progress" />
+        <span className="num w-12 text-right text-sm">{waiting ? '' : `${job.progress}%`}</span>
+      </div>
+      <p className="text-sm text-[var(--color-muted)]">{waiting ? 'Waiting for a worker…' : job.message ?? ''}</p>
     </div>
   );
 }

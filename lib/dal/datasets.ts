@@ -1,12 +1,14 @@
 import 'server-only';
-import { asc, desc, eq, inArray } from 'drizzle-orm';
+import { asc, count, desc, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
 import { getDb } from '@/db/client';
 import {
+  assumptionVersions,
   cohortRows,
   datasetKinds,
   datasets,
   datasetWaivers,
+  fitRuns,
   jobs,
   segments,
   uploadReports,
@@ -114,6 +116,8 @@ export type DatasetDetailDto = DatasetDto & {
   supersedes: { id: number; name: string }[];
   report: ReportDto | null;
   waivers: WaiverDto[];
+  /** fit runs and assumption versions that refer to it (while any do, it cannot be deleted) */
+  usedBy: { fits: number; assumptions: number };
   /** what the viewer may do with it */
   canManage: boolean;
   canDelete: boolean;
@@ -267,8 +271,13 @@ export async function getDataset(actor: SessionUser, id: number): Promise<Datase
     .innerJoin(users, eq(users.id, datasetWaivers.waivedBy))
     .where(eq(datasetWaivers.datasetId, id))
     .orderBy(asc(datasetWaivers.rule));
+  const [[fitUse], [assumptionUse]] = await Promise.all([
+    db.select({ n: count() }).from(fitRuns).where(eq(fitRuns.datasetId, id)),
+    db.select({ n: count() }).from(assumptionVersions).where(eq(assumptionVersions.datasetId, id)),
+  ]);
   return {
     ...base,
+    usedBy: { fits: Number(fitUse?.n ?? 0), assumptions: Number(assumptionUse?.n ?? 0) },
     conventions: (row.conventions as DatasetConventions | null) ?? null,
     censored: (row.censored as CensoredVintageYear[] | null) ?? [],
     segments: [...bySegment.values()],

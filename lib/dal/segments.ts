@@ -2,7 +2,7 @@ import 'server-only';
 import { asc, count, eq, inArray, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { getDb } from '@/db/client';
-import { assetClasses, cohortRows, segments, users, type AssetClass, type Segment } from '@/db/schema';
+import { assetClasses, cohortRows, datasets, segments, users, type AssetClass, type DatasetKind, type Segment } from '@/db/schema';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { AppError } from '@/lib/errors';
 
@@ -68,6 +68,51 @@ export async function listSegments(actor: SessionUser): Promise<SegmentDto[]> {
   return rows.map((r) =>
     toDto(r, r.ownerId !== null ? owners.get(r.ownerId) ?? null : null, Number(byId.get(r.id)?.rows ?? 0), Number(byId.get(r.id)?.datasets ?? 0)),
   );
+}
+
+/** The datasets that hold rows of a segment: its history, dataset by dataset (newest first). */
+export type SegmentDatasetDto = {
+  id: number;
+  name: string;
+  kind: DatasetKind;
+  createdAt: string;
+  supersededById: number | null;
+  rows: number;
+  firstPeriod: number;
+  lastPeriod: number;
+  obligors: number;
+  defaults: number;
+};
+
+export async function listSegmentDatasets(actor: SessionUser, segmentId: number): Promise<SegmentDatasetDto[]> {
+  assertCan(actor, 'datasets:read');
+  const rows = await getDb()
+    .select({
+      id: datasets.id,
+      name: datasets.name,
+      kind: datasets.kind,
+      createdAt: datasets.createdAt,
+      supersededById: datasets.supersededById,
+      rows: count(),
+      firstPeriod: sql<number>`MIN(${cohortRows.period})`,
+      lastPeriod: sql<number>`MAX(${cohortRows.period})`,
+      obligors: sql<number>`SUM(${cohortRows.obligors})`,
+      defaults: sql<number>`SUM(${cohortRows.defaults})`,
+    })
+    .from(cohortRows)
+    .innerJoin(datasets, eq(datasets.id, cohortRows.datasetId))
+    .where(eq(cohortRows.segmentId, segmentId))
+    .groupBy(datasets.id, datasets.name, datasets.kind, datasets.createdAt, datasets.supersededById)
+    .orderBy(sql`${datasets.id} DESC`);
+  return rows.map((r) => ({
+    ...r,
+    createdAt: r.createdAt.toISOString(),
+    rows: Number(r.rows),
+    firstPeriod: Number(r.firstPeriod),
+    lastPeriod: Number(r.lastPeriod),
+    obligors: Number(r.obligors),
+    defaults: Number(r.defaults),
+  }));
 }
 
 export async function getSegment(actor: SessionUser, id: number): Promise<SegmentDto> {

@@ -30,7 +30,7 @@ export default async function DataPage() {
         <h2 id="datasets-heading" className="mb-3">
           Datasets
         </h2>
-        <DatasetsTable initial={datasets} />
+        <DatasetsTable initial={datasets} canUpload={can(actor.role, 'datasets:upload')} />
       </section>
       <section className="panel p-5" aria-labelledby="segments-heading">
         <h2 id="segments-heading" className="mb-3">
@@ -61,14 +61,14 @@ export default async function DataPage() {
                   {s.assetClass === 'sme-corporate' && s.turnoverEurMillions !== null ? `, EUR ${s.turnoverEurMillions} m` : ''}
                 </td>
                 <td>{s.owner?.name ?? '—'}</td>
-                <td className="num text-right">{s.datasetCount}</td>
-                <td className="num text-right">{s.rowCount}</td>
+                <td className="num text-right">{s.datasetCount.toLocaleString('en-GB')}</td>
+                <td className="num text-right">{s.rowCount.toLocaleString('en-GB')}</td>
               </tr>
             ))}
             {segments.length === 0 ? (
               <tr>
-                <td colSpan={5} className="text-[var(--color-muted)]">
-                  Segments appear when a file names them.
+                <td colSpan={5} className="py-6 text-center text-[var(--color-muted)]">
+                  No segments yet. A segment appears when an accepted file names it; its asset class and owner are set on its page.
                 </td>
               </tr>
             ) : null}

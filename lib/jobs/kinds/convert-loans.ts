@@ -25,7 +25,7 @@ export function conversionFailureMessage(status: 'failed' | 'cancelled', error: 
   const why =
     status === 'cancelled'
       ? 'The conversion was cancelled before it finished.'
-      : `The conversion did not finish: ${error ?? 'no detail was recorded'}.`;
+      : `The conversion did not finish: ${(error ?? 'no detail was recorded').trim().replace(/[^.!?]$/, '$&.')}`;
   return `${why} No cohort rows were stored. Upload the same file again to retry; if it fails again, tell an administrator (the worker's log has the detail).`.slice(0, 500);
 }
 

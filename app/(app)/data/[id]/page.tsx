@@ -2,6 +2,7 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { DatasetActions } from '@/components/data/dataset-actions';
+import { ConversionStatus } from '@/components/data/conversion-status';
 import { StatusBadge } from '@/components/data/datasets-table';
 import { DefaultRateChart } from '@/components/data/default-rate-chart';
 import { formatSize, formatWhen, kindLabels } from '@/components/data/format';
@@ -32,6 +33,7 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
   const actor = await requireUser();
   const newer = d.canManage && !d.supersededBy ? (await listDatasets(actor)).filter((x) => x.id !== d.id && x.status === 'ready' && !x.supersededBy && x.createdAt >= d.createdAt) : [];
   const waived = new Set(d.waivers.map((w) => w.rule));
+  const inUse = d.usedBy.fits + d.usedBy.assumptions > 0;
   const warningRules = Object.entries(d.report?.summary.byRule ?? {})
     .filter(([rule, e]) => e.severity === 'warning' && !waived.has(rule))
     .map(([rule, e]) => ({ rule, count: e.count }));
@@ -85,16 +87,24 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
           ))}
         </p>
       ) : null}
-      {d.status === 'processing' ? (
-        <p className="notice-caution text-sm" role="status">
-          The worker is converting this loan tape ({d.job?.progress ?? 0}%{d.job?.message ? `: ${d.job.message}` : ''}). Reload the page to see the cohorts.
-        </p>
+      {d.status === 'processing' && d.report ? <ConversionStatus reportId={d.report.id} /> : null}
+      {d.status === 'failed' ? (
+        <div className="notice-bad space-y-1 text-sm" role="alert">
+          <p className="font-medium">This loan tape has no cohorts: its conversion did not finish.</p>
+          <p>{d.report?.message ?? d.job?.error ?? 'No reason was recorded.'}</p>
+          {d.canDelete ? <p>You can delete this dataset below once you have uploaded the file again.</p> : null}
+        </div>
       ) : null}
-      {d.status === 'failed' ? <p className="notice-bad text-sm">The conversion failed: {d.job?.error ?? 'unknown error'}.</p> : null}
 
       <section className="panel space-y-2 p-5" aria-labelledby="conv-heading">
         <h2 id="conv-heading">Conventions</h2>
-        <p className="text-sm">{d.conventions?.text ?? 'None recorded.'}</p>
+        <p className="text-sm">
+          {d.status === 'ready'
+            ? d.conventions?.text ?? 'None recorded.'
+            : d.status === 'processing'
+              ? 'Written here when the conversion finishes (reference date, exit convention, as-of date and the cohorts included).'
+              : 'None: the tape was not converted.'}
+        </p>
         <p className="num text-xs text-[var(--color-muted)] break-all">SHA-256 {d.sha256}</p>
         {d.censored.length > 0 ? (
           <details className="text-sm">
@@ -136,9 +146,10 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
                   <Link href={`/data/segments/${s.segmentId}`}>{s.name}</Link>
                 </h3>
                 <p className="mb-2 text-xs text-[var(--color-muted)]">
-                  {assetClassLabels[s.assetClass]} · {s.rows.length} periods
+                  {assetClassLabels[s.assetClass]} · {s.rows.length} period{s.rows.length === 1 ? '' : 's'}
+                  {s.rows.length > 0 ? `, ${s.rows[0].period}–${s.rows[s.rows.length - 1].period}` : ''}
                 </p>
-                <div className="max-h-64 overflow-auto">
+                <div className="max-h-72 overflow-auto">
                   <table className="table">
                     <caption className="sr-only">Obligors and defaults by period, {s.name}</caption>
                     <thead>
@@ -178,8 +189,11 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
         <section className="panel space-y-3 p-5" aria-labelledby="report-heading">
           <h2 id="report-heading">Validation report</h2>
           <p className="text-sm text-[var(--color-muted)]">
-            {d.report.errorCount} errors, {d.report.warningCount} warnings
-            {d.report.summary.truncated ? ' (only the first 1,000 findings of each rule are kept)' : ''}.
+            {d.report.status === 'processing'
+              ? 'The header was checked at upload; the rows are checked by the conversion.'
+              : d.report.status === 'failed'
+                ? 'Only the header was checked: the rows were not, because the conversion did not finish.'
+                : `${d.report.errorCount.toLocaleString('en-GB')} error${d.report.errorCount === 1 ? '' : 's'}, ${d.report.warningCount.toLocaleString('en-GB')} warning${d.report.warningCount === 1 ? '' : 's'}${d.waivers.length > 0 ? `, ${d.waivers.length} rule${d.waivers.length === 1 ? '' : 's'} waived` : ''}${d.report.summary.truncated ? ' (only the first 1,000 findings of each rule are listed)' : ''}.`}
           </p>
           {d.waivers.length > 0 ? (
             <ul className="space-y-1 text-sm">
@@ -190,8 +204,19 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
               ))}
             </ul>
           ) : null}
-          {d.canManage ? <WaiveForm datasetId={d.id} rules={warningRules} /> : null}
-          <ReportTable issues={d.report.issues} caption="Validation report" />
+          {d.report.status === 'accepted' || d.report.issues.length > 0 ? (
+            <ReportTable issues={d.report.issues} caption="Validation report" summary={d.report.summary} waived={[...waived]} />
+          ) : null}
+          {d.canManage && warningRules.length > 0 ? (
+            <div className="space-y-2 border-t border-[var(--color-line)] pt-3">
+              <h3>Waive a warning</h3>
+              <p className="text-xs text-[var(--color-muted)]">
+                Waiving a rule records that the warnings were reviewed and why they are acceptable; the reason is kept with the dataset and
+                shown to reviewers.
+              </p>
+              <WaiveForm datasetId={d.id} rules={warningRules} />
+            </div>
+          ) : null}
         </section>
       ) : null}
 
@@ -200,6 +225,19 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
           <h2 id="manage-heading" className="mb-2">
             Manage
           </h2>
+          <p className="mb-3 max-w-3xl text-sm text-[var(--color-muted)]">
+            {d.supersededBy
+              ? 'A dataset is never edited; this one is kept unchanged for the record.'
+              : 'A dataset is never edited. To correct it, upload the corrected file and choose this dataset under “Replaces” on the upload page, or mark it superseded here by a newer dataset.'}{' '}
+            {inUse
+              ? `It cannot be deleted: ${[
+                  d.usedBy.fits ? `${d.usedBy.fits} fit${d.usedBy.fits === 1 ? '' : 's'}` : '',
+                  d.usedBy.assumptions ? `${d.usedBy.assumptions} assumption version${d.usedBy.assumptions === 1 ? '' : 's'}` : '',
+                ]
+                  .filter(Boolean)
+                  .join(' and ')} refer${d.usedBy.fits + d.usedBy.assumptions === 1 ? 's' : ''} to it.`
+              : 'Deleting removes its rows and stored file; its upload report is kept.'}
+          </p>
           <DatasetActions datasetId={d.id} canDelete={d.canDelete} canSupersede={d.canManage && !d.supersededBy} newer={newer} />
         </section>
       ) : null}
