@@ -1,8 +1,9 @@
 'use client';
 
 import { useMutation } from '@tanstack/react-query';
+import Link from 'next/link';
 import { useRouter } from 'next/navigation';
-import { useMemo, useState, type FormEvent } from 'react';
+import { useState, type FormEvent } from 'react';
 import { AppError } from '@/lib/errors';
 import { apiSend } from './api';
 
@@ -28,6 +29,11 @@ const marginParts = [
   ['general', 'General estimation error'],
 ] as const;
 
+/** Six decimals for reading (the stored evidence keeps full precision). */
+function six(x: number | null | undefined): string {
+  return x === null || x === undefined || !Number.isFinite(x) ? '—' : String(Number(x.toFixed(6)));
+}
+
 function round(x: number) {
   return Math.round(x * 1e10) / 1e10;
 }
@@ -39,7 +45,14 @@ function round(x: number) {
  */
 export function DraftForm(
   props:
-    | { mode: 'create'; options: FitOption[]; initialFit?: string; today: string }
+    | {
+        mode: 'create';
+        options: FitOption[];
+        initialFit?: string;
+        today: string;
+        /** Versions still on their way to publication, by segment: a segment has at most one. */
+        open?: Record<string, { id: number; version: number; status: string }>;
+      }
     | { mode: 'edit'; versionId: number; estimate: number; initial: DraftValues; today: string },
 ) {
   const router = useRouter();
@@ -62,11 +75,8 @@ export function DraftForm(
   const est = option?.estimates[estimator];
   const estimate = props.mode === 'edit' ? props.estimate : (est?.rho ?? null);
   const interval = est?.intervals?.[intervalMethod];
-  const conservative = useMemo(() => {
-    if (estimate === null) return null;
-    const sum = estimate + Number(margins.data.value || 0) + Number(margins.practice.value || 0) + Number(margins.general.value || 0);
-    return Number.isFinite(sum) ? round(sum) : null;
-  }, [estimate, margins]);
+  const sum = estimate === null ? null : estimate + Number(margins.data.value || 0) + Number(margins.practice.value || 0) + Number(margins.general.value || 0);
+  const conservative = sum !== null && Number.isFinite(sum) ? round(sum) : null;
 
   const m = useMutation({
     mutationFn: async () => {
@@ -136,11 +146,17 @@ export function DraftForm(
               <option value="bootstrap">bootstrap</option>
             </select>
           </div>
+          {option && props.open?.[option.segment] ? (
+            <p className="notice-caution text-sm md:col-span-3" role="note">
+              Version {props.open[option.segment].version} of {option.segment} is still {props.open[option.segment].status.replace('_', ' ')}:
+              finish or withdraw it before drafting another (<Link href={`/library/versions/${props.open[option.segment].id}`}>open it</Link>).
+            </p>
+          ) : null}
           <p className="text-sm md:col-span-3" data-testid="evidence-summary">
-            Estimate <span className="num">{estimate ?? '—'}</span>, PD <span className="num">{est?.pd ?? '—'}</span>, interval{' '}
+            Estimate <span className="num">{six(estimate)}</span>, PD <span className="num">{six(est?.pd)}</span>, interval{' '}
             {interval ? (
               <span className="num">
-                [{interval.lower}, {interval.upper}] at {interval.level}
+                [{six(interval.lower)}, {six(interval.upper)}] at {six(interval.level * 100)}%
               </span>
             ) : (
               <span className="text-[var(--color-bad)]">not computed by this fit for this estimator</span>

@@ -589,10 +589,17 @@ export type VersionPageDto = {
   audit: AuditDto[];
   actions: UserAction[];
   makerIds: number[];
+  /** The diff against the previous version (or, when asked, another version of the same assumption). */
   changesFromPrevious: FieldChange[] | null;
+  /** The version the diff is taken against (before); null when there is none. */
+  comparedWith: { id: number; version: number } | null;
 };
 
-export async function getVersionPage(actor: SessionUser, id: number, now: Date = new Date()): Promise<VersionPageDto> {
+/**
+ * Everything the assumption page shows. `compareTo` (a version id of the same assumption that the
+ * person may see) chooses the version the diff is taken against; by default the previous one.
+ */
+export async function getVersionPage(actor: SessionUser, id: number, now: Date = new Date(), compareTo?: number): Promise<VersionPageDto> {
   assertCan(actor, 'assumptions:read');
   const db = getDb();
   const [row] = await db
@@ -613,7 +620,8 @@ export async function getVersionPage(actor: SessionUser, id: number, now: Date =
   const reviewRows = await db.select().from(assumptionReviews).where(eq(assumptionReviews.versionId, id)).orderBy(asc(assumptionReviews.id));
   const reviewers = await peopleById(db, reviewRows.map((r) => r.reviewerId));
   const makers = await makerIds(db, row.v);
-  const prev = dtos.filter((d) => d.version < version.version).sort((a, b) => b.version - a.version)[0];
+  const asked = compareTo !== undefined && compareTo !== id ? dtos.find((d) => d.id === compareTo) : undefined;
+  const prev = asked ?? dtos.filter((d) => d.version < version.version).sort((a, b) => b.version - a.version)[0];
   return {
     version,
     versions: dtos,
@@ -630,6 +638,7 @@ export async function getVersionPage(actor: SessionUser, id: number, now: Date =
     actions: availableActions({ actor, status: row.v.status, makerIds: makers, effectiveDate: row.v.effectiveDate, today: todayIso(now) }),
     makerIds: makers,
     changesFromPrevious: prev ? diffVersions(prev, version) : null,
+    comparedWith: prev ? { id: prev.id, version: prev.version } : null,
   };
 }
 

@@ -6,6 +6,7 @@ import { DraftForm, type FitOption } from '@/components/assumptions/draft-form';
 import { todayIso } from '@/lib/assumptions/dates';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
+import { listOpenVersions } from '@/lib/dal/assumptions';
 import { getFit, listFits } from '@/lib/dal/fits';
 import { AppError } from '@/lib/errors';
 
@@ -38,6 +39,7 @@ export default async function NewDraftPage({ searchParams }: { searchParams: Pro
       options.push({ fitId: f.id, segment: s.segment, label: `Fit ${f.id} · ${f.datasetName} · ${s.segment}`, estimates });
     }
   }
+  const open = Object.fromEntries((await listOpenVersions(actor)).map((v) => [v.segment, { id: v.id, version: v.version, status: v.status }]));
   // A fit and segment from the link; a segment alone picks the newest fit that has it.
   const initial =
     options.find((o) => String(o.fitId) === sp.fitId && o.segment === sp.segment) ??
@@ -58,7 +60,7 @@ export default async function NewDraftPage({ searchParams }: { searchParams: Pro
         </p>
       ) : (
         <section className="panel p-5">
-          <DraftForm mode="create" options={options} initialFit={initial ? `${initial.fitId}|${initial.segment}` : undefined} today={todayIso()} />
+          <DraftForm mode="create" options={options} initialFit={initial ? `${initial.fitId}|${initial.segment}` : undefined} today={todayIso()} open={open} />
         </section>
       )}
     </div>

@@ -31,11 +31,18 @@ function show(v: unknown): string {
   return typeof v === 'object' ? JSON.stringify(v) : String(v);
 }
 
-export default async function VersionPage({ params }: { params: Promise<{ id: string }> }) {
+export default async function VersionPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ id: string }>;
+  searchParams: Promise<{ compare?: string }>;
+}) {
   const actor = await requireUser();
   const id = z.coerce.number().int().positive().safeParse((await params).id);
   if (!id.success) notFound();
-  const page = await getVersionPage(actor, id.data).catch((err) => {
+  const compare = z.coerce.number().int().positive().safeParse((await searchParams).compare);
+  const page = await getVersionPage(actor, id.data, new Date(), compare.success ? compare.data : undefined).catch((err) => {
     if (err instanceof AppError && err.kind === 'not_found') notFound();
     throw err;
   });
@@ -184,16 +191,21 @@ export default async function VersionPage({ params }: { params: Promise<{ id: st
         </div>
       </section>
 
-      {page.changesFromPrevious ? (
-        <section className="panel p-5">
-          <h2 className="mb-2">Changes from the previous version</h2>
+      {page.changesFromPrevious && page.comparedWith ? (
+        <section className="panel p-5" aria-labelledby="diff-heading">
+          <div className="mb-2 flex flex-wrap items-center gap-3">
+            <h2 id="diff-heading">
+              Changes from version {page.comparedWith.version} to version {v.version}
+            </h2>
+            <span className="text-xs text-[var(--color-muted)]">Compare with another version: the “diff” links under Versions.</span>
+          </div>
           {page.changesFromPrevious.length ? (
-            <table className="table" aria-label="Changes from the previous version">
+            <table className="table" aria-label="Changes between versions">
               <thead>
                 <tr>
                   <th>Field</th>
-                  <th>Before</th>
-                  <th>After</th>
+                  <th>Version {page.comparedWith.version}</th>
+                  <th>Version {v.version}</th>
                 </tr>
               </thead>
               <tbody>
@@ -202,14 +214,14 @@ export default async function VersionPage({ params }: { params: Promise<{ id: st
                   .map((c) => (
                     <tr key={c.field}>
                       <td>{c.label}</td>
-                      <td className="whitespace-pre-wrap text-[var(--color-bad)]">{show(c.before)}</td>
-                      <td className="whitespace-pre-wrap text-[var(--color-good)]">{show(c.after)}</td>
+                      <td className="whitespace-pre-wrap text-[var(--color-bad)]">{c.field === 'seeds' ? seedsText(c.before) : show(c.before)}</td>
+                      <td className="whitespace-pre-wrap text-[var(--color-good)]">{c.field === 'seeds' ? seedsText(c.after) : show(c.after)}</td>
                     </tr>
                   ))}
               </tbody>
             </table>
           ) : (
-            <p className="text-sm">No content differs from the previous version.</p>
+            <p className="text-sm">No content differs between the two versions.</p>
           )}
         </section>
       ) : null}
@@ -230,7 +242,18 @@ export default async function VersionPage({ params }: { params: Promise<{ id: st
           <tbody>
             {page.versions.map((o) => (
               <tr key={o.id} aria-current={o.id === v.id ? 'true' : undefined}>
-                <td>{o.id === v.id ? `v${o.version} (this)` : <Link href={`/library/versions/${o.id}`}>v{o.version}</Link>}</td>
+                <td>
+                  {o.id === v.id ? (
+                    `v${o.version} (this)`
+                  ) : (
+                    <>
+                      <Link href={`/library/versions/${o.id}`}>v{o.version}</Link>{' '}
+                      <Link className="text-xs" href={`/library/versions/${v.id}?compare=${o.id}`} aria-label={`Compare version ${v.version} with version ${o.version}`}>
+                        diff
+                      </Link>
+                    </>
+                  )}
+                </td>
                 <td>
                   <StatusBadge status={o.status} />
                 </td>
