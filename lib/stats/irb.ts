@@ -171,9 +171,10 @@ export function capitalRequirement(opts: CapitalOptions): number {
       `capitalRequirement: confidence must be strictly between 0 and 1 (the framework uses 0.999), got ${String(confidence)}.`,
     );
   }
-  const stressedPd = normalCdf(
-    (normalQuantile(pd) + Math.sqrt(rho) * normalQuantile(confidence)) / Math.sqrt(1 - rho),
-  );
+  // At rho = 0 the stressed PD is the PD itself: K = 0 exactly (the round trip Phi(Phi^-1(PD))
+  // would otherwise leave a rounding residue of either sign).
+  const stressedPd =
+    rho === 0 ? pd : normalCdf((normalQuantile(pd) + Math.sqrt(rho) * normalQuantile(confidence)) / Math.sqrt(1 - rho));
   const k = lgd * (stressedPd - pd);
   return maturityYears === undefined ? k : k * maturityAdjustment(pd, maturityYears);
 }

@@ -106,3 +106,9 @@ describe('capitalRequirement and riskWeight', () => {
     expect(() => capitalRequirement({ pd: 1, lgd: 0.4, rho: 0.1 })).toThrow(/para 272/);
   });
 });
+
+describe('capitalRequirement at rho = 0', () => {
+  it('is exactly 0: with no systematic factor the stressed PD is the PD (BCBS 2005 explanatory note, sect. 4)', () => {
+    for (const pd of [0.0003, 0.01, 0.2]) expect(capitalRequirement({ pd, lgd: 0.45, rho: 0 })).toBe(0);
+  });
+});
