@@ -3,20 +3,21 @@
  * datasets), through the same code as a person would use, so that the audit trail, the reviews and
  * the mail outbox are real:
  *
- * 1. the demo analyst requests a fit of three segments of the cohort dataset (lib/dal/fits.ts
+ * 1. the demo analyst requests a fit of four segments of the cohort dataset (lib/dal/fits.ts
  *    createFit), and the fit job runs here in-process exactly as the worker runs it (claim, the fit
  *    handler, completion transaction), on this thread;
- * 2. from that fit (lib/dal/assumptions.ts) the analyst drafts three assumptions with margins and
+ * 2. from that fit (lib/dal/assumptions.ts) the analyst drafts four assumptions with margins and
  *    rationale (the final value: estimate plus margins rounded up to two decimals):
  *    - SME term loans: submitted, reviewed and approved by the demo validator, and published with an
  *      effective date four months ago (so as-of queries before and after it answer differently);
+ *    - Prime auto loans: published almost a year ago, due for review in 20 days;
  *    - Owner-occupied mortgages: submitted, waiting in the validator's queue;
  *    - Credit cards: reviewed and sent back with changes requested, waiting in the analyst's queue.
  *
  * The messages these transitions write to the outbox are sent by the worker when it starts.
  */
 import { eq } from 'drizzle-orm';
-import { addMonths, todayIso } from '@/lib/assumptions/dates';
+import { addDays, addMonths, todayIso } from '@/lib/assumptions/dates';
 import { conservativeValue, type Margins } from '@/lib/assumptions/margins';
 import type { SessionUser } from '@/lib/auth/guard';
 import { createDraft, transition } from '@/lib/dal/assumptions';
@@ -28,7 +29,7 @@ import '@/workers/handlers/index';
 import type { Db } from './connection';
 import { datasets, fitRuns, users } from './schema';
 
-const SEGMENTS = ['SME term loans', 'Owner-occupied mortgages', 'Credit cards'] as const;
+const SEGMENTS = ['SME term loans', 'Prime auto loans', 'Owner-occupied mortgages', 'Credit cards'] as const;
 
 async function person(db: Db, email: string): Promise<SessionUser> {
   const [u] = await db.select({ id: users.id, email: users.email, name: users.name, role: users.role }).from(users).where(eq(users.email, email));
@@ -115,6 +116,28 @@ export async function seedDemoAssumptions(db: Db): Promise<void> {
   });
   await transition(validator, sme.id, { action: 'publish' });
 
+  // Prime auto loans: published almost a year ago, so its review-by date is 20 days away (the library
+  // shows it as due for review, and the scheduler sends the 30-day reminder).
+  const auto = await createDraft(analyst, {
+    fitId: fit.id,
+    segment: 'Prime auto loans',
+    estimator: 'binomialMle',
+    intervalMethod: 'profile',
+    margins: {
+      data: { value: 0.01, rationale: `The ${periodsNote} start in 2008; the vintage file has not been reconciled with them yet.` },
+      practice: { value: 0, rationale: 'No change in lending or recovery practice over the window.' },
+      general: { value: 0.02, rationale: 'Downward bias of the estimate at this number of years.' },
+    },
+    finalValue: roundedUp('Prime auto loans', { data: 0.01, practice: 0, general: 0.02 }),
+    intendedUses: 'Economic capital of the auto book; pricing of new auto loans.',
+    limitations: 'Valid only with the fitted PD and the 90-days-past-due definition of default.',
+    effectiveDate: addDays(addMonths(todayIso(), -12), 20),
+  });
+  await transition(analyst, auto.id, { action: 'submit' });
+  await transition(validator, auto.id, { action: 'start-review' });
+  await transition(validator, auto.id, { action: 'approve', comment: 'Approved for economic capital and pricing.' });
+  await transition(validator, auto.id, { action: 'publish' });
+
   // Owner-occupied mortgages: submitted, in the validator's queue.
   const mortgages = await createDraft(analyst, {
     fitId: fit.id,
@@ -156,5 +179,5 @@ export async function seedDemoAssumptions(db: Db): Promise<void> {
     comment: 'A general estimation-error margin of 0 is not justified at fifteen years: the estimate is biased low. Add a margin with its rationale.',
   });
 
-  console.log(`[seed] demo assumptions (fit ${fit.id}; three segments) in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
+  console.log(`[seed] demo assumptions (fit ${fit.id}; four segments) in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
 }

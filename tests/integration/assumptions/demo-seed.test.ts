@@ -1,0 +1,98 @@
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+
+/**
+ * The demo seed (db/seed.ts -> seed-data.ts -> seed-assumptions.ts) on a database of its own (the
+ * suite's name with _seed_test, so the demo accounts and data do not meet the other tests' rows):
+ * a real fit of the demo cohorts through the fit job, and a library made through the DAL whose
+ * states, audit trail, queues and outbox are what the demo promises.
+ */
+type Mods = {
+  db: typeof import('@/db/connection');
+  schema: typeof import('@/db/schema');
+  dal: typeof import('@/lib/dal/assumptions');
+  orm: typeof import('drizzle-orm');
+};
+let m: Mods;
+let dbName: string;
+
+beforeAll(async () => {
+  dbName = (process.env.DB_NAME ?? 'rhobook_test').replace(/_test$/, '_seed_test');
+  vi.stubEnv('DB_NAME', dbName);
+  vi.stubEnv('NODE_ENV', 'test');
+  vi.resetModules();
+  const { resetTestDatabase } = await import('../../support/reset-database');
+  await resetTestDatabase({ seed: true });
+  m = {
+    db: await import('@/db/connection'),
+    schema: await import('@/db/schema'),
+    dal: await import('@/lib/dal/assumptions'),
+    orm: await import('drizzle-orm'),
+  };
+}, 180_000);
+afterAll(async () => {
+  if (m) {
+    await m.db.getDb().execute(m.orm.sql.raw(`DROP DATABASE IF EXISTS \`${dbName}\``));
+    await m.db.closeDb();
+  }
+  vi.unstubAllEnvs();
+});
+
+async function person(email: string) {
+  const { users } = m.schema;
+  const [u] = await m.db.getDb().select({ id: users.id, email: users.email, name: users.name, role: users.role }).from(users).where(m.orm.eq(users.email, email));
+  return u;
+}
+
+describe('the demo library', () => {
+  it('comes from one succeeded fit run recorded by the fit job, on the demo cohort dataset', async () => {
+    const { fitRuns, jobs, datasets } = m.schema;
+    const runs = await m.db.getDb().select().from(fitRuns);
+    expect(runs).toHaveLength(1);
+    expect(runs[0].status).toBe('succeeded');
+    const [job] = await m.db.getDb().select().from(jobs).where(m.orm.eq(jobs.id, runs[0].jobId!));
+    expect(job.status).toBe('succeeded');
+    const [ds] = await m.db.getDb().select().from(datasets).where(m.orm.eq(datasets.id, runs[0].datasetId));
+    expect(ds.kind).toBe('cohort');
+    expect(runs[0].datasetSha256).toBe(ds.sha256);
+  });
+
+  it('has the states the demo promises, each reached through the lifecycle', async () => {
+    const viewer = await person('viewer@fenmoor.example');
+    const library = await m.dal.listLibrary(viewer);
+    const bySegment = Object.fromEntries(library.map((e) => [e.segment, e]));
+    // The viewer sees the two published segments only.
+    expect(Object.keys(bySegment).sort()).toEqual(['Prime auto loans', 'SME term loans']);
+    expect(bySegment['SME term loans'].health).toBe('ok');
+    expect(bySegment['Prime auto loans'].health).toBe('expiring');
+    expect(bySegment['Prime auto loans'].daysToReview).toBeGreaterThanOrEqual(17);
+    expect(bySegment['Prime auto loans'].daysToReview).toBeLessThanOrEqual(23);
+    const sme = bySegment['SME term loans'].current!;
+    expect(sme.effectiveDate < sme.publishedAt!.slice(0, 10)).toBe(true);
+    // The final value is the estimate plus the margins, rounded up to two decimals.
+    expect(sme.finalValue).toBeGreaterThanOrEqual(sme.conservativeValue);
+    expect(sme.finalValue - sme.conservativeValue).toBeLessThan(0.01);
+    expect(Math.round(sme.finalValue * 100)).toBeCloseTo(sme.finalValue * 100, 9);
+    expect(sme.validator?.email).toBe('validator@fenmoor.example');
+
+    const { assumptionAudit } = m.schema;
+    const trail = await m.db.getDb().select().from(assumptionAudit).where(m.orm.eq(assumptionAudit.versionId, sme.id)).orderBy(assumptionAudit.id);
+    expect(trail.map((r) => r.action)).toEqual(['draft', 'submit', 'start-review', 'approve', 'publish']);
+  });
+
+  it("leaves one version in the validator's queue and one sent back in the analyst's", async () => {
+    const validatorQueue = await m.dal.listQueue(await person('validator@fenmoor.example'));
+    expect(validatorQueue.map((q) => [q.segment, q.status])).toEqual([['Owner-occupied mortgages', 'submitted']]);
+    const analystQueue = await m.dal.listQueue(await person('analyst@fenmoor.example'));
+    expect(analystQueue.map((q) => [q.segment, q.status])).toEqual([['Credit cards', 'draft']]);
+    expect(analystQueue[0].why).toMatch(/^Changes requested: A general estimation-error margin of 0/);
+  });
+
+  it('wrote the e-mails of those transitions to the outbox, to the right people', async () => {
+    const { mailOutbox } = m.schema;
+    const mail = await m.db.getDb().select({ kind: mailOutbox.kind, to: mailOutbox.toAddress, subject: mailOutbox.subject }).from(mailOutbox);
+    const of = (kind: string) => mail.filter((x) => x.kind === kind);
+    expect(of('awaiting-review').map((x) => x.to)).toEqual(Array(4).fill('validator@fenmoor.example'));
+    expect(of('changes-requested')).toEqual([expect.objectContaining({ to: 'analyst@fenmoor.example', subject: 'Changes requested: Credit cards v1' })]);
+    expect(of('published').map((x) => x.to).sort()).toEqual(['analyst@fenmoor.example', 'analyst@fenmoor.example', 'validator@fenmoor.example', 'validator@fenmoor.example']);
+  });
+});
