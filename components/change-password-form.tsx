@@ -8,6 +8,10 @@ export function ChangePasswordForm({ action }: { action: (prev: PasswordState, f
   return (
     <form action={formAction} className="max-w-sm space-y-3" aria-label="Change password">
       <div>
+        <label className="label" htmlFor="current">Current password</label>
+        <input id="current" name="current" type="password" autoComplete="current-password" className="field" required />
+      </div>
+      <div>
         <label className="label" htmlFor="password">New password (10 characters or more)</label>
         <input id="password" name="password" type="password" autoComplete="new-password" className="field" required />
       </div>

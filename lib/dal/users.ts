@@ -4,7 +4,7 @@ import { z } from 'zod';
 import { getDb } from '@/db/client';
 import { adminAudit, roles, users, type Role, type User } from '@/db/schema';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
-import { generateTemporaryPassword, hashPassword } from '@/lib/auth/password';
+import { generateTemporaryPassword, hashPassword, verifyPassword } from '@/lib/auth/password';
 import { normaliseEmail } from '@/lib/auth/sign-in';
 import { AppError } from '@/lib/errors';
 import { recordAdminAction } from './admin-audit';
@@ -176,9 +176,19 @@ export async function listAdminAudit(actor: SessionUser, limit = 100): Promise<A
   }));
 }
 
-/** The signed-in user changes their own password (required after an invitation). */
-export async function changeOwnPassword(actor: SessionUser, newPassword: string): Promise<void> {
-  if (newPassword.length < 10) throw new AppError('invalid:password', 'A password needs at least 10 characters.');
+/**
+ * The signed-in user changes their own password (required after an invitation). The current
+ * password is asked for again, so that a session left open is not enough to take the account.
+ */
+export async function changeOwnPassword(actor: SessionUser, input: { currentPassword: string; newPassword: string }): Promise<void> {
+  const { currentPassword, newPassword } = input;
+  const [row] = await getDb().select({ passwordHash: users.passwordHash, active: users.active }).from(users).where(eq(users.id, actor.id)).limit(1);
+  if (!row || !row.active) throw new AppError('unauthorized:session', 'Sign in to continue.');
+  if (!(await verifyPassword(currentPassword, row.passwordHash))) {
+    throw new AppError('invalid:current-password', 'The current password is not right. Type the password you signed in with.', { field: 'current' });
+  }
+  if (newPassword.length < 10) throw new AppError('invalid:password', 'A password needs at least 10 characters.', { field: 'password' });
+  if (newPassword === currentPassword) throw new AppError('invalid:password', 'Choose a new password that differs from the current one.', { field: 'password' });
   const passwordHash = await hashPassword(newPassword);
   await getDb()
     .update(users)
