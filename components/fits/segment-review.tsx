@@ -66,7 +66,8 @@ export function SegmentReview({ seg, index, bootstrapRequested }: { seg: FitSegm
   const levelPct = `${Math.round(seg.level * 1000) / 10}%`;
   const cautions = seg.warnings.filter((w) => CAUTION_CODES.has(w.code));
   const others = seg.warnings.filter((w) => !CAUTION_CODES.has(w.code));
-  const mleAudit = seg.audit?.rows.find((r) => r.estimator === 'binomialMle');
+  const audit = seg.estimatorAudit;
+  const mleAudit = audit?.estimators.binomialMle;
   const hasMle = mle.rho !== null && mle.logLik !== null && mle.status !== 'not-converged';
   return (
     <article className="space-y-4" data-testid={`segment-review-${index}`}>
@@ -224,7 +225,7 @@ export function SegmentReview({ seg, index, bootstrapRequested }: { seg: FitSegm
             <>
               <ProfileChart curve={seg.profileCurve} cutoff={seg.profileCutoff} estimate={mle.rho!} logLik={mle.logLik!} interval={iv.profile} />
               <p className="mt-1 text-xs text-[var(--color-muted)]">
-                Dashed line: the cut-off {seg.profileCutoff.toFixed(2)} ({levelPct} interval: every ρ whose profile stays above it). Shaded:
+                Dashed red line: the cut-off {seg.profileCutoff.toFixed(2)}, the maximum less χ²₁({seg.level})/2; the {levelPct} profile interval holds every ρ whose curve stays above it. Shaded:
                 the profile interval.
               </p>
               {d.lrTestRhoZero ? (
@@ -273,19 +274,24 @@ export function SegmentReview({ seg, index, bootstrapRequested }: { seg: FitSegm
       </div>
 
       <Section title="Estimator audit at this sample size" id={`${prefix}-audit`}>
-        {seg.audit ? (
+        {audit ? (
           <>
             <p className="mb-2 text-sm">
-              {seg.audit.replications} panels simulated with this segment&apos;s own cohort sizes and {seg.T} periods at the fitted values
-              (ρ = {fixed(seg.audit.truth.rho, 3)}, PD {pct(seg.audit.truth.pd)}; seed {seg.audit.seed}), every estimator run on each.{' '}
+              {audit.replications} panels simulated with this segment&apos;s own cohort sizes and {audit.periods} periods at the fitted values
+              (ρ = {fixed(audit.truth.rho, 3)}, PD {pct(audit.truth.pd)}; seed {audit.seed}), every estimator run on each.{' '}
               {mleAudit && mleAudit.bias !== null && mleAudit.rmse !== null ? (
                 <>
                   The likelihood estimate misses the value it was simulated from by {fixed(mleAudit.rmse, 3)} (RMSE), with a bias of{' '}
                   {signed(mleAudit.bias, 3)}
-                  {mleAudit.profileCoverage !== null ? `; its ${levelPct} profile interval covered it in ${pct(mleAudit.profileCoverage, 3)} of the panels` : ''}
+                  {audit.coverage.profile.coverage !== null
+                    ? `; its ${levelPct} profile interval covered it in ${pct(audit.coverage.profile.coverage, 3)} of the panels`
+                    : ''}
                   .{' '}
-                  {Math.abs(mleAudit.bias) > 0.25 * seg.audit.truth.rho
+                  {Math.abs(mleAudit.bias) > 0.25 * audit.truth.rho
                     ? 'The bias is large against the estimate: a margin of conservatism is worth considering.'
+                    : ''}
+                  {audit.coverage.profile.coverage !== null && audit.coverage.profile.mcse !== null && audit.coverage.profile.coverage + 2 * audit.coverage.profile.mcse < seg.level
+                    ? ` The profile interval covers less often than its ${levelPct}: read it as too narrow at this sample size.`
                     : ''}
                 </>
               ) : null}
@@ -295,35 +301,66 @@ export function SegmentReview({ seg, index, bootstrapRequested }: { seg: FitSegm
                 <tr>
                   <th>Estimator</th>
                   <th className="text-right">Gave a value</th>
-                  <th className="text-right">Bias</th>
+                  <th className="text-right">Bias (± MC s.e.)</th>
+                  <th className="text-right">Std. dev.</th>
                   <th className="text-right">RMSE</th>
-                  <th className="text-right">Profile coverage</th>
-                  <th className="text-right">Wald coverage</th>
                 </tr>
               </thead>
               <tbody>
-                {seg.audit.rows.map((r) => (
-                  <tr key={r.estimator}>
-                    <td>{ESTIMATOR_NAMES[r.estimator]}</td>
-                    <td className="num text-right">
-                      {r.defined} / {seg.audit!.replications}
-                    </td>
-                    <td className="num text-right">{signed(r.bias)}</td>
-                    <td className="num text-right">{fixed(r.rmse, 4)}</td>
-                    <td className="num text-right">{r.profileCoverage === null ? '—' : pct(r.profileCoverage, 3)}</td>
-                    <td className="num text-right">
-                      {r.waldCoverage === null ? '—' : pct(r.waldCoverage, 3)}
-                      {r.waldMissing ? <span className="text-xs text-[var(--color-muted)]"> ({r.waldMissing} at ρ = 0, none)</span> : null}
-                    </td>
-                  </tr>
-                ))}
+                {ESTIMATOR_ORDER.map((k) => {
+                  const r = audit.estimators[k];
+                  return (
+                    <tr key={k}>
+                      <td>{ESTIMATOR_NAMES[k]}</td>
+                      <td className="num text-right">
+                        {r.defined} / {audit.replications}
+                      </td>
+                      <td className="num text-right">
+                        {signed(r.bias)}
+                        {r.biasMcse !== null ? ` ± ${fixed(r.biasMcse, 4)}` : ''}
+                      </td>
+                      <td className="num text-right">{fixed(r.sd, 4)}</td>
+                      <td className="num text-right">{fixed(r.rmse, 4)}</td>
+                    </tr>
+                  );
+                })}
+              </tbody>
+            </table>
+            <table className="table mt-3 text-sm" data-testid="audit-coverage">
+              <thead>
+                <tr>
+                  <th>Interval of the likelihood estimate</th>
+                  <th className="text-right">Available</th>
+                  <th className="text-right">Covered the truth (± MC s.e.)</th>
+                  <th className="text-right">Mean width</th>
+                </tr>
+              </thead>
+              <tbody>
+                {(['profile', 'wald'] as const).map((m) => {
+                  const c = audit.coverage[m];
+                  return (
+                    <tr key={m}>
+                      <td>
+                        {m === 'profile' ? 'Profile likelihood' : 'Wald (logit scale)'} at {Math.round(c.level * 1000) / 10}%
+                      </td>
+                      <td className="num text-right">
+                        {c.available} / {audit.replications}
+                      </td>
+                      <td className="num text-right">
+                        {c.coverage === null ? '—' : pct(c.coverage, 3)}
+                        {c.mcse !== null ? ` ± ${pct(c.mcse, 2)}` : ''}
+                      </td>
+                      <td className="num text-right">{fixed(c.meanWidth, 3)}</td>
+                    </tr>
+                  );
+                })}
               </tbody>
             </table>
             <p className="mt-1 text-xs text-[var(--color-muted)]">
-              The audit simulates at the estimate, not at the unknown true value: it tells how the estimators behave if the estimate
-              were right. With {seg.audit.replications} replications a coverage share is itself uncertain by about ±
-              {pct(2 * Math.sqrt((seg.level * (1 - seg.level)) / seg.audit.replications), 2)} (two standard errors). Computed by{' '}
-              {seg.audit.implementation}.
+              The audit simulates at the estimate, not at the unknown true value: it tells how the estimators behave if the estimate were
+              right. MC s.e.: the Monte Carlo standard error from {audit.replications} replications.
+              {audit.coverage.wald.available < audit.replications ? ' Panels whose estimate fell at ρ = 0 have no Wald interval.' : ''}
+              {audit.omitted.map((o) => ` Not audited: ${o.item} (${o.reason})`).join('')}
             </p>
           </>
         ) : (

@@ -133,14 +133,20 @@ export function ProfileChart({ curve, cutoff, estimate, logLik, interval }: {
   const H = 230;
   const m = { l: 56, r: 12, t: 12, b: 36 };
   const xs = curve.map((p) => p.rho);
+  // Show the curve down to well below the cut-off; lower parts run off the bottom of the plot (clipped, not flattened).
   const floor = logLik - Math.max(6, (logLik - cutoff) * 3);
-  const ys = curve.map((p) => Math.max(p.logLik, floor));
   const x = scale(0, Math.max(...xs), m.l, W - m.r);
   const y = scale(floor, logLik + 0.3, H - m.b, m.t);
-  const path = curve.map((p, i) => `${i === 0 ? 'M' : 'L'}${x(p.rho).toFixed(1)},${y(ys[i]).toFixed(1)}`).join(' ');
+  const path = curve.map((p, i) => `${i === 0 ? 'M' : 'L'}${x(p.rho).toFixed(1)},${y(p.logLik).toFixed(1)}`).join(' ');
   const xt = niceTicks(Math.max(...xs), 5);
+  const clipId = `profile-clip-${Math.round(estimate * 1e6)}-${Math.round(-logLik * 100)}`;
   return (
     <svg viewBox={`0 0 ${W} ${H}`} width="100%" role="img" aria-label="Profile log-likelihood of rho with the interval cut-off" data-testid="profile-chart">
+      <defs>
+        <clipPath id={clipId}>
+          <rect x={m.l} y={m.t} width={W - m.l - m.r} height={H - m.t - m.b} />
+        </clipPath>
+      </defs>
       <rect x={m.l} y={m.t} width={W - m.l - m.r} height={H - m.t - m.b} fill="white" stroke="var(--color-line)" />
       {xt.map((t) => (
         <text key={t} x={x(t)} y={H - m.b + 14} fontSize={10} textAnchor="middle" fill="var(--color-muted)">
@@ -156,13 +162,16 @@ export function ProfileChart({ curve, cutoff, estimate, logLik, interval }: {
       <text x={m.l - 4} y={y(logLik) + 3} fontSize={9.5} textAnchor="end" fill="var(--color-muted)">
         {logLik.toFixed(1)}
       </text>
+      <text x={m.l - 4} y={y(cutoff) + 3} fontSize={9.5} textAnchor="end" fill="var(--color-bad)">
+        {cutoff.toFixed(1)}
+      </text>
       {interval ? <rect x={x(interval.lower)} y={m.t} width={x(interval.upper) - x(interval.lower)} height={H - m.t - m.b} fill="var(--color-accent-soft)" /> : null}
       <line x1={m.l} x2={W - m.r} y1={y(cutoff)} y2={y(cutoff)} stroke="var(--color-bad)" strokeDasharray="5 4" />
-      <text x={W - m.r - 4} y={y(cutoff) - 4} fontSize={9.5} textAnchor="end" fill="var(--color-bad)">
-        cut-off: maximum − χ²₁({interval ? interval.level : 0.95})/2
-      </text>
-      <path d={path} fill="none" stroke="var(--color-accent)" strokeWidth={2} />
+      <path d={path} fill="none" stroke="var(--color-accent)" strokeWidth={2} clipPath={`url(#${clipId})`} />
       <line x1={x(estimate)} x2={x(estimate)} y1={m.t} y2={H - m.b} stroke="var(--color-accent)" strokeOpacity={0.6} />
+      <text x={x(estimate) + 4} y={m.t + 12} fontSize={10} fill="var(--color-accent)">
+        ρ̂ {fixed(estimate, 3)}
+      </text>
     </svg>
   );
 }

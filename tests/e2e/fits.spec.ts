@@ -47,7 +47,7 @@ test('an analyst starts a fit with a bootstrap, follows its progress and reads t
   await expect(review.getByTestId('exceedances')).toContainText(/of \d+ periods lie above the fitted 95% quantile/);
   await expect(review.getByTestId('profile-chart')).toBeVisible();
   await expect(review.getByTestId('lr-test')).toContainText(/Likelihood-ratio test of ρ = 0: statistic \d+\.\d\d/);
-  await expect(review.getByText(/^Dashed line: the cut-off -?\d+\.\d\d/)).toBeVisible();
+  await expect(review.getByText(/^Dashed red line: the cut-off -?\d+\.\d\d, the maximum less χ²₁\(0\.95\)\/2/)).toBeVisible();
   await expect(review.getByTestId('factor-chart')).toBeVisible();
   await expect(review.getByTestId('autocorrelation')).toContainText(/Lag-1 autocorrelation of the implied factor: (-?\d\.\d\d, against ±\d\.\d\d|not computed)/);
   // The three intervals of the likelihood estimate: profile, Wald (with its standard error) and the bootstrap asked for.

@@ -9,6 +9,7 @@ import { fitRuns, jobs } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
 import { createFit, getFit } from '@/lib/dal/fits';
 import { runFit } from '@/lib/cli/fit';
+import { fitPanel } from '@/lib/stats/fit-panel';
 import type { FitResults } from '@/lib/fits/results';
 import { ENGINE_VERSION } from '@/lib/stats/version';
 import { FIT_JOB } from '@/lib/jobs/kinds/fit';
@@ -87,6 +88,13 @@ async function drain(jobIds: number[]) {
   await loop;
 }
 
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+function withoutAuditOf(segment: any) {
+  // eslint-disable-next-line @typescript-eslint/no-unused-vars
+  const { estimatorAudit, ...rest } = segment;
+  return rest;
+}
+
 function withoutTiming(results: FitResults) {
   return JSON.parse(JSON.stringify(results, (k, v) => (k === 'timing' ? undefined : v)));
 }
@@ -125,11 +133,17 @@ describe('fit jobs', () => {
     // The run's own fields: the whole window first in the window comparison, no audit asked for.
     expect(a.windows[0]).toMatchObject({ label: 'Whole window', T: 10, binomialMle: { rho: a.estimates.binomialMle.rho } });
     expect(a.windows.map((w) => w.label)).toContain('Without the worst period (2013)');
-    expect(a.audit).toBeNull();
+    expect(a.estimatorAudit).toBeNull();
   });
 
-  it('the stored results of a segment are the CLI\'s JSON for the same panel, field for field (engine, seeds, level)', async () => {
-    const { id } = await createFit(analyst, { datasetId: dataset.id, segments: [dataset.segments[0]], level: 0.9, bootstrap: { replications: 40, seed: 5 } });
+  it('the stored results of a segment are the CLI\'s JSON and fitPanel\'s result for the same panel, field for field (engine, seeds, level)', async () => {
+    const { id } = await createFit(analyst, {
+      datasetId: dataset.id,
+      segments: [dataset.segments[0]],
+      level: 0.9,
+      bootstrap: { replications: 40, seed: 5 },
+      audit: { replications: 12, seed: 3 },
+    });
     await drain([(await jobOf(id)).job.id]);
     const fit = await getFit(analyst, id);
     expect(fit.status).toBe('succeeded');
@@ -147,10 +161,19 @@ describe('fit jobs', () => {
       const cli = withoutTiming(JSON.parse(out));
       const stored = withoutTiming(fit.results!);
       expect(stored.engine).toEqual(cli.engine);
-      const { assetClass, chosen, audit, windows, ...engineFields } = stored.segments[0];
-      expect({ assetClass, chosen, audit }).toEqual({ assetClass: 'corporate', chosen: 'binomialMle', audit: null });
+      const { assetClass, chosen, windows, ...engineFields } = stored.segments[0];
+      expect({ assetClass, chosen }).toEqual({ assetClass: 'corporate', chosen: 'binomialMle' });
       expect(windows.length).toBeGreaterThan(1);
-      expect(engineFields).toEqual(cli.segments[0]);
+      // The CLI has no --audit (yet): everything else must match it exactly.
+      const { estimatorAudit, ...withoutAudit } = engineFields;
+      expect(estimatorAudit).not.toBeNull();
+      expect(withoutAudit).toEqual(withoutAuditOf(cli.segments[0]));
+      // And all of it, audit included, matches the engine's single-threaded fitPanel (the job used worker threads).
+      const direct = fitPanel(
+        { segment: name, periods: PANEL_A.obligors.map((_, t) => String(2010 + t)), obligors: PANEL_A.obligors, defaults: PANEL_A.defaults },
+        { level: 0.9, bootstrap: { replications: 40, seed: 5 }, audit: { replications: 12, seed: 3 }, assetClass: 'corporate' },
+      );
+      expect(engineFields).toEqual(JSON.parse(JSON.stringify(direct)));
       // Panel A's numbers in both (issue 3, SciPy 1.17), so the equality is not between two wrong answers.
       expect(cli.segments[0].estimates.binomialMle.rho).toBeCloseTo(0.037091, 5);
       expect(cli.segments[0].estimates.binomialMle.intervals.bootstrap).toMatchObject({ replications: 40, seed: 5, level: 0.9 });
@@ -166,17 +189,19 @@ describe('fit jobs', () => {
     await drain([(await jobOf(first.id)).job.id, (await jobOf(second.id)).job.id]);
     const a = (await getFit(analyst, first.id)).results!.segments[0];
     const b = (await getFit(analyst, second.id)).results!.segments[0];
-    expect(a.audit).not.toBeNull();
-    expect(a.audit!.truth).toEqual({ pd: a.estimates.binomialMle.pd, rho: a.estimates.binomialMle.rho });
-    expect(a.audit!.rows.map((r) => r.estimator)).toEqual(['binomialMle', 'vasicekMle', 'momentVariance', 'momentVarianceCorrected', 'jointDefault']);
-    const mle = a.audit!.rows[0];
+    const audit = a.estimatorAudit!;
+    expect(audit).not.toBeNull();
+    expect(audit.truth).toEqual({ pd: a.estimates.binomialMle.pd, rho: a.estimates.binomialMle.rho });
+    expect(audit).toMatchObject({ replications: 12, seed: 3, periods: 10 });
+    expect(Object.keys(audit.estimators)).toEqual(['binomialMle', 'vasicekMle', 'momentVariance', 'momentVarianceCorrected', 'jointDefault']);
+    const mle = audit.estimators.binomialMle;
     expect(mle.defined).toBe(12);
     expect(mle.rmse!).toBeGreaterThanOrEqual(Math.abs(mle.bias!)); // RMSE^2 = bias^2 + variance
-    expect(mle.profileCoverage!).toBeGreaterThanOrEqual(0);
-    expect(mle.profileCoverage!).toBeLessThanOrEqual(1);
-    expect(a.audit!.rows[2].profileCoverage).toBeNull(); // intervals belong to the likelihood estimate only
+    expect(audit.coverage.profile.available).toBe(12);
+    expect(audit.coverage.profile.coverage!).toBeGreaterThanOrEqual(0);
+    expect(audit.coverage.profile.coverage!).toBeLessThanOrEqual(1);
     // Another seed, other simulated panels.
-    expect(b.audit!.rows[0].bias).not.toBe(mle.bias);
+    expect(b.estimatorAudit!.estimators.binomialMle.bias).not.toBe(mle.bias);
   });
 
   it('re-running a fit with the same dataset hash, engine version and seeds gives identical numbers', async () => {

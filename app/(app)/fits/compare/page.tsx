@@ -112,7 +112,7 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
             {row('Periods above the fitted 99% quantile', (c) => (c.seg.diagnostics.exceedances === null ? '—' : String(c.seg.diagnostics.exceedances.above99)))}
             {row('Lag-1 autocorrelation', (c) => fixed(c.seg.diagnostics.lag1Autocorrelation, 2))}
             {row('Warnings', (c) => (c.seg.warnings.length === 0 ? 'none' : c.seg.warnings.map((w) => w.code).join(', ')))}
-            {row('Estimator audit: RMSE of the likelihood estimate', (c) => fixed(c.seg.audit?.rows.find((r) => r.estimator === 'binomialMle')?.rmse ?? null, 4))}
+            {row('Estimator audit: RMSE of the likelihood estimate', (c) => fixed(c.seg.estimatorAudit?.estimators.binomialMle.rmse ?? null, 4))}
           </tbody>
         </table>
       </section>
