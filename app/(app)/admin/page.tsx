@@ -15,6 +15,7 @@ export default async function AdminPage() {
   const actor = await requireUser();
   if (!can(actor.role, 'users:manage')) forbidden();
   const [users, audit] = await Promise.all([listUsers(actor), listAdminAudit(actor, 30)]);
+  const usersById = new Map(users.map((u) => [u.id, u.email]));
   return (
     <div className="space-y-6">
       <h1>Admin</h1>
@@ -78,7 +79,7 @@ export default async function AdminPage() {
                 <td>{a.actorEmail}</td>
                 <td>{a.action}</td>
                 <td>
-                  {a.targetType} {a.targetId}
+                  {a.targetType === 'user' && usersById.has(Number(a.targetId)) ? usersById.get(Number(a.targetId)) : `${a.targetType} ${a.targetId}`}
                 </td>
                 <td className="num text-xs">
                   {a.before ? JSON.stringify(a.before) : '—'} → {a.after ? JSON.stringify(a.after) : '—'}
