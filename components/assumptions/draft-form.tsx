@@ -131,19 +131,33 @@ export function DraftForm(
           <div>
             <label className="label" htmlFor="estimator">Estimator</label>
             <select id="estimator" className="field" value={estimator} onChange={(e) => setEstimator(e.target.value)}>
-              {Object.keys(option?.estimates ?? { binomialMle: null }).map((k) => (
-                <option key={k} value={k}>
-                  {k}
-                </option>
-              ))}
+              {Object.entries(option?.estimates ?? {}).map(([k, e]) => {
+                // An assumption carries an interval: only estimators with a value and an interval can be drafted.
+                const usable = e.rho !== null && Object.keys(e.intervals).length > 0;
+                return (
+                  <option key={k} value={k} disabled={!usable}>
+                    {k}
+                    {e.rho === null ? ' (no value on this segment)' : !usable ? ' (no interval: cannot be drafted)' : ''}
+                  </option>
+                );
+              })}
             </select>
           </div>
           <div>
             <label className="label" htmlFor="interval-method">Interval</label>
             <select id="interval-method" className="field" value={intervalMethod} onChange={(e) => setIntervalMethod(e.target.value)}>
-              <option value="profile">profile likelihood</option>
-              <option value="wald">Wald</option>
-              <option value="bootstrap">bootstrap</option>
+              {(
+                [
+                  ['profile', 'profile likelihood'],
+                  ['wald', 'Wald'],
+                  ['bootstrap', 'bootstrap'],
+                ] as const
+              ).map(([k, label]) => (
+                <option key={k} value={k} disabled={!!est && !est.intervals[k]}>
+                  {label}
+                  {est && !est.intervals[k] ? ' (not computed by this fit)' : ''}
+                </option>
+              ))}
             </select>
           </div>
           {option && props.open?.[option.segment] ? (
@@ -165,7 +179,7 @@ export function DraftForm(
         </fieldset>
       ) : (
         <p className="text-sm">
-          Estimate <span className="num">{props.estimate}</span> (the evidence is frozen; draft a new version to use another fit).
+          Estimate <span className="num">{six(props.estimate)}</span> (the evidence is frozen; draft a new version to use another fit).
         </p>
       )}
 

@@ -47,15 +47,20 @@ export default async function LibraryPage() {
           <tbody>
             {library.map((e) => (
               <tr key={e.assumptionId} data-testid={`library-row-${e.segment}`}>
-                <td>{e.current ? <Link href={`/library/versions/${e.current.id}`}>{e.segment}</Link> : e.segment}</td>
+                <td>
+                  {e.current || e.pending ? <Link href={`/library/versions/${(e.current ?? e.pending)!.id}`}>{e.segment}</Link> : e.segment}
+                </td>
                 <td className="num text-right font-semibold" data-testid="library-value">{e.current ? fmt(e.current.finalValue) : '—'}</td>
-                <td className="num text-right">{e.current ? `${fmt(e.current.estimate)} (${e.current.estimator})` : '—'}</td>
-                <td className="num">
+                <td className="num text-right whitespace-nowrap">
+                  {e.current ? fmt(e.current.estimate) : '—'}
+                  {e.current ? <span className="block text-xs text-[var(--color-muted)]">{e.current.estimator}</span> : null}
+                </td>
+                <td className="num whitespace-nowrap">
                   {e.current ? `[${fmt(e.current.intervalLower)}, ${fmt(e.current.intervalUpper)}] ${e.current.intervalMethod} ${fmt(e.current.intervalLevel * 100, 2)}%` : '—'}
                 </td>
                 <td className="num text-right">{e.current ? fmt(e.current.pd, 5) : '—'}</td>
-                <td className="num">{e.current?.effectiveDate ?? '—'}</td>
-                <td className="num">{e.current?.reviewBy ?? '—'}</td>
+                <td className="num whitespace-nowrap">{e.current?.effectiveDate ?? '—'}</td>
+                <td className="num whitespace-nowrap">{e.current?.reviewBy ?? '—'}</td>
                 <td>
                   {e.current ? <StatusBadge status={e.current.status} /> : null} <HealthBadge health={e.health} days={e.daysToReview} />
                 </td>

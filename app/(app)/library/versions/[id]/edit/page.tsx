@@ -33,6 +33,11 @@ export default async function EditVersionPage({ params }: { params: Promise<{ id
         <p className="notice-bad">This version is {v.status} and can no longer be edited: draft a new version instead.</p>
       ) : (
         <>
+          {v.status === 'draft' && v.decisionComment ? (
+            <p className="notice-caution text-sm" data-testid="changes-requested">
+              Changes requested: {v.decisionComment}
+            </p>
+          ) : null}
           {v.status !== 'draft' ? (
             <p className="notice-caution text-sm">This version is {v.status.replace('_', ' ')}: saving an edit returns it to draft and voids its reviews.</p>
           ) : null}
