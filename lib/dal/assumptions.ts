@@ -561,7 +561,15 @@ export async function runScheduledTransitions(now: Date = new Date(), db: Db = g
       to,
       versionId: v.id,
       dedupeKey: (addr) => `${kind}:${v.id}:${v.reviewBy}:${addr}`,
-      facts: { segment, version: v.version, finalValue: v.finalValue, effectiveDate: v.effectiveDate, reviewBy: v.reviewBy, url: appUrl(`/library/versions/${v.id}`) },
+      facts: {
+        segment,
+        version: v.version,
+        finalValue: v.finalValue,
+        effectiveDate: v.effectiveDate,
+        reviewBy: v.reviewBy,
+        daysLeft: left,
+        url: appUrl(`/library/versions/${v.id}`),
+      },
     });
   }
   return report;
@@ -749,8 +757,8 @@ export type QueueItemDto = { id: number; segment: string; version: number; statu
 
 /**
  * What awaits this person: validators see submitted versions they may review (not their own) and
- * reviews they started; analysts see their drafts sent back with changes requested and approved
- * versions waiting for their effective date.
+ * reviews they started; analysts see their drafts sent back with changes requested. (Approved
+ * versions need no one: the scheduler publishes them on their effective date.)
  */
 export async function listQueue(actor: SessionUser): Promise<QueueItemDto[]> {
   assertCan(actor, 'assumptions:read');

@@ -21,8 +21,14 @@ export type MailFacts = {
   reviewBy: string;
   actorName?: string;
   comment?: string | null;
+  /** Reminders: whole days from the day the reminder is written to the review-by date. */
+  daysLeft?: number;
   url: string;
 };
+
+function dueIn(days: number): string {
+  return days <= 0 ? 'today' : days === 1 ? 'in 1 day' : `in ${days} days`;
+}
 
 const footer =
   '\n\n--\nRhobook. Approval in Rhobook is neither an independent validation nor a regulator\'s approval.\nYou receive this because of your role in this assumption.';
@@ -61,8 +67,9 @@ export function renderMail(kind: MailKind, f: MailFacts): { subject: string; bod
     case 'review-by-30':
     case 'review-by-7':
       return {
-        subject: `Review due in ${kind === 'review-by-30' ? 30 : 7} days: ${what}`,
-        body: `${what} must be reviewed by ${f.reviewBy}. After that date it expires and downstream models no longer receive it as the value in force.${link}${footer}`,
+        // The reminder goes out when the date is 30 (7) days away or closer: say how close it really is.
+        subject: `Review due ${f.daysLeft !== undefined ? dueIn(f.daysLeft) : `within ${kind === 'review-by-30' ? 30 : 7} days`}: ${what}`,
+        body: `${what} must be reviewed by ${f.reviewBy}${f.daysLeft !== undefined ? ` (${dueIn(f.daysLeft)})` : ''}. After that date it expires and downstream models no longer receive it as the value in force.${link}${footer}`,
       };
   }
 }

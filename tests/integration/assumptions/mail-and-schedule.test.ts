@@ -123,6 +123,9 @@ describe('the scheduler', () => {
       getDb().select().from(mailOutbox).where(and(eq(mailOutbox.versionId, id), eq(mailOutbox.kind, kind)));
 
     expect((await remindersOf('review-by-30')).map((m) => m.toAddress).sort()).toEqual([analyst.email, validator.email].sort());
+    // The subject says how close the date really is (25 days), not the 30 of the reminder's kind.
+    expect((await remindersOf('review-by-30'))[0].subject).toMatch(/^Review due in 25 days: /);
+    expect((await remindersOf('review-by-30'))[0].body).toContain(`must be reviewed by ${reviewBy} (in 25 days)`);
     await runScheduledTransitions(new Date());
     expect(await remindersOf('review-by-30')).toHaveLength(2);
     expect(await remindersOf('review-by-7')).toHaveLength(0);
@@ -131,6 +134,7 @@ describe('the scheduler', () => {
     await runScheduledTransitions(weekBefore);
     await runScheduledTransitions(weekBefore);
     expect(await remindersOf('review-by-7')).toHaveLength(2);
+    expect((await remindersOf('review-by-7'))[0].subject).toMatch(/^Review due in 6 days: /);
 
     const onTheDay = await runScheduledTransitions(new Date(`${reviewBy}T08:00:00Z`));
     expect(onTheDay.expired).not.toContain(id);
