@@ -121,7 +121,7 @@ export function UploadForm({ supersedable }: { supersedable: { id: number; name:
           onDragLeave={() => setDragging(false)}
           onDrop={onDrop}
           data-testid="drop-zone"
-          className={`rounded border-2 border-dashed p-6 text-center ${dragging ? 'border-[var(--color-accent)] bg-[var(--color-accent-soft)]' : 'border-[var(--color-line)]'}`}
+          className={`rounded border-2 border-dashed p-6 text-center focus-within:border-[var(--color-accent)] focus-within:ring-2 focus-within:ring-[var(--color-accent)] ${dragging ? 'border-[var(--color-accent)] bg-[var(--color-accent-soft)]' : 'border-[var(--color-line)]'}`}
         >
           <p className="text-sm">Drop a CSV file here (UTF-8, comma or semicolon), or</p>
           <label htmlFor="upload-file" className="btn btn-quiet mt-2 cursor-pointer">
