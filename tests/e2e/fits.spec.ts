@@ -32,7 +32,7 @@ test('an analyst starts a fit with a bootstrap, follows its progress and reads t
   const bar = page.getByRole('progressbar', { name: 'Fit progress' });
   await expect(bar).toBeVisible();
   // Progress moves while the bootstrap runs, and survives a reload of the page.
-  await expect(page.getByTestId('fit-progress-message')).toContainText(/Bootstrap \d+ of 1000|Estimator audit/, { timeout: 60_000 });
+  await expect(page.getByTestId('fit-progress-message')).toContainText(/Bootstrap and estimator audit: \d+% of the replications|Bootstrap \d+ of 1000/, { timeout: 60_000 });
   const before = Number(await bar.getAttribute('aria-valuenow'));
   expect(before).toBeGreaterThan(0);
   await page.reload();
