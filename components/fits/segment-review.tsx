@@ -360,7 +360,7 @@ export function SegmentReview({ seg, index, bootstrapRequested }: { seg: FitSegm
               The audit simulates at the estimate, not at the unknown true value: it tells how the estimators behave if the estimate were
               right. MC s.e.: the Monte Carlo standard error from {audit.replications} replications.
               {audit.coverage.wald.available < audit.replications ? ' Panels whose estimate fell at ρ = 0 have no Wald interval.' : ''}
-              {audit.omitted.map((o) => ` Not audited: ${o.item} (${o.reason})`).join('')}
+              {audit.omitted.map((o) => ` Not audited: ${o.item}. ${o.reason}`).join('')}
             </p>
           </>
         ) : (

@@ -169,7 +169,7 @@ export function ProfileChart({ curve, cutoff, estimate, logLik, interval }: {
       <line x1={m.l} x2={W - m.r} y1={y(cutoff)} y2={y(cutoff)} stroke="var(--color-bad)" strokeDasharray="5 4" />
       <path d={path} fill="none" stroke="var(--color-accent)" strokeWidth={2} clipPath={`url(#${clipId})`} />
       <line x1={x(estimate)} x2={x(estimate)} y1={m.t} y2={H - m.b} stroke="var(--color-accent)" strokeOpacity={0.6} />
-      <text x={x(estimate) + 4} y={m.t + 12} fontSize={10} fill="var(--color-accent)">
+      <text x={x(estimate) + 4} y={H - m.b - 6} fontSize={10} fill="var(--color-accent)">
         ρ̂ {fixed(estimate, 3)}
       </text>
     </svg>

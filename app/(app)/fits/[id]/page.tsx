@@ -54,8 +54,9 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
 
       {fit.results && !isCurrentResults(fit.results) ? (
         <p className="notice-caution text-sm" data-testid="old-results">
-          This run was computed by an earlier interim engine ({fit.engineVersion}) whose results have another layout; they are kept as
-          stored (GET /api/fits/{fit.id}) but not drawn here. Start a new fit on the same dataset to review it here.
+          This run&apos;s results were stored in an older layout (engine {fit.engineVersion}, before the review had all its current
+          parts), so they are not drawn here; they are kept as stored and answered by GET /api/fits/{fit.id}. Start a new fit on the
+          same dataset to review it here.
         </p>
       ) : null}
 

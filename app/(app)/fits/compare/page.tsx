@@ -41,7 +41,7 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
           {unfinished.length > 0
             ? `Run${unfinished.length > 1 ? 's' : ''} ${unfinished.map((f) => `#${f.id}`).join(', ')} ${unfinished.length > 1 ? 'have' : 'has'} not finished.`
             : outdated.length > 0
-              ? `Run${outdated.length > 1 ? 's' : ''} ${outdated.map((f) => `#${f.id}`).join(', ')} came from an earlier interim engine with another result layout; fit again to compare.`
+              ? `Run${outdated.length > 1 ? 's' : ''} ${outdated.map((f) => `#${f.id}`).join(', ')} stored results in an older layout; fit again to compare.`
               : 'These runs have no segment in common: compare runs of the same segment.'}{' '}
           <Link href="/fits">Back to the fits</Link>
         </p>
@@ -98,6 +98,7 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
             {row('Window', (c) => `${c.seg.periods[0]}–${c.seg.periods[c.seg.periods.length - 1]} (T ${c.seg.T})`)}
             {row('Level', (c) => `${Math.round(c.fit.request.level * 100)}%`)}
             {row('Engine', (c) => c.fit.engineVersion)}
+            {row('Seeds (bootstrap, audit)', (c) => `${c.fit.seeds.bootstrap ?? '—'}, ${c.fit.seeds.audit ?? '—'}`)}
             {ESTIMATOR_ORDER.map((k) => row(`ρ ${ESTIMATOR_NAMES[k]}`, (c) => fixed(c.seg.estimates[k].rho, 4)))}
             {row('PD (likelihood)', (c) => pct(c.seg.estimates.binomialMle.pd))}
             {row('Profile interval', (c) => interval(c.seg.estimates.binomialMle.intervals.profile?.lower, c.seg.estimates.binomialMle.intervals.profile?.upper))}
