@@ -7,7 +7,7 @@ import { eq, inArray } from 'drizzle-orm';
 import { closeDb, getDb } from '@/db/connection';
 import { fitRuns, jobs } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
-import { createFit, getFit } from '@/lib/dal/fits';
+import { cancelFit, createFit, getFit } from '@/lib/dal/fits';
 import { runFit } from '@/lib/cli/fit';
 import { fitPanel } from '@/lib/stats/fit-panel';
 import type { FitResults } from '@/lib/fits/results';
@@ -222,6 +222,43 @@ describe('fit jobs', () => {
       a.results!.segments[0].estimates.binomialMle.intervals.bootstrap!.lower,
     );
   });
+
+  it('cancelling a running fit stops the engine in the middle of its bootstrap: job cancelled, nothing written, the worker goes on', async () => {
+    const { id } = await createFit(analyst, { datasetId: dataset.id, segments: [dataset.segments[0]], bootstrap: { replications: 2000, seed: 8 } });
+    const { job } = await jobOf(id);
+    const controller = new AbortController();
+    const lines: string[] = [];
+    const loop = runJobLoop({ db: getDb(), workerId: 'cancel-test', signal: controller.signal, idleMs: 50, kinds: [FIT_JOB], log: (m) => lines.push(m) });
+    try {
+      await waitFor('the bootstrap to be under way', async () => {
+        const [row] = await getDb().select().from(jobs).where(eq(jobs.id, job.id));
+        return row.status === 'running' && /Bootstrap \d+ of 2000/.test(row.message ?? '');
+      });
+      const t0 = Date.now();
+      await cancelFit(analyst, id);
+      await waitFor('the job to be cancelled', async () => {
+        const [row] = await getDb().select().from(jobs).where(eq(jobs.id, job.id));
+        return row.status === 'cancelled';
+      }, 30_000);
+      // Stopped within seconds, well before 2,000 replications could finish.
+      expect(Date.now() - t0).toBeLessThan(15_000);
+      const [row] = await getDb().select().from(jobs).where(eq(jobs.id, job.id));
+      expect(row.progress).toBeLessThan(99);
+      const [run] = await getDb().select().from(fitRuns).where(eq(fitRuns.id, id));
+      expect(run.results).toBeNull();
+      expect((await getFit(analyst, id)).status).toBe('cancelled');
+      // Logged by the job loop when the handler itself was stopped (the engine aborted); a run that finished and was
+      // discarded afterwards logs "was taken over or cancelled; results discarded" instead.
+      expect(lines).toContain(`job ${job.id} cancelled`);
+      expect(lines.join('\n')).not.toMatch(/results discarded/);
+      // The same worker then runs the next fit to the end.
+      const next = await createFit(analyst, { datasetId: dataset.id, segments: [dataset.segments[0]], bootstrap: { replications: 20, seed: 1 } });
+      await waitFor('the next fit', async () => (await getFit(analyst, next.id)).status === 'succeeded');
+    } finally {
+      controller.abort();
+      await loop;
+    }
+  }, 120_000);
 
   it('a job whose payload points at a missing dataset fails at once with a clear error, not retried', async () => {
     const { id } = await createFit(analyst, { datasetId: dataset.id });
