@@ -9,8 +9,9 @@ import { signIn } from './helpers';
  */
 
 async function finishedFit(request: APIRequestContext): Promise<{ fitId: number; segment: string }> {
-  const datasets = (await (await request.get('/api/datasets')).json()).datasets as { id: number; kind: string; status: string }[];
-  const cohort = datasets.find((d) => d.kind === 'cohort' && d.status === 'ready');
+  const datasets = (await (await request.get('/api/datasets')).json()).datasets as { id: number; kind: string; status: string; name: string }[];
+  // The demo lender's cohort file (other specs upload cohort files of their own).
+  const cohort = datasets.find((d) => d.kind === 'cohort' && d.status === 'ready' && d.name.startsWith('Fenmoor'));
   expect(cohort, 'the demo data has a ready cohort dataset').toBeTruthy();
   // A segment with no version on its way (an earlier interrupted run may have left one open).
   const library = (await (await request.get('/api/assumptions')).json()).library as { segment: string; pending: unknown }[];
