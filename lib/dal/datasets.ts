@@ -46,7 +46,7 @@ import { parseIsoDate } from '@/lib/ingest/dates';
 import type { CensoredVintageYear } from '@/lib/ingest/vintage';
 import type { Finding, FindingSummary } from '@/lib/ingest/findings';
 import { conversionFailureMessage } from '@/lib/jobs/kinds/convert-loans';
-import type { Tx } from '@/lib/jobs/queue';
+import { cancelJob, type Tx } from '@/lib/jobs/queue';
 
 /**
  * Datasets: uploads validated into versioned, immutable sets of annual cohort rows. Every function
@@ -563,6 +563,12 @@ export async function deleteDataset(actor: SessionUser, id: number): Promise<voi
     throw new AppError('forbidden:datasets:delete', 'Only the analyst who uploaded this dataset, or an administrator, can delete it.');
   }
   const db = getDb();
+  if (row.status === 'processing') {
+    // Stop its conversion first: a queued job is cancelled at once, a running one at its next
+    // progress report (its give-up hook marks the report cancelled); no worker time is spent on it.
+    const [rep] = await db.select({ jobId: uploadReports.jobId }).from(uploadReports).where(eq(uploadReports.datasetId, id)).limit(1);
+    if (rep?.jobId) await cancelJob(db, rep.jobId).catch(() => undefined);
+  }
   try {
     // Datasets it superseded become current again (ON DELETE SET NULL); its report is detached.
     await db.delete(datasets).where(eq(datasets.id, id));

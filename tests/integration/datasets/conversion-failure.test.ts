@@ -24,7 +24,7 @@ vi.mock('@/lib/auth/session', async () => {
 import { closeDb, getDb } from '@/db/connection';
 import { datasetFiles, datasets, jobs, uploadReports } from '@/db/schema';
 import { GET as listRoute, POST } from '@/app/api/datasets/route';
-import { GET as getRoute } from '@/app/api/datasets/[id]/route';
+import { DELETE as deleteRoute, GET as getRoute } from '@/app/api/datasets/[id]/route';
 import { GET as reportRoute } from '@/app/api/datasets/reports/[reportId]/route';
 import { cancelJob, claimJob, failJob } from '@/lib/jobs/queue';
 import { runJobLoop } from '@/workers/job-loop';
@@ -152,6 +152,19 @@ describe('a conversion that ends without a result', () => {
     s = await state(v);
     expect(s.dataset.status).toBe('failed');
     expect(s.report.message).toContain('cancelled');
+  });
+
+  it('deleting a dataset still waiting for its conversion cancels the job; the report says so', async () => {
+    const u = await upload(tape());
+    const res = await deleteRoute(new Request('http://x', { method: 'DELETE' }), paramsOf({ id: String(u.id) }));
+    expect(res.status).toBe(204);
+    const s = await state(u);
+    expect(s.dataset).toBeUndefined();
+    expect(s.job.status).toBe('cancelled');
+    expect(s.report.status).toBe('failed');
+    expect(s.report.datasetId).toBeNull();
+    expect(s.report.message).toContain('cancelled');
+    expect(await claimJob(getDb(), 'w5', ['convert-loans'])).toBeNull();
   });
 
   it('a ready dataset is never touched by a late failure of its old job', async () => {
