@@ -4,6 +4,7 @@ import { notFound } from 'next/navigation';
 import { z } from 'zod';
 import { FitProgress } from '@/components/fits/fit-progress';
 import { SegmentReview } from '@/components/fits/segment-review';
+import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { getFit } from '@/lib/dal/fits';
 import { AppError } from '@/lib/errors';
@@ -72,7 +73,18 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
             </nav>
           ) : null}
           {fit.results.segments.map((s, i) => (
-            <div key={s.segment} id={`segment-${i}`}>
+            <div key={s.segment} id={`segment-${i}`} className="space-y-2">
+              {can(actor.role, 'assumptions:draft') && s.estimates.binomialMle.rho !== null ? (
+                <div className="flex justify-end">
+                  <Link
+                    className="btn btn-quiet text-sm"
+                    href={`/library/new?fitId=${fit.id}&segment=${encodeURIComponent(s.segment)}`}
+                    data-testid={`draft-from-fit-${i}`}
+                  >
+                    Draft an assumption for {s.segment} from this fit
+                  </Link>
+                </div>
+              ) : null}
               <SegmentReview seg={s} index={i} bootstrapRequested={!!r.bootstrap} />
             </div>
           ))}
