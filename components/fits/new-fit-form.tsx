@@ -164,39 +164,13 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
           <input type="checkbox" checked={boot} onChange={(e) => setBoot(e.target.checked)} /> Parametric bootstrap of the likelihood estimate
         </label>
         {boot ? (
-          <div className="grid gap-3 pl-6 sm:grid-cols-3">
-            <div>
-              <label className="label" htmlFor={`${id}-bb`}>
-                Bootstrap replications
-              </label>
-              <input id={`${id}-bb`} className="field num" inputMode="numeric" value={bootB} onChange={(e) => setBootB(e.target.value)} />
-            </div>
-            <div>
-              <label className="label" htmlFor={`${id}-bs`}>
-                Bootstrap seed
-              </label>
-              <input id={`${id}-bs`} className="field num" inputMode="numeric" value={bootSeed} onChange={(e) => setBootSeed(e.target.value)} />
-            </div>
-          </div>
+          <ReplicationFields id={`${id}-b`} what="Bootstrap" count={bootB} seed={bootSeed} onCount={setBootB} onSeed={setBootSeed} />
         ) : null}
         <label className="flex items-center gap-2 text-sm font-medium">
           <input type="checkbox" checked={audit} onChange={(e) => setAudit(e.target.checked)} /> Estimator audit at this sample size
         </label>
         {audit ? (
-          <div className="grid gap-3 pl-6 sm:grid-cols-3">
-            <div>
-              <label className="label" htmlFor={`${id}-ar`}>
-                Audit replications
-              </label>
-              <input id={`${id}-ar`} className="field num" inputMode="numeric" value={auditR} onChange={(e) => setAuditR(e.target.value)} />
-            </div>
-            <div>
-              <label className="label" htmlFor={`${id}-as`}>
-                Audit seed
-              </label>
-              <input id={`${id}-as`} className="field num" inputMode="numeric" value={auditSeed} onChange={(e) => setAuditSeed(e.target.value)} />
-            </div>
-          </div>
+          <ReplicationFields id={`${id}-a`} what="Audit" count={auditR} seed={auditSeed} onCount={setAuditR} onSeed={setAuditSeed} />
         ) : null}
         <p className="text-xs text-[var(--color-muted)]">
           The bootstrap and the audit take a few seconds per hundred replications and segment. Seeds are stored with the run, so
@@ -212,5 +186,32 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
         {submit.isPending || submit.isSuccess ? 'Starting…' : 'Start the fit'}
       </button>
     </form>
+  );
+}
+
+/** Replications and seed of the bootstrap or the audit. */
+function ReplicationFields(props: {
+  id: string;
+  what: string;
+  count: string;
+  seed: string;
+  onCount: (v: string) => void;
+  onSeed: (v: string) => void;
+}) {
+  return (
+    <div className="grid gap-3 pl-6 sm:grid-cols-3">
+      <div>
+        <label className="label" htmlFor={`${props.id}-count`}>
+          {props.what} replications
+        </label>
+        <input id={`${props.id}-count`} className="field num" inputMode="numeric" value={props.count} onChange={(e) => props.onCount(e.target.value)} />
+      </div>
+      <div>
+        <label className="label" htmlFor={`${props.id}-seed`}>
+          {props.what} seed
+        </label>
+        <input id={`${props.id}-seed`} className="field num" inputMode="numeric" value={props.seed} onChange={(e) => props.onSeed(e.target.value)} />
+      </div>
+    </div>
   );
 }

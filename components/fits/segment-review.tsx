@@ -1,6 +1,7 @@
 import { PairExplorer } from '@/components/pairs/pair-explorer';
 import { fixed, interval, pct } from '@/lib/fits/format';
 import { ESTIMATOR_NAMES, ESTIMATOR_ORDER, type FitSegmentResult } from '@/lib/fits/results';
+import { WARNING_CODES } from '@/lib/stats/diagnostics';
 import { BandsChart } from './bands-chart';
 import { FactorChart, ProfileChart, ForestChart } from './svg-charts';
 
@@ -13,21 +14,11 @@ const ASSET_CLASS_NAMES: Record<string, string> = {
   none: 'no asset class',
 };
 
-/** Warnings that are cautions of DESIGN.md (short series, zero-default years, boundary, autocorrelation, identification). */
-const CAUTION_CODES = new Set([
-  'not-identified-no-defaults',
-  'not-identified-all-defaults',
-  'not-identified-short',
-  'not-identified-flat',
-  'short-series',
-  'zero-default-periods',
-  'all-default-periods',
-  'at-boundary',
-  'at-search-limit',
-  'mle-not-converged',
-  'autocorrelation',
-  'bootstrap-failures',
-]);
+/** Warnings that are cautions of DESIGN.md (short series, zero-default years, boundary, autocorrelation,
+ * identification): every engine warning except the two that only say an optional part was not run. */
+const CAUTION_CODES: ReadonlySet<string> = new Set(
+  WARNING_CODES.filter((c) => c !== 'bootstrap-unavailable' && c !== 'audit-unavailable'),
+);
 
 function Section({ title, children, id }: { title: string; children: React.ReactNode; id: string }) {
   return (
