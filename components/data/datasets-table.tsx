@@ -1,8 +1,8 @@
 'use client';
 
-import { useQuery } from '@tanstack/react-query';
+import { useQuery, useQueryClient } from '@tanstack/react-query';
 import Link from 'next/link';
-import { useMemo, useState } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import type { DatasetDto } from '@/lib/dal/datasets';
 import { formatSize, formatWhen, kindLabels, statusLabels } from './format';
 import { datasetsQuery } from './queries';
@@ -27,6 +27,11 @@ function sortValue(d: DatasetDto, key: SortKey): string | number {
 
 /** The datasets, sortable by any column and filtered by text, kind and status. */
 export function DatasetsTable({ initial, canUpload = false }: { initial: DatasetDto[]; canUpload?: boolean }) {
+  const queryClient = useQueryClient();
+  // The server just read the list: it replaces whatever an earlier visit left in the cache.
+  useEffect(() => {
+    queryClient.setQueryData(datasetsQuery().queryKey, initial);
+  }, [queryClient, initial]);
   const { data = [] } = useQuery(datasetsQuery(initial));
   const [text, setText] = useState('');
   const [kind, setKind] = useState('');

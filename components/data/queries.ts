@@ -16,6 +16,10 @@ export function datasetsQuery(initial?: DatasetDto[]) {
     queryKey: ['datasets'],
     queryFn: async () => (await fetchJson<{ datasets: DatasetDto[] }>('/api/datasets')).datasets,
     initialData: initial,
+    // The list changes with every upload, and a client-side navigation back to /data would
+    // otherwise show the list cached on an earlier visit (found in QA).
+    staleTime: 0,
+    refetchOnMount: 'always',
     refetchInterval: (q) => (q.state.data?.some((d) => d.status === 'processing') ? 2000 : false),
   });
 }
