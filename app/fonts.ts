@@ -1,7 +1,7 @@
 import localFont from 'next/font/local';
 
 // Fonts ship with the app (copied from the @fontsource packages; licences beside them):
-// next/font/google would need the network at build time.
+// the Google-hosted font loader would need the network at build time.
 export const plex = localFont({
   src: [
     { path: './fonts/ibm-plex-sans-latin-400-normal.woff2', weight: '400', style: 'normal' },

@@ -14,17 +14,8 @@ import * as tokensRoute from '@/app/api/admin/tokens/route';
 import { makeUser } from '../../support/users';
 import { call, draftBody, makeFitRun } from '../../support/assumptions';
 
-const session = vi.hoisted(() => ({ user: null as SessionUser | null }));
-vi.mock('@/lib/auth/session', async () => {
-  const { AppError } = await import('@/lib/errors');
-  return {
-    getCurrentUser: async () => session.user,
-    requireUser: async () => {
-      if (!session.user) throw new AppError('unauthorized:session', 'Sign in to continue.');
-      return session.user;
-    },
-  };
-});
+vi.mock('@/lib/auth/session', () => import('../../support/mock-session'));
+import { session } from '../../support/mock-session';
 
 let analyst: SessionUser;
 let validator: SessionUser;

@@ -14,19 +14,8 @@ import { call, draftBody, makeFitRun, PANEL_A_FIT, type ApiAnswer } from '../../
 
 // The route handlers run for real against MariaDB; only next-auth's session lookup is replaced by
 // the user each test signs in as.
-const session = vi.hoisted(() => ({ user: null as SessionUser | null }));
-vi.mock('@/lib/auth/session', async () => {
-  const { AppError } = await import('@/lib/errors');
-  const { assertCan } = await import('@/lib/auth/guard');
-  return {
-    assertCan,
-    getCurrentUser: async () => session.user,
-    requireUser: async () => {
-      if (!session.user) throw new AppError('unauthorized:session', 'Sign in to continue.');
-      return session.user;
-    },
-  };
-});
+vi.mock('@/lib/auth/session', () => import('../../support/mock-session'));
+import { session } from '../../support/mock-session';
 
 let analyst: SessionUser;
 let analyst2: SessionUser;

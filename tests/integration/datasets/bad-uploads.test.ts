@@ -8,21 +8,12 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import type { SessionUser } from '@/lib/auth/guard';
 
-const h = vi.hoisted(() => {
+vi.hoisted(() => {
   // A small limit so that "over the limit" needs only a little more than 1 MB of generated data.
   process.env.UPLOAD_MAX_BYTES = String(1024 * 1024);
-  return { user: null as SessionUser | null };
 });
-vi.mock('@/lib/auth/session', async () => {
-  const { AppError } = await import('@/lib/errors');
-  return {
-    requireUser: async () => {
-      if (!h.user) throw new AppError('unauthorized:session', 'Sign in to continue.');
-      return h.user;
-    },
-    getCurrentUser: async () => h.user,
-  };
-});
+vi.mock('@/lib/auth/session', () => import('../../support/mock-session'));
+import { session as h } from '../../support/mock-session';
 
 import { count } from 'drizzle-orm';
 import { closeDb, getDb } from '@/db/connection';

@@ -10,17 +10,8 @@ import { eq, sql } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import type { SessionUser } from '@/lib/auth/guard';
 
-const h = vi.hoisted(() => ({ user: null as SessionUser | null }));
-vi.mock('@/lib/auth/session', async () => {
-  const { AppError } = await import('@/lib/errors');
-  return {
-    requireUser: async () => {
-      if (!h.user) throw new AppError('unauthorized:session', 'Sign in to continue.');
-      return h.user;
-    },
-    getCurrentUser: async () => h.user,
-  };
-});
+vi.mock('@/lib/auth/session', () => import('../../support/mock-session'));
+import { session as h } from '../../support/mock-session';
 
 import { closeDb, getDb } from '@/db/connection';
 import { cohortRows, datasetFiles, datasets, jobs, uploadReports } from '@/db/schema';
