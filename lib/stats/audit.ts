@@ -31,6 +31,7 @@ import { waldInterval } from './intervals/wald';
 import type { Panel } from './mixture-likelihood';
 import { createRng, deriveSeed } from './random';
 import { simulatePanel } from './simulate';
+import { assertSimulationModel } from './simulation-spec';
 
 /** Most replications one audit may ask for. */
 export const MAX_AUDIT_REPLICATIONS = 100_000;
@@ -112,27 +113,11 @@ export interface AuditSummary {
 }
 
 function assertSpec(fn: string, spec: AuditSpec): void {
-  if (!(spec.pd > 0 && spec.pd < 1)) {
-    throw new RangeError(`${fn}: the fitted PD must be strictly between 0 and 1 to simulate from it; got ${spec.pd}.`);
-  }
-  if (!(spec.rho >= 0 && spec.rho < 1)) {
-    throw new RangeError(`${fn}: the fitted rho must be in [0, 1) to simulate from it; got ${spec.rho}.`);
-  }
-  if (!Number.isInteger(spec.seed) || spec.seed < 0 || spec.seed > 0xffffffff) {
-    throw new RangeError(`${fn}: the seed must be an integer from 0 to 4294967295; got ${spec.seed}.`);
-  }
+  assertSimulationModel(fn, spec);
   const level = spec.level ?? 0.95;
   if (!(level > 0 && level < 1)) {
     throw new RangeError(`${fn}: the interval level must be strictly between 0 and 1; got ${level}.`);
   }
-  if (!Array.isArray(spec.obligors) || spec.obligors.length === 0) {
-    throw new RangeError(`${fn}: the cohort sizes must be a non-empty array.`);
-  }
-  spec.obligors.forEach((n, t) => {
-    if (!Number.isSafeInteger(n) || n < 1) {
-      throw new RangeError(`${fn}: period ${t + 1} has obligors = ${n}; it must be a positive whole number.`);
-    }
-  });
 }
 
 function statusOf(fn: () => { rho: number | null; status: EstimateStatus }): AuditEstimate {

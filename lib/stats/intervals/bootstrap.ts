@@ -13,6 +13,7 @@ import { binomialMle } from '../estimators/binomial-mle';
 import type { EstimateStatus } from '../estimators/types';
 import { createRng, deriveSeed } from '../random';
 import { simulatePanel } from '../simulate';
+import { assertSimulationModel } from '../simulation-spec';
 
 /** Most replications one bootstrap may ask for. */
 export const MAX_BOOTSTRAP_REPLICATIONS = 100_000;
@@ -57,26 +58,6 @@ export interface BootstrapInterval {
   failures: { reason: string; count: number }[];
 }
 
-function assertSpec(fn: string, spec: BootstrapSpec): void {
-  if (!(spec.pd > 0 && spec.pd < 1)) {
-    throw new RangeError(`${fn}: the fitted PD must be strictly between 0 and 1 to simulate from it; got ${spec.pd}.`);
-  }
-  if (!(spec.rho >= 0 && spec.rho < 1)) {
-    throw new RangeError(`${fn}: the fitted rho must be in [0, 1) to simulate from it; got ${spec.rho}.`);
-  }
-  if (!Number.isInteger(spec.seed) || spec.seed < 0 || spec.seed > 0xffffffff) {
-    throw new RangeError(`${fn}: the seed must be an integer from 0 to 4294967295; got ${spec.seed}.`);
-  }
-  if (!Array.isArray(spec.obligors) || spec.obligors.length === 0) {
-    throw new RangeError(`${fn}: the cohort sizes must be a non-empty array.`);
-  }
-  spec.obligors.forEach((n, t) => {
-    if (!Number.isSafeInteger(n) || n < 1) {
-      throw new RangeError(`${fn}: period ${t + 1} has obligors = ${n}; it must be a positive whole number.`);
-    }
-  });
-}
-
 function assertReplications(fn: string, replications: number): void {
   if (!Number.isInteger(replications) || replications < 1 || replications > MAX_BOOTSTRAP_REPLICATIONS) {
     throw new RangeError(
@@ -111,7 +92,7 @@ export function bootstrapRange(
   to: number,
   onReplication?: (replication: BootstrapReplication) => void,
 ): BootstrapReplication[] {
-  assertSpec('bootstrapRange', spec);
+  assertSimulationModel('bootstrapRange', spec);
   if (!Number.isSafeInteger(from) || !Number.isSafeInteger(to) || from < 0 || to < from) {
     throw new RangeError(`bootstrapRange: the index range must satisfy 0 <= from <= to (whole numbers); got [${from}, ${to}).`);
   }
