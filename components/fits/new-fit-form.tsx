@@ -122,32 +122,8 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
         </div>
       </fieldset>
       <div className="grid gap-3 sm:grid-cols-3">
-        <div>
-          <label className="label" htmlFor={`${id}-from`}>
-            Window from
-          </label>
-          <select id={`${id}-from`} className="field" value={from} onChange={(e) => setFrom(e.target.value)}>
-            <option value="">first period</option>
-            {years.map((y) => (
-              <option key={y} value={y}>
-                {y}
-              </option>
-            ))}
-          </select>
-        </div>
-        <div>
-          <label className="label" htmlFor={`${id}-to`}>
-            Window to
-          </label>
-          <select id={`${id}-to`} className="field" value={to} onChange={(e) => setTo(e.target.value)}>
-            <option value="">last period</option>
-            {years.map((y) => (
-              <option key={y} value={y}>
-                {y}
-              </option>
-            ))}
-          </select>
-        </div>
+        <YearSelect id={`${id}-from`} label="Window from" empty="first period" years={years} value={from} onChange={setFrom} />
+        <YearSelect id={`${id}-to`} label="Window to" empty="last period" years={years} value={to} onChange={setTo} />
         <div>
           <label className="label" htmlFor={`${id}-level`}>
             Interval level
@@ -212,6 +188,32 @@ function ReplicationFields(props: {
         </label>
         <input id={`${props.id}-seed`} className="field num" inputMode="numeric" value={props.seed} onChange={(e) => props.onSeed(e.target.value)} />
       </div>
+    </div>
+  );
+}
+
+/** One end of the fit window: a year of the dataset, or empty for the first or last period. */
+function YearSelect(props: {
+  id: string;
+  label: string;
+  empty: string;
+  years: readonly (string | number)[];
+  value: string;
+  onChange: (v: string) => void;
+}) {
+  return (
+    <div>
+      <label className="label" htmlFor={props.id}>
+        {props.label}
+      </label>
+      <select id={props.id} className="field" value={props.value} onChange={(e) => props.onChange(e.target.value)}>
+        <option value="">{props.empty}</option>
+        {props.years.map((y) => (
+          <option key={y} value={y}>
+            {y}
+          </option>
+        ))}
+      </select>
     </div>
   );
 }
