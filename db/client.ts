@@ -1,2 +1,2 @@
 import 'server-only';
-export { getDb, getPool, closeDb, type Db } from './connection';
+export { getDb, getPool, closeDb, type Db, type Tx, type DbOrTx } from './connection';

@@ -9,6 +9,10 @@ import * as schema from './schema';
  * the worker, the migrator and tests import this file directly.
  */
 export type Db = MySql2Database<typeof schema>;
+/** The transaction handed to `db.transaction(async (tx) => ...)`, fully typed against the schema. */
+export type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
+/** Either the pool-backed database or an open transaction: for helpers that run inside or outside one. */
+export type DbOrTx = Db | Tx;
 
 const g = globalThis as unknown as { __rhobookPool?: mysql.Pool; __rhobookDb?: Db };
 

@@ -3,6 +3,8 @@
  * kind decides the HTTP status. Messages are plain sentences a user can act on; `details` carries
  * structured data (for example the findings of a rejected upload).
  */
+import type { z } from 'zod';
+
 export type ErrorKind =
   | 'bad_request'
   | 'invalid'
@@ -75,4 +77,28 @@ export function errorResponse(err: unknown): Response {
   if (err instanceof AppError) return err.toResponse();
   console.error('[rhobook] unexpected error', err);
   return new AppError('internal:unexpected', 'Something went wrong on the server. The error has been logged.').toResponse();
+}
+
+/**
+ * Parses `input` with `schema` or throws an AppError with `code`. The message is the first issue's
+ * sentence; `details.field` names its field (dotted path, for forms to mark) and
+ * `details.fieldErrors` maps every failing field to its first sentence, so a form can show each
+ * error beside its field. Paths are for the form, never for the sentence shown to a person.
+ */
+export function parseOrThrow<S extends z.ZodType>(
+  schema: S,
+  input: unknown,
+  code: ErrorCode,
+  fallback = 'The request is not valid.',
+): z.output<S> {
+  const parsed = schema.safeParse(input);
+  if (parsed.success) return parsed.data;
+  const fieldErrors: Record<string, string> = {};
+  for (const issue of parsed.error.issues) {
+    const key = issue.path.map(String).join('.');
+    if (!(key in fieldErrors)) fieldErrors[key] = issue.message;
+  }
+  const first = parsed.error.issues[0];
+  const field = first && first.path.length > 0 ? first.path.map(String).join('.') : null;
+  throw new AppError(code, first?.message ?? fallback, { field, fieldErrors });
 }

@@ -1,5 +1,6 @@
+import { z } from 'zod';
 import { describe, expect, it } from 'vitest';
-import { AppError } from '@/lib/errors';
+import { AppError, parseOrThrow } from '@/lib/errors';
 
 describe('AppError', () => {
   it('maps the kind of its code to an HTTP status', () => {
@@ -24,5 +25,28 @@ describe('AppError', () => {
     const e = AppError.fromJSON('<html>', 502);
     expect(e.code).toBe('internal:unknown');
     expect(e.message).toMatch(/unexpected/);
+  });
+});
+
+describe('parseOrThrow', () => {
+  const schema = z.object({ name: z.string().min(1, 'Give a name.'), margins: z.object({ rationale: z.string().min(1, 'Say why.') }) });
+
+  it('returns the parsed value', () => {
+    expect(parseOrThrow(schema, { name: 'a', margins: { rationale: 'b' } }, 'invalid:thing')).toEqual({ name: 'a', margins: { rationale: 'b' } });
+  });
+
+  it('throws the given code with the first sentence and every field error', () => {
+    let caught: unknown;
+    try {
+      parseOrThrow(schema, { name: '', margins: { rationale: '' } }, 'invalid:thing');
+    } catch (err) {
+      caught = err;
+    }
+    expect(caught).toBeInstanceOf(AppError);
+    const e = caught as AppError;
+    expect(e.code).toBe('invalid:thing');
+    expect(e.status).toBe(422);
+    expect(e.message).toBe('Give a name.');
+    expect(e.details).toEqual({ field: 'name', fieldErrors: { name: 'Give a name.', 'margins.rationale': 'Say why.' } });
   });
 });
