@@ -1,7 +1,7 @@
 import { PairExplorer } from '@/components/pairs/pair-explorer';
 import { fixed, interval, pct } from '@/lib/fits/format';
 import { ESTIMATOR_NAMES, ESTIMATOR_ORDER, type FitSegmentResult } from '@/lib/fits/results';
-import { WARNING_CODES } from '@/lib/stats/diagnostics';
+import { WARNING_CODES } from '@/lib/stats/fit-warnings';
 import { BandsChart } from './bands-chart';
 import { FactorChart, ProfileChart, ForestChart } from './svg-charts';
 

@@ -16,14 +16,9 @@ import { momentVariance } from './estimators/moment-variance';
 import { momentVarianceCorrected } from './estimators/moment-variance-corrected';
 import type { Estimate, EstimateStatus } from './estimators/types';
 import { vasicekMle } from './estimators/vasicek-mle';
-import {
-  capitalImplications,
-  panelDiagnostics,
-  type CapitalConvention,
-  type Diagnostics,
-  type FitWarning,
-  type Implications,
-} from './diagnostics';
+import { capitalImplications, type CapitalConvention, type Implications } from './capital-implications';
+import { panelDiagnostics, type Diagnostics } from './diagnostics';
+import type { FitWarning } from './fit-warnings';
 import {
   bootstrapRange,
   MAX_BOOTSTRAP_REPLICATIONS,

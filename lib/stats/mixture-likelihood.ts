@@ -1,6 +1,6 @@
 /**
- * The binomial-mixture (Vasicek one-factor) likelihood of a default panel and the integration rule
- * behind it.
+ * The binomial-mixture (Vasicek one-factor) likelihood of a default panel, with its derivatives
+ * in (k, rho), k = Phi^-1(p): the evaluator binomialMle, its profile and its intervals use.
  *
  * For a period with n obligors and d defaults, the likelihood at (p, rho) is
  *
@@ -9,145 +9,34 @@
  *
  * and a panel's log-likelihood is the sum of log L over its periods (Gordy & Heitfield 2002).
  *
- * Integration rule ("mode-bracketed adaptive Gauss-Kronrod"). Write g(x) for the log of the integrand.
- * Because log Phi is concave and the argument of P is linear in x, g(x) = h(z(x)) + log phi(x) with
- * h concave, so g'' <= -1 everywhere: the integrand is strictly log-concave, has one mode m, and
- * g(m + u) <= g(m) - u^2/2. The rule
- *   1. finds the mode by safeguarded Newton on g' (bracketed, bisection fallback), started from
- *      the previous mode of the period;
- *   2. finds on each side the point where g has dropped TRUNCATION_LOG_UNITS (40) below g(m),
- *      by Newton on the concave g from outside (monotone convergence), started from the previous
- *      width, never further than sqrt(2 * 40) from m by the bound above; the mass outside is
- *      below e^-40 relative;
- *   3. integrates exp(g - g(m)) with Gauss-Kronrod G10/K21 panels, two on each side to start,
- *      bisecting the panel with the largest QUADPACK error estimate until the total estimate is
- *      below RELATIVE_TOLERANCE (1e-8; the actual error is far smaller, see the tests). The
- *      derivatives in (k, rho) are posterior moments integrated at the same nodes
- *      (MixtureLikelihood).
- * The left and right sides are each monotone and smooth, so the rule follows the narrow spike of a
- * large cohort (width ~ 1/sqrt(n) in x) and the cliff of a zero-default period at high rho (where
- * g falls double-exponentially) alike; fixed Gauss-Hermite does neither. Accuracy is checked in
- * tests/unit/stats/mixture-likelihood.test.ts against a brute-force Simpson integral and against
- * SciPy's adaptive QUADPACK (tests/fixtures/engine/make_fixtures.py) over n = 1..10^6, d = 0..n,
- * rho = 1e-6..0.95: relative error of L below ~1e-12.
+ * Method: each period's integral is the Gaussian mixing law's integrand (gaussian-mixing.ts)
+ * integrated by the mode-bracketed adaptive Gauss-Kronrod rule of log-concave-integral.ts, with
+ * the per-period mode and truncation widths of the previous call as warm starts (a fresh start
+ * follows when a warm one fails). Accuracy is checked in tests/unit/stats/mixture-likelihood.test.ts
+ * against a brute-force Simpson integral and SciPy's QUADPACK (tests/fixtures/engine/make_fixtures.py)
+ * over n = 1..10^6, d = 0..n, rho = 1e-6..0.95 (relative error of L below ~1e-12), and against an
+ * mpmath integral at n = 10^7, 10^8 and 10^9 per period with rho up to the search limit 0.995.
  *
  * rho = 0 is the plain binomial likelihood (the integrand does not depend on x).
  *
  * References: Gordy, M. B. & Heitfield, E. (2002), "Estimating default correlations from short
  * panels of credit rating performance data", Federal Reserve Board working paper, eq. (4);
- * Vasicek, O. (1987), "Probability of loss on loan portfolio", KMV; Piessens, R., de Doncker-Kapenga,
- * E., Uberhuber, C. W. & Kahaner, D. K. (1983), QUADPACK, Springer (qk21, qag); Stein, C. M. (1981),
+ * Vasicek, O. (1987), "Probability of loss on loan portfolio", KMV; Stein, C. M. (1981),
  * "Estimation of the mean of a multivariate normal distribution", Annals of Statistics 9:1135-1151
  * (lemma 1, used for the rho-derivative near 0).
  */
-import erfcx from '@stdlib/math-base-special-erfcx';
+import { GaussianPeriodIntegrand, GAUSSIAN_MOMENTS, type DerivativeOrder } from './gaussian-mixing';
 import { binomialLogPmf, logBinomialCoefficient } from './log-binomial';
+import { LogConcaveIntegrator } from './log-concave-integral';
 import { normalCdf, normalQuantile } from './normal';
+import { normalTails, TAIL_SLOTS } from './normal-tails';
+import { assertPanel, type Panel } from './panel';
 
-/** Log-units below the mode at which the integrand is truncated. */
-export const TRUNCATION_LOG_UNITS = 40;
-/** Relative tolerance of the adaptive Gauss-Kronrod stage (QUADPACK error estimate). */
-export const RELATIVE_TOLERANCE = 1e-8;
-/** Most panels the adaptive stage may use for one period. */
-export const MAX_PANELS = 64;
+// Re-exported for callers that import the panel from the likelihood (its home is panel.ts).
+export { assertPanel, type Panel };
 
-const LN_SQRT_2PI = 0.9189385332046727418;
-const INV_SQRT_2PI = 0.3989422804014326779;
-const SQRT_2_OVER_PI = 0.7978845608028654;
-const MAX_HALF_WIDTH = Math.sqrt(2 * TRUNCATION_LOG_UNITS);
 /** Below this rho the rho-slope is taken in Stein's form (see MixtureLikelihood). */
 const STEIN_BELOW = 1e-6;
-
-// Gauss-Kronrod G10/K21 on [-1, 1] (QUADPACK qk21; Piessens et al. 1983). Nodes in increasing
-// order; GAUSS_WEIGHTS is zero at the Kronrod-only nodes. Checked in the tests: K21 integrates
-// polynomials of degree <= 31 exactly and G10 those of degree <= 19.
-const XGK = [
-  0.995657163025808080735527280689003, 0.973906528517171720077964012084452,
-  0.930157491355708226001207180059508, 0.865063366688984510732096688423493,
-  0.780817726586416897063717578345042, 0.679409568299024406234327365114874,
-  0.562757134668604683339000099272694, 0.433395394129247190799265943165784,
-  0.294392862701460198131126603103866, 0.14887433898163121088482600112972, 0,
-];
-const WGK = [
-  0.011694638867371874278064396062192, 0.03255816230796472747881897245939,
-  0.05475589657435199603138130024458, 0.07503967481091995276704314091619,
-  0.093125454583697605535065465083366, 0.109387158802297641899210590325805,
-  0.123491976262065851077208745199851, 0.134709217311473325928054001771707,
-  0.142775938577060080797094273138717, 0.147739104901338491374841515972068,
-  0.149445554002916905664936468389821,
-];
-const WG = [
-  0.066671344308688137593568809893332, 0.149451349150580593145776339657697,
-  0.219086362515982043995534934228163, 0.269266719309996355091226921569469,
-  0.295524224714752870173892994651338,
-];
-/** The 21 Kronrod nodes on [-1, 1], increasing. */
-export const KRONROD_NODES = new Float64Array(21);
-/** Kronrod weights for {@link KRONROD_NODES}. */
-export const KRONROD_WEIGHTS = new Float64Array(21);
-/** Weights of the embedded 10-point Gauss rule at {@link KRONROD_NODES} (0 at Kronrod-only nodes). */
-export const GAUSS_WEIGHTS = new Float64Array(21);
-for (let j = 0; j < 10; j++) {
-  KRONROD_NODES[j] = -XGK[j];
-  KRONROD_NODES[20 - j] = XGK[j];
-  KRONROD_WEIGHTS[j] = WGK[j];
-  KRONROD_WEIGHTS[20 - j] = WGK[j];
-  if (j % 2 === 1) {
-    GAUSS_WEIGHTS[j] = WG[(j - 1) / 2];
-    GAUSS_WEIGHTS[20 - j] = WG[(j - 1) / 2];
-  }
-}
-KRONROD_NODES[10] = 0;
-KRONROD_WEIGHTS[10] = WGK[10];
-
-/**
- * Accumulators of one panel (integrals of f = exp(g - g(mode)) times):
- * 0: 1;  1: u;  2: u^2;  3: h2;  4: v;  5: v^2;  6: u v;  7: G_k,rho;  8: G_rho,rho;
- * with u = h1 - h1(mode) and v = G_rho - G_rho(mode) (centred at the mode so that the variances
- * below do not cancel). h1, h2 are the first two z-derivatives of G(z) = d log Phi(z) +
- * (n - d) log Phi(-z); G_rho etc. are derivatives of G(z(x)) in the parameters at fixed x.
- */
-const NACC = 9;
-const F_VALUES = new Float64Array(21);
-const P_LO = new Float64Array(MAX_PANELS);
-const P_HI = new Float64Array(MAX_PANELS);
-const P_ERR = new Float64Array(MAX_PANELS);
-const P_ACC = new Float64Array(MAX_PANELS * NACC);
-const TOTAL = new Float64Array(NACC);
-
-/** A default panel: obligors at the start of each period and defaults during it. */
-export interface Panel {
-  obligors: readonly number[];
-  defaults: readonly number[];
-}
-
-/**
- * Checks a panel and throws RangeError naming the first bad period (1-based).
- */
-export function assertPanel(panel: Panel, fn: string): void {
-  const { obligors, defaults } = panel;
-  if (!Array.isArray(obligors) || !Array.isArray(defaults)) {
-    throw new RangeError(`${fn}: the panel needs arrays of obligors and defaults.`);
-  }
-  if (obligors.length !== defaults.length) {
-    throw new RangeError(
-      `${fn}: obligors has ${obligors.length} periods but defaults has ${defaults.length}; give one of each per period.`,
-    );
-  }
-  if (obligors.length === 0) throw new RangeError(`${fn}: the panel has no periods.`);
-  for (let t = 0; t < obligors.length; t++) {
-    const n = obligors[t];
-    const d = defaults[t];
-    if (!Number.isSafeInteger(n) || n < 1) {
-      throw new RangeError(`${fn}: period ${t + 1} has obligors = ${n}; it must be a positive whole number.`);
-    }
-    if (!Number.isSafeInteger(d) || d < 0 || d > n) {
-      throw new RangeError(
-        `${fn}: period ${t + 1} has defaults = ${d} with obligors = ${n}; defaults must be a whole number from 0 to obligors.`,
-      );
-    }
-  }
-}
 
 /** Value and first two derivatives with respect to k = Phi^-1(p) of a log-likelihood. */
 export interface LogLikK {
@@ -166,61 +55,29 @@ export interface LogLikFull extends LogLikK {
   drr: number;
 }
 
-// Scratch results of tails(): log Phi(z), log Phi(-z), mills(z) = phi(z)/Phi(z), mills(-z).
-let tLogP = 0;
-let tLogQ = 0;
-let tMillsP = 0;
-let tMillsQ = 0;
-
-/**
- * Fills the scratch variables for argument z: tLogP = log Phi(z), tLogQ = log Phi(-z),
- * tMillsP = phi(z)/Phi(z), tMillsQ = phi(z)/Phi(-z). One erfcx and one exp: the tail side is
- * Phi(-t) = erfcx(t/sqrt2)/2 exp(-t^2/2) (t = |z|), whose log and inverse Mills ratio
- * sqrt(2/pi)/erfcx(t/sqrt 2) need no exp at all (no underflow for any finite z).
- */
-function tails(z: number): void {
-  const t = z < 0 ? -z : z;
-  const e = erfcx(t * Math.SQRT1_2);
-  const half = 0.5 * t * t;
-  const gauss = Math.exp(-half);
-  const small = 0.5 * e * gauss; // Phi(-t)
-  const logSmall = Math.log(0.5 * e) - half;
-  const millsSmall = SQRT_2_OVER_PI / e; // phi(t) / Phi(-t)
-  const logBig = Math.log1p(-small);
-  const millsBig = (INV_SQRT_2PI * gauss) / (1 - small); // phi(t) / Phi(t)
-  if (z < 0) {
-    tLogP = logSmall;
-    tMillsP = millsSmall;
-    tLogQ = logBig;
-    tMillsQ = millsBig;
-  } else {
-    tLogP = logBig;
-    tMillsP = millsBig;
-    tLogQ = logSmall;
-    tMillsQ = millsSmall;
-  }
+/** The integration record of an evaluator: how often the adaptive rule missed its tolerance. */
+export interface IntegrationReport {
+  /** Likelihood evaluations (each covers every period). */
+  evaluations: number;
+  /** Period integrals whose error estimate stayed above the tolerance (the value is still used). */
+  unconverged: number;
+  /** Largest relative error estimate among them (0 when none). */
+  worstRelativeError: number;
 }
 
-// Scratch of logPhiDerivatives(): derivatives 1..4 of log Phi at w, given lambda = phi(w)/Phi(w).
-let dl1 = 0;
-let dl2 = 0;
-let dl3 = 0;
-let dl4 = 0;
-
-/** (log Phi)', '', ''', '''' at w from the inverse Mills ratio lambda: lambda' = -lambda (w + lambda). */
-function logPhiDerivatives(w: number, lambda: number): void {
-  dl1 = lambda;
-  dl2 = -lambda * (w + lambda);
-  dl3 = -dl2 * (w + lambda) - lambda * (1 + dl2);
-  dl4 = -dl3 * (w + 2 * lambda) - 2 * dl2 * (1 + dl2);
+/** (log Phi)', '', ''', '''' at w from lambda = phi(w)/Phi(w) and the curvature v = -(log Phi)''(w). */
+function logPhiDerivatives(w: number, lambda: number, v: number): [number, number, number, number] {
+  const d1 = lambda;
+  const d2 = -v;
+  const d3 = -d2 * (w + lambda) - lambda * (1 + d2);
+  const d4 = -d3 * (w + 2 * lambda) - 2 * d2 * (1 + d2);
+  return [d1, d2, d3, d4];
 }
-
-/** 0: value only; 1: value and k-derivatives; 2: value, gradient and Hessian in (k, rho). */
-type Order = 0 | 1 | 2;
 
 /**
  * Evaluates the log-likelihood of one panel at many (p, rho) quickly, keeping per-period warm
- * starts (modes and truncation widths) between calls. Results agree with a cold evaluation to the
+ * starts (modes and truncation widths) between calls and counting the period integrals whose
+ * error estimate stayed above the tolerance (`unconverged`, read through report()). Results agree with a cold evaluation to the
  * accuracy of the rule (~1e-12 relative in L); create a new evaluator where bit-for-bit
  * reproducibility independent of call history matters.
  *
@@ -246,12 +103,16 @@ export class MixtureLikelihood {
   private readonly modes: Float64Array;
   private readonly widths: Float64Array;
   private readonly hasMode: Uint8Array;
+  private readonly integrand = new GaussianPeriodIntegrand();
+  private readonly integrator = new LogConcaveIntegrator(GAUSSIAN_MOMENTS[2]);
+  private readonly tails = new Float64Array(TAIL_SLOTS);
   /** Total defaults / total obligors. */
   readonly pooledRate: number;
   /** Likelihood evaluations performed (each covers every period). */
   evaluations = 0;
-  /** Integrations that hit MAX_PANELS before meeting the tolerance (should stay 0). */
+  /** Period integrals that missed the tolerance of the adaptive rule (should stay 0; see report()). */
   unconverged = 0;
+  private worstRelativeError = 0;
 
   constructor(panel: Panel) {
     assertPanel(panel, 'MixtureLikelihood');
@@ -273,6 +134,11 @@ export class MixtureLikelihood {
     this.pooledRate = sd / sn;
   }
 
+  /** How the integrations went so far: evaluations, integrals that missed the tolerance, the worst error estimate. */
+  report(): IntegrationReport {
+    return { evaluations: this.evaluations, unconverged: this.unconverged, worstRelativeError: this.worstRelativeError };
+  }
+
   /** Log-likelihood at (k, rho), k = Phi^-1(p). */
   logLik(k: number, rho: number): number {
     return this.evaluate(k, rho, 0).value;
@@ -292,7 +158,7 @@ export class MixtureLikelihood {
     return this.evaluate(k, rho, 2);
   }
 
-  private evaluate(k: number, rho: number, order: Order): LogLikFull {
+  private evaluate(k: number, rho: number, order: DerivativeOrder): LogLikFull {
     if (!Number.isFinite(k)) {
       throw new RangeError(`mixture log-likelihood: k = Phi^-1(p) must be finite (0 < p < 1); got ${k}.`);
     }
@@ -300,317 +166,114 @@ export class MixtureLikelihood {
       throw new RangeError(`mixture log-likelihood: rho must be in [0, 1); got ${rho}.`);
     }
     this.evaluations++;
+    if (rho === 0) return this.binomial(k, order);
     let value = 0;
     let dk = 0;
     let dkk = 0;
     let dr = 0;
     let dkr = 0;
     let drr = 0;
-    if (rho === 0) {
-      // Plain binomial; the rho-derivatives from the heat equation in b = rho / (1 - rho) at b = 0
-      // (class comment), with h_j = G^(j)(k).
-      const p = normalCdf(k);
-      tails(k);
-      const lamP = tMillsP;
-      const lamQ = tMillsQ;
-      logPhiDerivatives(k, lamP);
-      const p1 = dl1, p2 = dl2, p3 = dl3, p4 = dl4;
-      logPhiDerivatives(-k, lamQ);
-      const q1 = -dl1, q2 = dl2, q3 = -dl3, q4 = dl4;
-      for (let t = 0; t < this.periods; t++) {
-        const n = this.obligors[t];
-        const d = this.defaults[t];
-        const nd = n - d;
-        value += binomialLogPmf(d, n, p);
-        if (order > 0) {
-          const h1 = d * p1 + nd * q1;
-          const h2 = d * p2 + nd * q2;
-          dk += h1;
-          dkk += h2;
-          if (order > 1) {
-            const h3 = d * p3 + nd * q3;
-            const h4 = d * p4 + nd * q4;
-            dr += 0.5 * (h1 * k + h2 + h1 * h1);
-            dkr += 0.5 * (h2 * k + h1 + h3 + 2 * h1 * h2);
-            drr +=
-              0.25 * h2 * k * k +
-              0.5 * (h3 + 2 * h1 * h2) * k +
-              0.25 * (h4 + 4 * h1 * h3 + 2 * h2 * h2 + 4 * h1 * h1 * h2) +
-              0.75 * k * h1 +
-              h2 +
-              h1 * h1;
-          }
-        }
-      }
-      return { value, dk, dkk, dr, dkr, drr };
-    }
-    const s = Math.sqrt(rho);
-    const s1 = Math.sqrt(1 - rho);
-    const a = s / s1;
-    const c = k / s1;
-    qOrder = order;
-    qZX = 1 / (2 * s * s1);
-    qZZ = 1 / (2 * (1 - rho));
-    qZXX = (1 - 2 * rho) / (4 * rho * (1 - rho) * s * s1);
-    qZZ2 = 1 / (2 * (1 - rho) * (1 - rho));
-    qZK = 1 / s1;
-    qZKR = qZK * qZZ;
+    const f = this.integrand;
+    f.setParameters(k, rho, order);
+    const c = k / Math.sqrt(1 - rho);
+    const zz = 1 / (2 * (1 - rho));
+    const zz2 = 1 / (2 * (1 - rho) * (1 - rho));
+    const zk = f.zk;
+    const M = this.integrator.moments;
     for (let t = 0; t < this.periods; t++) {
-      this.period(t, c, a);
-      value += pValue;
+      f.setPeriod(this.obligors[t], this.defaults[t], this.logChoose[t]);
+      const r = this.integrator.integrate(
+        f,
+        this.hasMode[t] === 1
+          ? { start: this.modes[t], leftWidth: this.widths[2 * t], rightWidth: this.widths[2 * t + 1], curvatureBound: 1 }
+          : { curvatureBound: 1 },
+      );
+      if (!r.converged) {
+        if (!Number.isFinite(r.value)) {
+          this.hasMode[t] = 0;
+          throw new RangeError(
+            `mixture log-likelihood: the integral of period ${t + 1} (n = ${this.obligors[t]}, d = ${this.defaults[t]}) failed at k = ${k}, rho = ${rho}: ${r.reason}.`,
+          );
+        }
+        this.unconverged++;
+        if (r.relativeError > this.worstRelativeError) this.worstRelativeError = r.relativeError;
+      }
+      this.modes[t] = r.mode;
+      this.widths[2 * t] = r.leftWidth;
+      this.widths[2 * t + 1] = r.rightWidth;
+      this.hasMode[t] = 1;
+      value += r.value;
       if (order > 0) {
-        const S0 = TOTAL[0];
-        const u1 = TOTAL[1] / S0;
-        const u2 = TOTAL[2] / S0;
-        const e2 = TOTAL[3] / S0;
-        const eh1 = qH1m + u1;
-        dk += eh1 * qZK;
-        dkk += (e2 + u2 - u1 * u1) * qZK * qZK;
+        const h1m = f.h1AtMode;
+        const u1 = M[0];
+        const u2 = M[1];
+        const e2 = M[2];
+        const eh1 = h1m + u1;
+        dk += eh1 * zk;
+        dkk += (e2 + u2 - u1 * u1) * zk * zk;
         if (order > 1) {
-          const v1 = TOTAL[4] / S0;
-          const v2 = TOTAL[5] / S0;
-          const uv = TOTAL[6] / S0;
-          const eh1sq = qH1m * qH1m + 2 * qH1m * u1 + u2;
+          const v1 = M[3];
+          const v2 = M[4];
+          const uv = M[5];
+          const eh1sq = h1m * h1m + 2 * h1m * u1 + u2;
           // E[G_rho] directly (centred at the mode), or by Stein's identity for tiny rho (class comment)
-          dr += rho >= STEIN_BELOW ? qGrm + v1 : eh1 * c * qZZ + (e2 + eh1sq) * qZZ2;
-          dkr += TOTAL[7] / S0 + (uv - u1 * v1) * qZK;
-          drr += TOTAL[8] / S0 + v2 - v1 * v1;
+          dr += rho >= STEIN_BELOW ? f.grAtMode + v1 : eh1 * c * zz + (e2 + eh1sq) * zz2;
+          dkr += M[6] + (uv - u1 * v1) * zk;
+          drr += M[7] + v2 - v1 * v1;
         }
       }
     }
     if (!Number.isFinite(value) || !Number.isFinite(dk) || !Number.isFinite(dr)) {
-      throw new RangeError(`mixture log-likelihood: the integral failed at k = ${k}, rho = ${rho}.`);
+      throw new RangeError(`mixture log-likelihood: the integral failed at k = ${k}, rho = ${rho} (a value or a derivative is not finite).`);
     }
     return { value, dk, dkk, dr, dkr, drr };
   }
 
   /**
-   * One period at z(x) = c - a x. Writes pValue (log L) and the period's accumulator totals
-   * (TOTAL) for the derivatives.
+   * rho = 0: the plain binomial likelihood, with the rho-derivatives from the heat equation in
+   * b = rho / (1 - rho) at b = 0 (class comment), h_j = G^(j)(k).
    */
-  private period(t: number, c: number, a: number): void {
-    const n = this.obligors[t];
-    const d = this.defaults[t];
-    const nd = n - d;
-    const logC = this.logChoose[t];
-
-    // 1. Mode of g(x) = logC + d log Phi(z) + (n-d) log Phi(-z) - x^2/2 - log sqrt(2 pi).
-    let x: number;
-    if (this.hasMode[t]) x = this.modes[t];
-    else if (d > 0 && d < n) x = (c - normalQuantile(d / n)) / a;
-    else x = 0;
-    if (!Number.isFinite(x)) x = 0;
-    if (x > 40) x = 40;
-    if (x < -40) x = -40;
-    let lo = -Infinity;
-    let hi = Infinity;
-    let g1 = 0;
-    let g2 = -1;
-    for (let iter = 0; iter < 100; iter++) {
-      const z = c - a * x;
-      tails(z);
-      const h1 = d * tMillsP - nd * tMillsQ;
-      const h2 = -d * tMillsP * (z + tMillsP) - nd * tMillsQ * (tMillsQ - z);
-      g1 = -a * h1 - x;
-      g2 = a * a * h2 - 1;
-      if (g1 > 0) lo = x;
-      else hi = x;
-      if (g1 === 0) break;
-      // g'' <= -1, so the mode lies within |g'| of x on the side g' points to.
-      if (lo === -Infinity) lo = x + g1;
-      if (hi === Infinity) hi = x + g1;
-      let next = x - g1 / g2;
-      if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-      const step = next - x;
-      x = next;
-      if (Math.abs(step) * Math.sqrt(-g2) < 1e-9 || hi - lo < 1e-15 * (1 + Math.abs(x))) break;
-    }
-    const mode = x;
-    this.modes[t] = mode;
-    const zm = c - a * mode;
-    tails(zm);
-    const gmax = logC + d * tLogP + nd * tLogQ - 0.5 * mode * mode - LN_SQRT_2PI;
-    const h1m = d * tMillsP - nd * tMillsQ;
-    const curvature = -(a * a * (-d * tMillsP * (zm + tMillsP) - nd * tMillsQ * (tMillsQ - zm)) - 1);
-    const sigma = 1 / Math.sqrt(curvature);
-
-    // 2. Half-widths where g = gmax - L, by Newton on the concave g from outside (monotone),
-    //    started from the previous width of this period or from the Gaussian guess.
-    const target = gmax - TRUNCATION_LOG_UNITS;
-    let leftWidth = 0;
-    let rightWidth = 0;
-    for (let side = -1; side <= 1; side += 2) {
-      const slot = 2 * t + (side > 0 ? 1 : 0);
-      let u = this.hasMode[t] ? this.widths[slot] : Math.min(MAX_HALF_WIDTH, MAX_HALF_WIDTH * sigma);
-      for (let iter = 0; iter < 60; iter++) {
-        const xu = mode + side * u;
-        const z = c - a * xu;
-        tails(z);
-        const gu = logC + d * tLogP + nd * tLogQ - 0.5 * xu * xu - LN_SQRT_2PI;
-        const slope = side * (-a * (d * tMillsP - nd * tMillsQ) - xu); // d g / d u (< 0)
-        const excess = gu - target;
-        if (excess <= 0 && excess > -2) break; // outside and at most 2 log-units too far
-        if (!(slope < 0)) {
-          u = u * 2 > MAX_HALF_WIDTH ? MAX_HALF_WIDTH : u * 2;
-          continue;
+  private binomial(k: number, order: DerivativeOrder): LogLikFull {
+    const p = normalCdf(k);
+    const T = this.tails;
+    normalTails(k, T);
+    const [p1, p2, p3, p4] = logPhiDerivatives(k, T[2], T[4]);
+    const [m1, q2, m3, q4] = logPhiDerivatives(-k, T[3], T[5]);
+    const q1 = -m1;
+    const q3 = -m3;
+    let value = 0;
+    let dk = 0;
+    let dkk = 0;
+    let dr = 0;
+    let dkr = 0;
+    let drr = 0;
+    for (let t = 0; t < this.periods; t++) {
+      const n = this.obligors[t];
+      const d = this.defaults[t];
+      const nd = n - d;
+      value += binomialLogPmf(d, n, p);
+      if (order > 0) {
+        const h1 = d * p1 + nd * q1;
+        const h2 = d * p2 + nd * q2;
+        dk += h1;
+        dkk += h2;
+        if (order > 1) {
+          const h3 = d * p3 + nd * q3;
+          const h4 = d * p4 + nd * q4;
+          dr += 0.5 * (h1 * k + h2 + h1 * h1);
+          dkr += 0.5 * (h2 * k + h1 + h3 + 2 * h1 * h2);
+          drr +=
+            0.25 * h2 * k * k +
+            0.5 * (h3 + 2 * h1 * h2) * k +
+            0.25 * (h4 + 4 * h1 * h3 + 2 * h2 * h2 + 4 * h1 * h1 * h2) +
+            0.75 * k * h1 +
+            h2 +
+            h1 * h1;
         }
-        let next = u - excess / slope;
-        if (!(next > 0)) next = 0.5 * u;
-        if (next > MAX_HALF_WIDTH) next = MAX_HALF_WIDTH;
-        if (next === u) break;
-        u = next;
       }
-      this.widths[slot] = u;
-      if (side < 0) leftWidth = u;
-      else rightWidth = u;
     }
-    this.hasMode[t] = 1;
-
-    // 3. Adaptive Gauss-Kronrod (G10/K21) on [mode - leftWidth, mode] and [mode, mode + rightWidth],
-    //    global error control: bisect the panel with the largest error estimate until the total
-    //    estimate is below RELATIVE_TOLERANCE of the integral.
-    qN = n;
-    qD = d;
-    qC = c;
-    qA = a;
-    qShift = logC - LN_SQRT_2PI - gmax;
-    qH1m = h1m;
-    qGrm = h1m * (-mode * qZX + zm * qZZ);
-    let panels = 0;
-    // Each side starts as two panels: a single K21 panel over a whole Gaussian-like side is
-    // accurate, but its embedded G10 is not, so the error estimate would force bisection anyway.
-    panels = addPanel(panels, mode - leftWidth, mode - 0.5 * leftWidth);
-    panels = addPanel(panels, mode - 0.5 * leftWidth, mode);
-    panels = addPanel(panels, mode, mode + 0.5 * rightWidth);
-    panels = addPanel(panels, mode + 0.5 * rightWidth, mode + rightWidth);
-    for (;;) {
-      let sum = 0;
-      let err = 0;
-      let worst = 0;
-      for (let i = 0; i < panels; i++) {
-        sum += P_ACC[i * NACC];
-        err += P_ERR[i];
-        if (P_ERR[i] > P_ERR[worst]) worst = i;
-      }
-      if (err <= RELATIVE_TOLERANCE * sum || panels >= MAX_PANELS) {
-        if (err > RELATIVE_TOLERANCE * sum) this.unconverged++;
-        break;
-      }
-      const plo = P_LO[worst];
-      const phi = P_HI[worst];
-      const mid = 0.5 * (plo + phi);
-      // replace the worst panel by the last one, then append both halves
-      panels--;
-      copyPanel(panels, worst);
-      panels = addPanel(panels, plo, mid);
-      panels = addPanel(panels, mid, phi);
-    }
-    const nacc = qOrder === 0 ? 1 : qOrder === 1 ? 4 : NACC;
-    for (let j = 0; j < nacc; j++) {
-      let acc = 0;
-      for (let i = 0; i < panels; i++) acc += P_ACC[i * NACC + j];
-      TOTAL[j] = acc;
-    }
-    pValue = gmax + Math.log(TOTAL[0]);
+    return { value, dk, dkk, dr, dkr, drr };
   }
-}
-
-// Current integrand (module scratch: evaluation is synchronous and not re-entrant).
-let qN = 0;
-let qD = 0;
-let qC = 0;
-let qA = 0;
-let qShift = 0;
-let qOrder: Order = 0;
-let qH1m = 0;
-let qGrm = 0;
-// dz/drho = -x qZX + z qZZ; d2z/drho2 = x qZXX + (dz/drho) qZZ + z qZZ2; dz/dk = qZK; d2z/dk drho = qZKR.
-let qZX = 0;
-let qZZ = 0;
-let qZXX = 0;
-let qZZ2 = 0;
-let qZK = 1;
-let qZKR = 0;
-
-let pValue = 0;
-
-/** Gauss-Kronrod 21-point rule on [lo, hi] for exp(g - gmax) (and its moments) into slot i. */
-function addPanel(i: number, lo: number, hi: number): number {
-  const half = 0.5 * (hi - lo);
-  const centre = 0.5 * (hi + lo);
-  const d = qD;
-  const nd = qN - qD;
-  const order = qOrder;
-  let resK = 0;
-  let resG = 0;
-  let m1 = 0;
-  let m2 = 0;
-  let m3 = 0;
-  let m4 = 0;
-  let m5 = 0;
-  let m6 = 0;
-  let m7 = 0;
-  let m8 = 0;
-  for (let j = 0; j < 21; j++) {
-    const xi = centre + half * KRONROD_NODES[j];
-    const z = qC - qA * xi;
-    tails(z);
-    const f = Math.exp(qShift + d * tLogP + nd * tLogQ - 0.5 * xi * xi);
-    F_VALUES[j] = f;
-    const w = KRONROD_WEIGHTS[j];
-    resK += w * f;
-    resG += GAUSS_WEIGHTS[j] * f;
-    if (order > 0) {
-      const wf = w * f;
-      const h1 = d * tMillsP - nd * tMillsQ;
-      const h2 = -d * tMillsP * (z + tMillsP) - nd * tMillsQ * (tMillsQ - z);
-      const u = h1 - qH1m;
-      m1 += wf * u;
-      m2 += wf * u * u;
-      m3 += wf * h2;
-      if (order > 1) {
-        const zr = -xi * qZX + z * qZZ;
-        const zrr = xi * qZXX + zr * qZZ + z * qZZ2;
-        const gr = h1 * zr;
-        const v = gr - qGrm;
-        m4 += wf * v;
-        m5 += wf * v * v;
-        m6 += wf * u * v;
-        m7 += wf * (h2 * zr * qZK + h1 * qZKR);
-        m8 += wf * (h2 * zr * zr + h1 * zrr);
-      }
-    }
-  }
-  // QUADPACK's error estimate (Piessens et al. 1983, qk21): resasc = Int |f - mean f|.
-  const mean = 0.5 * resK;
-  let resAsc = 0;
-  for (let j = 0; j < 21; j++) resAsc += KRONROD_WEIGHTS[j] * Math.abs(F_VALUES[j] - mean);
-  resAsc *= half;
-  let err = Math.abs((resK - resG) * half);
-  if (resAsc !== 0 && err !== 0) err = resAsc * Math.min(1, Math.pow((200 * err) / resAsc, 1.5));
-  const roundoff = 50 * Number.EPSILON * resK * half;
-  if (err < roundoff) err = roundoff;
-  P_LO[i] = lo;
-  P_HI[i] = hi;
-  P_ERR[i] = err;
-  const base = i * NACC;
-  P_ACC[base] = resK * half;
-  P_ACC[base + 1] = m1 * half;
-  P_ACC[base + 2] = m2 * half;
-  P_ACC[base + 3] = m3 * half;
-  P_ACC[base + 4] = m4 * half;
-  P_ACC[base + 5] = m5 * half;
-  P_ACC[base + 6] = m6 * half;
-  P_ACC[base + 7] = m7 * half;
-  P_ACC[base + 8] = m8 * half;
-  return i + 1;
-}
-
-function copyPanel(from: number, to: number): void {
-  P_LO[to] = P_LO[from];
-  P_HI[to] = P_HI[from];
-  P_ERR[to] = P_ERR[from];
-  for (let j = 0; j < NACC; j++) P_ACC[to * NACC + j] = P_ACC[from * NACC + j];
 }
 
 function assertParameters(fn: string, p: number, rho: number): void {
@@ -628,7 +291,7 @@ function assertParameters(fn: string, p: number, rho: number): void {
  * log L = log Int C(n, d) P(x)^d (1 - P(x))^(n - d) phi(x) dx,
  * P(x) = Phi((Phi^-1(p) - sqrt(rho) x) / sqrt(1 - rho)).
  *
- * Method: mode-bracketed adaptive Gauss-Kronrod (see the module comment); relative error of L ~1e-12
+ * Method: mode-bracketed adaptive Gauss-Kronrod (log-concave-integral.ts); relative error of L ~1e-12
  * from n = 1 to 10^6, including d = 0 and d = n at rho up to 0.95.
  *
  * Special cases: rho = 0 gives the binomial log-pmf log C(n, d) + d log p + (n - d) log(1 - p);

@@ -140,10 +140,11 @@ export class ProfileLikelihood {
     let k = this.startK(rho);
     let cur = L.logLikFull(k, rho);
     let evaluations = 1;
-    for (let iteration = 1; iteration <= 60; iteration++) {
+    let stalled = false;
+    for (let iteration = 1; iteration <= 61; iteration++) {
       const concave = cur.dkk < 0;
       let step = concave ? -cur.dk / cur.dkk : Math.sign(cur.dk) * 0.25;
-      const small = concave && Math.abs(step) <= K_TOLERANCE;
+      const small = concave && (Math.abs(step) <= K_TOLERANCE || stalled);
       if (small || (oneStep && concave && Math.abs(step) < 1)) {
         const kStar = k + step;
         this.remember(rho, kStar, -cur.dkr / cur.dkk);
@@ -171,7 +172,17 @@ export class ProfileLikelihood {
         evaluations++;
         halvings++;
       }
-      if (halvings === 40) break; // no step increases l beyond rounding
+      if (halvings === 40) {
+        // No step increases l beyond rounding. For cohorts of 10^9 the value carries rounding
+        // noise of ~1e-8 relative and l_k of ~1e-4, which no Newton step can beat: when the gain
+        // the Newton step predicts, l_k^2 / (2 |l_kk|), is below 1e-8 relative the maximum is
+        // reached as far as the arithmetic can tell (a statistically nil difference); else it failed.
+        if (concave && (0.5 * cur.dk * cur.dk) / -cur.dkk <= 1e-8 * Math.max(1, Math.abs(cur.value))) {
+          stalled = true;
+          continue;
+        }
+        break;
+      }
       k += step;
       cur = next;
     }

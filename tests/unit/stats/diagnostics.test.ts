@@ -1,14 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import engine from '@/tests/fixtures/engine/engine-fixtures.json';
 import ref from '@/tests/fixtures/engine/diagnostics-fixtures.json';
-import {
-  autocorrelationThreshold,
-  capitalImplications,
-  lag1Autocorrelation,
-  lrTestRhoZero,
-  panelDiagnostics,
-  type FittedMle,
-} from '@/lib/stats/diagnostics';
+import pitRef from '@/tests/fixtures/engine/pit-fixtures.json';
+import { autocorrelationThreshold, lag1Autocorrelation } from '@/lib/stats/autocorrelation';
+import { capitalImplications } from '@/lib/stats/capital-implications';
+import { panelDiagnostics, type FittedMle } from '@/lib/stats/diagnostics';
+import { lrTestRhoZero } from '@/lib/stats/lr-test';
 
 type Name = keyof typeof ref.panels;
 const names = Object.keys(ref.panels) as Name[];
@@ -81,8 +78,11 @@ describe('panelDiagnostics at the SciPy estimates', () => {
     const { diagnostics: d } = atScipy(name);
     const p = engine.panels[name];
     expect(d.zeroDefaultPeriods).toBe(p.defaults.filter((x) => x === 0).length);
+    // computed with SciPy 1.17 (tests/fixtures/engine/make_pit.py: quad of binom.cdf and binom.pmf
+    // over the factor): the mid-PIT of each count under the fitted binomial mixture
+    pitRef.panels[name].pit.forEach((u, t) => expect(Math.abs(d.pit![t] - u), `period ${t + 1}`).toBeLessThan(1e-9));
+    expect(d.pitMethod).toMatch(/mid-PIT of the default count/);
     if (f.rho === 0) {
-      expect(d.pit).toBeNull();
       expect(d.impliedFactor).toBeNull();
       expect(d.fittedNote).toMatch(/point mass/);
       return;
@@ -94,8 +94,6 @@ describe('panelDiagnostics at the SciPy estimates', () => {
     });
     if (f.lag1Autocorrelation === null) expect(d.lag1Autocorrelation).toBeNull();
     else expect(Math.abs(d.lag1Autocorrelation! - f.lag1Autocorrelation)).toBeLessThan(1e-10);
-    // computed with SciPy 1.17 (tests/fixtures/engine/make_fixtures.py, PIT under the fitted model)
-    (engine.panels[name] as { pit: number[] }).pit.forEach((u, t) => expect(Math.abs(d.pit![t] - u)).toBeLessThan(1e-12));
     expect(rel(d.exceedances!.q95, f.q95)).toBeLessThan(1e-12);
     expect(rel(d.exceedances!.q99, f.q99)).toBeLessThan(1e-12);
     expect(d.exceedances!.above95).toBe(f.above95);

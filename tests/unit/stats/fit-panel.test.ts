@@ -6,6 +6,7 @@ import { auditRange } from '@/lib/stats/audit';
 import { bootstrapRange } from '@/lib/stats/intervals/bootstrap';
 import { ESTIMATOR_KEYS } from '@/lib/stats/estimators/types';
 import { ENGINE_VERSION } from '@/lib/stats/version';
+import pitRef from '@/tests/fixtures/engine/pit-fixtures.json';
 
 type Name = keyof typeof engine.panels;
 const names = Object.keys(engine.panels) as Name[];
@@ -117,11 +118,14 @@ describe('the SegmentFit shape', () => {
 });
 
 describe('edge panels', () => {
-  it('at the boundary (panel F): no Wald interval, no PIT, warning', () => {
+  it('at the boundary (panel F): no Wald interval, no implied factor, the PIT under the binomial, warning', () => {
     const f = fitPanel(input('F'));
     expect(f.estimates.binomialMle).toMatchObject({ rho: 0, atBoundary: true });
     expect(f.estimates.binomialMle.intervals.wald).toBeNull();
-    expect(f.diagnostics.pit).toBeNull();
+    expect(f.diagnostics.impliedFactor).toBeNull();
+    expect(f.diagnostics.autocorrelationNote).toMatch(/no implied factor/);
+    // at rho = 0 the fitted count law is Binomial(n, p): computed with SciPy 1.17 (make_pit.py, binom.cdf/pmf)
+    pitRef.panels.F.pit.forEach((u, t) => expect(Math.abs(f.diagnostics.pit![t] - u)).toBeLessThan(1e-9));
     expect(f.diagnostics.lrTestRhoZero).toEqual({ statistic: 0, pValue: 1 }); // SciPy fixture: statistic 0
     expect(f.warnings.map((w) => w.code)).toContain('at-boundary');
   });
