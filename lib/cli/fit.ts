@@ -9,7 +9,7 @@ import { readFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
 import { validateCohortText, type CohortRow, type Finding } from '../ingest';
 import { EnginePool, fitPanelParallel } from '../engine';
-import type { PanelInput, TimedSegmentFit } from '../stats/fit-panel';
+import { segmentFailure, type PanelInput, type SegmentFailure, type TimedSegmentFit } from '../stats/fit-panel';
 import { ASSET_CLASSES, type AssetClass } from '../stats/irb';
 import { ENGINE_VERSION } from '../stats/version';
 import { formatTable } from './format';
@@ -20,11 +20,16 @@ export interface CliIo {
   err: (text: string) => void;
 }
 
-/** The JSON document printed with --json (issue 3). */
+/** The JSON document printed with --json: the fitted segments and, in their places, the failed ones. */
 export interface FitDocument {
   engine: { version: string };
   segments: TimedSegmentFit[];
+  /** Segments whose fit failed, with the reason and their position among all segments (exit code 3). */
+  failures: SegmentFailure[];
 }
+
+/** Exit code when some segments (one or more) failed and the others were fitted. */
+export const EXIT_SOME_SEGMENTS_FAILED = 3;
 
 /** A problem with the command line or the input: exit code 2, message shown as is. */
 export class CliInputError extends Error {
@@ -35,7 +40,8 @@ export class CliInputError extends Error {
 }
 
 export const FIT_USAGE = `Usage: npm run --silent cli -- fit FILE.csv [--json] [--segment NAME] [--from PERIOD] [--to PERIOD]
-                              [--level 0.95] [--bootstrap B] [--seed N] [--threads N] [--asset-class CLASS] [--turnover S]
+                              [--level 0.95] [--bootstrap B] [--seed N] [--audit R] [--audit-seed N] [--threads N]
+                              [--asset-class CLASS] [--turnover S]
 
 Fits the asset correlation of every segment of a cohort CSV (columns segment,period,obligors,defaults).
   --json            print one JSON document (engine version, one entry per segment) instead of a table
@@ -44,9 +50,15 @@ Fits the asset correlation of every segment of a cohort CSV (columns segment,per
   --level L         level of every interval, between 0 and 1 (default 0.95)
   --bootstrap B     add a parametric bootstrap interval with B replications (2 to 100000)
   --seed N          seed of the bootstrap, 0 to 4294967295 (default 1)
-  --threads N       worker threads for the bootstrap (default: available cores; 0 = this thread)
+  --audit R         add the estimator audit: R panels simulated at the fit (2 to 100000)
+  --audit-seed N    seed of the estimator audit, 0 to 4294967295 (default 2)
+  --threads N       worker threads for the bootstrap and the audit (default: available cores; 0 = this thread)
   --asset-class C   compare with the Basel IRB supervisory correlation of ${ASSET_CLASSES.join(', ')}
-  --turnover S      annual turnover in EUR millions, for the SME size adjustment of sme-corporate`;
+  --turnover S      annual turnover in EUR millions, for the SME size adjustment of sme-corporate
+
+Exit codes: 0 every segment fitted; 2 bad command line or file (nothing fitted); 3 some segments
+failed (each named with its reason on stderr and under "failures" in the JSON, the others fitted);
+1 any other failure.`;
 
 function parseNumber(name: string, raw: string | undefined, check: (v: number) => boolean, expected: string): number | undefined {
   if (raw === undefined) return undefined;
@@ -70,6 +82,9 @@ export interface FitArgs {
   level: number;
   bootstrap?: number;
   seed: number;
+  /** Estimator audit replications (lib/stats/audit.ts), on the worker threads. */
+  audit?: number;
+  auditSeed: number;
   threads?: number;
   assetClass?: AssetClass;
   turnoverMillions?: number;
@@ -91,6 +106,8 @@ export function parseFitArgs(argv: string[]): FitArgs {
         level: { type: 'string' },
         bootstrap: { type: 'string' },
         seed: { type: 'string' },
+        audit: { type: 'string' },
+        'audit-seed': { type: 'string' },
         threads: { type: 'string' },
         'asset-class': { type: 'string' },
         turnover: { type: 'string' },
@@ -106,6 +123,11 @@ export function parseFitArgs(argv: string[]): FitArgs {
   const level = parseNumber('level', values.level, (v) => v > 0 && v < 1, 'a number strictly between 0 and 1, for example 0.95') ?? 0.95;
   const bootstrap = parseNumber('bootstrap', values.bootstrap, (v) => Number.isInteger(v) && v >= 2 && v <= 100_000, 'a whole number of replications from 2 to 100000');
   const seed = parseNumber('seed', values.seed, (v) => Number.isInteger(v) && v >= 0 && v <= 0xffffffff, 'a whole number from 0 to 4294967295') ?? 1;
+  const audit = parseNumber('audit', values.audit, (v) => Number.isInteger(v) && v >= 2 && v <= 100_000, 'a whole number of replications from 2 to 100000');
+  const auditSeed = parseNumber('audit-seed', values['audit-seed'], (v) => Number.isInteger(v) && v >= 0 && v <= 0xffffffff, 'a whole number from 0 to 4294967295') ?? 2;
+  if (values['audit-seed'] !== undefined && audit === undefined) {
+    throw new CliInputError('--audit-seed is the seed of the estimator audit; give --audit R as well (or leave --audit-seed out).');
+  }
   const threads = parseNumber('threads', values.threads, (v) => Number.isInteger(v) && v >= 0 && v <= 64, 'a whole number from 0 to 64');
   const from = parseYear('from', values.from);
   const to = parseYear('to', values.to);
@@ -133,6 +155,8 @@ export function parseFitArgs(argv: string[]): FitArgs {
     level,
     ...(bootstrap !== undefined ? { bootstrap } : {}),
     seed,
+    ...(audit !== undefined ? { audit } : {}),
+    auditSeed,
     ...(threads !== undefined ? { threads } : {}),
     ...(rawClass !== undefined ? { assetClass: rawClass as AssetClass } : {}),
     ...(turnover !== undefined ? { turnoverMillions: turnover } : {}),
@@ -172,23 +196,11 @@ export function panelsFromRows(rows: readonly CohortRow[], args: Pick<FitArgs, '
   return panels;
 }
 
-/** A segment whose fit failed inside the engine (not the user's input): exit code 1. */
-export class SegmentFitError extends Error {
-  constructor(segment: string, cause: unknown) {
-    super(`Fitting segment "${segment}" failed inside the engine: ${cause instanceof Error ? cause.message : String(cause)}`, { cause });
-    this.name = 'SegmentFitError';
-  }
-}
-
 async function fitSegment(panel: PanelInput, options: Parameters<typeof fitPanelParallel>[1], pool: EnginePool | undefined): Promise<TimedSegmentFit> {
-  try {
-    return await fitPanelParallel(panel, options, pool ? { pool } : { threads: 0 });
-  } catch (err) {
-    throw new SegmentFitError(panel.segment, err);
-  }
+  return await fitPanelParallel(panel, options, pool ? { pool } : { threads: 0 });
 }
 
-/** Runs `fit`; resolves with the process exit code (0 done, 2 bad input). */
+/** Runs `fit`; resolves with the process exit code (0 done, 2 bad input, 3 some segments failed). */
 export async function runFit(argv: string[], io: CliIo): Promise<number> {
   const args = parseFitArgs(argv);
   let bytes: Uint8Array;
@@ -213,28 +225,37 @@ export async function runFit(argv: string[], io: CliIo): Promise<number> {
   }
   const panels = panelsFromRows(validation.rows, args);
   const anyBootstrap = args.bootstrap !== undefined;
-  const pool = anyBootstrap && args.threads !== 0 ? new EnginePool(args.threads ?? undefined) : undefined;
+  const pool = (anyBootstrap || args.audit !== undefined) && args.threads !== 0 ? new EnginePool(args.threads ?? undefined) : undefined;
   const segments: TimedSegmentFit[] = [];
+  const failures: SegmentFailure[] = [];
   try {
     await pool?.start(); // thread start-up is not part of any segment's timing
-    for (const panel of panels) {
-      segments.push(
-        await fitSegment(
-          panel,
-          {
-            level: args.level,
-            bootstrap: anyBootstrap ? { replications: args.bootstrap!, seed: args.seed } : null,
-            assetClass: args.assetClass ?? null,
-            turnoverMillions: args.turnoverMillions ?? null,
-          },
-          pool,
-        ),
-      );
+    for (const [position, panel] of panels.entries()) {
+      try {
+        segments.push(
+          await fitSegment(
+            panel,
+            {
+              level: args.level,
+              bootstrap: anyBootstrap ? { replications: args.bootstrap!, seed: args.seed } : null,
+              audit: args.audit !== undefined ? { replications: args.audit, seed: args.auditSeed } : null,
+              assetClass: args.assetClass ?? null,
+              turnoverMillions: args.turnoverMillions ?? null,
+            },
+            pool,
+          ),
+        );
+      } catch (err) {
+        // One segment's failure (bad numbers inside the engine, a refused cohort size) is reported
+        // in its place; the other segments are fitted.
+        failures.push(segmentFailure(panel.segment, position, err));
+        io.err(`error: segment "${panel.segment}" was not fitted: ${failures.at(-1)!.reason}`);
+      }
     }
   } finally {
     await pool?.close();
   }
-  const doc: FitDocument = { engine: { version: ENGINE_VERSION }, segments };
+  const doc: FitDocument = { engine: { version: ENGINE_VERSION }, segments, failures };
   io.out(args.json ? JSON.stringify(doc, null, 2) : formatTable(doc));
-  return 0;
+  return failures.length > 0 ? EXIT_SOME_SEGMENTS_FAILED : 0;
 }

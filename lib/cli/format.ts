@@ -23,7 +23,22 @@ function pad(s: string, w: number): string {
 /** Renders the document as plain text tables. */
 export function formatTable(doc: FitDocument): string {
   const lines: string[] = [`Rhobook engine ${doc.engine.version}`];
-  for (const s of doc.segments) {
+  // Fitted and failed segments in the order of the file.
+  const items: ({ kind: 'fit'; s: FitDocument['segments'][number] } | { kind: 'failed'; f: FitDocument['failures'][number] })[] = [];
+  let next = 0;
+  const total = doc.segments.length + doc.failures.length;
+  for (let position = 0; position < total; position++) {
+    const f = doc.failures.find((x) => x.position === position);
+    if (f) items.push({ kind: 'failed', f });
+    else if (next < doc.segments.length) items.push({ kind: 'fit', s: doc.segments[next++] });
+  }
+  for (const item of items) {
+    if (item.kind === 'failed') {
+      lines.push('');
+      lines.push(`Segment ${item.f.segment}: FAILED, not fitted: ${item.f.reason}`);
+      continue;
+    }
+    const s = item.s;
     const mle = s.estimates.binomialMle;
     lines.push('');
     lines.push(

@@ -1,9 +1,10 @@
 /**
  * Rhobook's command line: `npm run --silent cli -- fit FILE.csv --json ...` (see lib/cli/fit.ts).
  * Exit codes: 0 done; 2 bad command line or bad input (the message names the row and problem);
- * 1 a failure inside the engine (the message names the segment) or any other unexpected failure.
+ * 3 some segments failed (each named with its reason; the others are fitted and printed);
+ * 1 any other unexpected failure.
  */
-import { CliInputError, FIT_USAGE, runFit, SegmentFitError, type CliIo } from './fit';
+import { CliInputError, FIT_USAGE, runFit, type CliIo } from './fit';
 
 const USAGE = `Rhobook command line.\n\n${FIT_USAGE}`;
 
@@ -21,11 +22,6 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
     if (err instanceof CliInputError) {
       io.err(err.message);
       return 2;
-    }
-    if (err instanceof SegmentFitError) {
-      // The file passed validation, so this is the engine's failure, not the user's input.
-      io.err(`error: ${err.message}`);
-      return 1;
     }
     io.err(`Unexpected failure: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}`);
     return 1;

@@ -11,7 +11,8 @@
  * comparison.
  */
 import type { AssetClass } from '@/db/schema';
-import type { EstimateDto, TimedSegmentFit } from '@/lib/stats/fit-panel';
+import type { Estimate } from '@/lib/stats/estimators/types';
+import type { SegmentFailure, TimedSegmentFit } from '@/lib/stats/fit-panel';
 
 export type EstimatorKey = 'binomialMle' | 'vasicekMle' | 'momentVariance' | 'momentVarianceCorrected' | 'jointDefault';
 
@@ -42,7 +43,7 @@ export type WindowResult = {
   binomialMle: {
     rho: number | null;
     pd: number | null;
-    status: EstimateDto['status'];
+    status: Estimate['status'];
     profile: { lower: number; upper: number } | null;
   };
   momentVarianceCorrected: number | null;
@@ -61,7 +62,28 @@ export type FitSegmentResult = Omit<TimedSegmentFit, 'warnings'> & {
   windows: WindowResult[];
 };
 
-export type FitResults = { engine: { version: string }; segments: FitSegmentResult[] };
+/**
+ * A run's results. `failures` (absent in runs stored before segments could fail one by one) lists
+ * the segments whose fit failed, each with its reason and its position among all the run's segments.
+ */
+export type FitResults = { engine: { version: string }; segments: FitSegmentResult[]; failures?: SegmentFailure[] };
+
+/** The run's segments in their order, fitted and failed alike (older results have no failures). */
+export function segmentsInOrder(results: FitResults): ({ kind: 'fit'; fit: FitSegmentResult; index: number } | { kind: 'failed'; failure: SegmentFailure })[] {
+  const failures = results.failures ?? [];
+  const out: ({ kind: 'fit'; fit: FitSegmentResult; index: number } | { kind: 'failed'; failure: SegmentFailure })[] = [];
+  let next = 0;
+  const total = results.segments.length + failures.length;
+  for (let position = 0; position < total; position++) {
+    const failure = failures.find((f) => f.position === position);
+    if (failure) out.push({ kind: 'failed', failure });
+    else if (next < results.segments.length) {
+      out.push({ kind: 'fit', fit: results.segments[next], index: next });
+      next++;
+    }
+  }
+  return out;
+}
 
 /**
  * True when stored results have the shape above. Runs computed before the engine landed (engine

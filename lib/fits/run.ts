@@ -8,6 +8,7 @@
  * and ENGINE_VERSION, not on the thread count or on which worker runs the job.
  */
 import { EnginePool, fitPanelParallel } from '@/lib/engine';
+import { segmentFailure, type SegmentFailure } from '@/lib/stats/fit-panel';
 import type { AssetClass as StatsAssetClass } from '@/lib/stats/irb';
 import { ENGINE_VERSION } from '@/lib/stats/version';
 import type { SegmentInput } from './panels';
@@ -55,6 +56,7 @@ export async function computeFitRun(panels: readonly SegmentInput[], request: Fi
   const total = perSegment * panels.length;
   const pool = (request.bootstrap || request.audit) && options.threads > 0 ? new EnginePool(options.threads) : null;
   const segments: FitSegmentResult[] = [];
+  const failures: SegmentFailure[] = [];
   try {
     if (pool) {
       // Thread start-up (loading the engine in each thread) takes a second or two: say so rather than sit at "done".
@@ -67,7 +69,10 @@ export async function computeFitRun(panels: readonly SegmentInput[], request: Fi
       const start = i * perSegment;
       const at = (units: number) => Math.min(99, (100 * (start + units)) / total);
       const benchmark = benchmarkOf(input);
-      const fit = await fitPanelParallel(
+      let progressFailed = false;
+      let fit;
+      try {
+        fit = await fitPanelParallel(
         input,
         {
           level: request.level,
@@ -80,9 +85,24 @@ export async function computeFitRun(panels: readonly SegmentInput[], request: Fi
           threads: options.threads,
           ...(pool ? { pool } : {}),
           ...(options.signal ? { signal: options.signal } : {}),
-          onProgress: (pct, message) => report(at(((w.base + w.replications) * pct) / 100), `${name}: ${message}`),
+          onProgress: async (pct, message) => {
+            try {
+              await report(at(((w.base + w.replications) * pct) / 100), `${name}: ${message}`);
+            } catch (err) {
+              progressFailed = true; // cancelled or lease lost: stop the whole run
+              throw err;
+            }
+          },
         },
       );
+      } catch (err) {
+        const stopped = progressFailed || options.signal?.aborted || (err instanceof Error && err.name === 'AbortError');
+        if (stopped) throw err;
+        // This segment failed; it is reported in its place and the others are fitted.
+        failures.push(segmentFailure(name, i, err));
+        await report(at(perSegment), `${name}: failed (${failures.at(-1)!.reason})`);
+        continue;
+      }
       const mle = fit.estimates.binomialMle;
       await report(at(w.base + w.replications), `${name}: Window comparison`);
       const windows = compareWindows(input, fit, request.level);
@@ -98,5 +118,5 @@ export async function computeFitRun(panels: readonly SegmentInput[], request: Fi
   } finally {
     await pool?.close();
   }
-  return { engine: { version: ENGINE_VERSION }, segments };
+  return { engine: { version: ENGINE_VERSION }, segments, failures };
 }

@@ -90,11 +90,13 @@ export interface CoverageAudit {
   level: number;
   /** Replications where the interval exists. */
   available: number;
+  /** Replications without an interval (for Wald: the estimate at rho = 0; for both: no estimate). They count as misses. */
+  missing: number;
   /** ... and contains the truth. */
   covered: number;
-  /** covered / available; null when none is available. */
+  /** covered / replications: a panel without an interval is a miss of the method, never left out; null when there are no replications. */
   coverage: number | null;
-  /** Monte Carlo standard error of the coverage, sqrt(c (1 - c) / available). */
+  /** Monte Carlo standard error of the coverage, sqrt(c (1 - c) / replications). */
   mcse: number | null;
   /** Mean width (upper - lower) of the available intervals. */
   meanWidth: number | null;
@@ -226,9 +228,11 @@ function summariseCoverage(intervals: ({ lower: number; upper: number } | null)[
     width += iv.upper - iv.lower;
     if (iv.lower <= truth && truth <= iv.upper) covered++;
   }
-  if (available === 0) return { level, available, covered, coverage: null, mcse: null, meanWidth: null };
-  const c = covered / available;
-  return { level, available, covered, coverage: c, mcse: Math.sqrt((c * (1 - c)) / available), meanWidth: width / available };
+  const R = intervals.length;
+  const missing = R - available;
+  if (R === 0) return { level, available, missing, covered, coverage: null, mcse: null, meanWidth: null };
+  const c = covered / R;
+  return { level, available, missing, covered, coverage: c, mcse: Math.sqrt((c * (1 - c)) / R), meanWidth: available === 0 ? null : width / available };
 }
 
 /**
@@ -236,8 +240,10 @@ function summariseCoverage(intervals: ({ lower: number; upper: number } | null)[
  *
  * Per estimator, over the replications with a value: mean, bias = mean - rho, its Monte Carlo
  * standard error sd / sqrt(m), sd (divisor m - 1) and RMSE = sqrt(mean((rho-hat - rho)^2)); and
- * the count of each status. Per interval method: coverage = covered / available, its Monte Carlo
- * standard error sqrt(c (1 - c) / available), and the mean width. The replications are ordered by
+ * the count of each status. Per interval method: coverage = covered / R over all R replications (a
+ * panel without an interval, such as a Wald interval at an estimate of 0, is a miss of the method
+ * and is also counted in `missing`), its Monte Carlo standard error sqrt(c (1 - c) / R), and the
+ * mean width of the intervals that exist. The replications are ordered by
  * index before summing, so the result is the same for every split.
  *
  * Special cases: an index missing, repeated or outside [0, R) (R = total replications merged)

@@ -116,6 +116,26 @@ export interface SegmentFit {
   estimatorAudit: AuditSummary | null;
 }
 
+/**
+ * A segment whose fit failed: it stands in the document in its place among the fitted segments
+ * (`position` counts both kinds, from 0), with the error's sentence, so that one segment does not
+ * sink the others.
+ */
+export interface SegmentFailure {
+  segment: string;
+  status: 'failed';
+  /** What went wrong, in the engine's sentence. */
+  reason: string;
+  /** Index of the segment among all segments of the run or file, failed or not. */
+  position: number;
+}
+
+/** The failure record of a segment from the error that stopped its fit. */
+export function segmentFailure(segment: string, position: number, err: unknown): SegmentFailure {
+  const message = err instanceof Error ? err.message : String(err);
+  return { segment, status: 'failed', reason: message.length > 0 ? message : 'The fit stopped without saying why.', position };
+}
+
 /** {@link SegmentFit} with the compute time, as printed by the CLI. */
 export interface TimedSegmentFit extends SegmentFit {
   timing: { ms: number };
@@ -154,6 +174,14 @@ export interface FitPanelOptions {
   profileCurvePoints?: number;
 }
 
+/**
+ * Largest cohort the engine fits: 10^9 obligors in one period. Up to there the likelihood is
+ * checked against a 40-digit integral (tests/fixtures/engine/make_large_cohorts.py); beyond it
+ * the n-sized terms of the log-integrand lose more than 1e-7 to rounding and the fit slows down,
+ * so a larger count (the upload accepts whole numbers up to 2^53) is refused with a sentence.
+ */
+export const MAX_OBLIGORS_PER_PERIOD = 1e9;
+
 /** Checks a segment's panel and throws RangeError naming the segment, period and problem. */
 export function assertPanelInput(input: PanelInput): void {
   const name = typeof input.segment === 'string' ? input.segment : String(input.segment);
@@ -179,6 +207,11 @@ export function assertPanelInput(input: PanelInput): void {
     const d = defaults[t];
     if (!Number.isSafeInteger(n) || n < 1) {
       throw new RangeError(`fitPanel: segment "${name}", period ${label}: obligors = ${n}; it must be a positive whole number.`);
+    }
+    if (n > MAX_OBLIGORS_PER_PERIOD) {
+      throw new RangeError(
+        `fitPanel: segment "${name}", period ${label}: ${n} obligors is more than the engine handles (${MAX_OBLIGORS_PER_PERIOD.toExponential(0)} per period, where its likelihood is checked against a 40-digit integral); no loan book has a cohort this large, so check the file (a sum of balances in the obligors column?).`,
+      );
     }
     if (!Number.isSafeInteger(d) || d < 0 || d > n) {
       throw new RangeError(
@@ -318,6 +351,13 @@ export function prepareSegmentFit(input: PanelInput, options: FitPanelOptions = 
     capital: convention,
   });
   const implications = usable ? capitalImplications(mle.pd!, mle.rho!, binomial.intervals.profile, convention) : null;
+  const integration = profile?.likelihood.report();
+  if (integration && integration.unconverged > 0) {
+    warnings.push({
+      code: 'integration-tolerance',
+      message: `${integration.unconverged} of the period integrals behind the likelihood (over ${integration.evaluations} evaluations) stopped above their error tolerance of 1e-8 (largest error estimate ${integration.worstRelativeError.toExponential(1)}, relative); the values were used. Differences of this size do not move the estimate or its intervals visibly, but an independent check is advised.`,
+    });
+  }
 
   let bootstrap: PreparedFit['bootstrap'] = null;
   if (options.bootstrap) {

@@ -291,7 +291,25 @@ export function binomialMleWithProfile(
   panel: Panel,
   options: BinomialMleOptions = {},
 ): { result: BinomialMleResult; profile: ProfileLikelihood | null } {
-  const likelihoodCheck = new MixtureLikelihood(panel); // validates the counts (RangeError)
+  new MixtureLikelihood(panel); // validates the counts (RangeError naming the period)
+  try {
+    return search(panel, options);
+  } catch (err) {
+    // An integral that failed (mixture-likelihood.ts says where) is this estimate's failure, not the caller's.
+    if (!(err instanceof RangeError)) throw err;
+    return {
+      result: {
+        ...undefinedMle(`The likelihood could not be evaluated: ${err.message}`),
+        status: 'not-converged',
+        converged: false,
+      },
+      profile: null,
+    };
+  }
+}
+
+function search(panel: Panel, options: BinomialMleOptions): { result: BinomialMleResult; profile: ProfileLikelihood | null } {
+  const likelihoodCheck = new MixtureLikelihood(panel);
   const rate = likelihoodCheck.pooledRate;
   if (rate === 0) {
     return {

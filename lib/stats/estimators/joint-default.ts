@@ -15,8 +15,10 @@ import { undefinedEstimate, type Estimate } from './types';
  *
  * Special cases (status `undefined`, null values and a reason; T = 1 is allowed): a period
  * with fewer than 2 obligors (no pairs); p = 0 or 1; p2 <= p^2 (a target at or below zero: the
- * data show no positive dependence, which a one-factor model with rho >= 0 cannot fit); p2 - p^2 >= p(1 - p). Invalid counts throw
- * RangeError naming the period.
+ * data show no positive dependence, which a one-factor model with rho >= 0 cannot fit). A target at
+ * the largest value p(1 - p), within a relative 1e-9 (years that are all 0 or all n reach it
+ * exactly, and rounding may leave it a hair below), gives rho = 1 with status `clipped` and a reason:
+ * the boundary, reported as such. Invalid counts throw RangeError naming the period.
  *
  * @example jointDefault({ obligors: [1000, 1000, 1000], defaults: [5, 20, 10] }).rho
  *
@@ -46,9 +48,12 @@ export function jointDefault(panel: Panel): Estimate {
   }
   const solution = solveMomentEquation(p, target);
   if (solution.kind === 'too-large') {
-    return undefinedEstimate(
-      `The joint default frequency ${p2.toPrecision(4)} is at least the largest the model allows at this PD.`,
-    );
+    return {
+      rho: 1,
+      pd: p,
+      status: 'clipped',
+      reason: `The joint default frequency ${p2.toPrecision(4)} equals the PD (every year has no default or only defaults, or nearly): the largest the model allows, reached at the boundary rho = 1. The data show all-or-nothing years, not a correlation estimate.`,
+    };
   }
   if (!solution.converged) {
     return { rho: solution.rho, pd: p, status: 'not-converged', reason: 'The root finder did not meet its tolerance.' };

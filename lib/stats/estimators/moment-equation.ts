@@ -6,6 +6,9 @@ import { bivariateNormalExcess } from '../bivariate-normal';
 import { brentRoot } from '../brent';
 import { normalQuantile } from '../normal';
 
+/** Relative distance below the largest target p(1 - p) (rho = 1) that counts as the boundary itself. */
+export const BOUNDARY_TOLERANCE = 1e-9;
+
 /** Outcome of {@link solveMomentEquation}. */
 export type MomentSolution =
   | { kind: 'root'; rho: number; converged: boolean; iterations: number }
@@ -24,7 +27,8 @@ export type MomentSolution =
  * residual about 1e-14 or better.
  *
  * Special cases: target <= 0 or p outside (0, 1) throw RangeError (the estimators decide what such
- * data mean before calling); target >= p(1 - p) returns { kind: 'too-large' }.
+ * data mean before calling); target >= p(1 - p) (1 - 1e-9) returns { kind: 'too-large' }: at the
+ * boundary rho = 1 within rounding, which data of years that are all 0 or all n reach exactly.
  *
  * @example solveMomentEquation(0.02, 1e-4) // { kind: 'root', rho: ~0.07, ... }
  *
@@ -41,7 +45,9 @@ export function solveMomentEquation(p: number, target: number): MomentSolution {
   }
   const k = normalQuantile(p);
   const maximum = bivariateNormalExcess(k, k, 1);
-  if (target >= maximum) return { kind: 'too-large', maximum };
+  // The maximum is p(1 - p) exactly; a target computed from all-or-nothing years equals it but may
+  // come out a rounding below, which the root finder would turn into rho = 0.99999.. as a root.
+  if (target >= maximum * (1 - BOUNDARY_TOLERANCE)) return { kind: 'too-large', maximum };
   const root = brentRoot((rho) => bivariateNormalExcess(k, k, rho) - target, 0, 1, {
     tolerance: 1e-17,
     maxIterations: 300,

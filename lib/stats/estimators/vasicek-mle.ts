@@ -14,7 +14,8 @@ import { undefinedEstimate, type Estimate } from './types';
  * Method: direct evaluation (normalQuantile, Wichura 1988, ~1e-16 relative).
  *
  * Special cases: any DR_t equal to 0 or 1 makes Phi^-1(DR_t) infinite, so the estimate is
- * `undefined` with the period named (not patched with a substitute rate); T = 1 gives rho = 0.
+ * `undefined` with the period named (not patched with a substitute rate); T = 1 is `undefined`
+ * too (one period identifies no variance: s2 would be 0 by construction, not an estimate).
  * Invalid counts throw RangeError naming the period.
  *
  * @example vasicekMle({ obligors: [1000, 1000, 1000], defaults: [5, 20, 10] }).rho
@@ -25,6 +26,9 @@ import { undefinedEstimate, type Estimate } from './types';
 export function vasicekMle(panel: Panel): Estimate {
   assertPanel(panel, 'vasicekMle');
   const T = panel.obligors.length;
+  if (T < 2) {
+    return undefinedEstimate('A single period identifies no variance of the default rate, so the closed form has no correlation to give; it needs at least 2 periods.');
+  }
   const x: number[] = [];
   for (let t = 0; t < T; t++) {
     const d = panel.defaults[t];

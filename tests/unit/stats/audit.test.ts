@@ -40,8 +40,22 @@ describe('estimator audit', () => {
     expect(s.coverage.profile).toMatchObject({ available: withProfile.length, covered, level: 0.95 });
     const walds = reps.filter((r) => r.wald !== null).length;
     const atBoundary = reps.filter((r) => r.estimates.binomialMle.rho === 0).length;
-    expect(walds + atBoundary).toBe(withProfile.length); // no Wald interval at rho = 0 (issue 3)
+    expect(walds + atBoundary).toBe(withProfile.length); // no Wald interval at rho = 0 (DESIGN.md)
     expect(s.omitted.map((o) => o.item)).toContain('bootstrap interval coverage');
+  });
+
+  it('counts panels without a Wald interval (estimate at rho = 0) as misses, never drops them', () => {
+    // definition (Morris, White & Crowther 2019, coverage over all replications): a method that
+    // gives no interval did not cover. Panel: p = 1%, rho = 0.01, T = 10 cohorts of 300, where
+    // many estimates fall at rho = 0 (seeded).
+    const small: AuditSpec = { obligors: new Array(10).fill(300), pd: 0.01, rho: 0.01, seed: 5 };
+    const reps = auditRange(small, 0, 60);
+    const s = mergeAudit([reps], small);
+    const noWald = reps.filter((r) => r.wald === null).length;
+    expect(noWald).toBeGreaterThan(5);
+    const covered = reps.filter((r) => r.wald !== null && r.wald.lower <= small.rho && small.rho <= r.wald.upper).length;
+    expect(s.coverage.wald).toMatchObject({ available: 60 - noWald, missing: noWald, covered });
+    expect(s.coverage.wald.coverage).toBeCloseTo(covered / 60, 15);
   });
 
   it.each(fixtures.vasicekMleLargePool)(

@@ -8,7 +8,7 @@ import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { getFit } from '@/lib/dal/fits';
 import { AppError } from '@/lib/errors';
-import { isCurrentResults } from '@/lib/fits/results';
+import { isCurrentResults, segmentsInOrder } from '@/lib/fits/results';
 
 export const metadata: Metadata = { title: 'Fit review' };
 
@@ -72,22 +72,31 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
               ))}
             </nav>
           ) : null}
-          {fit.results.segments.map((s, i) => (
-            <div key={s.segment} id={`segment-${i}`} className="space-y-2">
-              {can(actor.role, 'assumptions:draft') && s.estimates.binomialMle.rho !== null ? (
+          {segmentsInOrder(fit.results).map((item) =>
+            item.kind === 'failed' ? (
+              <section key={`failed-${item.failure.segment}`} className="panel notice-caution p-4" data-testid="segment-failed" aria-labelledby={`failed-${item.failure.position}`}>
+                <h2 id={`failed-${item.failure.position}`}>{item.failure.segment}</h2>
+                <p className="mt-1 text-sm">
+                  This segment was not fitted: {item.failure.reason} The other segments of this run were fitted as usual.
+                </p>
+              </section>
+            ) : (
+            <div key={item.fit.segment} id={`segment-${item.index}`} className="space-y-2">
+              {can(actor.role, 'assumptions:draft') && item.fit.estimates.binomialMle.rho !== null ? (
                 <div className="flex justify-end">
                   <Link
                     className="btn btn-quiet text-sm"
-                    href={`/library/new?fitId=${fit.id}&segment=${encodeURIComponent(s.segment)}`}
-                    data-testid={`draft-from-fit-${i}`}
+                    href={`/library/new?fitId=${fit.id}&segment=${encodeURIComponent(item.fit.segment)}`}
+                    data-testid={`draft-from-fit-${item.index}`}
                   >
-                    Draft an assumption for {s.segment} from this fit
+                    Draft an assumption for {item.fit.segment} from this fit
                   </Link>
                 </div>
               ) : null}
-              <SegmentReview seg={s} index={i} bootstrapRequested={!!r.bootstrap} />
+              <SegmentReview seg={item.fit} index={item.index} bootstrapRequested={!!r.bootstrap} />
             </div>
-          ))}
+            ),
+          )}
           <p className="notice-caution text-sm">
             The Gaussian one-factor model has no tail dependence and one constant correlation; 10–25 yearly observations give wide
             intervals and a downward bias. These numbers support a judgement: they do not replace independent validation, local

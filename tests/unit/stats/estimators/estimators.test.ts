@@ -133,3 +133,26 @@ describe('binomialMle is a maximum', () => {
     }
   });
 });
+
+describe('estimator boundaries reported as such', () => {
+  it('jointDefault: years that are all 0 or all n reach the largest target p(1 - p): rho = 1, clipped, with a reason', () => {
+    // definition (DESIGN.md, jointDefault): all-or-nothing years give p2 = mean(DR) = p, so
+    // p2 - p^2 = p(1 - p) = Phi2(k, k; 1) - p^2, the boundary rho = 1 (Vasicek 2002)
+    for (const panel of [
+      { obligors: [100, 100, 100, 100], defaults: [0, 100, 0, 0] },
+      { obligors: [37, 41, 53, 29, 61], defaults: [37, 0, 0, 29, 0] },
+    ]) {
+      const e = jointDefault(panel);
+      expect(e.status).toBe('clipped');
+      expect(e.rho).toBe(1);
+      expect(e.reason).toMatch(/boundary rho = 1/);
+    }
+  });
+
+  it('vasicekMle: a single period identifies no variance, so T = 1 is undefined with a sentence', () => {
+    // definition: s2 = (1/T) sum (x_t - mu)^2 is 0 by construction at T = 1 (DESIGN.md, vasicekMle)
+    const e = vasicekMle({ obligors: [1000], defaults: [12] });
+    expect(e).toMatchObject({ rho: null, pd: null, status: 'undefined' });
+    expect(e.reason).toMatch(/single period/);
+  });
+});
