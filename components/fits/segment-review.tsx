@@ -42,6 +42,27 @@ function pValue(p: number): string {
   return p.toFixed(4);
 }
 
+/** The serial-dependence test on the PIT values (runs with zero-default years), or why it could not run. */
+function SerialTest({ d }: { d: FitSegmentResult['diagnostics'] }) {
+  // Results stored before the granular PIT have neither field.
+  if (d.pitSerialTest === undefined && d.pitSerialNote === undefined) return null;
+  return (
+    <p className="mt-1 text-sm" data-testid="pit-serial">
+      Serial dependence of the PIT values (every year, zero-default years included):{' '}
+      {d.pitSerialTest ? (
+        <>
+          lag-1 autocorrelation of their normal scores <span className="num">{fixed(d.pitSerialTest.statistic, 2)}</span> against ±
+          {fixed(d.pitSerialTest.threshold, 2)}.{' '}
+          {d.pitSerialTest.material ? 'Material: consecutive years move together, so the intervals are too narrow.' : 'Within that band.'}
+        </>
+      ) : (
+        <span>{d.pitSerialNote}</span>
+      )}{' '}
+      {d.pitMethod ? <span className="text-xs text-[var(--color-muted)]">PIT: {d.pitMethod}.</span> : null}
+    </p>
+  );
+}
+
 /**
  * The review of one segment of a fit run: every part a validator needs to judge the correlation,
  * drawn from the engine's SegmentFit (lib/stats/fit-panel.ts) and the run's audit and windows.
@@ -239,7 +260,7 @@ export function SegmentReview({ seg, index, bootstrapRequested }: { seg: FitSegm
               <p className="mt-1 text-sm" data-testid="autocorrelation">
                 Lag-1 autocorrelation of the implied factor:{' '}
                 {d.lag1Autocorrelation === null ? (
-                  <span>not computed (a period with a 0% or 100% default rate has no finite factor, or fewer than 5 periods)</span>
+                  <span>{d.autocorrelationNote ?? 'not computed (a period with a 0% or 100% default rate has no finite factor, or fewer than 5 periods)'}</span>
                 ) : (
                   <>
                     <span className="num">{fixed(d.lag1Autocorrelation, 2)}</span>, against ±{fixed(d.autocorrelationThreshold, 2)} for
@@ -253,9 +274,13 @@ export function SegmentReview({ seg, index, bootstrapRequested }: { seg: FitSegm
                   ? ` PIT values should spread evenly over 0–1; here ${d.pit.filter((u) => u < 0.1 || u > 0.9).length} of ${seg.T} lie in the outer tenths (about ${(0.2 * seg.T).toFixed(1)} expected).`
                   : ''}
               </p>
+              <SerialTest d={d} />
             </>
           ) : (
-            <p className="text-sm text-[var(--color-muted)]">{d.fittedNote ?? 'No implied factor.'}</p>
+            <>
+              <p className="text-sm text-[var(--color-muted)]">{d.fittedNote ?? 'No implied factor.'}</p>
+              <SerialTest d={d} />
+            </>
           )}
           <p className="mt-1 text-xs text-[var(--color-muted)]">
             {d.zeroDefaultPeriods} period{d.zeroDefaultPeriods === 1 ? '' : 's'} without a default, {d.allDefaultPeriods} with every obligor
