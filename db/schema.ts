@@ -133,7 +133,7 @@ export const jobs = mysqlTable(
 export type Job = typeof jobs.$inferSelect;
 
 // ---------------------------------------------------------------------------------------------
-// Assumptions (lib/assumptions, lib/dal/assumptions.ts): the library of correlation assumptions,
+// Assumptions (lib/assumptions, lib/dal/assumptions/): the library of correlation assumptions,
 // their versions under maker-checker review, the append-only audit trail, API tokens and mail
 // ---------------------------------------------------------------------------------------------
 

@@ -1,6 +1,6 @@
 import { requireUser } from '@/lib/auth/session';
 import { createDraft, listLibrary } from '@/lib/dal/assumptions';
-import { AppError, errorResponse } from '@/lib/errors';
+import { AppError, errorResponse, parseOrThrow } from '@/lib/errors';
 import { draftInputSchema } from '@/lib/assumptions/content';
 
 /** GET: the library by segment (signed-in users). POST: an analyst drafts a version from a fit: 201 { id }. */
@@ -18,12 +18,7 @@ export async function POST(req: Request) {
     const actor = await requireUser();
     const body = await req.json().catch(() => undefined);
     if (body === undefined) throw new AppError('bad_request:json', 'The request body must be JSON.');
-    const parsed = draftInputSchema.safeParse(body);
-    if (!parsed.success) {
-      const i = parsed.error.issues[0];
-      throw new AppError('invalid:assumption', i?.message ?? 'The draft is not valid.', { field: i?.path.join('.') ?? null });
-    }
-    const v = await createDraft(actor, parsed.data);
+    const v = await createDraft(actor, parseOrThrow(draftInputSchema, body, 'invalid:assumption', 'The draft is not valid.'));
     return Response.json({ id: v.id, status: v.status, version: v.version, assumptionId: v.assumptionId }, { status: 201 });
   } catch (err) {
     return errorResponse(err);

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { requireUser } from '@/lib/auth/session';
 import { editDraft, getVersionPage } from '@/lib/dal/assumptions';
-import { AppError, errorResponse } from '@/lib/errors';
+import { AppError, errorResponse, parseOrThrow } from '@/lib/errors';
 import { editInputSchema } from '@/lib/assumptions/content';
 
 const paramsSchema = z.object({ id: z.coerce.number().int().positive() });
@@ -28,12 +28,8 @@ export async function PATCH(req: Request, ctx: Ctx) {
   try {
     const actor = await requireUser();
     const id = await versionId(ctx);
-    const body = editInputSchema.safeParse(await req.json().catch(() => null));
-    if (!body.success) {
-      const i = body.error.issues[0];
-      throw new AppError('invalid:assumption', i?.message ?? 'The change is not valid.', { field: i?.path.join('.') ?? null });
-    }
-    const v = await editDraft(actor, id, body.data);
+    const body = parseOrThrow(editInputSchema, await req.json().catch(() => null), 'invalid:assumption', 'The change is not valid.');
+    const v = await editDraft(actor, id, body);
     return Response.json({ id: v.id, status: v.status, contentHash: v.contentHash });
   } catch (err) {
     return errorResponse(err);

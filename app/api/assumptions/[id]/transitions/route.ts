@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { userActions } from '@/lib/assumptions/lifecycle';
 import { requireUser } from '@/lib/auth/session';
 import { transition } from '@/lib/dal/assumptions';
-import { AppError, errorResponse } from '@/lib/errors';
+import { AppError, errorResponse, parseOrThrow } from '@/lib/errors';
 
 const paramsSchema = z.object({ id: z.coerce.number().int().positive() });
 const bodySchema = z.object({
@@ -16,9 +16,8 @@ export async function POST(req: Request, ctx: { params: Promise<{ id: string }> 
     const actor = await requireUser();
     const p = paramsSchema.safeParse(await ctx.params);
     if (!p.success) throw new AppError('not_found:assumption', 'There is no such assumption version.');
-    const body = bodySchema.safeParse(await req.json().catch(() => null));
-    if (!body.success) throw new AppError('invalid:transition', body.error.issues[0]?.message ?? 'Give an action.', { field: 'action' });
-    return Response.json(await transition(actor, p.data.id, body.data));
+    const body = parseOrThrow(bodySchema, await req.json().catch(() => null), 'invalid:transition', 'Give an action.');
+    return Response.json(await transition(actor, p.data.id, body));
   } catch (err) {
     return errorResponse(err);
   }

@@ -1,0 +1,90 @@
+import 'server-only';
+import { and, eq, inArray } from 'drizzle-orm';
+import type { DbOrTx, Tx } from '@/db/connection';
+import { users, type AssumptionVersion, type Role } from '@/db/schema';
+import { env } from '@/lib/env';
+import { queueMail } from '@/lib/mail/outbox';
+import type { MailKind } from '@/lib/mail/templates';
+import { makerIds, type Actor } from './actors';
+
+/**
+ * The e-mail an assumption's transitions and review-by dates cause, written to the outbox in the
+ * transaction of the change (the worker's mail loop sends it).
+ */
+function appUrl(path: string): string {
+  const base = (env().NEXTAUTH_URL ?? 'http://127.0.0.1:3000').replace(/\/$/, '');
+  return `${base}${path}`;
+}
+
+async function activeEmails(db: DbOrTx, where: { role?: Role; ids?: number[] }): Promise<{ id: number; email: string }[]> {
+  const conds = [eq(users.active, true)];
+  if (where.role) conds.push(eq(users.role, where.role));
+  if (where.ids) {
+    if (!where.ids.length) return [];
+    conds.push(inArray(users.id, where.ids));
+  }
+  return db.select({ id: users.id, email: users.email }).from(users).where(and(...conds));
+}
+
+/** Queues the mail of a transition: awaiting review, changes requested, decided, published. */
+export async function notifyTransition(tx: Tx, v: AssumptionVersion, segment: string, action: string, actor: Actor, comment: string | null): Promise<void> {
+  let kind: MailKind | null = null;
+  let to: string[] = [];
+  const makers = await makerIds(tx, v);
+  switch (action) {
+    case 'submit':
+      kind = 'awaiting-review';
+      to = (await activeEmails(tx, { role: 'validator' })).filter((u) => !makers.includes(u.id)).map((u) => u.email);
+      break;
+    case 'request-changes':
+      kind = 'changes-requested';
+      to = (await activeEmails(tx, { ids: makers })).map((u) => u.email);
+      break;
+    case 'approve':
+    case 'reject':
+      kind = action === 'approve' ? 'approved' : 'rejected';
+      to = (await activeEmails(tx, { ids: makers })).map((u) => u.email);
+      break;
+    case 'publish':
+      kind = 'published';
+      to = (await activeEmails(tx, { ids: [...makers, ...(v.validatorId ? [v.validatorId] : [])] })).map((u) => u.email);
+      break;
+  }
+  if (!kind) return;
+  await queueMail(tx, {
+    kind,
+    to,
+    versionId: v.id,
+    facts: {
+      segment,
+      version: v.version,
+      finalValue: v.finalValue,
+      effectiveDate: v.effectiveDate,
+      reviewBy: v.reviewBy,
+      actorName: actor.name,
+      comment,
+      url: appUrl(`/library/versions/${v.id}`),
+    },
+  });
+}
+
+/** Queues the 30- or 7-day review-by reminder of a published version once (deduplicated). Returns the rows written. */
+export async function queueReviewReminder(db: DbOrTx, v: AssumptionVersion, segment: string, kind: MailKind, daysLeft: number): Promise<number> {
+  const makers = await makerIds(db, v);
+  const to = (await activeEmails(db, { ids: [...makers, ...(v.validatorId ? [v.validatorId] : [])] })).map((u) => u.email);
+  return queueMail(db, {
+    kind,
+    to,
+    versionId: v.id,
+    dedupeKey: (addr) => `${kind}:${v.id}:${v.reviewBy}:${addr}`,
+    facts: {
+      segment,
+      version: v.version,
+      finalValue: v.finalValue,
+      effectiveDate: v.effectiveDate,
+      reviewBy: v.reviewBy,
+      daysLeft,
+      url: appUrl(`/library/versions/${v.id}`),
+    },
+  });
+}

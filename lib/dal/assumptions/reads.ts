@@ -1,0 +1,201 @@
+import 'server-only';
+import { and, asc, desc, eq, inArray } from 'drizzle-orm';
+import { getDb } from '@/db/client';
+import { assumptionAudit, assumptionReviews, assumptions, assumptionVersions, type AssumptionStatus } from '@/db/schema';
+import { diffVersions } from '@/lib/assumptions/content';
+import { daysBetween, EXPIRING_SOON_DAYS, todayIso } from '@/lib/assumptions/dates';
+import { availableActions, openStatuses } from '@/lib/assumptions/lifecycle';
+import { assertCan, type SessionUser } from '@/lib/auth/guard';
+import { AppError } from '@/lib/errors';
+import { makerIds } from './actors';
+import { toCsv } from './csv';
+import {
+  peopleById,
+  toAuditDto,
+  versionDtos,
+  type AuditDto,
+  type LibraryEntryDto,
+  type QueueItemDto,
+  type VersionDto,
+  type VersionPageDto,
+} from './dto';
+import { canSeeVersion, visibleToViewer } from './visibility';
+
+/**
+ * Reads for the library screens: a version's page, the audit trail, the library by segment, the
+ * review queue and the open versions. Viewers see published versions only.
+ */
+
+/**
+ * Everything the assumption page shows. `compareTo` (a version id of the same assumption that the
+ * person may see) chooses the version the diff is taken against; by default the previous one.
+ */
+export async function getVersionPage(actor: SessionUser, id: number, now: Date = new Date(), compareTo?: number): Promise<VersionPageDto> {
+  assertCan(actor, 'assumptions:read');
+  const db = getDb();
+  const [row] = await db
+    .select({ v: assumptionVersions, segment: assumptions.segment })
+    .from(assumptionVersions)
+    .innerJoin(assumptions, eq(assumptions.id, assumptionVersions.assumptionId))
+    .where(eq(assumptionVersions.id, id));
+  if (!row || !canSeeVersion(actor, row.v.status)) throw new AppError('not_found:assumption', 'There is no such assumption version.');
+  const all = await db
+    .select({ v: assumptionVersions, segment: assumptions.segment })
+    .from(assumptionVersions)
+    .innerJoin(assumptions, eq(assumptions.id, assumptionVersions.assumptionId))
+    .where(eq(assumptionVersions.assumptionId, row.v.assumptionId))
+    .orderBy(desc(assumptionVersions.version));
+  const visible = all.filter((r) => canSeeVersion(actor, r.v.status));
+  const dtos = await versionDtos(db, visible);
+  const version = dtos.find((d) => d.id === id)!;
+  const reviewRows = await db.select().from(assumptionReviews).where(eq(assumptionReviews.versionId, id)).orderBy(asc(assumptionReviews.id));
+  const reviewers = await peopleById(db, reviewRows.map((r) => r.reviewerId));
+  const makers = await makerIds(db, row.v);
+  const asked = compareTo !== undefined && compareTo !== id ? dtos.find((d) => d.id === compareTo) : undefined;
+  const prev = asked ?? dtos.filter((d) => d.version < version.version).sort((a, b) => b.version - a.version)[0];
+  return {
+    version,
+    versions: dtos,
+    reviews: actor.role === 'viewer' ? [] : reviewRows.map((r) => ({
+      id: r.id,
+      reviewer: reviewers.get(r.reviewerId) ?? null,
+      action: r.action,
+      comment: r.comment,
+      contentHash: r.contentHash,
+      voided: r.voided,
+      at: r.at.toISOString(),
+    })),
+    audit: await listAudit(actor, row.v.assumptionId),
+    actions: availableActions({ actor, status: row.v.status, makerIds: makers, effectiveDate: row.v.effectiveDate, today: todayIso(now) }),
+    makerIds: makers,
+    changesFromPrevious: prev ? diffVersions(prev, version) : null,
+    comparedWith: prev ? { id: prev.id, version: prev.version } : null,
+  };
+}
+
+export async function getVersion(actor: SessionUser, id: number): Promise<VersionDto> {
+  return (await getVersionPage(actor, id)).version;
+}
+
+/** The audit trail of an assumption (all versions), oldest first. Viewers see the rows of versions
+ * they may see. */
+export async function listAudit(actor: SessionUser, assumptionId: number): Promise<AuditDto[]> {
+  assertCan(actor, 'assumptions:read');
+  const db = getDb();
+  const rows = await db.select().from(assumptionAudit).where(eq(assumptionAudit.assumptionId, assumptionId)).orderBy(asc(assumptionAudit.id));
+  let visibleIds: Set<number> | null = null;
+  if (actor.role === 'viewer') {
+    const vs = await db
+      .select({ id: assumptionVersions.id, status: assumptionVersions.status })
+      .from(assumptionVersions)
+      .where(eq(assumptionVersions.assumptionId, assumptionId));
+    visibleIds = new Set(vs.filter((v) => visibleToViewer(v.status)).map((v) => v.id));
+    if (!visibleIds.size) throw new AppError('not_found:assumption', 'There is no such assumption.');
+  }
+  return rows.filter((r) => !visibleIds || visibleIds.has(r.versionId)).map(toAuditDto);
+}
+
+export async function auditCsv(actor: SessionUser, assumptionId: number): Promise<{ filename: string; csv: string }> {
+  const rows = await listAudit(actor, assumptionId);
+  const [a] = await getDb().select().from(assumptions).where(eq(assumptions.id, assumptionId));
+  if (!a) throw new AppError('not_found:assumption', 'There is no such assumption.');
+  return {
+    filename: `audit-${a.segment.replace(/[^A-Za-z0-9_-]+/g, '_')}.csv`,
+    csv: toCsv(
+      ['id', 'at', 'segment', 'version', 'action', 'actor', 'role', 'from', 'to', 'comment', 'content_sha256'],
+      rows.map((r) => [r.id, r.at, a.segment, r.version, r.action, r.actorEmail, r.actorRole, r.fromStatus, r.toStatus, r.comment, r.contentHash]),
+    ),
+  };
+}
+
+/** The library by segment: the published version (or the last one that lapsed) and what is pending. */
+export async function listLibrary(actor: SessionUser, now: Date = new Date()): Promise<LibraryEntryDto[]> {
+  assertCan(actor, 'assumptions:read');
+  const db = getDb();
+  const today = todayIso(now);
+  const rows = await db
+    .select({ v: assumptionVersions, segment: assumptions.segment })
+    .from(assumptionVersions)
+    .innerJoin(assumptions, eq(assumptions.id, assumptionVersions.assumptionId))
+    .orderBy(asc(assumptions.segment), desc(assumptionVersions.version));
+  const dtos = await versionDtos(db, rows);
+  const bySegment = new Map<number, VersionDto[]>();
+  for (const d of dtos) bySegment.set(d.assumptionId, [...(bySegment.get(d.assumptionId) ?? []), d]);
+  const out: LibraryEntryDto[] = [];
+  for (const [assumptionId, vs] of bySegment) {
+    const published = vs.find((v) => v.status === 'published');
+    const lapsed = !published ? vs.find((v) => v.status === 'expired') : undefined;
+    const pending = vs.find((v) => openStatuses.includes(v.status));
+    if (actor.role === 'viewer' && !published && !lapsed) continue;
+    const current = published ?? lapsed ?? null;
+    const days = current ? daysBetween(today, current.reviewBy) : null;
+    out.push({
+      assumptionId,
+      segment: vs[0].segment,
+      current,
+      health: !current ? 'none' : lapsed || (days !== null && days < 0) ? 'expired' : days !== null && days <= EXPIRING_SOON_DAYS ? 'expiring' : 'ok',
+      daysToReview: days,
+      pending: pending && actor.role !== 'viewer' ? { id: pending.id, version: pending.version, status: pending.status } : null,
+    });
+  }
+  return out;
+}
+
+/**
+ * What awaits this person: validators see submitted versions they may review (not their own) and
+ * reviews they started; analysts see their drafts sent back with changes requested. (Approved
+ * versions need no one: the scheduler publishes them on their effective date.)
+ */
+export async function listQueue(actor: SessionUser): Promise<QueueItemDto[]> {
+  assertCan(actor, 'assumptions:read');
+  if (actor.role !== 'validator' && actor.role !== 'analyst') return [];
+  const db = getDb();
+  const statuses: AssumptionStatus[] = actor.role === 'validator' ? ['submitted', 'in_review'] : ['draft'];
+  const rows = await db
+    .select({ v: assumptionVersions, segment: assumptions.segment })
+    .from(assumptionVersions)
+    .innerJoin(assumptions, eq(assumptions.id, assumptionVersions.assumptionId))
+    .where(inArray(assumptionVersions.status, statuses))
+    .orderBy(asc(assumptionVersions.updatedAt));
+  const out: QueueItemDto[] = [];
+  for (const { v, segment } of rows) {
+    const makers = await makerIds(db, v);
+    let why: string | null = null;
+    if (actor.role === 'validator') {
+      if (makers.includes(actor.id)) continue;
+      if (v.status === 'submitted') why = 'Submitted: awaiting review';
+      else {
+        const [mine] = await db
+          .select({ id: assumptionReviews.id })
+          .from(assumptionReviews)
+          .where(and(eq(assumptionReviews.versionId, v.id), eq(assumptionReviews.reviewerId, actor.id), eq(assumptionReviews.voided, false)))
+          .limit(1);
+        if (mine) why = 'In review by you: decide';
+      }
+    } else if (makers.includes(actor.id)) {
+      const [last] = await db
+        .select({ action: assumptionAudit.action })
+        .from(assumptionAudit)
+        .where(eq(assumptionAudit.versionId, v.id))
+        .orderBy(desc(assumptionAudit.id))
+        .limit(1);
+      if (last?.action === 'request-changes') why = `Changes requested: ${v.decisionComment ?? 'see the comment'}`;
+    }
+    if (why) out.push({ id: v.id, segment, version: v.version, status: v.status, why, updatedAt: v.updatedAt.toISOString(), finalValue: v.finalValue });
+  }
+  return out;
+}
+
+/** Versions still on their way to publication, for the analyst's view of drafts (not viewers). */
+export async function listOpenVersions(actor: SessionUser): Promise<VersionDto[]> {
+  assertCan(actor, 'assumptions:read');
+  if (actor.role === 'viewer') return [];
+  const db = getDb();
+  const rows = await db
+    .select({ v: assumptionVersions, segment: assumptions.segment })
+    .from(assumptionVersions)
+    .innerJoin(assumptions, eq(assumptions.id, assumptionVersions.assumptionId))
+    .where(inArray(assumptionVersions.status, [...openStatuses]))
+    .orderBy(asc(assumptions.segment));
+  return versionDtos(db, rows);
+}
