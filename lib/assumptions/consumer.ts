@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { assumptionStatuses } from '@/db/schema';
+import type { CsvValue } from '@/lib/csv';
 import { assumptionCautions } from './cautions';
 import type { VersionContent } from './content';
 
@@ -143,7 +144,7 @@ export const exportColumns = [
   'approved_by',
 ] as const;
 
-export function exportRow(c: ConsumerVersion): unknown[] {
+export function exportRow(c: ConsumerVersion): CsvValue[] {
   return [
     c.segment,
     c.version,

@@ -24,7 +24,7 @@ export {
   type LoanTapeValidation,
 } from './loan-tape';
 export { checkPanel, JUMP_RATIO, MIN_PERIODS, TINY_COHORT } from './panel-checks';
-export { cohortRowsToCsv, findingsToCsv, neutraliseCell, quoteCell } from './export';
+export { cohortRowsToCsv, findingsToCsv } from './export';
 export { createSha256, hashingSource, sha256Hex, sha256OfStream } from './hash';
 
 export type UploadKind = 'cohort' | 'vintage' | 'loans';

@@ -5,6 +5,7 @@
  * the message can say what went wrong: a negative number, decimals (including a decimal comma in a
  * semicolon file), thousands separators, a rate or percentage given instead of a count, or text.
  */
+import { looksLikeFormula } from '@/lib/csv';
 import type { Delimiter } from './csv-reader';
 import { FindingCollector } from './findings';
 import { MAX_SEGMENT_CHARS, MAX_TEXT_CHARS } from './limits';
@@ -95,13 +96,6 @@ export function countOrReport(
   return null;
 }
 
-/** Characters that make a spreadsheet treat a cell as a formula (OWASP "CSV injection"). */
-export function looksLikeFormula(text: string): boolean {
-  if (text.length === 0) return false;
-  const c = text.charCodeAt(0);
-  // = + - @ tab CR
-  return c === 61 || c === 43 || c === 45 || c === 64 || c === 9 || c === 13;
-}
 
 /**
  * Checks a segment name. Returns the trimmed name, or null when it is unusable (empty, too long).

@@ -13,4 +13,3 @@ export { createDraft, editDraft, transition } from './writes';
 export { runScheduledTransitions, type ScheduleReport } from './scheduler';
 export { auditCsv, getVersion, getVersionPage, listAudit, listLibrary, listOpenVersions, listQueue } from './reads';
 export { listInForce, listPublished, publishedVersion, versionInForce, type Consumer } from './consumer';
-export { toCsv } from './csv';

@@ -6,9 +6,9 @@ import { diffVersions } from '@/lib/assumptions/content';
 import { daysBetween, EXPIRING_SOON_DAYS, todayIso } from '@/lib/assumptions/dates';
 import { availableActions, openStatuses } from '@/lib/assumptions/lifecycle';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
+import { toCsv } from '@/lib/csv';
 import { AppError } from '@/lib/errors';
 import { makerIds } from './actors';
-import { toCsv } from './csv';
 import {
   peopleById,
   toAuditDto,
@@ -95,6 +95,7 @@ export async function listAudit(actor: SessionUser, assumptionId: number): Promi
   return rows.filter((r) => !visibleIds || visibleIds.has(r.versionId)).map(toAuditDto);
 }
 
+/** The audit trail of an assumption as CSV (the app's one CSV writer; with a byte order mark for spreadsheets). */
 export async function auditCsv(actor: SessionUser, assumptionId: number): Promise<{ filename: string; csv: string }> {
   const rows = await listAudit(actor, assumptionId);
   const [a] = await getDb().select().from(assumptions).where(eq(assumptions.id, assumptionId));
@@ -104,6 +105,7 @@ export async function auditCsv(actor: SessionUser, assumptionId: number): Promis
     csv: toCsv(
       ['id', 'at', 'segment', 'version', 'action', 'actor', 'role', 'from', 'to', 'comment', 'content_sha256'],
       rows.map((r) => [r.id, r.at, a.segment, r.version, r.action, r.actorEmail, r.actorRole, r.fromStatus, r.toStatus, r.comment, r.contentHash]),
+      { bom: true },
     ),
   };
 }

@@ -1,35 +1,22 @@
 import { describe, expect, it } from 'vitest';
-import { cohortRowsToCsv, findingsToCsv, neutraliseCell } from '@/lib/ingest/export';
+import { cohortRowsToCsv, findingsToCsv } from '@/lib/ingest/export';
 import { sha256Hex, hashingSource, sha256OfStream } from '@/lib/ingest/hash';
 import { DATE_BAD_FORMAT, DATE_NOT_IN_CALENDAR, DATE_OUT_OF_RANGE, nextDay, parseIsoDate, previousDay } from '@/lib/ingest/dates';
 import { StringSet } from '@/lib/ingest/string-set';
 import { validateCohortText } from '@/lib/ingest/cohort';
 import { chunked } from './helpers';
 
-describe('CSV exports neutralise formulas and quote (OWASP CSV injection; RFC 4180)', () => {
-  it('prefixes = + - @ tab and CR with a single quote', () => {
-    expect(['=1+1', '+1', '-1', '@SUM(A1)', '\tx', '\rx', 'plain', ''].map(neutraliseCell)).toEqual([
-      "'=1+1",
-      "'+1",
-      "'-1",
-      "'@SUM(A1)",
-      "'\tx",
-      "'\rx",
-      'plain',
-      '',
-    ]);
-  });
-
+describe('CSV exports of uploads go through the one CSV writer (lib/csv.ts; RFC 4180, OWASP CSV injection)', () => {
   it('cohort rows, with comment lines, written by hand', () => {
     const csv = cohortRowsToCsv(
       [
         { segment: '=HYPERLINK("http://x.example")', period: '2015', obligors: 100, defaults: 2 },
         { segment: 'Cards, premium', period: '2016', obligors: 90, defaults: 1 },
       ],
-      ['Convention: exits stay.\nCensored: none.'],
+      ['Convention: exits stay.\nCensored: none.', 'File a.csv,=HYPERLINK("http://x.example")'],
     );
     expect(csv).toBe(
-      '# Convention: exits stay.\r\n# Censored: none.\r\nsegment,period,obligors,defaults\r\n' +
+      '# Convention: exits stay.\r\n# Censored: none.\r\n# File a.csv,\'=HYPERLINK("http://x.example")\r\nsegment,period,obligors,defaults\r\n' +
         '"\'=HYPERLINK(""http://x.example"")",2015,100,2\r\n' +
         '"Cards, premium",2016,90,1\r\n',
     );

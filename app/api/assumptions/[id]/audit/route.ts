@@ -13,7 +13,7 @@ export async function GET(_req: Request, ctx: { params: Promise<{ id: string }> 
     if (!p.success) throw new AppError('not_found:assumption', 'There is no such assumption version.');
     const v = await getVersion(actor, p.data.id);
     const { filename, csv } = await auditCsv(actor, v.assumptionId);
-    return new Response('\uFEFF' + csv, {
+    return new Response(csv, {
       headers: { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${filename}"` },
     });
   } catch (err) {

@@ -1,6 +1,7 @@
 import { exportColumns, exportRow, toConsumerVersion } from '@/lib/assumptions/consumer';
 import { todayIso } from '@/lib/assumptions/dates';
-import { listPublished, toCsv } from '@/lib/dal/assumptions';
+import { toCsv } from '@/lib/csv';
+import { listPublished } from '@/lib/dal/assumptions';
 import { authenticateToken } from '@/lib/dal/tokens';
 import { errorResponse } from '@/lib/errors';
 
@@ -9,7 +10,7 @@ export async function GET(req: Request) {
   try {
     const principal = await authenticateToken(req.headers.get('authorization'), 'assumptions:export');
     const rows = (await listPublished(principal, 'assumptions:export')).map((v) => exportRow(toConsumerVersion(v)));
-    return new Response('\uFEFF' + toCsv([...exportColumns], rows), {
+    return new Response(toCsv(exportColumns, rows, { bom: true }), {
       headers: {
         'content-type': 'text/csv; charset=utf-8',
         'content-disposition': `attachment; filename="rhobook-library-${todayIso()}.csv"`,
