@@ -1,34 +1,18 @@
 /**
- * Seeds the invented demo organisation into an EMPTY database: one account per role (password
- * from DEMO_PASSWORD, default rhobook-demo) and, when the data-intake feature is present, the demo
- * lender's datasets. Never runs on a database that has users, and never in production mode unless
- * RHOBOOK_SEED_DEMO=1 is set explicitly.
+ * `npm run db:seed` (and `npm start`, and the e2e test database): the demo organisation
+ * (lib/demo/seed) on an empty database, with the worker's job runner for the demo fit. This entry
+ * only composes; the seed itself lives in lib/demo/seed.
  */
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { count } from 'drizzle-orm';
-import { hashPassword } from '@/lib/auth/password';
-import { env } from '@/lib/env';
+import { seedDemoOrganisation, type SeedOptions, type SeedResult } from '@/lib/demo/seed';
+import { runJobHere } from '@/workers/run-job-here';
 import { closeDb, getDb, type Db } from './connection';
-import { demoUsers } from './demo-users';
-import { users } from './schema';
 
-export type SeedResult = { seeded: boolean; reason: string };
+export type { SeedResult };
 
-export async function seedDemo(db: Db, opts: { withData?: boolean } = {}): Promise<SeedResult> {
-  const e = env();
-  if (e.NODE_ENV === 'production' && process.env.RHOBOOK_SEED_DEMO !== '1') {
-    return { seeded: false, reason: 'production mode: set RHOBOOK_SEED_DEMO=1 to seed the demo organisation' };
-  }
-  const [{ n }] = await db.select({ n: count() }).from(users);
-  if (n > 0) return { seeded: false, reason: `the database already has ${n} users` };
-  const passwordHash = await hashPassword(e.DEMO_PASSWORD);
-  await db.insert(users).values(demoUsers.map((u) => ({ ...u, passwordHash })));
-  if (opts.withData !== false) {
-    const { seedDemoData } = await import('./seed-data');
-    await seedDemoData(db);
-  }
-  return { seeded: true, reason: 'empty database' };
+export function seedDemo(db: Db, opts: Omit<SeedOptions, 'runJob'> = {}): Promise<SeedResult> {
+  return seedDemoOrganisation(db, { ...opts, runJob: runJobHere });
 }
 
 if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {

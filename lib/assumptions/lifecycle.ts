@@ -78,13 +78,32 @@ export type TransitionContext = {
   effectiveDate: string;
   /** Today's date (YYYY-MM-DD, UTC). */
   today: string;
+  /** The day the version was approved (YYYY-MM-DD, UTC), once it has been. */
+  approvedOn?: string | null;
 };
+
+/**
+ * Back-dating: a version may not take effect before the day it is approved. Were it allowed, an
+ * answer the consumer API gave for a past date could change after the fact (DESIGN.md: "an effective
+ * date is never before the approval date, so an as-of answer, once given, never changes").
+ * Returns the sentence of refusal, or null.
+ */
+export function backDatingProblem(effectiveDate: string, approvalDate: string, when: 'approve' | 'publish'): string | null {
+  if (effectiveDate >= approvalDate) return null;
+  return when === 'approve'
+    ? `The effective date ${effectiveDate} is before today, ${approvalDate}: a version cannot take effect before it is approved, or answers already given for past dates would change. Edit the effective date to ${approvalDate} or later, then approve.`
+    : `The effective date ${effectiveDate} is before the approval date ${approvalDate}: a version cannot take effect before it was approved. Edit the effective date (which returns the version to draft) and have it approved again.`;
+}
+
+/** Refusals that the screen leaves to the server's sentence rather than hiding the button. */
+const explainedOnAttempt = new Set(['conflict:approve:back-dated', 'conflict:publish:back-dated']);
 
 /**
  * Decides a user's transition or throws an AppError that says why not:
  * `forbidden:*` (403) for a role or person not allowed, `conflict:*` (409) for a state that does not
- * allow it, `invalid:comment` (422) for a missing required comment. The role is checked first so
- * that an administrator learns they cannot approve whatever the state.
+ * allow it (a back-dated effective date included), `invalid:comment` (422) for a missing required
+ * comment. The role is checked first so that an administrator learns they cannot approve whatever
+ * the state.
  */
 export function planTransition(action: UserAction, ctx: TransitionContext): { from: AssumptionStatus; to: AssumptionStatus } {
   const rule = transitionRules[action];
@@ -109,6 +128,14 @@ export function planTransition(action: UserAction, ctx: TransitionContext): { fr
   }
   if (rule.commentRequired && !ctx.comment?.trim()) {
     throw new AppError('invalid:comment', `Say why when you ${action === 'reject' ? 'reject a version' : 'request changes'}: a comment is required.`);
+  }
+  if (action === 'approve') {
+    const problem = backDatingProblem(ctx.effectiveDate, ctx.today, 'approve');
+    if (problem) throw new AppError('conflict:approve:back-dated', problem);
+  }
+  if (action === 'publish' && ctx.approvedOn) {
+    const problem = backDatingProblem(ctx.effectiveDate, ctx.approvedOn, 'publish');
+    if (problem) throw new AppError('conflict:publish:back-dated', problem);
   }
   if (action === 'publish' && ctx.effectiveDate > ctx.today) {
     throw new AppError(
@@ -164,14 +191,18 @@ export function planEdit(ctx: { actor: { role: Role }; status: AssumptionStatus 
   return { from: ctx.status, to: 'draft' };
 }
 
-/** The actions a person could take now (for buttons); the server still decides. */
+/**
+ * The actions a person could take now (for buttons); the server still decides. An action refused
+ * only for a back-dated effective date stays offered, so that the person reads the server's
+ * sentence saying what to change.
+ */
 export function availableActions(ctx: Omit<TransitionContext, 'comment'>): UserAction[] {
   return userActions.filter((a) => {
     try {
       planTransition(a, { ...ctx, comment: 'x' });
       return true;
-    } catch {
-      return false;
+    } catch (err) {
+      return err instanceof AppError && explainedOnAttempt.has(err.code);
     }
   });
 }

@@ -196,6 +196,27 @@ export async function changeOwnPassword(actor: SessionUser, input: { currentPass
     .where(eq(users.id, actor.id));
 }
 
+/**
+ * The first accounts of an empty database (the demo seed). There is no one yet to authorise the
+ * call, so it writes only while the users table is empty (checked under a lock in the transaction
+ * that inserts) and otherwise returns how many users there are and creates nobody.
+ */
+export async function createInitialUsers(
+  accounts: readonly { email: string; name: string; role: Role }[],
+  passwordHash: string,
+): Promise<{ created: SessionUser[]; existing: number }> {
+  return getDb().transaction(async (tx) => {
+    const present = await tx.select({ id: users.id }).from(users).limit(1).for('update');
+    if (present.length) {
+      const [r] = await tx.select({ n: count() }).from(users);
+      return { created: [], existing: r.n };
+    }
+    await tx.insert(users).values(accounts.map((a) => ({ email: normaliseEmail(a.email), name: a.name, role: a.role, passwordHash })));
+    const rows = await tx.select({ id: users.id, email: users.email, name: users.name, role: users.role }).from(users).orderBy(asc(users.id));
+    return { created: rows, existing: 0 };
+  });
+}
+
 export async function countUsers(): Promise<number> {
   const [r] = await getDb().select({ n: count() }).from(users);
   return r.n;

@@ -4,6 +4,7 @@ import { getDb } from '@/db/client';
 import type { Db } from '@/db/connection';
 import { assumptions, assumptionVersions } from '@/db/schema';
 import { daysBetween, todayIso } from '@/lib/assumptions/dates';
+import { backDatingProblem } from '@/lib/assumptions/lifecycle';
 import type { MailKind } from '@/lib/mail/templates';
 import { SYSTEM } from './actors';
 import { queueReviewReminder } from './notify';
@@ -11,15 +12,21 @@ import { applyTransition, lockVersion } from './writes';
 
 /**
  * The scheduler's transitions (workers/scheduler.ts runs this once a minute): publish approved
- * versions on their effective date, expire published versions after their review-by date, and
+ * versions on their effective date (never one whose effective date is before its approval date), expire published versions after their review-by date, and
  * remind 30 and 7 days before it (once each). Each step re-checks the state under a row lock, so
  * several workers may run it at once.
  */
-export type ScheduleReport = { published: number[]; expired: number[]; reminders: number };
+export type ScheduleReport = {
+  published: number[];
+  expired: number[];
+  reminders: number;
+  /** Approved versions not published because their effective date is before their approval date. */
+  refused: { id: number; reason: string }[];
+};
 
 export async function runScheduledTransitions(now: Date = new Date(), db: Db = getDb()): Promise<ScheduleReport> {
   const today = todayIso(now);
-  const report: ScheduleReport = { published: [], expired: [], reminders: 0 };
+  const report: ScheduleReport = { published: [], expired: [], reminders: 0, refused: [] };
 
   const due = await db
     .select({ id: assumptionVersions.id })
@@ -30,6 +37,11 @@ export async function runScheduledTransitions(now: Date = new Date(), db: Db = g
     await db.transaction(async (tx) => {
       const row = await lockVersion(tx, id);
       if (row.v.status !== 'approved' || row.v.effectiveDate > today) return;
+      const problem = row.v.decidedAt ? backDatingProblem(row.v.effectiveDate, todayIso(row.v.decidedAt), 'publish') : null;
+      if (problem) {
+        report.refused.push({ id, reason: problem });
+        return;
+      }
       await applyTransition(tx, row, SYSTEM, 'publish', 'approved', 'published', `Effective date ${row.v.effectiveDate} reached.`, now);
       report.published.push(id);
     });

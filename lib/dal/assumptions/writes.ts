@@ -1,5 +1,5 @@
 import 'server-only';
-import { and, eq, sql } from 'drizzle-orm';
+import { and, eq } from 'drizzle-orm';
 import { getDb } from '@/db/client';
 import type { DbOrTx, Tx } from '@/db/connection';
 import { assumptionAudit, assumptionReviews, assumptions, assumptionVersions, type AssumptionStatus, type AssumptionVersion } from '@/db/schema';
@@ -25,7 +25,9 @@ import { notifyTransition } from './notify';
 
 /**
  * The writes of the assumption lifecycle: drafting, editing and every transition, each in one
- * transaction with its audit row, review record and outbox mail.
+ * transaction with its audit row, review record and outbox mail. Every write takes the time it
+ * happens at (`now`, default the clock): the demo seed writes a history in the past through these
+ * same rules with its own clock.
  */
 function crossProblems(estimate: number, j: Parameters<typeof judgementProblems>[1]): void {
   const problems = judgementProblems(estimate, j);
@@ -41,6 +43,7 @@ async function appendAudit(
   v: { id: number; assumptionId: number; version: number },
   actor: Actor,
   e: { action: string; from: AssumptionStatus | null; to: AssumptionStatus; comment?: string | null; contentHash: string },
+  at: Date,
 ): Promise<void> {
   await tx.insert(assumptionAudit).values({
     assumptionId: v.assumptionId,
@@ -54,6 +57,7 @@ async function appendAudit(
     toStatus: e.to,
     comment: e.comment?.trim() || null,
     contentHash: e.contentHash,
+    at,
   });
 }
 
@@ -63,7 +67,7 @@ async function appendAudit(
  * is copied from the fit run and frozen. A segment has at most one version on its way to
  * publication at a time.
  */
-export async function createDraft(actor: SessionUser, input: DraftInput): Promise<VersionDto> {
+export async function createDraft(actor: SessionUser, input: DraftInput, now: Date = new Date()): Promise<VersionDto> {
   assertCan(actor, 'assumptions:draft', `Only analysts draft assumptions; your role is ${actor.role}.`);
   const d = parseOrThrow(draftInputSchema, input, 'invalid:assumption', 'The assumption is not valid.');
   return getDb().transaction(async (tx) => {
@@ -86,7 +90,7 @@ export async function createDraft(actor: SessionUser, input: DraftInput): Promis
     };
     crossProblems(picked.estimate, judgement);
 
-    await tx.insert(assumptions).ignore().values({ segment: d.segment, createdBy: actor.id });
+    await tx.insert(assumptions).ignore().values({ segment: d.segment, createdBy: actor.id, createdAt: now });
     const [a] = await tx.select().from(assumptions).where(eq(assumptions.segment, d.segment)).for('update');
     const existing = await tx
       .select({ version: assumptionVersions.version, status: assumptionVersions.status })
@@ -122,9 +126,11 @@ export async function createDraft(actor: SessionUser, input: DraftInput): Promis
       status: 'draft',
       contentHash: hash,
       authorId: actor.id,
+      createdAt: now,
+      updatedAt: now,
     });
     const id = res.insertId;
-    await appendAudit(tx, { id, assumptionId: a.id, version }, asActor(actor), { action: 'draft', from: null, to: 'draft', contentHash: hash });
+    await appendAudit(tx, { id, assumptionId: a.id, version }, asActor(actor), { action: 'draft', from: null, to: 'draft', contentHash: hash }, now);
     const [row] = await tx.select().from(assumptionVersions).where(eq(assumptionVersions.id, id));
     return (await versionDtos(tx, [{ v: row, segment: d.segment }]))[0];
   });
@@ -147,7 +153,7 @@ export async function lockVersion(tx: Tx, id: number): Promise<{ v: AssumptionVe
  * submission sends it back to draft and voids earlier reviews; a published, superseded, expired,
  * retired or rejected version is immutable.
  */
-export async function editDraft(actor: SessionUser, id: number, input: EditInput): Promise<VersionDto> {
+export async function editDraft(actor: SessionUser, id: number, input: EditInput, now: Date = new Date()): Promise<VersionDto> {
   const e = parseOrThrow(editInputSchema, input, 'invalid:assumption', 'The assumption is not valid.');
   return getDb().transaction(async (tx) => {
     const { v, segment } = await lockVersion(tx, id);
@@ -187,7 +193,7 @@ export async function editDraft(actor: SessionUser, id: number, input: EditInput
         validatorId: null,
         decisionComment: null,
         decidedAt: null,
-        updatedAt: sql`CURRENT_TIMESTAMP(3)`,
+        updatedAt: now,
       })
       .where(eq(assumptionVersions.id, id));
     if (from !== 'draft') {
@@ -199,7 +205,7 @@ export async function editDraft(actor: SessionUser, id: number, input: EditInput
       to,
       comment: from !== 'draft' ? `Edited while ${from.replace('_', ' ')}: returned to draft; earlier reviews voided.` : null,
       contentHash: hash,
-    });
+    }, now);
     const [row] = await tx.select().from(assumptionVersions).where(eq(assumptionVersions.id, id));
     return (await versionDtos(tx, [{ v: row, segment }]))[0];
   });
@@ -227,6 +233,7 @@ export async function transition(
       comment: input.comment,
       effectiveDate: v.effectiveDate,
       today,
+      approvedOn: v.decidedAt ? todayIso(v.decidedAt) : null,
     });
     await applyTransition(tx, { v, segment }, asActor(actor), input.action, from, to, input.comment ?? null, now);
     return { id, status: to, previous: from };
@@ -263,7 +270,7 @@ export async function applyTransition(
   if (isReview && actor.id !== null) {
     await tx.insert(assumptionReviews).values({ versionId: v.id, reviewerId: actor.id, action, comment: comment?.trim() || null, contentHash: v.contentHash, at: now });
   }
-  await appendAudit(tx, v, actor, { action, from, to, comment, contentHash: v.contentHash });
+  await appendAudit(tx, v, actor, { action, from, to, comment, contentHash: v.contentHash }, now);
 
   if (action === 'publish') {
     // The previous published version of the segment is superseded.
@@ -281,7 +288,7 @@ export async function applyTransition(
         to: 'superseded',
         comment: `Superseded by version ${v.version}.`,
         contentHash: p.contentHash,
-      });
+      }, now);
     }
   }
   await notifyTransition(tx, { ...v, status: to }, segment, action, actor, comment);

@@ -27,13 +27,15 @@ const v1Effective = addDays(today, -200);
 const v2Effective = addDays(today, -50);
 let assumptionId = 0;
 
+/** Drafts, reviews and publishes a version with the clock set to its effective date (noon UTC). */
 async function publish(fit: { rho: number; pd: number; profile: { level: number; lower: number; upper: number } }, effectiveDate: string, reviewBy?: string) {
   const { fitId } = await makeFitRun(analyst.id, segment, fit);
+  const at = new Date(`${effectiveDate}T12:00:00Z`);
   const v = await createDraft(analyst, draftBody(fitId, segment, { effectiveDate, ...(reviewBy ? { reviewBy } : {}) }) as never);
-  await transition(analyst, v.id, { action: 'submit' });
-  await transition(validator, v.id, { action: 'start-review' });
-  await transition(validator, v.id, { action: 'approve', comment: 'Fine.' });
-  await transition(validator, v.id, { action: 'publish' });
+  await transition(analyst, v.id, { action: 'submit' }, at);
+  await transition(validator, v.id, { action: 'start-review' }, at);
+  await transition(validator, v.id, { action: 'approve', comment: 'Fine.' }, at);
+  await transition(validator, v.id, { action: 'publish' }, at);
   return v;
 }
 

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 
 /**
- * The demo seed (db/seed.ts -> seed-data.ts -> seed-assumptions.ts) on a database of its own (the
+ * The demo seed (db/seed.ts -> lib/demo/seed: users, data, library) on a database of its own (the
  * suite's name with _seed_test, so the demo accounts and data do not meet the other tests' rows):
  * a real fit of the demo cohorts through the fit job, and a library made through the DAL whose
  * states, audit trail, queues and outbox are what the demo promises.
@@ -67,7 +67,11 @@ describe('the demo library', () => {
     expect(bySegment['Prime auto loans'].daysToReview).toBeGreaterThanOrEqual(17);
     expect(bySegment['Prime auto loans'].daysToReview).toBeLessThanOrEqual(23);
     const sme = bySegment['SME term loans'].current!;
-    expect(sme.effectiveDate < sme.publishedAt!.slice(0, 10)).toBe(true);
+    // Written with the seed's clock through the lifecycle's rules: approved before its effective
+    // date and published by the scheduler on it, four months ago.
+    expect(sme.publishedAt!.slice(0, 10)).toBe(sme.effectiveDate);
+    expect(sme.decidedAt!.slice(0, 10) <= sme.effectiveDate).toBe(true);
+    expect(sme.effectiveDate < new Date().toISOString().slice(0, 10)).toBe(true);
     // The final value is the estimate plus the margins, rounded up to two decimals.
     expect(sme.finalValue).toBeGreaterThanOrEqual(sme.conservativeValue);
     expect(sme.finalValue - sme.conservativeValue).toBeLessThan(0.01);
@@ -77,6 +81,26 @@ describe('the demo library', () => {
     const { assumptionAudit } = m.schema;
     const trail = await m.db.getDb().select().from(assumptionAudit).where(m.orm.eq(assumptionAudit.versionId, sme.id)).orderBy(assumptionAudit.id);
     expect(trail.map((r) => r.action)).toEqual(['draft', 'submit', 'start-review', 'approve', 'publish']);
+    expect(trail.map((r) => r.actorRole)).toEqual(['analyst', 'analyst', 'validator', 'validator', 'system']);
+    // The history is dated as it happened, in order, all before the effective date but the publication.
+    const times = trail.map((r) => r.at.getTime());
+    expect([...times].sort((a, b) => a - b)).toEqual(times);
+    expect(trail.slice(0, 4).every((r) => r.at.toISOString().slice(0, 10) < sme.effectiveDate)).toBe(true);
+    expect(trail[4].at.toISOString().slice(0, 10)).toBe(sme.effectiveDate);
+  });
+
+  it('gives no version an effective date before its approval date, and the consumer API a stable history', async () => {
+    const { assumptionVersions } = m.schema;
+    const versions = await m.db.getDb().select().from(assumptionVersions);
+    for (const v of versions.filter((x) => x.decidedAt)) expect(v.decidedAt!.toISOString().slice(0, 10) <= v.effectiveDate).toBe(true);
+    const viewer = await person('viewer@fenmoor.example');
+    // Nothing was published before its effective date either.
+    expect(versions.filter((v) => v.publishedAt && v.effectiveDate > v.publishedAt.toISOString().slice(0, 10))).toEqual([]);
+    // Before the SME version's effective date nothing was in force; on it, that version.
+    const smeRow = (await m.dal.listLibrary(viewer)).find((e) => e.segment === 'SME term loans')!.current!;
+    const day = (d: string, n: number) => new Date(Date.parse(`${d}T00:00:00Z`) + n * 86_400_000).toISOString().slice(0, 10);
+    await expect(m.dal.versionInForce(viewer, 'SME term loans', day(smeRow.effectiveDate, -1))).rejects.toMatchObject({ code: 'not_found:assumption' });
+    expect((await m.dal.versionInForce(viewer, 'SME term loans', smeRow.effectiveDate)).id).toBe(smeRow.id);
   });
 
   it("leaves one version in the validator's queue and one sent back in the analyst's", async () => {

@@ -4,7 +4,8 @@ import { closeDb, getDb } from '@/db/connection';
 import { assumptionAudit, assumptionReviews, assumptionVersions, mailOutbox, users } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
 import { contentHash } from '@/lib/assumptions/content';
-import { getVersionPage } from '@/lib/dal/assumptions';
+import { todayIso } from '@/lib/assumptions/dates';
+import { createDraft, getVersionPage, runScheduledTransitions, transition } from '@/lib/dal/assumptions';
 import * as draftRoute from '@/app/api/assumptions/route';
 import * as versionRoute from '@/app/api/assumptions/[id]/route';
 import * as transitionRoute from '@/app/api/assumptions/[id]/transitions/route';
@@ -369,6 +370,63 @@ describe('forbidden moves, with the status code and the audit rows they leave (n
     const res = await act(validator, id, 'publish');
     expect(res.status).toBe(409);
     expect(res.body.message).toContain(`becomes effective on ${future}`);
+  });
+
+  it('back-dating: an effective date before the approval date is refused at approval (409, a sentence), and the button stays to say why', async () => {
+    const yesterday = new Date(Date.now() - 86_400_000).toISOString().slice(0, 10);
+    const { id } = await newDraft(analyst, { effectiveDate: yesterday });
+    await act(analyst, id, 'submit');
+    await act(validator, id, 'start-review');
+    expect((await getVersionPage(validator, id)).actions).toContain('approve');
+    const before = (await auditOf(id)).length;
+    const res = await act(validator, id, 'approve', 'Looks right.');
+    expect(res.status).toBe(409);
+    expect(res.body.code).toBe('conflict:approve:back-dated');
+    expect(res.body.message).toBe(
+      `The effective date ${yesterday} is before today, ${todayIso()}: a version cannot take effect before it is approved, or answers already given for past dates would change. Edit the effective date to ${todayIso()} or later, then approve.`,
+    );
+    expect(await statusOf(id)).toBe('in_review');
+    expect(await auditOf(id)).toHaveLength(before);
+    // The analyst moves the date to today; after a new review the approval goes through.
+    expect((await edit(analyst, id, { effectiveDate: todayIso() })).status).toBe(200);
+    await act(analyst, id, 'submit');
+    await act(validator, id, 'start-review');
+    expect((await act(validator, id, 'approve')).status).toBe(200);
+  });
+
+  it('back-dating: an approved version whose effective date is before its approval date is not published, by a person (409) or by the scheduler', async () => {
+    const { id } = await newDraft(analyst);
+    await act(analyst, id, 'submit');
+    await act(validator, id, 'start-review');
+    await act(validator, id, 'approve');
+    // As a version approved before the rule, or changed in the database, would be stored.
+    const earlier = new Date(Date.now() - 3 * 86_400_000).toISOString().slice(0, 10);
+    await getDb().update(assumptionVersions).set({ effectiveDate: earlier }).where(eq(assumptionVersions.id, id));
+    const res = await act(validator, id, 'publish');
+    expect(res.status).toBe(409);
+    expect(res.body.code).toBe('conflict:publish:back-dated');
+    expect(res.body.message).toMatch(new RegExp(`^The effective date ${earlier} is before the approval date ${todayIso()}: a version cannot take effect before it was approved\\.`));
+    const report = await runScheduledTransitions();
+    expect(report.published).not.toContain(id);
+    expect(report.refused).toContainEqual({ id, reason: res.body.message });
+    expect(await statusOf(id)).toBe('approved');
+  });
+
+  it('the lifecycle takes its clock: a version approved a week before its effective date is published on that date', async () => {
+    const segment = newSegment();
+    const { fitId } = await makeFitRun(analyst.id, segment);
+    const approvedAt = new Date(Date.now() - 10 * 86_400_000);
+    const effective = todayIso(new Date(Date.now() - 3 * 86_400_000));
+    const v = await createDraft(analyst, draftBody(fitId, segment, { effectiveDate: effective }) as never, approvedAt);
+    await transition(analyst, v.id, { action: 'submit' }, approvedAt);
+    await transition(validator, v.id, { action: 'start-review' }, approvedAt);
+    await transition(validator, v.id, { action: 'approve', comment: 'Fine.' }, approvedAt);
+    await transition(validator, v.id, { action: 'publish' }, new Date(`${effective}T08:00:00Z`));
+    const trail = await auditOf(v.id);
+    expect(trail.map((r) => r.at.toISOString().slice(0, 10))).toEqual([...Array(4).fill(todayIso(approvedAt)), effective]);
+    const [row] = await getDb().select().from(assumptionVersions).where(eq(assumptionVersions.id, v.id));
+    expect(row.publishedAt!.toISOString()).toBe(`${effective}T08:00:00.000Z`);
+    expect(row.createdAt.toISOString()).toBe(approvedAt.toISOString());
   });
 
   it('an unknown version is 404; a viewer cannot see a draft (404)', async () => {

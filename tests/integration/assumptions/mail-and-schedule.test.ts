@@ -33,10 +33,11 @@ async function draftFor(effectiveDate: string, reviewBy?: string) {
   const v = await createDraft(analyst, draftBody(fitId, segment, { effectiveDate, ...(reviewBy ? { reviewBy } : {}) }) as never);
   return { id: v.id, segment };
 }
-async function approve(id: number) {
-  await transition(analyst, id, { action: 'submit' });
-  await transition(validator, id, { action: 'start-review' });
-  await transition(validator, id, { action: 'approve' });
+/** Submits, reviews and approves, at the clock `at` (default now). */
+async function approve(id: number, at: Date = new Date()) {
+  await transition(analyst, id, { action: 'submit' }, at);
+  await transition(validator, id, { action: 'start-review' }, at);
+  await transition(validator, id, { action: 'approve' }, at);
 }
 async function sendAll() {
   const t = nodemailer.createTransport({ host: '127.0.0.1', port: capture.port, secure: false, ignoreTLS: true });
@@ -116,8 +117,10 @@ describe('the scheduler', () => {
   it('queues the 30- and 7-day reminders once each, and expires after the review-by date', async () => {
     const today = todayIso();
     const reviewBy = addDays(today, 25);
-    const { id } = await draftFor(addDays(today, -300), reviewBy);
-    await approve(id);
+    const effective = addDays(today, -300);
+    const { id } = await draftFor(effective, reviewBy);
+    // Approved a week before its effective date (an effective date never precedes the approval).
+    await approve(id, new Date(`${addDays(effective, -7)}T10:00:00Z`));
     await runScheduledTransitions(new Date());
     const remindersOf = async (kind: string) =>
       getDb().select().from(mailOutbox).where(and(eq(mailOutbox.versionId, id), eq(mailOutbox.kind, kind)));

@@ -17,11 +17,13 @@ async function publishWithGeneralMargin(general: number, effectiveDate: string):
   const { fitId } = await makeFitRun(analyst.id, segment);
   const body = draftBody(fitId, segment, { effectiveDate });
   body.margins.general = { value: general, rationale: `General margin ${general}.` };
-  const v = await createDraft(analyst, body as never);
-  await transition(analyst, v.id, { action: 'submit' });
-  await transition(validator, v.id, { action: 'start-review' });
-  await transition(validator, v.id, { action: 'approve' });
-  await transition(validator, v.id, { action: 'publish' });
+  // The lifecycle's clock on the effective date: approved and published that day.
+  const at = new Date(`${effectiveDate}T12:00:00Z`);
+  const v = await createDraft(analyst, body as never, at);
+  await transition(analyst, v.id, { action: 'submit' }, at);
+  await transition(validator, v.id, { action: 'start-review' }, at);
+  await transition(validator, v.id, { action: 'approve' }, at);
+  await transition(validator, v.id, { action: 'publish' }, at);
   return v.id;
 }
 

@@ -1,4 +1,4 @@
-import type { Role } from './schema';
+import type { Role } from '@/db/schema';
 
 /** The invented demo lender's accounts (one per role). Listed in README.md. */
 export const DEMO_ORGANISATION = 'Fenmoor Cooperative Bank';

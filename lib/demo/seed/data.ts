@@ -1,6 +1,9 @@
 import { createHash } from 'node:crypto';
 import { gzipSync } from 'node:zlib';
-import { eq } from 'drizzle-orm';
+import type { Db } from '@/db/connection';
+import type { AssetClass } from '@/db/schema';
+import type { SessionUser } from '@/lib/auth/guard';
+import { listSegments, updateSegment } from '@/lib/dal/segments';
 import {
   convertLoanTape,
   storeAcceptedDataset,
@@ -9,15 +12,13 @@ import {
   type Validated,
 } from '@/lib/datasets/store';
 import { fenmoorCohortCsv, fenmoorLoanTapeChunks, fenmoorVintageCsv, LENDER_NAME } from '@/lib/demo';
-import type { Db } from './connection';
-import { seedDemoAssumptions } from './seed-assumptions';
-import { segments, users, type AssetClass } from './schema';
 
 /**
  * Seeds the invented demo lender's data (lib/demo: generated from the Vasicek model with fixed
  * seeds; no real institution's data) through the same validation and storage path as an upload:
  * a cohort file (5 segments, 15-25 annual cohorts), a vintage file and a loan-level tape of
- * 200,000 loans, converted here synchronously rather than by the worker.
+ * 200,000 loans, converted here synchronously rather than by the worker. The demo analyst uploads
+ * them and sets each segment's asset class through the segments DAL, as on the screen.
  */
 const SEGMENT_SETTINGS: Record<string, { assetClass: AssetClass; turnoverEurMillions?: number; description: string }> = {
   'SME term loans': {
@@ -45,14 +46,13 @@ async function* once(bytes: Buffer): AsyncGenerator<Buffer> {
   yield bytes;
 }
 
-export async function seedDemoData(db: Db): Promise<void> {
-  const [analyst] = await db.select({ id: users.id }).from(users).where(eq(users.email, 'analyst@fenmoor.example'));
-  if (!analyst) throw new Error('The demo analyst must be seeded before the demo data.');
+/** Stores the demo datasets; returns the id of the cohort dataset (the demo fit's data). */
+export async function seedDemoData(db: Db, analyst: SessionUser): Promise<{ cohortDatasetId: number }> {
   const max = Number.MAX_SAFE_INTEGER;
   const t0 = Date.now();
 
   const cohort = Buffer.from(fenmoorCohortCsv(), 'utf8');
-  await store(
+  const cohortDatasetId = await store(
     db,
     {
       kind: 'cohort',
@@ -96,12 +96,11 @@ export async function seedDemoData(db: Db): Promise<void> {
     validated,
   );
 
-  for (const [name, s] of Object.entries(SEGMENT_SETTINGS)) {
-    await db
-      .update(segments)
-      .set({ assetClass: s.assetClass, turnoverEurMillions: s.turnoverEurMillions ?? null, description: s.description })
-      .where(eq(segments.name, name));
+  for (const segment of await listSegments(analyst)) {
+    const s = SEGMENT_SETTINGS[segment.name];
+    if (!s) continue;
+    await updateSegment(analyst, segment.id, { assetClass: s.assetClass, turnoverEurMillions: s.turnoverEurMillions ?? '', description: s.description });
   }
   console.log(`[seed] demo datasets stored in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
-  await seedDemoAssumptions(db);
+  return { cohortDatasetId };
 }
