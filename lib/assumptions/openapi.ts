@@ -22,7 +22,8 @@ export function openApiDocument(serverUrl?: string) {
     name: 'asOf',
     in: 'query',
     required: false,
-    description: 'The date (YYYY-MM-DD) at which the version in force is wanted; today (UTC) by default.',
+    description:
+      'The date (YYYY-MM-DD) at which the version in force is wanted; today (UTC) by default. The answer is the version that was the published one at the end of that day (UTC), or now for today and later dates: versions follow one another by publication time, so an answer for a past date never changes once given. A version past its review-by date on that day is not in force.',
     schema: { type: 'string', format: 'date' },
   };
   return {

@@ -2,7 +2,7 @@ import 'server-only';
 import { and, asc, desc, eq, inArray, isNotNull, lte } from 'drizzle-orm';
 import { getDb } from '@/db/client';
 import { assumptions, assumptionVersions, type AssumptionStatus } from '@/db/schema';
-import { todayIso } from '@/lib/assumptions/dates';
+import { inForceCutoff, judgeInForce } from '@/lib/assumptions/in-force';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { AppError } from '@/lib/errors';
 import type { ApiPrincipal, TokenScope } from '../tokens';
@@ -26,39 +26,44 @@ function assertConsumer(p: Consumer, scope: TokenScope): void {
 }
 
 /**
- * The version of a segment in force on `asOf`: among versions that were published, the one with
- * the latest effective date on or before `asOf`, provided its review-by date had not passed and it
- * had not been retired by then.
+ * The version of a segment in force on `asOf`, as seen at `now`: the rule of
+ * lib/assumptions/in-force.ts (the supersession chain by publication time; the state at the end of
+ * that day, or now), with the last publication found by one indexed query. A date with nothing in
+ * force is a 404 whose sentence says why (nothing published yet, past review-by, retired).
  */
-export async function versionInForce(consumer: Consumer, segment: string, asOf: string): Promise<VersionDto> {
+export async function versionInForce(consumer: Consumer, segment: string, asOf: string, now: Date = new Date()): Promise<VersionDto> {
   assertConsumer(consumer, 'assumptions:read');
   const db = getDb();
-  const rows = await db
+  const cutoff = inForceCutoff(asOf, now);
+  const [last] = await db
     .select({ v: assumptionVersions, segment: assumptions.segment })
     .from(assumptionVersions)
     .innerJoin(assumptions, eq(assumptions.id, assumptionVersions.assumptionId))
-    .where(
-      and(
-        eq(assumptions.segment, segment),
-        inArray(assumptionVersions.status, everPublished),
-        isNotNull(assumptionVersions.publishedAt),
-        lte(assumptionVersions.effectiveDate, asOf),
-      ),
-    )
-    .orderBy(desc(assumptionVersions.effectiveDate), desc(assumptionVersions.version))
+    .where(and(eq(assumptions.segment, segment), isNotNull(assumptionVersions.publishedAt), lte(assumptionVersions.publishedAt, cutoff)))
+    .orderBy(desc(assumptionVersions.publishedAt), desc(assumptionVersions.version))
     .limit(1);
-  const hit = rows[0];
-  if (!hit) throw new AppError('not_found:assumption', `No published assumption for the segment “${segment}” was in force on ${asOf}.`);
-  if (hit.v.reviewBy < asOf) {
-    throw new AppError(
-      'not_found:assumption-expired',
-      `Version ${hit.v.version} of “${segment}” was due for review by ${hit.v.reviewBy} and is not in force on ${asOf}.`,
-    );
+  const answer = judgeInForce(last ? last.v : null, asOf, cutoff);
+  switch (answer.kind) {
+    case 'in-force':
+      return (await versionDtos(db, [last!]))[0];
+    case 'none':
+      throw new AppError('not_found:assumption', `No published assumption for the segment “${segment}” was in force on ${asOf}.`);
+    case 'expired':
+      throw new AppError(
+        'not_found:assumption-expired',
+        `Version ${answer.version.version} of “${segment}” was due for review by ${answer.version.reviewBy} and is not in force on ${asOf}.`,
+      );
+    case 'retired':
+      throw new AppError(
+        'not_found:assumption-retired',
+        `Version ${answer.version.version} of “${segment}” was retired on ${answer.on} and is not in force on ${asOf}.`,
+      );
+    case 'ended':
+      throw new AppError(
+        'not_found:assumption',
+        `Version ${answer.version.version} of “${segment}” stopped being the published one on ${answer.on}; no version was in force on ${asOf}.`,
+      );
   }
-  if (hit.v.status === 'retired' && hit.v.endedAt && todayIso(hit.v.endedAt) <= asOf) {
-    throw new AppError('not_found:assumption-retired', `Version ${hit.v.version} of “${segment}” was retired on ${todayIso(hit.v.endedAt)}.`);
-  }
-  return (await versionDtos(db, [hit]))[0];
 }
 
 export async function publishedVersion(consumer: Consumer, assumptionId: number, version: number): Promise<VersionDto> {
@@ -87,7 +92,7 @@ export async function listPublished(consumer: Consumer, scope: TokenScope = 'ass
 }
 
 /** Every segment's version in force on `asOf`, and the segments without one (with the reason). */
-export async function listInForce(consumer: Consumer, asOf: string): Promise<{ versions: VersionDto[]; missing: { segment: string; reason: string }[] }> {
+export async function listInForce(consumer: Consumer, asOf: string, now: Date = new Date()): Promise<{ versions: VersionDto[]; missing: { segment: string; reason: string }[] }> {
   assertConsumer(consumer, 'assumptions:read');
   const segs = await getDb()
     .selectDistinct({ segment: assumptions.segment })
@@ -99,7 +104,7 @@ export async function listInForce(consumer: Consumer, asOf: string): Promise<{ v
   const missing: { segment: string; reason: string }[] = [];
   for (const { segment } of segs) {
     try {
-      versions.push(await versionInForce(consumer, segment, asOf));
+      versions.push(await versionInForce(consumer, segment, asOf, now));
     } catch (err) {
       if (err instanceof AppError && err.kind === 'not_found') missing.push({ segment, reason: err.message });
       else throw err;
