@@ -14,6 +14,7 @@ export type ErrorKind =
   | 'conflict'
   | 'rate_limited'
   | 'too_large'
+  | 'unsupported_media'
   | 'unavailable'
   | 'internal';
 
@@ -28,6 +29,7 @@ const statusByKind: Record<ErrorKind, number> = {
   conflict: 409,
   rate_limited: 429,
   too_large: 413,
+  unsupported_media: 415,
   unavailable: 503,
   internal: 500,
 };

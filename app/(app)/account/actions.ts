@@ -1,6 +1,7 @@
 'use server';
 
 import { z } from 'zod';
+import { assertSameOriginAction } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { changeOwnPassword } from '@/lib/dal/users';
 import { AppError } from '@/lib/errors';
@@ -17,6 +18,7 @@ const schema = z
 
 export async function changePasswordAction(_prev: PasswordState, form: FormData): Promise<PasswordState> {
   try {
+    await assertSameOriginAction();
     const actor = await requireUser();
     const parsed = schema.safeParse({ current: form.get('current'), password: form.get('password'), confirm: form.get('confirm') });
     if (!parsed.success) return { ok: false, message: parsed.error.issues[0]?.message ?? 'The password is not valid.' };

@@ -3,6 +3,7 @@
 import { revalidatePath } from 'next/cache';
 import { z } from 'zod';
 import { roles } from '@/db/schema';
+import { assertSameOriginAction } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { changeRole, createUser, setUserActive } from '@/lib/dal/users';
 import { AppError } from '@/lib/errors';
@@ -23,6 +24,7 @@ function failure(err: unknown): AdminActionState {
 
 export async function createUserAction(_prev: AdminActionState, form: FormData): Promise<AdminActionState> {
   try {
+    await assertSameOriginAction();
     // The DAL re-checks the role: anyone can POST to a server action.
     const actor = await requireUser();
     const { user, temporaryPassword } = await createUser(actor, {
@@ -49,6 +51,7 @@ const idSchema = z.coerce.number().int().positive();
 
 export async function changeRoleAction(_prev: AdminActionState, form: FormData): Promise<AdminActionState> {
   try {
+    await assertSameOriginAction();
     const actor = await requireUser();
     const id = idSchema.parse(form.get('userId'));
     const role = z.enum(roles).parse(form.get('role'));
@@ -62,6 +65,7 @@ export async function changeRoleAction(_prev: AdminActionState, form: FormData):
 
 export async function setActiveAction(_prev: AdminActionState, form: FormData): Promise<AdminActionState> {
   try {
+    await assertSameOriginAction();
     const actor = await requireUser();
     const id = idSchema.parse(form.get('userId'));
     const active = form.get('active') === 'true';

@@ -1,6 +1,7 @@
+import { readJsonBody } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { createDraft, listLibrary } from '@/lib/dal/assumptions';
-import { AppError, errorResponse, parseOrThrow } from '@/lib/errors';
+import { errorResponse, parseOrThrow } from '@/lib/errors';
 import { draftInputSchema } from '@/lib/assumptions/content';
 
 /** GET: the library by segment (signed-in users). POST: an analyst drafts a version from a fit: 201 { id }. */
@@ -16,8 +17,7 @@ export async function GET() {
 export async function POST(req: Request) {
   try {
     const actor = await requireUser();
-    const body = await req.json().catch(() => undefined);
-    if (body === undefined) throw new AppError('bad_request:json', 'The request body must be JSON.');
+    const body = await readJsonBody(req);
     const v = await createDraft(actor, parseOrThrow(draftInputSchema, body, 'invalid:assumption', 'The draft is not valid.'));
     return Response.json({ id: v.id, status: v.status, version: v.version, assumptionId: v.assumptionId }, { status: 201 });
   } catch (err) {

@@ -1,3 +1,4 @@
+import { assertMultipartRequest } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { assertMayUpload, listDatasets, uploadDataset } from '@/lib/dal/datasets';
 import { receiveUpload, tooLargeError } from '@/lib/datasets/multipart';
@@ -24,6 +25,7 @@ export async function GET() {
 export async function POST(req: Request) {
   try {
     const actor = await requireUser();
+    assertMultipartRequest(req);
     assertMayUpload(actor);
     const maxBytes = env().UPLOAD_MAX_BYTES;
     const declared = Number(req.headers.get('content-length') ?? NaN);

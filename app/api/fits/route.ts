@@ -1,3 +1,4 @@
+import { readJsonBody } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { createFit, listFits } from '@/lib/dal/fits';
 import { errorResponse } from '@/lib/errors';
@@ -15,8 +16,7 @@ export async function GET() {
 export async function POST(req: Request) {
   try {
     const actor = await requireUser();
-    const body = await req.json().catch(() => undefined);
-    const created = await createFit(actor, body ?? null);
+    const created = await createFit(actor, await readJsonBody(req));
     return Response.json(created, { status: 202, headers: { Location: `/api/fits/${created.id}` } });
   } catch (err) {
     return errorResponse(err);

@@ -146,7 +146,7 @@ describe('an accepted cohort file', () => {
   });
 
   it('warnings can be waived with a reason; errors and unknown rules cannot, and a short reason is refused', async () => {
-    const waive = (body: unknown) => waiveRoute(new Request('http://x', { method: 'POST', body: JSON.stringify(body) }), paramsOf({ id: String(id) }));
+    const waive = (body: unknown) => waiveRoute(new Request('http://x', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) }), paramsOf({ id: String(id) }));
     expect((await waive({ rule: 'tiny-cohort', reason: 'ok' })).status).toBe(422);
     const bad = await json(await waive({ rule: 'defaults-exceed-obligors', reason: 'not a warning of this dataset' }));
     expect(bad.status).toBe(422);
@@ -292,12 +292,12 @@ describe('supersede', () => {
     expect(older.body.dataset.segments[0].rows[1].defaults).toBe(6);
     const c = await json(await POST(uploadRequest({ kind: 'cohort', name: 'v3' }, 'segment,period,obligors,defaults\nS,2015,500,5\nS,2016,510,8\n')));
     const again = await json(
-      await supersedeRoute(new Request('http://x', { method: 'POST', body: JSON.stringify({ by: c.body.id }) }), paramsOf({ id: String(a.body.id) })),
+      await supersedeRoute(new Request('http://x', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ by: c.body.id }) }), paramsOf({ id: String(a.body.id) })),
     );
     expect(again.status).toBe(422);
     expect(again.body.message).toMatch(/already superseded/);
     const ok = await json(
-      await supersedeRoute(new Request('http://x', { method: 'POST', body: JSON.stringify({ by: c.body.id }) }), paramsOf({ id: String(b.body.id) })),
+      await supersedeRoute(new Request('http://x', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ by: c.body.id }) }), paramsOf({ id: String(b.body.id) })),
     );
     expect(ok.status).toBe(200);
     expect(ok.body.dataset.supersededBy.id).toBe(c.body.id);

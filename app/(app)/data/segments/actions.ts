@@ -2,6 +2,7 @@
 
 import { revalidatePath } from 'next/cache';
 import { z } from 'zod';
+import { assertSameOriginAction } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { updateSegment } from '@/lib/dal/segments';
 import { AppError } from '@/lib/errors';
@@ -10,6 +11,7 @@ export type SegmentActionState = { ok: boolean; message: string | null; field?: 
 
 export async function updateSegmentAction(_prev: SegmentActionState, form: FormData): Promise<SegmentActionState> {
   try {
+    await assertSameOriginAction();
     // The DAL re-checks the role: anyone can POST to a server action.
     const actor = await requireUser();
     const id = z.coerce.number().int().positive().parse(form.get('segmentId'));

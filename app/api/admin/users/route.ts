@@ -1,3 +1,4 @@
+import { readJsonBody } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { createUser, createUserSchema, listUsers } from '@/lib/dal/users';
 import { AppError, errorResponse } from '@/lib/errors';
@@ -14,7 +15,7 @@ export async function GET() {
 export async function POST(req: Request) {
   try {
     const actor = await requireUser();
-    const body = createUserSchema.safeParse(await req.json().catch(() => null));
+    const body = createUserSchema.safeParse(await readJsonBody(req));
     if (!body.success) {
       throw new AppError('invalid:user', body.error.issues[0]?.message ?? 'The user details are not valid.');
     }

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { readJsonBody } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { editDraft, getVersionPage } from '@/lib/dal/assumptions';
 import { AppError, errorResponse, parseOrThrow } from '@/lib/errors';
@@ -28,7 +29,7 @@ export async function PATCH(req: Request, ctx: Ctx) {
   try {
     const actor = await requireUser();
     const id = await versionId(ctx);
-    const body = parseOrThrow(editInputSchema, await req.json().catch(() => null), 'invalid:assumption', 'The change is not valid.');
+    const body = parseOrThrow(editInputSchema, await readJsonBody(req), 'invalid:assumption', 'The change is not valid.');
     const v = await editDraft(actor, id, body);
     return Response.json({ id: v.id, status: v.status, contentHash: v.contentHash });
   } catch (err) {

@@ -1,3 +1,4 @@
+import { assertSameOrigin } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { deleteDataset, getDataset } from '@/lib/dal/datasets';
 import { datasetIdFrom } from '@/lib/datasets/route-params';
@@ -13,9 +14,10 @@ export async function GET(_req: Request, ctx: { params: Promise<{ id: string }> 
 }
 
 /** 204 when deleted; 409 `conflict:dataset-in-use` when a fit or an assumption refers to it. */
-export async function DELETE(_req: Request, ctx: { params: Promise<{ id: string }> }) {
+export async function DELETE(req: Request, ctx: { params: Promise<{ id: string }> }) {
   try {
     const actor = await requireUser();
+    assertSameOrigin(req);
     await deleteDataset(actor, await datasetIdFrom(ctx));
     return new Response(null, { status: 204 });
   } catch (err) {

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { roles } from '@/db/schema';
+import { readJsonBody } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { changeRole, setUserActive } from '@/lib/dal/users';
 import { AppError, errorResponse } from '@/lib/errors';
@@ -14,7 +15,7 @@ export async function PATCH(req: Request, ctx: { params: Promise<{ id: string }>
     const actor = await requireUser();
     const params = paramsSchema.safeParse(await ctx.params);
     if (!params.success) throw new AppError('not_found:user', 'There is no such user.');
-    const body = patchSchema.safeParse(await req.json().catch(() => null));
+    const body = patchSchema.safeParse(await readJsonBody(req));
     if (!body.success) throw new AppError('invalid:user', body.error.issues[0]?.message ?? 'The change is not valid.');
     let user;
     if (body.data.role !== undefined) user = await changeRole(actor, params.data.id, body.data.role);

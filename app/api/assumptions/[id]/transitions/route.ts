@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { userActions } from '@/lib/assumptions/lifecycle';
+import { readJsonBody } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { transition } from '@/lib/dal/assumptions';
 import { AppError, errorResponse, parseOrThrow } from '@/lib/errors';
@@ -16,7 +17,7 @@ export async function POST(req: Request, ctx: { params: Promise<{ id: string }> 
     const actor = await requireUser();
     const p = paramsSchema.safeParse(await ctx.params);
     if (!p.success) throw new AppError('not_found:assumption', 'There is no such assumption version.');
-    const body = parseOrThrow(bodySchema, await req.json().catch(() => null), 'invalid:transition', 'Give an action.');
+    const body = parseOrThrow(bodySchema, await readJsonBody(req), 'invalid:transition', 'Give an action.');
     return Response.json(await transition(actor, p.data.id, body));
   } catch (err) {
     return errorResponse(err);

@@ -1,3 +1,4 @@
+import { readJsonBody } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { waiverSchema, waiveWarnings } from '@/lib/dal/datasets';
 import { datasetIdFrom } from '@/lib/datasets/route-params';
@@ -8,7 +9,7 @@ export async function POST(req: Request, ctx: { params: Promise<{ id: string }> 
   try {
     const actor = await requireUser();
     const id = await datasetIdFrom(ctx);
-    const body = waiverSchema.safeParse(await req.json().catch(() => null));
+    const body = waiverSchema.safeParse(await readJsonBody(req));
     if (!body.success) {
       const first = body.error.issues[0];
       throw new AppError('invalid:waiver', first?.message ?? 'Give { rule, reason }.', { field: first?.path.join('.') ?? null });
