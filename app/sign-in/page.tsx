@@ -1,19 +1,15 @@
 import type { Metadata } from 'next';
 import { redirect } from 'next/navigation';
 import { SignInForm } from '@/components/sign-in-form';
+import { safeCallbackPath } from '@/lib/auth/callback-url';
 import { getCurrentUser } from '@/lib/auth/session';
 
 export const metadata: Metadata = { title: 'Sign in' };
 
-function safeCallback(raw: string | string[] | undefined): string {
-  const v = Array.isArray(raw) ? raw[0] : raw;
-  // Only same-site paths: never redirect to another host after signing in.
-  return v && v.startsWith('/') && !v.startsWith('//') ? v : '/';
-}
-
 export default async function SignInPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const params = await searchParams;
-  const callbackUrl = safeCallback(params.callbackUrl);
+  // Only a path of this application, after URL parsing: never another host (lib/auth/callback-url.ts).
+  const callbackUrl = safeCallbackPath(params.callbackUrl);
   if (await getCurrentUser()) redirect(callbackUrl);
   return (
     <main className="mx-auto flex min-h-screen max-w-md flex-col justify-center px-6">

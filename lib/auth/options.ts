@@ -4,6 +4,7 @@ import { z } from 'zod';
 import { getDb } from '@/db/client';
 import { roles } from '@/db/schema';
 import { env } from '@/lib/env';
+import { safeRedirectUrl } from './callback-url';
 import { attemptSignIn } from './sign-in';
 
 const credentialsSchema = z.object({
@@ -45,6 +46,10 @@ export const authOptions: NextAuthOptions = {
     }),
   ],
   callbacks: {
+    // Where next-auth sends a browser after signing in or out: only this application's own paths.
+    async redirect({ url, baseUrl }) {
+      return safeRedirectUrl(url, baseUrl);
+    },
     async jwt({ token, user }) {
       if (user) {
         const u = user as { id: string; role?: string };

@@ -1,5 +1,5 @@
 import { expect, test } from '@playwright/test';
-import { signIn } from './helpers';
+import { DEMO_PASSWORD, signIn } from './helpers';
 
 test('an anonymous visitor is sent to the sign-in page', async ({ page }) => {
   await page.goto('/admin');
@@ -20,6 +20,26 @@ test('each demo account signs in and sees its role', async ({ page }) => {
     await page.getByRole('button', { name: 'Sign out' }).click();
     await expect(page).toHaveURL(/\/sign-in/);
   }
+});
+
+test('a callback to another host stays on Rhobook, after signing in and for a visitor already signed in', async ({ page, baseURL }) => {
+  const own = new URL(baseURL!).origin;
+  // /%5C decodes to a backslash, which browsers read as a slash: //evil.example/phish.
+  await page.goto('/sign-in?callbackUrl=/%5Cevil.example/phish');
+  await page.getByLabel('E-mail').fill('analyst@fenmoor.example');
+  await page.getByLabel('Password').fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await expect(page.getByTestId('current-user')).toBeVisible();
+  expect(new URL(page.url()).origin).toBe(own);
+  expect(new URL(page.url()).pathname).toBe('/');
+  // Signed in already: the page redirects at once, to the home page of this application.
+  await page.goto('/sign-in?callbackUrl=/%09/evil.example');
+  await expect(page.getByRole('heading', { name: 'Overview' })).toBeVisible();
+  expect(new URL(page.url()).origin).toBe(own);
+  expect(new URL(page.url()).pathname).toBe('/');
+  // An ordinary path is kept.
+  await page.goto('/sign-in?callbackUrl=%2Fqueue');
+  await expect(page).toHaveURL(`${own}/queue`);
 });
 
 test('a wrong password gets a clear refusal', async ({ page }) => {
