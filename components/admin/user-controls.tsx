@@ -9,12 +9,15 @@ export function UserControls({
   userId,
   role,
   active,
+  self = false,
   changeRole,
   setActive,
 }: {
   userId: number;
   role: string;
   active: boolean;
+  /** The signed-in administrator's own row: their role is changed by another administrator. */
+  self?: boolean;
   changeRole: Action;
   setActive: Action;
 }) {
@@ -25,19 +28,23 @@ export function UserControls({
   return (
     <div className="space-y-1">
       <div className="flex flex-wrap items-center gap-2">
-        <form action={roleAction} className="flex items-center gap-1">
-          <input type="hidden" name="userId" value={userId} />
-          <label className="sr-only" htmlFor={`role-${userId}`}>Role</label>
-          <select id={`role-${userId}`} name="role" defaultValue={role} className="field w-auto py-1 text-sm">
-            <option value="viewer">Viewer</option>
-            <option value="analyst">Analyst</option>
-            <option value="validator">Validator</option>
-            <option value="admin">Administrator</option>
-          </select>
-          <button type="submit" className="btn btn-quiet px-2 py-1 text-sm" disabled={rolePending}>
-            Change role
-          </button>
-        </form>
+        {self ? (
+          <span className="text-xs text-[var(--color-muted)]">Your own role is changed by another administrator.</span>
+        ) : (
+          <form action={roleAction} className="flex items-center gap-1">
+            <input type="hidden" name="userId" value={userId} />
+            <label className="sr-only" htmlFor={`role-${userId}`}>Role</label>
+            <select id={`role-${userId}`} name="role" defaultValue={role} className="field w-auto py-1 text-sm">
+              <option value="viewer">Viewer</option>
+              <option value="analyst">Analyst</option>
+              <option value="validator">Validator</option>
+              <option value="admin">Administrator</option>
+            </select>
+            <button type="submit" className="btn btn-quiet px-2 py-1 text-sm" disabled={rolePending}>
+              Change role
+            </button>
+          </form>
+        )}
         <form action={activeAction}>
           <input type="hidden" name="userId" value={userId} />
           <input type="hidden" name="active" value={active ? 'false' : 'true'} />

@@ -106,8 +106,16 @@ async function otherActiveAdmins(tx: Parameters<Parameters<ReturnType<typeof get
   return rows.filter((r) => r.id !== exceptId).length;
 }
 
+/**
+ * Changes a user's role, written to the administration log with before and after. Nobody changes
+ * their own role, so two people are always involved (an administrator cannot make themselves a
+ * validator and approve).
+ */
 export async function changeRole(actor: SessionUser, userId: number, role: Role): Promise<UserDto> {
   assertCan(actor, 'users:manage', 'Only administrators can change roles.');
+  if (userId === actor.id) {
+    throw new AppError('forbidden:own-role', 'You cannot change your own role: another administrator must, so that two people are always involved.');
+  }
   const newRole = z.enum(roles).safeParse(role);
   if (!newRole.success) throw new AppError('invalid:role', 'Choose a role: viewer, analyst, validator or admin.');
   return getDb().transaction(async (tx) => {

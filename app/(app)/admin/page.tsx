@@ -47,7 +47,7 @@ export default async function AdminPage() {
                     {u.mustChangePassword ? <span className="ml-1 text-xs text-[var(--color-muted)]">invited</span> : null}
                   </td>
                   <td>
-                    <UserControls userId={u.id} role={u.role} active={u.active} changeRole={changeRoleAction} setActive={setActiveAction} />
+                    <UserControls userId={u.id} role={u.role} active={u.active} self={u.id === actor.id} changeRole={changeRoleAction} setActive={setActiveAction} />
                   </td>
                 </tr>
               ))}

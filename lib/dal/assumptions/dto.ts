@@ -56,7 +56,12 @@ export type VersionPageDto = {
   changesFromPrevious: FieldChange[] | null;
   /** The version the diff is taken against (before); null when there is none. */
   comparedWith: { id: number; version: number } | null;
+  /** Role changes of the people who reviewed this version, between its drafting and its decision (or now). */
+  roleChanges: RoleChangeDto[];
 };
+
+/** A role change (from the administration log) of someone who reviewed a version, during its review. */
+export type RoleChangeDto = { at: string; person: PersonDto | null; from: string | null; to: string | null; by: string; approver: boolean };
 
 export type LibraryEntryDto = {
   assumptionId: number;

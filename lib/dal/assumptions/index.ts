@@ -8,7 +8,7 @@
  * - reads.ts: the version page, audit trail, library, queue
  * - consumer.ts: what the consumer API reads (in force at a date, exact version, the library)
  */
-export type { AuditDto, LibraryEntryDto, PersonDto, QueueItemDto, ReviewDto, VersionDto, VersionPageDto } from './dto';
+export type { AuditDto, LibraryEntryDto, PersonDto, QueueItemDto, ReviewDto, RoleChangeDto, VersionDto, VersionPageDto } from './dto';
 export { createDraft, editDraft, transition } from './writes';
 export { runScheduledTransitions, type ScheduleReport } from './scheduler';
 export { auditCsv, getVersion, getVersionPage, listAudit, listLibrary, listOpenVersions, listQueue } from './reads';

@@ -1,13 +1,14 @@
 import 'server-only';
 import { and, asc, desc, eq, inArray } from 'drizzle-orm';
 import { getDb } from '@/db/client';
-import { assumptionAudit, assumptionReviews, assumptions, assumptionVersions, type AssumptionStatus } from '@/db/schema';
+import { assumptionAudit, assumptionReviews, assumptions, assumptionVersions, type AssumptionStatus, type AssumptionVersion } from '@/db/schema';
 import { diffVersions } from '@/lib/assumptions/content';
 import { daysBetween, EXPIRING_SOON_DAYS, todayIso } from '@/lib/assumptions/dates';
-import { availableActions, openStatuses } from '@/lib/assumptions/lifecycle';
+import { availableActions, openStatuses, reviewActions } from '@/lib/assumptions/lifecycle';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { toCsv } from '@/lib/csv';
 import { AppError } from '@/lib/errors';
+import { roleChangesOf } from '../admin-audit';
 import { makerIds } from './actors';
 import {
   peopleById,
@@ -16,6 +17,7 @@ import {
   type AuditDto,
   type LibraryEntryDto,
   type QueueItemDto,
+  type RoleChangeDto,
   type VersionDto,
   type VersionPageDto,
 } from './dto';
@@ -51,6 +53,7 @@ export async function getVersionPage(actor: SessionUser, id: number, now: Date =
   const reviewRows = await db.select().from(assumptionReviews).where(eq(assumptionReviews.versionId, id)).orderBy(asc(assumptionReviews.id));
   const reviewers = await peopleById(db, reviewRows.map((r) => r.reviewerId));
   const makers = await makerIds(db, row.v);
+  const roleChanges = await roleChangesDuringReview(row.v, now);
   const asked = compareTo !== undefined && compareTo !== id ? dtos.find((d) => d.id === compareTo) : undefined;
   const prev = asked ?? dtos.filter((d) => d.version < version.version).sort((a, b) => b.version - a.version)[0];
   return {
@@ -70,7 +73,32 @@ export async function getVersionPage(actor: SessionUser, id: number, now: Date =
     makerIds: makers,
     changesFromPrevious: prev ? diffVersions(prev, version) : null,
     comparedWith: prev ? { id: prev.id, version: prev.version } : null,
+    roleChanges,
   };
+}
+
+/**
+ * The role changes of everyone who reviewed the version (and of its approver), logged between its
+ * drafting and its decision (or now, while undecided): a reader of the audit trail sees when a
+ * validator was made one during the review.
+ */
+async function roleChangesDuringReview(v: AssumptionVersion, now: Date): Promise<RoleChangeDto[]> {
+  const db = getDb();
+  const reviewers = await db
+    .selectDistinct({ id: assumptionAudit.actorId })
+    .from(assumptionAudit)
+    .where(and(eq(assumptionAudit.versionId, v.id), inArray(assumptionAudit.action, [...reviewActions])));
+  const ids = [...new Set([...reviewers.map((r) => r.id), v.validatorId].filter((x): x is number => x !== null))];
+  const changes = await roleChangesOf(db, ids, v.createdAt, v.decidedAt ?? now);
+  const people = await peopleById(db, changes.map((c) => c.userId));
+  return changes.map((c) => ({
+    at: c.at.toISOString(),
+    person: people.get(c.userId) ?? null,
+    from: c.from,
+    to: c.to,
+    by: c.byEmail,
+    approver: v.validatorId === c.userId && v.status !== 'rejected',
+  }));
 }
 
 export async function getVersion(actor: SessionUser, id: number): Promise<VersionDto> {

@@ -102,11 +102,34 @@ describe('admin actions by role', () => {
   });
 });
 
+describe('nobody changes their own role', () => {
+  it('an administrator making themselves a validator is refused (403, a sentence), and nothing is written', async () => {
+    const admin = await makeUser('admin');
+    const logBefore = (await listAdminAudit(admin, 500)).length;
+    const p = changeRole(admin, admin.id, 'validator');
+    await expectCode(p, 'forbidden:own-role');
+    await p.catch((e: AppError) => {
+      expect(e.status).toBe(403);
+      expect(e.message).toBe('You cannot change your own role: another administrator must, so that two people are always involved.');
+    });
+    const [row] = await getDb().select({ role: users.role }).from(users).where(eq(users.id, admin.id));
+    expect(row.role).toBe('admin');
+    expect((await listAdminAudit(admin, 500)).length).toBe(logBefore);
+  });
+
+  it('another administrator may, and the change is in the administration log with before and after', async () => {
+    const first = await makeUser('admin');
+    const second = await makeUser('admin');
+    await changeRole(second, first.id, 'validator');
+    const entry = (await listAdminAudit(second, 500)).find((a) => a.action === 'user.role' && a.targetId === String(first.id));
+    expect(entry).toMatchObject({ actorEmail: second.email, before: { role: 'admin' }, after: { role: 'validator' } });
+  });
+});
+
 describe('the last active administrator', () => {
   it('cannot be demoted or deactivated', async () => {
     // Make the test admin the only active admin.
     await getDb().update(users).set({ active: false }).where(sql`${users.role} = 'admin' AND ${users.id} <> ${actors.admin.id}`);
-    await expectCode(changeRole(actors.admin, actors.admin.id, 'viewer'), 'conflict:last-admin');
     await expectCode(setUserActive(actors.admin, actors.admin.id, false), 'conflict:last-admin');
     // With a second active admin, the first can step down.
     const second = await makeUser('admin');

@@ -6,7 +6,7 @@ import { Cautions } from '@/components/assumptions/cautions';
 import { fmt, StatusBadge } from '@/components/assumptions/status-badge';
 import { TransitionPanel } from '@/components/assumptions/transition-panel';
 import { editableStatuses, statusLabels } from '@/lib/assumptions/lifecycle';
-import { can } from '@/lib/auth/permissions';
+import { can, roleLabels } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { getVersionPage } from '@/lib/dal/assumptions';
 import { AppError } from '@/lib/errors';
@@ -24,6 +24,7 @@ function seedsText(seeds: unknown): string {
 }
 
 const label = (s: string) => statusLabels[s as keyof typeof statusLabels] ?? s;
+const roleName = (r: string | null) => (r ? (roleLabels[r as keyof typeof roleLabels] ?? r).toLowerCase() : 'an unknown role');
 const when = (s: string | null) => (s ? `${s.replace('T', ' ').slice(0, 16)} UTC` : '—');
 
 function show(v: unknown): string {
@@ -290,6 +291,23 @@ export default async function VersionPage({
           </a>
           <span className="text-xs text-[var(--color-muted)]">Append-only: the database refuses changes to these rows.</span>
         </div>
+        {page.roleChanges.length ? (
+          <div className="notice-caution mb-3 text-sm" data-testid="role-changes">
+            <p className="font-medium">
+              {page.roleChanges.some((c) => c.approver)
+                ? 'The role of the person who approved this version changed during its review.'
+                : 'The role of a reviewer of this version changed during its review.'}
+            </p>
+            <ul className="mt-1 list-disc pl-5">
+              {page.roleChanges.map((c, i) => (
+                <li key={i}>
+                  {when(c.at)}: {c.person?.name ?? 'a former user'}
+                  {c.approver ? ' (the approver)' : ''} changed from {roleName(c.from)} to {roleName(c.to)} by {c.by}, from the administration log.
+                </li>
+              ))}
+            </ul>
+          </div>
+        ) : null}
         <div className="overflow-x-auto">
           <table className="table" aria-label="Audit trail">
             <thead>
