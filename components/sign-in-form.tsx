@@ -3,11 +3,16 @@
 import { signIn } from 'next-auth/react';
 import { useRouter } from 'next/navigation';
 import { useState, type FormEvent } from 'react';
+import { signInWaitMessage } from '@/lib/auth/throttle';
 
-const messages: Record<string, string> = {
-  refused: 'The e-mail or password is not right, or the account is not active.',
-  'rate-limited': 'Too many failed sign-ins for this e-mail or from this address. Wait a few minutes and try again.',
-};
+const refused = 'The e-mail or password is not right, or the account is not active.';
+
+/** The sentence for next-auth's error code: `refused`, or `rate-limited:<seconds to wait>`. */
+function errorMessage(code: string | undefined): string {
+  const wait = /^rate-limited:(\d+)$/.exec(code ?? '');
+  if (!wait) return refused;
+  return signInWaitMessage(Number(wait[1]));
+}
 
 export function SignInForm({ callbackUrl }: { callbackUrl: string }) {
   const router = useRouter();
@@ -26,7 +31,7 @@ export function SignInForm({ callbackUrl }: { callbackUrl: string }) {
     });
     setPending(false);
     if (!res || res.error) {
-      setError(messages[res?.error ?? ''] ?? messages.refused);
+      setError(errorMessage(res?.error ?? undefined));
       return;
     }
     router.replace(callbackUrl);

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { parseTrustedProxies } from '@/lib/auth/client-address';
 
 /**
  * The application's configuration, read once from process.env and validated. Every variable has a
@@ -15,9 +16,26 @@ const envSchema = z.object({
   NEXTAUTH_SECRET: z.string().min(16).default('rhobook-development-secret-change-me'),
   NEXTAUTH_URL: z.string().url().optional(),
   DEMO_PASSWORD: z.string().min(8).default('rhobook-demo'),
-  /** Failed sign-ins allowed per e-mail and per client address in the window before refusing. */
-  SIGNIN_MAX_FAILURES: z.coerce.number().int().min(1).default(10),
+  /** Sign-in throttle (lib/auth/throttle.ts): failures of one account from one address before waits start. */
+  SIGNIN_FREE_FAILURES: z.coerce.number().int().min(1).default(5),
+  /** Longest wait (seconds) for one account from one address, or one address over all accounts. */
+  SIGNIN_MAX_DELAY_SECONDS: z.coerce.number().int().min(1).default(900),
+  /** Longest wait (seconds) for one account over all addresses: what its owner may have to wait after someone else's failures. */
+  SIGNIN_ACCOUNT_DELAY_SECONDS: z.coerce.number().int().min(1).default(60),
+  /** Failures older than this are forgotten. */
   SIGNIN_WINDOW_MINUTES: z.coerce.number().int().min(1).default(15),
+  /** Proxies whose X-Forwarded-For is believed: comma-separated addresses or networks (10.0.0.0/8, ::1); none by default. */
+  TRUSTED_PROXIES: z
+    .string()
+    .default('')
+    .refine((v) => {
+      try {
+        parseTrustedProxies(v);
+        return true;
+      } catch {
+        return false;
+      }
+    }, 'TRUSTED_PROXIES must be comma-separated IP addresses or networks such as 10.0.0.0/8 or fd00::/8'),
   /** Seconds after which the worker's heartbeat is reported stale by /api/health. */
   WORKER_STALE_SECONDS: z.coerce.number().int().min(5).default(60),
   UPLOAD_MAX_BYTES: z.coerce.number().int().min(1024).default(100 * 1024 * 1024),

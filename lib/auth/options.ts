@@ -5,6 +5,7 @@ import { getDb } from '@/db/client';
 import { roles } from '@/db/schema';
 import { env } from '@/lib/env';
 import { safeRedirectUrl } from './callback-url';
+import { parseTrustedProxies, requestClientAddress } from './client-address';
 import { attemptSignIn } from './sign-in';
 
 const credentialsSchema = z.object({
@@ -12,11 +13,13 @@ const credentialsSchema = z.object({
   password: z.string().min(1).max(200),
 });
 
+/** The client address of a sign-in (lib/auth/client-address.ts: the socket, or a trusted proxy's word). */
 function clientAddress(headers: Record<string, unknown> | undefined): string {
-  const fwd = headers?.['x-forwarded-for'];
-  const first = typeof fwd === 'string' ? fwd.split(',')[0]?.trim() : undefined;
-  const real = headers?.['x-real-ip'];
-  return first || (typeof real === 'string' ? real : '') || 'unknown';
+  const header = (name: string) => {
+    const v = headers?.[name];
+    return typeof v === 'string' ? v : Array.isArray(v) ? v.join(', ') : null;
+  };
+  return requestClientAddress(header, parseTrustedProxies(env().TRUSTED_PROXIES));
 }
 
 /**
@@ -40,7 +43,7 @@ export const authOptions: NextAuthOptions = {
           clientAddress: clientAddress(req?.headers as Record<string, unknown> | undefined),
         });
         // The thrown message becomes the `error` the sign-in page maps to a sentence.
-        if (!result.ok) throw new Error(result.reason);
+        if (!result.ok) throw new Error(result.reason === 'rate-limited' ? `rate-limited:${result.waitSeconds}` : result.reason);
         return { id: String(result.user.id), email: result.user.email, name: result.user.name, role: result.user.role };
       },
     }),

@@ -5,7 +5,7 @@
 //   3. migrations, then the demo organisation when the database is empty
 //   4. next build when the build is missing or stale
 //   5. the web app on 127.0.0.1:$PORT and the worker; Ctrl-C stops everything this started
-import { ensureDependencies, localSecret, say, startChild, tsx, ensureBuild, waitForHttp, root } from './common.mjs';
+import { ensureDependencies, localSecret, say, startChild, tsx, ensureBuild, waitForHttp } from './common.mjs';
 
 const port = Number(process.env.PORT ?? 3000);
 const host = process.env.HOST ?? '127.0.0.1';
@@ -40,8 +40,8 @@ async function main() {
   process.on('SIGINT', () => void stopAll(0));
   process.on('SIGTERM', () => void stopAll(0));
 
-  const web = startChild('web', `${root}/node_modules/.bin/next`, ['start', '-H', host, '-p', String(port)], {
-    env: { ...env, NODE_ENV: 'production' },
+  const web = startChild('web', process.execPath, ['lib/ops/web-server.mjs'], {
+    env: { ...env, NODE_ENV: 'production', HOST: host, PORT: String(port) },
   });
   const worker = startChild('worker', process.execPath, ['--conditions=react-server', '--import', 'tsx', 'workers/index.ts'], { env });
   children.push(web, worker);

@@ -115,8 +115,8 @@ async function e2eStep() {
   const serverLog = path.join(logDir, 'e2e-server.log');
   fs.writeFileSync(serverLog, '');
   const env = { ...testEnv };
-  const web = startChild('web', `${root}/node_modules/.bin/next`, ['start', '-H', '127.0.0.1', '-p', String(E2E_PORT)], {
-    env: { ...env, NODE_ENV: 'production', PORT: String(E2E_PORT) },
+  const web = startChild('web', process.execPath, ['lib/ops/web-server.mjs'], {
+    env: { ...env, NODE_ENV: 'production', HOST: '127.0.0.1', PORT: String(E2E_PORT) },
     logFile: serverLog,
   });
   const worker = startChild('worker', process.execPath, ['--conditions=react-server', '--import', 'tsx', 'workers/index.ts'], {

@@ -1,0 +1,40 @@
+#!/usr/bin/env node
+// The web process of `npm start` and of the end-to-end tests: Next's request handler (the same as
+// `next start`, from the build in .next or NEXT_DIST_DIR) behind node:http, so that each request
+// carries the socket address it came from (lib/ops/socket-stamp.mjs); the sign-in throttle reads it
+// (lib/auth/client-address.ts), believing X-Forwarded-For only from TRUSTED_PROXIES.
+//
+//   NODE_ENV=production HOST=127.0.0.1 PORT=3000 node lib/ops/web-server.mjs
+import { randomBytes } from 'node:crypto';
+import http from 'node:http';
+import next from 'next';
+import { root } from './common.mjs';
+import { stampSocket } from './socket-stamp.mjs';
+
+const port = Number(process.env.PORT ?? 3000);
+const host = process.env.HOST ?? '127.0.0.1';
+const token = randomBytes(18).toString('base64url');
+process.env.RHOBOOK_SOCKET_TOKEN = token;
+
+const app = next({ dev: false, dir: root, hostname: host, port });
+await app.prepare();
+const handle = app.getRequestHandler();
+
+const server = http.createServer((req, res) => {
+  stampSocket(req, token);
+  void handle(req, res);
+});
+server.listen(port, host, () => {
+  console.log(`[web] listening on http://${host}:${port}`);
+});
+
+let closing = false;
+for (const signal of ['SIGINT', 'SIGTERM']) {
+  process.on(signal, () => {
+    if (closing) return;
+    closing = true;
+    server.close(() => process.exit(0));
+    // Keep-alive connections would hold close() open: give them a moment, then leave.
+    setTimeout(() => process.exit(0), 3000).unref();
+  });
+}
