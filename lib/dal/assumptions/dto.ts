@@ -1,7 +1,7 @@
 import 'server-only';
 import { inArray } from 'drizzle-orm';
 import type { DbOrTx } from '@/db/connection';
-import { users, type AssumptionStatus, type AssumptionVersion } from '@/db/schema';
+import { users, type AssumptionAuditRow, type AssumptionStatus, type AssumptionVersion } from '@/db/schema';
 import type { FieldChange, VersionContent } from '@/lib/assumptions/content';
 import type { UserAction } from '@/lib/assumptions/lifecycle';
 
@@ -152,19 +152,7 @@ export async function versionDtos(db: DbOrTx, rows: { v: AssumptionVersion; segm
   return rows.map((r) => toVersionDto(r.v, r.segment, people));
 }
 
-export function toAuditDto(r: {
-  id: number;
-  versionId: number;
-  version: number;
-  action: string;
-  actorEmail: string;
-  actorRole: string;
-  fromStatus: string | null;
-  toStatus: string;
-  comment: string | null;
-  contentHash: string;
-  at: Date;
-}): AuditDto {
+export function toAuditDto(r: AssumptionAuditRow): AuditDto {
   return {
     id: r.id,
     versionId: r.versionId,

@@ -16,6 +16,18 @@ function appUrl(path: string): string {
   return `${base}${path}`;
 }
 
+/** What every message about a version says of it. */
+function versionFacts(v: AssumptionVersion, segment: string) {
+  return {
+    segment,
+    version: v.version,
+    finalValue: v.finalValue,
+    effectiveDate: v.effectiveDate,
+    reviewBy: v.reviewBy,
+    url: appUrl(`/library/versions/${v.id}`),
+  };
+}
+
 async function activeEmails(db: DbOrTx, where: { role?: Role; ids?: number[] }): Promise<{ id: number; email: string }[]> {
   const conds = [eq(users.active, true)];
   if (where.role) conds.push(eq(users.role, where.role));
@@ -55,16 +67,7 @@ export async function notifyTransition(tx: Tx, v: AssumptionVersion, segment: st
     kind,
     to,
     versionId: v.id,
-    facts: {
-      segment,
-      version: v.version,
-      finalValue: v.finalValue,
-      effectiveDate: v.effectiveDate,
-      reviewBy: v.reviewBy,
-      actorName: actor.name,
-      comment,
-      url: appUrl(`/library/versions/${v.id}`),
-    },
+    facts: { ...versionFacts(v, segment), actorName: actor.name, comment },
   });
 }
 
@@ -77,14 +80,6 @@ export async function queueReviewReminder(db: DbOrTx, v: AssumptionVersion, segm
     to,
     versionId: v.id,
     dedupeKey: (addr) => `${kind}:${v.id}:${v.reviewBy}:${addr}`,
-    facts: {
-      segment,
-      version: v.version,
-      finalValue: v.finalValue,
-      effectiveDate: v.effectiveDate,
-      reviewBy: v.reviewBy,
-      daysLeft,
-      url: appUrl(`/library/versions/${v.id}`),
-    },
+    facts: { ...versionFacts(v, segment), daysLeft },
   });
 }
