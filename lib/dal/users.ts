@@ -2,6 +2,7 @@ import 'server-only';
 import { and, asc, count, desc, eq, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { getDb } from '@/db/client';
+import type { Tx } from '@/db/connection';
 import { adminAudit, roles, users, type Role, type User } from '@/db/schema';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { generateTemporaryPassword, hashPassword, verifyPassword } from '@/lib/auth/password';
@@ -97,7 +98,7 @@ export async function createUser(
 }
 
 /** Counts active admins other than `exceptId`, locking the rows so two requests cannot race. */
-async function otherActiveAdmins(tx: Parameters<Parameters<ReturnType<typeof getDb>['transaction']>[0]>[0], exceptId: number) {
+async function otherActiveAdmins(tx: Tx, exceptId: number) {
   const rows = await tx
     .select({ id: users.id })
     .from(users)
