@@ -1,5 +1,6 @@
-import { assertPanel, type Panel } from '../mixture-likelihood';
-import { defaultRates, mean, solveMomentEquation } from './moment-equation';
+import type { Panel } from '../mixture-likelihood';
+import { solveMomentEquation } from './moment-equation';
+import { momentTarget } from './moment-target';
 import { undefinedEstimate, type Estimate } from './types';
 
 /**
@@ -27,20 +28,9 @@ import { undefinedEstimate, type Estimate } from './types';
  * probability estimator.
  */
 export function jointDefault(panel: Panel): Estimate {
-  assertPanel(panel, 'jointDefault');
-  const small = panel.obligors.findIndex((n) => n < 2);
-  if (small >= 0) {
-    return undefinedEstimate(`Period ${small + 1} has fewer than 2 obligors, so it has no pairs to count joint defaults in.`);
-  }
-  const dr = defaultRates(panel.obligors, panel.defaults);
-  const p = mean(dr);
-  if (p === 0) return undefinedEstimate('No period has a default, so the mean default rate is 0 and the moment equation has no solution.');
-  if (p === 1) return undefinedEstimate('Every obligor defaulted in every period, so the moment equation has no solution.');
-  const p2 = mean(panel.obligors.map((n, t) => {
-    const d = panel.defaults[t];
-    return (d * (d - 1)) / (n * (n - 1));
-  }));
-  const target = p2 - p * p;
+  const m = momentTarget('jointDefault', panel);
+  if (m.kind === 'undefined') return undefinedEstimate(m.reason);
+  const { p, target, statistic: p2 } = m;
   if (!(target > 0)) {
     return undefinedEstimate(
       'The observed joint default frequency is at or below the square of the mean default rate: the data show no positive default dependence, which rho >= 0 cannot fit.',

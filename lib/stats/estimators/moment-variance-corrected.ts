@@ -1,6 +1,6 @@
-import { assertPanel, type Panel } from '../mixture-likelihood';
-import { defaultRates, mean, solveMomentEquation } from './moment-equation';
-import { sampleVariance } from './moment-variance';
+import type { Panel } from '../mixture-likelihood';
+import { solveMomentEquation } from './moment-equation';
+import { momentTarget } from './moment-target';
 import { undefinedEstimate, type Estimate } from './types';
 
 /**
@@ -26,17 +26,9 @@ import { undefinedEstimate, type Estimate } from './types';
  * Standard & Poor's working paper.
  */
 export function momentVarianceCorrected(panel: Panel): Estimate {
-  assertPanel(panel, 'momentVarianceCorrected');
-  const T = panel.obligors.length;
-  if (T < 2) return undefinedEstimate('The variance of the default rate needs at least 2 periods.');
-  const dr = defaultRates(panel.obligors, panel.defaults);
-  const p = mean(dr);
-  if (p === 0) return undefinedEstimate('No period has a default, so the mean default rate is 0 and the moment equation has no solution.');
-  if (p === 1) return undefinedEstimate('Every obligor defaulted in every period, so the moment equation has no solution.');
-  const h = mean(panel.obligors.map((n) => 1 / n));
-  if (h >= 1) return undefinedEstimate('Every cohort has a single obligor, so the binomial correction divides by zero.');
-  const s2 = sampleVariance(dr);
-  const v = (s2 - p * (1 - p) * h) / (1 - h);
+  const m = momentTarget('momentVarianceCorrected', panel);
+  if (m.kind === 'undefined') return undefinedEstimate(m.reason);
+  const { p, target: v } = m;
   if (!(v > 0)) {
     return {
       rho: 0,

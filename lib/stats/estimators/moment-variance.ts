@@ -1,14 +1,9 @@
-import { assertPanel, type Panel } from '../mixture-likelihood';
-import { defaultRates, mean, solveMomentEquation } from './moment-equation';
+import type { Panel } from '../mixture-likelihood';
+import { solveMomentEquation } from './moment-equation';
+import { momentTarget } from './moment-target';
 import { undefinedEstimate, type Estimate } from './types';
 
-/** Sample variance with divisor T - 1 (two-pass). */
-export function sampleVariance(values: readonly number[]): number {
-  const m = mean(values);
-  let s = 0;
-  for (const v of values) s += (v - m) * (v - m);
-  return s / (values.length - 1);
-}
+export { sampleVariance } from './moment-target';
 
 /**
  * Method-of-moments estimate of the asset correlation from the variance of the default rate.
@@ -32,14 +27,9 @@ export function sampleVariance(values: readonly number[]): number {
  * Risk 15(12):160-162.
  */
 export function momentVariance(panel: Panel): Estimate {
-  assertPanel(panel, 'momentVariance');
-  const T = panel.obligors.length;
-  if (T < 2) return undefinedEstimate('The variance of the default rate needs at least 2 periods.');
-  const dr = defaultRates(panel.obligors, panel.defaults);
-  const p = mean(dr);
-  if (p === 0) return undefinedEstimate('No period has a default, so the mean default rate is 0 and the moment equation has no solution.');
-  if (p === 1) return undefinedEstimate('Every obligor defaulted in every period, so the moment equation has no solution.');
-  const s2 = sampleVariance(dr);
+  const m = momentTarget('momentVariance', panel);
+  if (m.kind === 'undefined') return undefinedEstimate(m.reason);
+  const { p, target: s2 } = m;
   if (!(s2 > 0)) {
     return undefinedEstimate('The default rate is the same in every period: the variance target is 0, which the equation cannot use.');
   }
