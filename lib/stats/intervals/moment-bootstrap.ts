@@ -139,7 +139,7 @@ export function momentBootstrapRange(
   const obligors = spec.obligors.slice();
   const out: MomentBootstrapReplication[] = [];
   for (let i = from; i < to; i++) {
-    const sim = simulatePanel({ pd: spec.pd, rho: spec.rho, obligors }, createRng(deriveSeed(spec.seed, i)));
+    const sim = simulatePanel({ pd: spec.pd, rho: spec.rho, obligors, phi: spec.phi }, createRng(deriveSeed(spec.seed, i)));
     const replication: MomentBootstrapReplication = { index: i, ...classifyMomentEstimate(spec.estimator, sim) };
     out.push(replication);
     onReplication?.(replication);

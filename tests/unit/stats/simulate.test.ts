@@ -71,3 +71,41 @@ describe('simulatePanel', () => {
     expect(() => simulatePanel({ pd: 0.1, rho: 0.1, obligors: [10, 2.5] }, rng)).toThrow(RangeError);
   });
 });
+
+describe('simulatePanel with an AR(1) factor', () => {
+  it('with phi = 0 draws exactly the independent model (same stream, same panel)', () => {
+    const opts = { pd: 0.01, rho: 0.12, obligors: [1000, 2000, 500, 100_000] };
+    expect(simulatePanel({ ...opts, phi: 0 }, createRng(5))).toEqual(simulatePanel(opts, createRng(5)));
+  });
+
+  it('has standard normal margins and lag-h autocorrelation phi^h (within 5 SE)', () => {
+    // AR(1) x_t = phi x_(t-1) + sqrt(1 - phi^2) e_t from the stationary law (Box & Jenkins 1976, 3.2.4):
+    // Var x_t = 1 and Corr(x_t, x_(t+h)) = phi^h. 4000 replications of T = 6.
+    for (const phi of [0.6, -0.5, 0.95]) {
+      const R = 4000;
+      const sums = { x1: 0, x6: 0, x1x1: 0, x6x6: 0, x1x2: 0, x1x3: 0 };
+      for (let r = 0; r < R; r++) {
+        const f = simulatePanel({ pd: 0.01, rho: 0.1, obligors: new Array(6).fill(10), phi }, createRng(deriveSeed(17, r))).factor;
+        sums.x1 += f[0];
+        sums.x6 += f[5];
+        sums.x1x1 += f[0] * f[0];
+        sums.x6x6 += f[5] * f[5];
+        sums.x1x2 += f[0] * f[1];
+        sums.x1x3 += f[0] * f[2];
+      }
+      const se = 1 / Math.sqrt(R);
+      expect(Math.abs(sums.x1 / R)).toBeLessThan(5 * se);
+      expect(Math.abs(sums.x6 / R)).toBeLessThan(5 * se);
+      expect(Math.abs(sums.x1x1 / R - 1)).toBeLessThan(5 * Math.SQRT2 * se); // Var(x^2) = 2
+      expect(Math.abs(sums.x6x6 / R - 1)).toBeLessThan(5 * Math.SQRT2 * se);
+      // Var(x1 x2) = 1 + phi^2 for a standard bivariate normal pair
+      expect(Math.abs(sums.x1x2 / R - phi), `phi=${phi}`).toBeLessThan(5 * Math.sqrt(1 + phi ** 2) * se);
+      expect(Math.abs(sums.x1x3 / R - phi ** 2), `phi=${phi}`).toBeLessThan(5 * Math.sqrt(1 + phi ** 4) * se);
+    }
+  });
+
+  it('refuses phi at or beyond +-1', () => {
+    expect(() => simulatePanel({ pd: 0.01, rho: 0.1, obligors: [10], phi: 1 }, createRng(1))).toThrow(/phi/);
+    expect(() => simulatePanel({ pd: 0.01, rho: 0.1, obligors: [10], phi: Number.NaN }, createRng(1))).toThrow(/phi/);
+  });
+});
