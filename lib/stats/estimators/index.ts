@@ -11,6 +11,9 @@
  *
  * Each takes a panel `{ obligors, defaults }` and returns `{ rho, pd, status, reason? }`
  * (types.ts); invalid counts throw RangeError naming the period.
+ *
+ * Beside them (exported here, not yet in ESTIMATORS): `momentVarianceAutocorrected` (the variance
+ * moments corrected for autocorrelated default rates, Frei & Wunsch 2018).
  */
 import { binomialMle } from './binomial-mle';
 import { jointDefault } from './joint-default';
@@ -25,6 +28,9 @@ export type { BinomialMleOptions, BinomialMleResult, ProfilePoint } from './bino
 export { jointDefault } from './joint-default';
 export { momentVariance, sampleVariance } from './moment-variance';
 export { momentVarianceCorrected } from './moment-variance-corrected';
+export { momentVarianceAutocorrected } from './moment-variance-autocorrected';
+export { momentTarget, MOMENT_ESTIMATOR_KEYS } from './moment-target';
+export type { MomentEstimatorKey, MomentTarget } from './moment-target';
 export { vasicekMle } from './vasicek-mle';
 export { ESTIMATOR_KEYS, undefinedEstimate } from './types';
 export type { Estimate, EstimateStatus, EstimatorKey } from './types';

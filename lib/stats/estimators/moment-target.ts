@@ -8,7 +8,13 @@ import { assertPanel, type Panel } from '../mixture-likelihood';
 import { defaultRates, mean } from './moment-equation';
 
 /** The estimators that solve the moment equation. */
-export const MOMENT_ESTIMATOR_KEYS = ['momentVariance', 'momentVarianceCorrected', 'jointDefault'] as const;
+export const MOMENT_ESTIMATOR_KEYS = ['momentVariance', 'momentVarianceCorrected', 'jointDefault', 'momentVarianceAutocorrected'] as const;
+
+/**
+ * Lags of the default-rate autocorrelation used by momentVarianceAutocorrected (the first-order
+ * correction; sample autocorrelations of higher lags from 10-25 years are mostly noise).
+ */
+export const AUTOCORRELATION_LAGS = 1;
 export type MomentEstimatorKey = (typeof MOMENT_ESTIMATOR_KEYS)[number];
 
 /** A moment target, or the reason there is none. */
@@ -19,7 +25,7 @@ export type MomentTarget =
       p: number;
       /** What Phi2(k, k; rho) - p^2 must equal; may be 0 or negative (the estimator then decides). */
       target: number;
-      /** The statistic the target is made of, for messages: s2, V or p2. */
+      /** The statistic the target is made of, for messages: s2, V or p2 (momentVarianceAutocorrected: the factor c). */
       statistic: number;
     }
   | { kind: 'undefined'; reason: string };
@@ -33,25 +39,58 @@ export function sampleVariance(values: readonly number[]): number {
 }
 
 /**
+ * Sample autocorrelation of a series at lag h (Box & Jenkins 1976, eq. 2.1.12):
+ * r_h = sum_(t=h+1..T) (x_t - m)(x_(t-h) - m) / sum_t (x_t - m)^2, m = mean(x).
+ *
+ * Special cases: h must be a whole number from 1 to T - 1 and the series not constant, else
+ * RangeError.
+ *
+ * @example sampleAutocorrelation([1, 2, 3, 4], 1) // 0.25
+ */
+export function sampleAutocorrelation(values: readonly number[], h: number): number {
+  const T = values.length;
+  if (!Number.isInteger(h) || h < 1 || h >= T) throw new RangeError(`sampleAutocorrelation: the lag must be a whole number from 1 to ${T - 1}; got ${h}.`);
+  const m = mean(values);
+  let num = 0;
+  let den = 0;
+  for (let t = 0; t < T; t++) {
+    den += (values[t] - m) * (values[t] - m);
+    if (t >= h) num += (values[t] - m) * (values[t - h] - m);
+  }
+  if (!(den > 0)) throw new RangeError('sampleAutocorrelation: the series is constant, so its autocorrelation is undefined.');
+  return num / den;
+}
+
+/**
  * The moment target of one of the moment estimators.
  *
  * With DR_t = d_t / n_t and p = mean(DR_t):
  * - `momentVariance`: target = s2, the sample variance of DR_t (divisor T - 1);
  * - `momentVarianceCorrected`: target = V = (s2 - p (1 - p) h) / (1 - h), h = mean(1 / n_t)
  *   (before the clip at 0, which the estimator applies);
- * - `jointDefault`: target = p2 - p^2, p2 = mean(d_t (d_t - 1) / (n_t (n_t - 1))).
+ * - `jointDefault`: target = p2 - p^2, p2 = mean(d_t (d_t - 1) / (n_t (n_t - 1)));
+ * - `momentVarianceAutocorrected`: target = s2 / c with c = 1 - (2 / (T (T - 1))) sum_(h=1..L) (T - h) r_h,
+ *   r_h the sample autocorrelations of DR_t and L = AUTOCORRELATION_LAGS (1): for a stationary
+ *   series with autocorrelations rho_h, E[s2] = Var(DR) (1 - (2 / (T (T - 1))) sum_(h=1..T-1) (T - h) rho_h)
+ *   (Anderson 1971, section 8.2; Frei & Wunsch 2018 use this correction for default rates), so
+ *   s2 / c corrects the sample variance for the autocorrelation it can see.
  *
  * Method: two-pass sums in period order (the same arithmetic as the estimators always used).
  *
  * Special cases (kind `undefined`, with the sentence the estimators report): fewer than 2 periods
- * (variance targets); a period with fewer than 2 obligors (jointDefault); p = 0 or p = 1; h = 1
- * (momentVarianceCorrected). Invalid counts throw RangeError naming the period.
+ * (variance targets; 3 for the autocorrelation); a period with fewer than 2 obligors
+ * (jointDefault); p = 0 or p = 1; h = 1 (momentVarianceCorrected). A constant default rate gives
+ * the target 0 (momentVarianceAutocorrected; the estimator then says so). Invalid counts throw
+ * RangeError naming the period.
  *
  * @example momentTarget('momentVariance', { obligors: [1000, 1000, 1000], defaults: [5, 20, 10] })
  *
  * Reference: Gordy, M. B. (2000), "A comparative anatomy of credit risk models", Journal of
  * Banking & Finance 24:119-149, section 4; de Servigny, A. & Renault, O. (2002), "Default
- * correlation: empirical evidence", Standard & Poor's working paper.
+ * correlation: empirical evidence", Standard & Poor's working paper; Frei, C. & Wunsch, M. (2018),
+ * "Moment estimators for autocorrelated time series and their application to default
+ * correlations", Journal of Credit Risk 14(1); Anderson, T. W. (1971), The Statistical Analysis
+ * of Time Series, Wiley, section 8.2.
  */
 export function momentTarget(key: MomentEstimatorKey, panel: Panel): MomentTarget {
   assertPanel(panel, key);
@@ -61,6 +100,8 @@ export function momentTarget(key: MomentEstimatorKey, panel: Panel): MomentTarge
     if (small >= 0) {
       return { kind: 'undefined', reason: `Period ${small + 1} has fewer than 2 obligors, so it has no pairs to count joint defaults in.` };
     }
+  } else if (key === 'momentVarianceAutocorrected' && T < 3) {
+    return { kind: 'undefined', reason: 'The autocorrelation correction needs at least 3 periods.' };
   } else if (T < 2) {
     return { kind: 'undefined', reason: 'The variance of the default rate needs at least 2 periods.' };
   }
@@ -73,6 +114,15 @@ export function momentTarget(key: MomentEstimatorKey, panel: Panel): MomentTarge
   if (key === 'momentVariance') {
     const s2 = sampleVariance(dr);
     return { kind: 'target', p, target: s2, statistic: s2 };
+  }
+  if (key === 'momentVarianceAutocorrected') {
+    const s2 = sampleVariance(dr);
+    if (!(s2 > 0)) return { kind: 'target', p, target: 0, statistic: 1 };
+    let sum = 0;
+    for (let h = 1; h <= Math.min(AUTOCORRELATION_LAGS, T - 1); h++) sum += (T - h) * sampleAutocorrelation(dr, h);
+    // With one lag c = 1 - 2 r_1 / T, inside (1 - 2/T, 1 + 2/T): positive for T >= 3.
+    const c = 1 - (2 / (T * (T - 1))) * sum;
+    return { kind: 'target', p, target: s2 / c, statistic: c };
   }
   if (key === 'momentVarianceCorrected') {
     const h = mean(panel.obligors.map((n) => 1 / n));

@@ -1,6 +1,6 @@
 /**
  * Parametric bootstrap of the moment estimators (momentVariance, momentVarianceCorrected,
- * jointDefault): their interval (DESIGN.md, "Interval keys and bootstraps": the moment estimators'
+ * jointDefault, and momentVarianceAutocorrected beside them): their interval (DESIGN.md, "Interval keys and bootstraps": the moment estimators'
  * `intervals.bootstrap` `{ level, lower, upper, bias, replications, clipped, undefined }`).
  *
  * B panels are simulated at the estimator's own (p, rho) with the observed cohort sizes n_t, the
@@ -17,6 +17,7 @@
 import { jointDefault } from '../estimators/joint-default';
 import { momentTarget, MOMENT_ESTIMATOR_KEYS, type MomentEstimatorKey } from '../estimators/moment-target';
 import { momentVariance } from '../estimators/moment-variance';
+import { momentVarianceAutocorrected } from '../estimators/moment-variance-autocorrected';
 import { momentVarianceCorrected } from '../estimators/moment-variance-corrected';
 import type { Estimate } from '../estimators/types';
 import type { Panel } from '../mixture-likelihood';
@@ -29,6 +30,7 @@ const ESTIMATOR: Record<MomentEstimatorKey, (panel: Panel) => Estimate> = {
   momentVariance,
   momentVarianceCorrected,
   jointDefault,
+  momentVarianceAutocorrected,
 };
 
 /** What a moment bootstrap simulates: the estimator, its own (p, rho), the cohort sizes, the seed. */

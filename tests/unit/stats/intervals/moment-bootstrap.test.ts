@@ -105,9 +105,10 @@ describe('summariseMomentBootstrap', () => {
 });
 
 describe('momentBootstrap draws from the sampling distribution of the estimator', () => {
-  it.each(ref.cases.map((c) => [c.name, c] as const))('%s: ends, mean and shares agree with a NumPy Monte Carlo of 200,000', (_name, c) => {
+  it.each(ref.cases.map((c) => [c.name, c] as const))('%s: ends, mean and shares agree with a NumPy Monte Carlo of 200,000 (an AR(1) factor where the case names phi)', (_name, c) => {
     const B = ref.testReplications;
-    const spec: MomentBootstrapSpec = { estimator: c.estimator as MomentEstimatorKey, obligors: c.obligors, pd: c.pd, rho: c.rho, seed: 99 };
+    const phi = (c as { phi?: number }).phi;
+    const spec: MomentBootstrapSpec = { estimator: c.estimator as MomentEstimatorKey, obligors: c.obligors, pd: c.pd, rho: c.rho, seed: 99, ...(phi === undefined ? {} : { phi }) };
     const s = momentBootstrap(spec, B, 0.95) as MomentBootstrapInterval;
     expect(s.replications).toBe(B);
     const [q025, , q975] = c.quantiles;
