@@ -13,7 +13,8 @@
  * (types.ts); invalid counts throw RangeError naming the period.
  *
  * Beside them (exported here, not yet in ESTIMATORS): `momentVarianceAutocorrected` (the variance
- * moments corrected for autocorrelated default rates, Frei & Wunsch 2018).
+ * moments corrected for autocorrelated default rates, Frei & Wunsch 2018) and `ar1Mle` (maximum
+ * likelihood with a persistent AR(1) factor, ar1-mle.ts).
  */
 import { binomialMle } from './binomial-mle';
 import { jointDefault } from './joint-default';
@@ -29,6 +30,8 @@ export { jointDefault } from './joint-default';
 export { momentVariance, sampleVariance } from './moment-variance';
 export { momentVarianceCorrected } from './moment-variance-corrected';
 export { momentVarianceAutocorrected } from './moment-variance-autocorrected';
+export { ar1Mle, Ar1Profile, AR1_MIN_PERIODS, AR1_PHI_LIMIT } from './ar1-mle';
+export type { Ar1MleResult, Ar1ProfilePoint } from './ar1-mle';
 export { momentTarget, MOMENT_ESTIMATOR_KEYS } from './moment-target';
 export type { MomentEstimatorKey, MomentTarget } from './moment-target';
 export { vasicekMle } from './vasicek-mle';
