@@ -8,6 +8,11 @@
  * and the coverage of the profile-likelihood and logit-Wald intervals of binomialMle. This tells a
  * validator how far to trust an estimate from these data, which no textbook table does.
  *
+ * With `phi` the panels are simulated with a persistent factor (an AR(1) with that coefficient,
+ * simulate.ts), so the validator sees how the estimators and intervals behave under the
+ * persistence their own data show; with `persistent` the audit also runs the estimators that allow
+ * for it (ar1Mle with its profile interval, momentVarianceAutocorrected) and audits phi-hat.
+ *
  * Reproducibility across threads: replication r draws from its own stream
  * createRng(deriveSeed(seed, r)), so replications can be computed over any split of [0, R)
  * (auditRange over [from, to)) and merged (mergeAudit) with identical results.
@@ -26,6 +31,9 @@ import { momentVariance } from './estimators/moment-variance';
 import { momentVarianceCorrected } from './estimators/moment-variance-corrected';
 import { ESTIMATOR_KEYS, type EstimateStatus, type EstimatorKey } from './estimators/types';
 import { vasicekMle } from './estimators/vasicek-mle';
+import { ar1Mle } from './estimators/ar1-mle';
+import { momentVarianceAutocorrected } from './estimators/moment-variance-autocorrected';
+import { ar1Fit } from './intervals/ar1-intervals';
 import { profileInterval } from './intervals/profile';
 import { waldInterval } from './intervals/wald';
 import type { Panel } from './mixture-likelihood';
@@ -48,6 +56,10 @@ export interface AuditSpec {
   seed: number;
   /** Level of the audited intervals (default 0.95). */
   level?: number;
+  /** AR(1) coefficient of the simulated factor, in (-1, 1) (default 0: independent years). */
+  phi?: number;
+  /** Also run and audit the estimators that allow for a persistent factor (default false). */
+  persistent?: boolean;
 }
 
 /** One estimator on one simulated panel. */
@@ -65,6 +77,15 @@ export interface AuditReplication {
   profile: { lower: number; upper: number } | null;
   /** binomialMle's logit-Wald interval, null when there is none (estimate at rho = 0 or undefined). */
   wald: { lower: number; upper: number } | null;
+  /** The persistent-factor estimators (when the spec asks for them). */
+  persistent?: {
+    ar1Mle: AuditEstimate;
+    /** ar1Mle's phi; null when undefined or at rho = 0. */
+    phi: number | null;
+    /** ar1Mle's profile interval of rho (p and phi re-maximised); null without an estimate. */
+    ar1Profile: { lower: number; upper: number } | null;
+    momentVarianceAutocorrected: AuditEstimate;
+  };
 }
 
 /** Audit summary of one estimator. */
@@ -102,14 +123,27 @@ export interface CoverageAudit {
   meanWidth: number | null;
 }
 
+/** Audit of the persistent-factor estimators (AuditSpec.persistent). */
+export interface PersistentAudit {
+  ar1Mle: EstimatorAudit;
+  /** ar1Mle's phi-hat around the true phi (rho-named fields hold phi here). */
+  phi: EstimatorAudit;
+  momentVarianceAutocorrected: EstimatorAudit;
+  /** Coverage of ar1Mle's profile interval of rho. */
+  ar1Profile: CoverageAudit;
+}
+
 /** Result of an estimator audit. */
 export interface AuditSummary {
-  truth: { pd: number; rho: number };
+  /** The simulated truth; phi only when the spec names one (absent: the independent factor). */
+  truth: { pd: number; rho: number; phi?: number };
   replications: number;
   seed: number;
   periods: number;
   estimators: Record<EstimatorKey, EstimatorAudit>;
   coverage: { profile: CoverageAudit; wald: CoverageAudit };
+  /** The persistent-factor estimators; present only when the spec asks for them. */
+  persistent?: PersistentAudit;
   /** What was not audited and why. */
   omitted: { item: string; reason: string }[];
 }
@@ -134,8 +168,29 @@ function statusOf(fn: () => { rho: number | null; status: EstimateStatus }): Aud
   }
 }
 
+/** ar1Mle with its rho interval and momentVarianceAutocorrected on one panel. */
+function auditPersistent(panel: Panel, level: number): NonNullable<AuditReplication['persistent']> {
+  let phi: number | null = null;
+  let ar1Profile: { lower: number; upper: number } | null = null;
+  const ar1 = statusOf(() => {
+    try {
+      const fit = ar1Fit(panel, { level, phiInterval: false, phiProfilePoints: 0 });
+      phi = fit.result.phi;
+      if (fit.profile) ar1Profile = { lower: fit.profile.lower, upper: fit.profile.upper };
+      return fit.result;
+    } catch (err) {
+      // the interval search failed: keep the estimate, count the interval as unavailable
+      if (!(err instanceof RangeError)) throw err;
+      const { result } = ar1Mle(panel);
+      phi = result.phi;
+      return result;
+    }
+  });
+  return { ar1Mle: ar1, phi, ar1Profile, momentVarianceAutocorrected: statusOf(() => momentVarianceAutocorrected(panel)) };
+}
+
 /** Runs every estimator and binomialMle's two likelihood intervals on one panel. */
-function auditPanel(panel: Panel, level: number): Omit<AuditReplication, 'index'> {
+function auditPanel(panel: Panel, level: number, persistent: boolean): Omit<AuditReplication, 'index'> {
   let profile: AuditReplication['profile'] = null;
   let wald: AuditReplication['wald'] = null;
   const mle = statusOf(() => {
@@ -155,15 +210,16 @@ function auditPanel(panel: Panel, level: number): Omit<AuditReplication, 'index'
     momentVarianceCorrected: statusOf(() => momentVarianceCorrected(panel)),
     jointDefault: statusOf(() => jointDefault(panel)),
   };
-  return { estimates, profile, wald };
+  return persistent ? { estimates, profile, wald, persistent: auditPersistent(panel, level) } : { estimates, profile, wald };
 }
 
 /**
  * Computes audit replications r = from, ..., to - 1 (a slice of [0, R)).
  *
  * Replication r: rng = createRng(deriveSeed(seed, r)); a panel d_t ~ simulatePanel at (pd, rho)
- * with the cohort sizes n_t; every estimator on (n_t, d_t); binomialMle's profile and logit-Wald
- * intervals at `level`.
+ * (and phi) with the cohort sizes n_t; every estimator on (n_t, d_t); binomialMle's profile and
+ * logit-Wald intervals at `level`; with `persistent`, ar1Mle with its profile interval of rho and
+ * momentVarianceAutocorrected.
  *
  * Special cases: from = to gives []; a range that is not 0 <= from <= to (whole numbers), a PD
  * outside (0, 1), rho outside [0, 1), a bad seed or level throw RangeError.
@@ -188,8 +244,8 @@ export function auditRange(
   const obligors = spec.obligors.slice();
   const out: AuditReplication[] = [];
   for (let r = from; r < to; r++) {
-    const sim = simulatePanel({ pd: spec.pd, rho: spec.rho, obligors }, createRng(deriveSeed(spec.seed, r)));
-    const replication = { index: r, ...auditPanel({ obligors: sim.obligors, defaults: sim.defaults }, level) };
+    const sim = simulatePanel({ pd: spec.pd, rho: spec.rho, obligors, phi: spec.phi }, createRng(deriveSeed(spec.seed, r)));
+    const replication = { index: r, ...auditPanel({ obligors: sim.obligors, defaults: sim.defaults }, level, spec.persistent === true) };
     out.push(replication);
     onReplication?.(replication);
   }
@@ -272,8 +328,23 @@ export function mergeAudit(parts: readonly (readonly AuditReplication[])[], spec
   const level = spec.level ?? 0.95;
   const estimators = {} as Record<EstimatorKey, EstimatorAudit>;
   for (const key of ESTIMATOR_KEYS) estimators[key] = summariseEstimator(all.map((r) => r.estimates[key]), spec.rho);
+  let persistent: PersistentAudit | undefined;
+  if (spec.persistent) {
+    const parts = all.map((r) => {
+      if (!r.persistent) {
+        throw new RangeError(`mergeAudit: replication ${r.index} has no persistent-factor estimates but the spec asks for them; compute every slice with the same spec.`);
+      }
+      return r.persistent;
+    });
+    persistent = {
+      ar1Mle: summariseEstimator(parts.map((q) => q.ar1Mle), spec.rho),
+      phi: summariseEstimator(parts.map((q) => ({ rho: q.phi, status: q.phi === null ? 'undefined' : 'ok' })), spec.phi ?? 0),
+      momentVarianceAutocorrected: summariseEstimator(parts.map((q) => q.momentVarianceAutocorrected), spec.rho),
+      ar1Profile: summariseCoverage(parts.map((q) => q.ar1Profile), spec.rho, level),
+    };
+  }
   return {
-    truth: { pd: spec.pd, rho: spec.rho },
+    truth: spec.phi === undefined ? { pd: spec.pd, rho: spec.rho } : { pd: spec.pd, rho: spec.rho, phi: spec.phi },
     replications: R,
     seed: spec.seed,
     periods: spec.obligors.length,
@@ -282,6 +353,7 @@ export function mergeAudit(parts: readonly (readonly AuditReplication[])[], spec
       profile: summariseCoverage(all.map((r) => r.profile), spec.rho, level),
       wald: summariseCoverage(all.map((r) => r.wald), spec.rho, level),
     },
+    ...(persistent ? { persistent } : {}),
     omitted: [
       {
         item: 'bootstrap interval coverage',
