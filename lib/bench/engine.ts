@@ -12,7 +12,14 @@
  *    otherwise in this thread; the table says which);
  * 5. the SciPy reference (python3 tests/fixtures/engine/reference_mle.py: the same full MLE with the
  *    profile interval, its own timer around the computation only) on the same panel, with the
- *    speed ratio and the differences of the answers (target: >= 20 times faster, same answer).
+ *    speed ratio and the differences of the answers (target: >= 20 times faster, same answer);
+ * 6. the models over time: ar1Mle with its profile interval of rho (target < 300 ms), the
+ *    interval and profile of phi, the chi-square interval of vasicekMle, the moment estimators'
+ *    bootstraps (B = 1000 each, this thread), the jackknife of all estimators (target < 500 ms) and
+ *    the structural-break test with B = 200 in this thread (target < 10 s on the worker threads,
+ *    which the engine adds; the single-thread figure is printed now).
+ *
+ * The coverage study of the AR(1) model's interval is a separate script (lib/bench/ar1-coverage.ts).
  *
  * Wall times depend on what else runs on the machine: the load average is printed beside them.
  * Options: --runs N (repetitions of the slow items, default 3), --threads N (default: available
@@ -35,6 +42,15 @@ import { profileInterval } from '@/lib/stats/intervals/profile';
 import { waldInterval } from '@/lib/stats/intervals/wald';
 import { createRng, deriveSeed } from '@/lib/stats/random';
 import { simulatePanel } from '@/lib/stats/simulate';
+import { ar1Mle } from '@/lib/stats/estimators/ar1-mle';
+import { momentVarianceAutocorrected } from '@/lib/stats/estimators/moment-variance-autocorrected';
+import { ar1PhiInterval, ar1PhiProfileCurve, ar1ProfileInterval } from '@/lib/stats/intervals/ar1-intervals';
+import { vasicekChiSquareInterval } from '@/lib/stats/intervals/chi-square';
+import { momentBootstrap } from '@/lib/stats/intervals/moment-bootstrap';
+import { MOMENT_ESTIMATOR_KEYS } from '@/lib/stats/estimators/moment-target';
+import { breakTest } from '@/lib/stats/stability/break-test';
+import { jackknife } from '@/lib/stats/stability/jackknife';
+import { rollingWindow } from '@/lib/stats/stability/rolling-window';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 const panel = { obligors: fixtures.panels.E.obligors, defaults: fixtures.panels.E.defaults };
@@ -165,6 +181,33 @@ async function main(): Promise<void> {
   }
   await pool.close();
 
+  // 6. Models over time, on the same panel.
+  const ar1WithInterval = () => {
+    const { result, profile } = ar1Mle(panel);
+    const interval = ar1ProfileInterval(profile!, result);
+    return { result, profile: profile!, interval };
+  };
+  const ar1 = ar1WithInterval();
+  row('ar1Mle + profile interval of rho', await time(ar1WithInterval, RUNS * 3, 1), `${ar1.profile.likelihood.evaluations} likelihood evaluations; target < 300 ms`);
+  let phiInterval: ReturnType<typeof ar1PhiInterval> | null = null;
+  row('  + interval and profile of phi (20 points)', await time(() => {
+    const { result, profile } = ar1Mle(panel);
+    phiInterval = ar1PhiInterval(profile!, result);
+    return ar1PhiProfileCurve(profile!, result, 20);
+  }, RUNS, 1), 'ar1Mle included');
+  row('vasicekMle chi-square interval', await time(() => vasicekChiSquareInterval(panel), 201, 20));
+  row('momentVarianceAutocorrected', await time(() => momentVarianceAutocorrected(panel), 201, 20));
+  for (const key of MOMENT_ESTIMATOR_KEYS) {
+    const est = { momentVariance, momentVarianceCorrected, jointDefault, momentVarianceAutocorrected }[key](panel);
+    if (est.rho === null || est.pd === null) continue;
+    row(`bootstrap of ${key} B = 1000`, await time(() => momentBootstrap({ estimator: key, obligors: panel.obligors, pd: est.pd!, rho: est.rho!, seed: 7 }, 1000), RUNS, 0), 'this thread');
+  }
+  const labelled = { ...panel, periods: panel.obligors.map((_, t) => String(2001 + t)) };
+  row('jackknife of all estimators', await time(() => jackknife(labelled), RUNS, 1), `${panel.obligors.length} x 5 leave-one-out fits; target < 500 ms`);
+  row('rolling window (10 years) with profile intervals', await time(() => rollingWindow(labelled), RUNS, 1));
+  let breakResult: ReturnType<typeof breakTest> | null = null;
+  row('break test B = 200, this thread', await time(() => (breakResult = breakTest(labelled, { replications: 200, seed: 9 })), 1, 0), 'target < 10 s on the worker threads (engine, second round)');
+
   let scipyLine = 'SciPy reference skipped (--no-scipy)';
   let agreement = '';
   if (!process.argv.includes('--no-scipy')) {
@@ -207,6 +250,14 @@ async function main(): Promise<void> {
         `profile coverage ${a.coverage.profile.coverage!.toFixed(3)}, Wald ${a.coverage.wald.coverage!.toFixed(3)} (mcse ${a.coverage.profile.mcse!.toFixed(3)})`,
     );
   }
+  const ar1r = ar1.result;
+  console.log(
+    `ar1Mle: rho = ${ar1r.rho!.toFixed(6)}, pd = ${ar1r.pd!.toFixed(6)}, phi = ${ar1r.phi!.toFixed(4)}, logLik = ${ar1r.logLik!.toFixed(6)} ` +
+      `(independent ${ar1r.logLikIndependent!.toFixed(6)}); profile 95% of rho [${ar1.interval.lower.toFixed(6)}, ${ar1.interval.upper.toFixed(6)}]` +
+      (phiInterval ? `; phi 95% [${(phiInterval as { lower: number }).lower.toFixed(4)}, ${(phiInterval as { upper: number }).upper.toFixed(4)}]` : ''),
+  );
+  const bt = breakResult as ReturnType<typeof breakTest> | null;
+  if (bt && bt.status === 'ok') console.log(`break test: sup LR ${bt.statistic.toFixed(3)} at ${bt.splitYear}, p = ${bt.pValue.toFixed(4)} (B = ${bt.replications})`);
   console.log(scipyLine);
   if (agreement) console.log(agreement);
   console.log(`load average at the end: ${os.loadavg().map((x) => x.toFixed(2)).join(' ')}`);
