@@ -61,8 +61,9 @@
  * Statistics Surveys 8:45-114; Louis, T. A. (1982), JRSS B 44:226-233.
  */
 import { binomialLogPmf, logBinomialCoefficient } from './log-binomial';
-import { assertPanel, type Panel } from './mixture-likelihood';
-import { normalCdf, normalLogCdf, normalLogPdf, normalQuantile } from './normal';
+import { assertPanel, type Panel } from './panel';
+import { normalCdf, normalQuantile } from './normal';
+import { normalTails, TAIL, TAIL_SLOTS } from './normal-tails';
 
 /** Log-units below the mode at which each year's filtered density is truncated. */
 export const AR1_TRUNCATION_LOG_UNITS = 40;
@@ -95,19 +96,8 @@ export interface Ar1LikelihoodOptions {
   nodesPerScale?: number;
 }
 
-// Scratch of logPhiPair(): log Phi(w), log Phi(-w), phi(w)/Phi(w), phi(w)/Phi(-w).
-let sLogP = 0;
-let sLogQ = 0;
-let sMillsP = 0;
-let sMillsQ = 0;
-
-function logPhiPair(w: number): void {
-  sLogP = normalLogCdf(w);
-  sLogQ = normalLogCdf(-w);
-  const lpdf = normalLogPdf(w);
-  sMillsP = Math.exp(lpdf - sLogP);
-  sMillsQ = Math.exp(lpdf - sLogQ);
-}
+// Scratch of normalTails(): log Phi(w), log Phi(-w), the inverse Mills ratios and curvatures.
+const TAILS = new Float64Array(TAIL_SLOTS);
 
 /** One year's node set and what the next year needs from it. */
 interface YearNodes {
@@ -251,11 +241,10 @@ export class Ar1Likelihood {
       const nd = n - d;
       // g(z) = G(w(z)) + lp(z) and its first two z-derivatives
       const gAt = (z: number): { g: number; g1: number; g2: number } => {
-        logPhiPair(c - a * z);
-        const w = c - a * z;
-        const G = d * sLogP + nd * sLogQ;
-        const h1 = d * sMillsP - nd * sMillsQ;
-        const h2 = -d * sMillsP * (w + sMillsP) - nd * sMillsQ * (sMillsQ - w);
+        normalTails(c - a * z, TAILS);
+        const G = d * TAILS[TAIL.logP] + nd * TAILS[TAIL.logQ];
+        const h1 = d * TAILS[TAIL.millsP] - nd * TAILS[TAIL.millsQ];
+        const h2 = -d * TAILS[TAIL.curvP] - nd * TAILS[TAIL.curvQ];
         predicted(prev, z, phi, s2, logS);
         return { g: G + pLog, g1: -a * h1 + pD1, g2: a * a * h2 + pD2 };
       };
@@ -337,16 +326,16 @@ export class Ar1Likelihood {
       const evalNode = (i: number, z: number): void => {
         cur.z[i] = z;
         const w = c - a * z;
-        logPhiPair(w);
-        const G = d * sLogP + nd * sLogQ;
+        normalTails(w, TAILS);
+        const G = d * TAILS[TAIL.logP] + nd * TAILS[TAIL.logQ];
         if (derivatives) predictedFull(prev, z, phi, s2, logS);
         else predicted(prev, z, phi, s2, logS);
         cur.logW[i] = G + pLog;
         if (derivatives) {
           const u = cur.v;
           const U = cur.vv;
-          const h1 = d * sMillsP - nd * sMillsQ;
-          const h2 = -d * sMillsP * (w + sMillsP) - nd * sMillsQ * (sMillsQ - w);
+          const h1 = d * TAILS[TAIL.millsP] - nd * TAILS[TAIL.millsQ];
+          const h2 = -d * TAILS[TAIL.curvP] - nd * TAILS[TAIL.curvQ];
           const wr = -z * wrZ + w * wrW;
           // d2w/drho2 = -z dwrZ/drho + wr wrW + w dwrW/drho, dwrZ/drho = -wrZ (1 - 2 rho) / (2 rho (1 - rho))
           const wrr = z * wrZ * ((1 - 2 * rho) / (2 * rho * (1 - rho))) + wr * wrW + w * (1 / (2 * (1 - rho) * (1 - rho)));

@@ -5,7 +5,7 @@
  */
 import { Ar1Likelihood, type Ar1LikelihoodOptions } from '../ar1-likelihood';
 import { boxNewtonMaximize } from '../box-newton';
-import { assertPanel, type Panel } from '../mixture-likelihood';
+import { assertPanel, type Panel } from '../panel';
 import { normalCdf, normalQuantile } from '../normal';
 import { binomialMle, RHO_SEARCH_LIMIT } from './binomial-mle';
 import type { Estimate } from './types';

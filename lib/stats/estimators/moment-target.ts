@@ -4,7 +4,7 @@
  * estimators themselves and by their parametric bootstrap (which must tell a target at or below 0
  * from an estimator without a value).
  */
-import { assertPanel, type Panel } from '../mixture-likelihood';
+import { assertPanel, type Panel } from '../panel';
 import { defaultRates, mean } from './moment-equation';
 
 /** The estimators that solve the moment equation. */

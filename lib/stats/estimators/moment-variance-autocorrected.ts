@@ -1,4 +1,4 @@
-import type { Panel } from '../mixture-likelihood';
+import type { Panel } from '../panel';
 import { solveMomentEquation } from './moment-equation';
 import { momentTarget } from './moment-target';
 import { undefinedEstimate, type Estimate } from './types';

@@ -6,7 +6,7 @@
  */
 import { ar1Mle, AR1_PHI_LIMIT, type Ar1MleOptions, type Ar1MleResult, type Ar1Profile } from '../estimators/ar1-mle';
 import { RHO_SEARCH_LIMIT } from '../estimators/binomial-mle';
-import type { Panel } from '../mixture-likelihood';
+import type { Panel } from '../panel';
 import { normalCdf } from '../normal';
 import { HigherMaximumError, likelihoodRatioEnds, type LikelihoodRatioEnds } from './likelihood-ratio';
 import { chiSquare1Quantile } from './profile';

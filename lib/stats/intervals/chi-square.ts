@@ -3,7 +3,7 @@
  * `vasicekMle`, interval key `intervals.chiSquare`).
  */
 import chisquareQuantile from '@stdlib/stats-base-dists-chisquare-quantile';
-import { assertPanel, type Panel } from '../mixture-likelihood';
+import { assertPanel, type Panel } from '../panel';
 import { normalQuantile } from '../normal';
 
 /** The approximation the interval rests on, in words (shown beside the interval). */

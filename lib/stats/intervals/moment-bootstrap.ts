@@ -20,7 +20,7 @@ import { momentVariance } from '../estimators/moment-variance';
 import { momentVarianceAutocorrected } from '../estimators/moment-variance-autocorrected';
 import { momentVarianceCorrected } from '../estimators/moment-variance-corrected';
 import type { Estimate } from '../estimators/types';
-import type { Panel } from '../mixture-likelihood';
+import type { Panel } from '../panel';
 import { createRng, deriveSeed } from '../random';
 import { simulatePanel } from '../simulate';
 import { assertSimulationModel, type SimulationModel } from '../simulation-spec';

@@ -13,7 +13,7 @@
  * (summariseBreakTest) with identical results.
  */
 import { binomialMle } from '../estimators/binomial-mle';
-import type { Panel } from '../mixture-likelihood';
+import type { Panel } from '../panel';
 import { createRng, deriveSeed } from '../random';
 import { simulatePanel } from '../simulate';
 import { assertSimulationModel, type SimulationModel } from '../simulation-spec';

@@ -5,7 +5,7 @@
  */
 import { ESTIMATORS } from '../estimators';
 import type { Estimate } from '../estimators/types';
-import { assertPanel, type Panel } from '../mixture-likelihood';
+import { assertPanel, type Panel } from '../panel';
 
 /** A panel with a label for each period (years, for example). */
 export interface LabelledPanel extends Panel {
