@@ -1,5 +1,5 @@
 import type { Db } from '@/db/connection';
-import type { Tx } from '@/lib/jobs/queue';
+import type { Tx } from '@/db/connection';
 
 /** What a handler gets while it runs. */
 export type JobContext<P = unknown> = {

@@ -4,11 +4,9 @@ import type { DbOrTx } from '@/db/connection';
 import { adminAudit, roles, type Role } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
 
-type Tx = Pick<DbOrTx, 'insert'>;
-
 /** Appends one row to the admin audit log (the table refuses updates and deletes). */
 export async function recordAdminAction(
-  tx: Tx,
+  tx: DbOrTx,
   actor: SessionUser,
   entry: { action: string; targetType: string; targetId: string | number; before?: unknown; after?: unknown },
 ): Promise<void> {

@@ -46,7 +46,7 @@ import { parseIsoDate } from '@/lib/ingest/dates';
 import type { CensoredVintageYear } from '@/lib/ingest/vintage';
 import type { Finding, FindingSummary } from '@/lib/ingest/findings';
 import { conversionFailureMessage } from '@/lib/jobs/kinds/convert-loans';
-import { cancelJob, type Tx } from '@/lib/jobs/queue';
+import { cancelJob } from '@/lib/jobs/queue';
 
 /**
  * Datasets: uploads validated into versioned, immutable sets of annual cohort rows. Every function
@@ -445,7 +445,7 @@ export async function uploadDataset(actor: SessionUser, upload: ReceivedUpload, 
     const header = await checkLoanTapeHeader(gunzipSource(file.gz), maxBytes);
     if (!header.ok) throw rejection(await recordRejectedUpload(db, meta, header), header.findings, header.summary);
     try {
-      const stored = await db.transaction((tx) => storeProcessingLoanTape(tx as unknown as Tx, meta, file.gz, header));
+      const stored = await db.transaction((tx) => storeProcessingLoanTape(tx, meta, file.gz, header));
       return {
         status: 202,
         body: {

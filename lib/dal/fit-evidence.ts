@@ -1,11 +1,8 @@
 import 'server-only';
 import { eq } from 'drizzle-orm';
-import type { MySqlTransaction } from 'drizzle-orm/mysql-core';
+import type { DbOrTx } from '@/db/connection';
 import { fitRuns } from '@/db/schema';
 import { AppError } from '@/lib/errors';
-
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
-type Tx = MySqlTransaction<any, any, any, any>;
 
 /** What an assumption copies from its fit run and freezes. */
 export type FitEvidence = {
@@ -23,7 +20,7 @@ export type FitEvidence = {
  * once, when its job succeeds, so no lock is needed (MariaDB has no FOR SHARE either); the foreign
  * key from assumption_versions (ON DELETE RESTRICT) keeps the run from then on.
  */
-export async function loadFitEvidence(tx: Tx, fitId: number): Promise<FitEvidence> {
+export async function loadFitEvidence(tx: DbOrTx, fitId: number): Promise<FitEvidence> {
   const [run] = await tx.select().from(fitRuns).where(eq(fitRuns.id, fitId));
   if (!run) throw new AppError('not_found:fit', `There is no fit run ${fitId}.`, { field: 'fitId' });
   if (run.status !== 'succeeded' || !run.results) {

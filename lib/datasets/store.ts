@@ -16,7 +16,7 @@ import { and, eq, inArray, isNotNull, sql } from 'drizzle-orm';
 import { createHash } from 'node:crypto';
 import { Readable } from 'node:stream';
 import { createGunzip } from 'node:zlib';
-import type { Db } from '@/db/connection';
+import type { DbOrTx, Tx } from '@/db/connection';
 import { cohortRows, datasetFiles, datasets, segments, uploadReports, type DatasetKind } from '@/db/schema';
 import { AppError } from '@/lib/errors';
 import { mapColumns, readCsvStream, type ByteSource, type CsvSink } from '@/lib/ingest/csv-reader';
@@ -24,11 +24,8 @@ import { validateCohortStream, type CohortRow } from '@/lib/ingest/cohort';
 import { FindingCollector, type Finding, type FindingSummary } from '@/lib/ingest/findings';
 import { LOAN_COLUMNS, validateLoanTapeStream, type LoanTapeOptions, type LoanTapeValidation } from '@/lib/ingest/loan-tape';
 import { validateVintageStream, type CensoredVintageYear } from '@/lib/ingest/vintage';
-import { enqueueJob, type Tx } from '@/lib/jobs/queue';
+import { enqueueJob } from '@/lib/jobs/queue';
 import { CONVERT_LOANS_JOB } from '@/lib/jobs/kinds/convert-loans';
-
-/** A database handle or a transaction (only the query builders are used). */
-type DbOrTx = Pick<Db, 'select' | 'insert' | 'update' | 'delete'>;
 
 /** Largest piece of the compressed file stored in one row. */
 export const FILE_PIECE_BYTES = 4 * 1024 * 1024;

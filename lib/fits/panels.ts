@@ -1,5 +1,5 @@
 import { and, asc, eq, gte, inArray, lte } from 'drizzle-orm';
-import type { Db } from '@/db/connection';
+import type { DbOrTx } from '@/db/connection';
 import { cohortRows, datasets, segments, type AssetClass, type Dataset } from '@/db/schema';
 import { AppError } from '@/lib/errors';
 import { MIN_PERIODS, type FitRequest } from './request';
@@ -15,21 +15,18 @@ export type SegmentInput = {
   defaults: number[];
 };
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
-type DbLike = Db | any;
-
 /**
  * A dataset may be fitted when it exists and is ready (not still converting, not failed). Anything
  * else is "unavailable" and answered as not found: datasets are visible to every signed-in role of
  * the organisation, so the only datasets a user "may not see" are missing, deleted or unusable ones.
  */
-export async function loadFittableDataset(db: DbLike, datasetId: number): Promise<Dataset> {
+export async function loadFittableDataset(db: DbOrTx, datasetId: number): Promise<Dataset> {
   const [ds] = await db.select().from(datasets).where(eq(datasets.id, datasetId)).limit(1);
   if (!ds) throw new AppError('not_found:dataset', `There is no dataset ${datasetId}.`);
   if (ds.status !== 'ready') {
     throw new AppError('not_found:dataset', `Dataset ${datasetId} is ${ds.status === 'processing' ? 'still being converted' : 'not usable (its conversion failed)'}; it cannot be fitted.`);
   }
-  return ds as Dataset;
+  return ds;
 }
 
 /**
@@ -37,7 +34,7 @@ export async function loadFittableDataset(db: DbLike, datasetId: number): Promis
  * Throws `invalid:fit-segments` naming an unknown segment, and `invalid:fit-window` naming a segment
  * with fewer than MIN_PERIODS periods in the window.
  */
-export async function loadPanels(db: DbLike, request: FitRequest): Promise<SegmentInput[]> {
+export async function loadPanels(db: DbOrTx, request: FitRequest): Promise<SegmentInput[]> {
   const conditions = [eq(cohortRows.datasetId, request.datasetId)];
   if (request.from !== undefined) conditions.push(gte(cohortRows.period, request.from));
   if (request.to !== undefined) conditions.push(lte(cohortRows.period, request.to));

@@ -1,5 +1,5 @@
 import type { z } from 'zod';
-import type { Tx } from './queue';
+import type { Tx } from '@/db/connection';
 
 /**
  * The registry of job kinds and their payload schemas. A kind is declared once, in lib (so that

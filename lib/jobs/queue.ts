@@ -1,6 +1,5 @@
 import { and, eq, inArray, lt, or, sql } from 'drizzle-orm';
-import type { MySqlTransaction } from 'drizzle-orm/mysql-core';
-import type { Db } from '@/db/connection';
+import type { Db, DbOrTx, Tx } from '@/db/connection';
 import { jobs, type Job, type JobStatus } from '@/db/schema';
 import { AppError } from '@/lib/errors';
 import { giveUpHookFor, payloadSchemaFor } from './kinds';
@@ -22,10 +21,6 @@ import './kinds/index';
  * - Giving up: when a job ends failed or cancelled, its kind's give-up hook (defineJobKind's
  *   onGiveUp) runs in the same transaction, so what waited for the job is marked with it.
  */
-
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
-export type Tx = MySqlTransaction<any, any, any, any>;
-type DbOrTx = Db | Tx;
 
 export const DEFAULT_LEASE_MS = 60_000;
 
@@ -98,7 +93,7 @@ async function runGiveUpHook(tx: Tx, job: Pick<Job, 'id' | 'kind' | 'payload'>, 
   const hook = giveUpHookFor(job.kind);
   if (!hook) return;
   try {
-    await tx.transaction(async (sp) => hook(sp as Tx, { jobId: job.id, payload: job.payload, status, error }));
+    await tx.transaction(async (sp) => hook(sp, { jobId: job.id, payload: job.payload, status, error }));
   } catch (err) {
     console.error(`[jobs] the give-up hook of job ${job.id} (${job.kind}) failed; the job ends anyway:`, err);
   }
@@ -139,7 +134,7 @@ export async function claimJob(db: Db, workerId: string, kinds: string[], leaseM
             leaseExpiresAt: null,
           })
           .where(eq(jobs.id, row.id));
-        await runGiveUpHook(tx as Tx, row, 'failed', error);
+        await runGiveUpHook(tx, row, 'failed', error);
         return { kind: 'retry' as const };
       }
       if (row.cancelRequested) {
@@ -147,7 +142,7 @@ export async function claimJob(db: Db, workerId: string, kinds: string[], leaseM
           .update(jobs)
           .set({ status: 'cancelled', finishedAt: sql`CURRENT_TIMESTAMP(3)`, updatedAt: sql`CURRENT_TIMESTAMP(3)`, leaseExpiresAt: null })
           .where(eq(jobs.id, row.id));
-        await runGiveUpHook(tx as Tx, row, 'cancelled', null);
+        await runGiveUpHook(tx, row, 'cancelled', null);
         return { kind: 'retry' as const };
       }
       await tx
@@ -213,7 +208,7 @@ export async function completeJob(
       .where(eq(jobs.id, jobId))
       .for('update');
     if (!row || row.status !== 'running' || row.workerId !== workerId || row.cancel) return false;
-    const result = await write(tx as Tx);
+    const result = await write(tx);
     await tx
       .update(jobs)
       .set({
@@ -253,7 +248,7 @@ export async function failJob(db: Db, jobId: number, workerId: string, error: st
         updatedAt: sql`CURRENT_TIMESTAMP(3)`,
       })
       .where(eq(jobs.id, jobId));
-    if (status !== 'queued') await runGiveUpHook(tx as Tx, row, status, status === 'failed' ? error : null);
+    if (status !== 'queued') await runGiveUpHook(tx, row, status, status === 'failed' ? error : null);
     return status;
   });
 }
@@ -282,7 +277,7 @@ export async function markCancelled(db: Db, jobId: number): Promise<void> {
       .update(jobs)
       .set({ status: 'cancelled', message: 'Cancelled', leaseExpiresAt: null, finishedAt: sql`CURRENT_TIMESTAMP(3)`, updatedAt: sql`CURRENT_TIMESTAMP(3)` })
       .where(eq(jobs.id, jobId));
-    await runGiveUpHook(tx as Tx, row, 'cancelled', null);
+    await runGiveUpHook(tx, row, 'cancelled', null);
   });
 }
 
@@ -299,7 +294,7 @@ export async function cancelJob(db: Db, jobId: number): Promise<JobDto> {
         .update(jobs)
         .set({ status: 'cancelled', cancelRequested: true, message: 'Cancelled before it started', finishedAt: sql`CURRENT_TIMESTAMP(3)`, updatedAt: sql`CURRENT_TIMESTAMP(3)` })
         .where(eq(jobs.id, jobId));
-      await runGiveUpHook(tx as Tx, row, 'cancelled', null);
+      await runGiveUpHook(tx, row, 'cancelled', null);
     } else if (row.status === 'running') {
       await tx
         .update(jobs)

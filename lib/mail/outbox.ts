@@ -1,10 +1,6 @@
-import type { MySqlTransaction } from 'drizzle-orm/mysql-core';
-import type { Db } from '@/db/connection';
+import type { DbOrTx } from '@/db/connection';
 import { mailOutbox } from '@/db/schema';
 import { renderMail, type MailFacts, type MailKind } from './templates';
-
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
-type DbOrTx = Db | MySqlTransaction<any, any, any, any>;
 
 /**
  * Writes one outbox row per recipient, in the caller's transaction: the mail goes out only if the

@@ -11,7 +11,7 @@ import { convertLoanTape, storedFileSource, writeLoanConversion } from '@/lib/da
 import { AppError } from '@/lib/errors';
 import type { ByteSource } from '@/lib/ingest/csv-reader';
 import { CONVERT_LOANS_JOB, type ConvertLoansPayload } from '@/lib/jobs/kinds/convert-loans';
-import type { Tx } from '@/lib/jobs/queue';
+import type { Tx } from '@/db/connection';
 import { registerJobHandler, type JobContext } from '../registry';
 
 const PROGRESS_EVERY_MS = 500;

@@ -16,7 +16,7 @@ import { loadFittableDataset, loadPanels } from '@/lib/fits/panels';
 import { fitRequestSchema } from '@/lib/fits/request';
 import { computeFitRun } from '@/lib/fits/run';
 import { FIT_JOB, type FitPayload } from '@/lib/jobs/kinds/fit';
-import type { Tx } from '@/lib/jobs/queue';
+import type { Tx } from '@/db/connection';
 import { ENGINE_VERSION } from '@/lib/stats/version';
 import { registerJobHandler, type JobContext } from '../registry';
 
