@@ -1,10 +1,10 @@
 'use client';
 
 import { useActionState } from 'react';
-import type { PasswordState } from '@/app/(app)/account/actions';
+import { initialFormState, type FormState } from '@/components/form-state';
 
-export function ChangePasswordForm({ action }: { action: (prev: PasswordState, form: FormData) => Promise<PasswordState> }) {
-  const [state, formAction, pending] = useActionState(action, { ok: false, message: null });
+export function ChangePasswordForm({ action }: { action: (prev: FormState, form: FormData) => Promise<FormState> }) {
+  const [state, formAction, pending] = useActionState(action, initialFormState);
   return (
     <form action={formAction} className="max-w-sm space-y-3" aria-label="Change password">
       <div>

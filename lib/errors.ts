@@ -104,3 +104,18 @@ export function parseOrThrow<S extends z.ZodType>(
   const field = first && first.path.length > 0 ? first.path.map(String).join('.') : null;
   throw new AppError(code, first?.message ?? fallback, { field, fieldErrors });
 }
+
+/**
+ * What a server action returns when it fails (see components/form-state.ts): an AppError's
+ * sentence with the field it names and every field's sentence; anything else is logged with
+ * detail and told as a plain sentence, as errorResponse does for route handlers.
+ */
+export function failureState(err: unknown): { ok: false; message: string; field: string | null; fieldErrors: Record<string, string> } {
+  if (err instanceof AppError) {
+    const field = typeof err.details?.field === 'string' ? err.details.field : null;
+    const fieldErrors = (err.details?.fieldErrors as Record<string, string> | undefined) ?? (field ? { [field]: err.message } : {});
+    return { ok: false, message: err.message, field, fieldErrors };
+  }
+  console.error('[rhobook] unexpected error in a server action', err);
+  return { ok: false, message: 'Something went wrong on the server. The error has been logged.', field: null, fieldErrors: {} };
+}

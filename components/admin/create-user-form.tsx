@@ -1,12 +1,13 @@
 'use client';
 
 import { useActionState, useState } from 'react';
-import type { AdminActionState } from '@/app/(app)/admin/actions';
+import { initialFormState } from '@/components/form-state';
+import type { AdminActionState } from './action-state';
 
 type Action = (prev: AdminActionState, form: FormData) => Promise<AdminActionState>;
 
 export function CreateUserForm({ action }: { action: Action }) {
-  const [state, formAction, pending] = useActionState(action, { ok: false, message: null });
+  const [state, formAction, pending] = useActionState<AdminActionState, FormData>(action, initialFormState);
   const [mode, setMode] = useState<'password' | 'invitation'>('password');
   return (
     <form action={formAction} className="grid gap-3 md:grid-cols-2" aria-label="Create a user">

@@ -1,7 +1,8 @@
 'use client';
 
 import { useActionState } from 'react';
-import type { AdminActionState } from '@/app/(app)/admin/actions';
+import { initialFormState } from '@/components/form-state';
+import type { AdminActionState } from './action-state';
 
 type Action = (prev: AdminActionState, form: FormData) => Promise<AdminActionState>;
 
@@ -21,8 +22,8 @@ export function UserControls({
   changeRole: Action;
   setActive: Action;
 }) {
-  const [roleState, roleAction, rolePending] = useActionState(changeRole, { ok: false, message: null });
-  const [activeState, activeAction, activePending] = useActionState(setActive, { ok: false, message: null });
+  const [roleState, roleAction, rolePending] = useActionState(changeRole, initialFormState);
+  const [activeState, activeAction, activePending] = useActionState(setActive, initialFormState);
   const message = roleState.message ?? activeState.message;
   const ok = roleState.message ? roleState.ok : activeState.ok;
   return (

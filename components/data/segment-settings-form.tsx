@@ -1,11 +1,11 @@
 'use client';
 
 import { useActionState, useState } from 'react';
-import type { SegmentActionState } from '@/app/(app)/data/segments/actions';
+import { initialFormState, type FormState } from '@/components/form-state';
 import type { AssetClass } from '@/db/schema';
 import type { SegmentDto } from '@/lib/dal/segments';
 
-type Action = (prev: SegmentActionState, form: FormData) => Promise<SegmentActionState>;
+type Action = (prev: FormState, form: FormData) => Promise<FormState>;
 
 export function SegmentSettingsForm({
   segment,
@@ -18,7 +18,7 @@ export function SegmentSettingsForm({
   labels: Record<AssetClass, string>;
   action: Action;
 }) {
-  const [state, formAction, pending] = useActionState(action, { ok: false, message: null });
+  const [state, formAction, pending] = useActionState(action, initialFormState);
   const [assetClass, setAssetClass] = useState<AssetClass>(segment.assetClass);
   return (
     <form action={formAction} className="grid gap-3" aria-label="Segment settings">

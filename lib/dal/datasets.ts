@@ -41,7 +41,7 @@ import {
   type UploadIssue,
   type UploadMeta,
 } from '@/lib/datasets/store';
-import { AppError } from '@/lib/errors';
+import { AppError, parseOrThrow } from '@/lib/errors';
 import { parseIsoDate } from '@/lib/ingest/dates';
 import type { CensoredVintageYear } from '@/lib/ingest/vintage';
 import type { Finding, FindingSummary } from '@/lib/ingest/findings';
@@ -410,12 +410,7 @@ async function checkSupersedeTarget(actor: SessionUser, olderId: number, field =
  */
 export async function uploadDataset(actor: SessionUser, upload: ReceivedUpload, maxBytes: number): Promise<UploadResult> {
   assertMayUpload(actor);
-  const parsed = uploadFieldsSchema.safeParse(upload.fields);
-  if (!parsed.success) {
-    const first = parsed.error.issues[0];
-    throw new AppError('invalid:upload-form', first?.message ?? 'The upload form is not valid.', { field: first?.path.join('.') ?? null });
-  }
-  const f = parsed.data;
+  const f = parseOrThrow(uploadFieldsSchema, upload.fields, 'invalid:upload-form', 'The upload form is not valid.');
   const file = upload.file;
   if (!file) throw new AppError('invalid:upload-form', 'Attach a CSV file (a part named "file").', { field: 'file' });
   if (f.supersedes !== undefined) await checkSupersedeTarget(actor, f.supersedes);
@@ -509,22 +504,18 @@ export const waiverSchema = z.object({
 export async function waiveWarnings(actor: SessionUser, datasetId: number, input: z.input<typeof waiverSchema>): Promise<WaiverDto[]> {
   assertCan(actor, 'datasets:manage', 'Only analysts and administrators can waive warnings.');
   const row = await loadDataset(actor, datasetId);
-  const parsed = waiverSchema.safeParse(input);
-  if (!parsed.success) {
-    const first = parsed.error.issues[0];
-    throw new AppError('invalid:waiver', first?.message ?? 'The waiver is not valid.', { field: first?.path.join('.') ?? null });
-  }
+  const waiver = parseOrThrow(waiverSchema, input, 'invalid:waiver', 'The waiver is not valid.');
   const db = getDb();
   const [rep] = await db.select().from(uploadReports).where(eq(uploadReports.datasetId, row.id)).orderBy(desc(uploadReports.id)).limit(1);
   const summary = (rep?.summary as FindingSummary | undefined)?.byRule ?? {};
-  const entry = summary[parsed.data.rule];
+  const entry = summary[waiver.rule];
   if (!entry || entry.severity !== 'warning') {
-    throw new AppError('invalid:waiver', `This dataset has no warning "${parsed.data.rule}" to waive. Errors cannot be waived.`, { field: 'rule' });
+    throw new AppError('invalid:waiver', `This dataset has no warning "${waiver.rule}" to waive. Errors cannot be waived.`, { field: 'rule' });
   }
   try {
-    await db.insert(datasetWaivers).values({ datasetId: row.id, rule: parsed.data.rule, reason: parsed.data.reason, waivedBy: actor.id });
+    await db.insert(datasetWaivers).values({ datasetId: row.id, rule: waiver.rule, reason: waiver.reason, waivedBy: actor.id });
   } catch (err) {
-    if (isDuplicateKeyError(err)) throw new AppError('conflict:waiver-exists', `The warning "${parsed.data.rule}" is already waived for this dataset.`);
+    if (isDuplicateKeyError(err)) throw new AppError('conflict:waiver-exists', `The warning "${waiver.rule}" is already waived for this dataset.`);
     throw err;
   }
   return (await getDataset(actor, datasetId)).waivers;

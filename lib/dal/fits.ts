@@ -3,7 +3,7 @@ import { asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import { getDb } from '@/db/client';
 import { cohortRows, datasets, fitRuns, jobs, segments, users, type FitRunStatus } from '@/db/schema';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
-import { AppError } from '@/lib/errors';
+import { AppError, parseOrThrow } from '@/lib/errors';
 import { loadFittableDataset, loadPanels } from '@/lib/fits/panels';
 import { fitRequestSchema, type FitRequest, type FitRequestInput } from '@/lib/fits/request';
 import type { FitResults } from '@/lib/fits/results';
@@ -92,24 +92,13 @@ function selectRuns() {
     .leftJoin(jobs, eq(jobs.id, fitRuns.jobId));
 }
 
-/** Parses a fit request, naming the field and the problem (422). */
-export function parseFitRequest(input: unknown): FitRequest {
-  const parsed = fitRequestSchema.safeParse(input);
-  if (!parsed.success) {
-    const first = parsed.error.issues[0];
-    const field = first?.path.join('.') || null;
-    throw new AppError('invalid:fit-request', `${field ? `${field}: ` : ''}${first?.message ?? 'The fit request is not valid.'}`, { field });
-  }
-  return parsed.data;
-}
-
 /**
  * Requests a fit: checks the role, the dataset (404 when unavailable), the segments and the window
  * (422 naming the problem), then creates the run and queues its job in one transaction.
  */
 export async function createFit(actor: SessionUser, input: FitRequestInput | unknown): Promise<{ id: number; status: 'queued' }> {
   assertCan(actor, 'fits:run', 'Only analysts and validators can run fits.');
-  const request = parseFitRequest(input);
+  const request = parseOrThrow(fitRequestSchema, input, 'invalid:fit-request', 'The fit request is not valid.');
   const db = getDb();
   const dataset = await loadFittableDataset(db, request.datasetId);
   await loadPanels(db, request); // validates segments and window before anything is written

@@ -4,7 +4,7 @@ import { z } from 'zod';
 import { getDb } from '@/db/client';
 import { assetClasses, cohortRows, datasets, segments, users, type AssetClass, type DatasetKind, type Segment } from '@/db/schema';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
-import { AppError } from '@/lib/errors';
+import { AppError, parseOrThrow } from '@/lib/errors';
 
 /**
  * Segments: the portfolios whose correlation is estimated. Created by the first upload that names
@@ -182,12 +182,7 @@ export type SegmentSettingsInput = z.input<typeof segmentSettingsSchema>;
 
 export async function updateSegment(actor: SessionUser, id: number, input: SegmentSettingsInput): Promise<SegmentDto> {
   assertCan(actor, 'segments:manage', 'Only analysts and administrators can change segment settings.');
-  const parsed = segmentSettingsSchema.safeParse(input);
-  if (!parsed.success) {
-    const first = parsed.error.issues[0];
-    throw new AppError('invalid:segment', first?.message ?? 'The segment settings are not valid.', { field: first?.path.join('.') ?? null });
-  }
-  const v = parsed.data;
+  const v = parseOrThrow(segmentSettingsSchema, input, 'invalid:segment', 'The segment settings are not valid.');
   const db = getDb();
   if (v.ownerId !== null) {
     const [owner] = await db.select({ id: users.id, active: users.active, role: users.role }).from(users).where(eq(users.id, v.ownerId));

@@ -5,7 +5,7 @@ import { z } from 'zod';
 import { getDb } from '@/db/client';
 import { apiTokens, users } from '@/db/schema';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
-import { AppError } from '@/lib/errors';
+import { AppError, parseOrThrow } from '@/lib/errors';
 import { recordAdminAction } from './admin-audit';
 
 /**
@@ -81,12 +81,7 @@ export async function listTokens(actor: SessionUser, now: Date = new Date()): Pr
 /** Creates a token and returns its secret once; only the hash is kept. */
 export async function createToken(actor: SessionUser, input: CreateTokenInput): Promise<{ token: string; id: number; prefix: string }> {
   assertCan(actor, 'tokens:manage', 'Only administrators create API tokens.');
-  const parsed = createTokenSchema.safeParse(input);
-  if (!parsed.success) {
-    const first = parsed.error.issues[0];
-    throw new AppError('invalid:token', first?.message ?? 'The token details are not valid.', { field: first?.path.join('.') ?? null });
-  }
-  const v = parsed.data;
+  const v = parseOrThrow(createTokenSchema, input, 'invalid:token', 'The token details are not valid.');
   const secret = TOKEN_PREFIX + randomBytes(24).toString('base64url');
   const prefix = secret.slice(0, 12);
   const expiresAt = v.expiresInDays ? new Date(Date.now() + v.expiresInDays * 86_400_000) : null;

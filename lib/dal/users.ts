@@ -7,7 +7,7 @@ import { adminAudit, roles, users, type Role, type User } from '@/db/schema';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { generateTemporaryPassword, hashPassword, verifyPassword } from '@/lib/auth/password';
 import { normaliseEmail } from '@/lib/auth/sign-in';
-import { AppError } from '@/lib/errors';
+import { AppError, parseOrThrow } from '@/lib/errors';
 import { recordAdminAction } from './admin-audit';
 
 /** What the admin screen shows of a user: never the password hash. */
@@ -39,11 +39,13 @@ export async function listUsers(actor: SessionUser): Promise<UserDto[]> {
   return rows.map(toDto);
 }
 
+const roleSchema = z.enum(roles, { message: 'Choose a role: viewer, analyst, validator or admin.' });
+
 export const createUserSchema = z
   .object({
     email: z.email('Give a valid e-mail address.').max(254),
     name: z.string().trim().min(1, 'Give the person a name.').max(120),
-    role: z.enum(roles, { message: 'Choose a role: viewer, analyst, validator or admin.' }),
+    role: roleSchema,
     mode: z.enum(['password', 'invitation']).default('password'),
     password: z.string().optional(),
   })
@@ -63,14 +65,7 @@ export async function createUser(
   input: CreateUserInput,
 ): Promise<{ user: UserDto; temporaryPassword: string | null }> {
   assertCan(actor, 'users:manage', 'Only administrators can create users.');
-  const parsed = createUserSchema.safeParse(input);
-  if (!parsed.success) {
-    const first = parsed.error.issues[0];
-    throw new AppError('invalid:user', first?.message ?? 'The user details are not valid.', {
-      field: first?.path.join('.') ?? null,
-    });
-  }
-  const v = parsed.data;
+  const v = parseOrThrow(createUserSchema, input, 'invalid:user', 'The user details are not valid.');
   const email = normaliseEmail(v.email);
   const temporaryPassword = v.mode === 'invitation' ? generateTemporaryPassword() : null;
   const passwordHash = await hashPassword(temporaryPassword ?? v.password!);
@@ -117,24 +112,23 @@ export async function changeRole(actor: SessionUser, userId: number, role: Role)
   if (userId === actor.id) {
     throw new AppError('forbidden:own-role', 'You cannot change your own role: another administrator must, so that two people are always involved.');
   }
-  const newRole = z.enum(roles).safeParse(role);
-  if (!newRole.success) throw new AppError('invalid:role', 'Choose a role: viewer, analyst, validator or admin.');
+  const newRole = parseOrThrow(roleSchema, role, 'invalid:role');
   return getDb().transaction(async (tx) => {
     const [target] = await tx.select().from(users).where(eq(users.id, userId)).for('update');
     if (!target) throw new AppError('not_found:user', 'There is no such user.');
-    if (target.role === newRole.data) return toDto(target);
+    if (target.role === newRole) return toDto(target);
     if (target.role === 'admin' && target.active && (await otherActiveAdmins(tx, target.id)) === 0) {
       throw new AppError('conflict:last-admin', 'This is the last active administrator: make someone else an administrator first.');
     }
-    await tx.update(users).set({ role: newRole.data, updatedAt: sql`CURRENT_TIMESTAMP(3)` }).where(eq(users.id, userId));
+    await tx.update(users).set({ role: newRole, updatedAt: sql`CURRENT_TIMESTAMP(3)` }).where(eq(users.id, userId));
     await recordAdminAction(tx, actor, {
       action: 'user.role',
       targetType: 'user',
       targetId: userId,
       before: { role: target.role },
-      after: { role: newRole.data },
+      after: { role: newRole },
     });
-    return toDto({ ...target, role: newRole.data });
+    return toDto({ ...target, role: newRole });
   });
 }
 

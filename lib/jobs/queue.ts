@@ -1,7 +1,7 @@
 import { and, eq, inArray, lt, or, sql } from 'drizzle-orm';
 import type { Db, DbOrTx, Tx } from '@/db/connection';
 import { jobs, type Job, type JobStatus } from '@/db/schema';
-import { AppError } from '@/lib/errors';
+import { AppError, parseOrThrow } from '@/lib/errors';
 import { giveUpHookFor, payloadSchemaFor } from './kinds';
 import './kinds/index';
 
@@ -67,13 +67,10 @@ export async function enqueueJob(
 ): Promise<number> {
   const schema = payloadSchemaFor(input.kind);
   if (!schema) throw new AppError('bad_request:job-kind', `There is no job kind "${input.kind}".`);
-  const parsed = schema.safeParse(input.payload);
-  if (!parsed.success) {
-    throw new AppError('invalid:job-payload', `The ${input.kind} job's payload is not valid: ${parsed.error.issues[0]?.message ?? 'unknown'}`);
-  }
+  const payload = parseOrThrow(schema, input.payload, 'invalid:job-payload', `The ${input.kind} job's payload is not valid.`);
   const [res] = await db.insert(jobs).values({
     kind: input.kind,
-    payload: parsed.data,
+    payload,
     createdBy: input.createdBy ?? null,
     maxAttempts: input.maxAttempts ?? 3,
   });

@@ -1,6 +1,6 @@
 import { z } from 'zod';
-import { describe, expect, it } from 'vitest';
-import { AppError, parseOrThrow } from '@/lib/errors';
+import { describe, expect, it, vi } from 'vitest';
+import { AppError, failureState, parseOrThrow } from '@/lib/errors';
 
 describe('AppError', () => {
   it('maps the kind of its code to an HTTP status', () => {
@@ -48,5 +48,37 @@ describe('parseOrThrow', () => {
     expect(e.status).toBe(422);
     expect(e.message).toBe('Give a name.');
     expect(e.details).toEqual({ field: 'name', fieldErrors: { name: 'Give a name.', 'margins.rationale': 'Say why.' } });
+  });
+});
+
+describe('failureState (what a server action answers on failure)', () => {
+  it("carries an AppError's sentence and every field's sentence from parseOrThrow", () => {
+    const schema = z.object({ email: z.string().min(3, 'Give an e-mail.'), name: z.string().min(1, 'Give a name.') });
+    let state;
+    try {
+      parseOrThrow(schema, { email: '', name: '' }, 'invalid:user');
+    } catch (err) {
+      state = failureState(err);
+    }
+    expect(state).toEqual({ ok: false, message: 'Give an e-mail.', field: 'email', fieldErrors: { email: 'Give an e-mail.', name: 'Give a name.' } });
+  });
+
+  it('marks the one field an AppError names when it has no field list', () => {
+    expect(failureState(new AppError('invalid:segment', 'The owner must be active.', { field: 'ownerId' }))).toEqual({
+      ok: false,
+      message: 'The owner must be active.',
+      field: 'ownerId',
+      fieldErrors: { ownerId: 'The owner must be active.' },
+    });
+  });
+
+  it('logs anything else and answers a plain sentence without its detail', () => {
+    const log = vi.spyOn(console, 'error').mockImplementation(() => undefined);
+    const state = failureState(new Error('ECONNREFUSED 127.0.0.1:3306'));
+    expect(log).toHaveBeenCalledTimes(1);
+    log.mockRestore();
+    expect(state.ok).toBe(false);
+    expect(state.message).toBe('Something went wrong on the server. The error has been logged.');
+    expect(state.message).not.toContain('ECONNREFUSED');
   });
 });

@@ -1,12 +1,11 @@
 'use server';
 
 import { z } from 'zod';
+import type { FormState } from '@/components/form-state';
 import { assertSameOriginAction } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { changeOwnPassword } from '@/lib/dal/users';
-import { AppError } from '@/lib/errors';
-
-export type PasswordState = { ok: boolean; message: string | null };
+import { failureState, parseOrThrow } from '@/lib/errors';
 
 const schema = z
   .object({
@@ -16,17 +15,14 @@ const schema = z
   })
   .refine((v) => v.password === v.confirm, { message: 'The two new passwords differ: type the same password twice.', path: ['confirm'] });
 
-export async function changePasswordAction(_prev: PasswordState, form: FormData): Promise<PasswordState> {
+export async function changePasswordAction(_prev: FormState, form: FormData): Promise<FormState> {
   try {
     await assertSameOriginAction();
     const actor = await requireUser();
-    const parsed = schema.safeParse({ current: form.get('current'), password: form.get('password'), confirm: form.get('confirm') });
-    if (!parsed.success) return { ok: false, message: parsed.error.issues[0]?.message ?? 'The password is not valid.' };
-    await changeOwnPassword(actor, { currentPassword: parsed.data.current, newPassword: parsed.data.password });
+    const v = parseOrThrow(schema, { current: form.get('current'), password: form.get('password'), confirm: form.get('confirm') }, 'invalid:password', 'The password is not valid.');
+    await changeOwnPassword(actor, { currentPassword: v.current, newPassword: v.password });
     return { ok: true, message: 'Your password has been changed.' };
   } catch (err) {
-    if (err instanceof AppError) return { ok: false, message: err.message };
-    console.error('[account]', err);
-    return { ok: false, message: 'Something went wrong on the server. The error has been logged.' };
+    return failureState(err);
   }
 }

@@ -3,24 +3,11 @@
 import { revalidatePath } from 'next/cache';
 import { z } from 'zod';
 import { roles } from '@/db/schema';
+import type { AdminActionState } from '@/components/admin/action-state';
 import { assertSameOriginAction } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { changeRole, createUser, setUserActive } from '@/lib/dal/users';
-import { AppError } from '@/lib/errors';
-
-/** State returned to the admin forms. Never echoes a submitted password. */
-export type AdminActionState = {
-  ok: boolean;
-  message: string | null;
-  field?: string | null;
-  temporaryPassword?: string | null;
-};
-
-function failure(err: unknown): AdminActionState {
-  if (err instanceof AppError) return { ok: false, message: err.message, field: (err.details?.field as string) ?? null };
-  console.error('[admin action]', err);
-  return { ok: false, message: 'Something went wrong on the server. The error has been logged.' };
-}
+import { failureState, parseOrThrow } from '@/lib/errors';
 
 export async function createUserAction(_prev: AdminActionState, form: FormData): Promise<AdminActionState> {
   try {
@@ -43,23 +30,24 @@ export async function createUserAction(_prev: AdminActionState, form: FormData):
       temporaryPassword,
     };
   } catch (err) {
-    return failure(err);
+    return failureState(err);
   }
 }
 
-const idSchema = z.coerce.number().int().positive();
+const idSchema = z.coerce.number({ message: 'Choose a user.' }).int('Choose a user.').positive('Choose a user.');
+const roleSchema = z.enum(roles, { message: 'Choose a role: viewer, analyst, validator or admin.' });
 
 export async function changeRoleAction(_prev: AdminActionState, form: FormData): Promise<AdminActionState> {
   try {
     await assertSameOriginAction();
     const actor = await requireUser();
-    const id = idSchema.parse(form.get('userId'));
-    const role = z.enum(roles).parse(form.get('role'));
+    const id = parseOrThrow(idSchema, form.get('userId'), 'invalid:user');
+    const role = parseOrThrow(roleSchema, form.get('role'), 'invalid:role');
     const u = await changeRole(actor, id, role);
     revalidatePath('/admin');
     return { ok: true, message: `${u.email} is now ${u.role}.` };
   } catch (err) {
-    return failure(err);
+    return failureState(err);
   }
 }
 
@@ -67,12 +55,12 @@ export async function setActiveAction(_prev: AdminActionState, form: FormData): 
   try {
     await assertSameOriginAction();
     const actor = await requireUser();
-    const id = idSchema.parse(form.get('userId'));
+    const id = parseOrThrow(idSchema, form.get('userId'), 'invalid:user');
     const active = form.get('active') === 'true';
     const u = await setUserActive(actor, id, active);
     revalidatePath('/admin');
     return { ok: true, message: `${u.email} is ${u.active ? 'active again' : 'deactivated'}.` };
   } catch (err) {
-    return failure(err);
+    return failureState(err);
   }
 }

@@ -83,20 +83,21 @@ describe('requesting a fit', () => {
   });
 
   it('bad requests are 422 and name the field and the problem', async () => {
-    const cases: [unknown, RegExp][] = [
-      [{ datasetId: dataset.id, segments: ['No such segment'] }, /no segment named "No such segment"/],
-      [{ datasetId: dataset.id, from: 2015, to: 2012 }, /ends \(2012\) before it starts \(2015\)/],
-      [{ datasetId: dataset.id, from: 2018 }, /has 2 periods from 2018 .* at least 3/],
-      [{ datasetId: dataset.id, level: 1.5 }, /^level: .*between 0.5 and 0.999/],
-      [{ datasetId: dataset.id, bootstrap: { replications: 5, seed: 1 } }, /bootstrap.replications: .*at least 20/],
-      [{ datasetId: 'seven' }, /^datasetId: Choose a dataset/],
-      [{ datasetId: dataset.id, extra: true }, /Unrecognized key/i],
+    const cases: [unknown, string | null, RegExp][] = [
+      [{ datasetId: dataset.id, segments: ['No such segment'] }, 'segments', /no segment named "No such segment"/],
+      [{ datasetId: dataset.id, from: 2015, to: 2012 }, 'to', /ends \(2012\) before it starts \(2015\)/],
+      [{ datasetId: dataset.id, from: 2018 }, 'from', /has 2 periods from 2018 .* at least 3/],
+      [{ datasetId: dataset.id, level: 1.5 }, 'level', /between 0.5 and 0.999/],
+      [{ datasetId: dataset.id, bootstrap: { replications: 5, seed: 1 } }, 'bootstrap.replications', /at least 20/],
+      [{ datasetId: 'seven' }, 'datasetId', /^Choose a dataset/],
+      [{ datasetId: dataset.id, extra: true }, null, /Unrecognized key/i],
     ];
     const before = await fitRunCount();
-    for (const [body, message] of cases) {
+    for (const [body, field, message] of cases) {
       const e = await failure(createFit(analyst, body));
       expect(e.status).toBe(422);
       expect(e.message).toMatch(message);
+      expect(e.details?.field ?? null, JSON.stringify(body)).toBe(field);
     }
     expect(await fitRunCount()).toBe(before);
   });

@@ -1,7 +1,7 @@
 import { readJsonBody } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { createToken, createTokenSchema, listTokens } from '@/lib/dal/tokens';
-import { AppError, errorResponse } from '@/lib/errors';
+import { errorResponse, parseOrThrow } from '@/lib/errors';
 
 export async function GET() {
   try {
@@ -16,9 +16,8 @@ export async function GET() {
 export async function POST(req: Request) {
   try {
     const actor = await requireUser();
-    const body = createTokenSchema.safeParse(await readJsonBody(req));
-    if (!body.success) throw new AppError('invalid:token', body.error.issues[0]?.message ?? 'The token details are not valid.');
-    return Response.json(await createToken(actor, body.data), { status: 201 });
+    const body = parseOrThrow(createTokenSchema, await readJsonBody(req), 'invalid:token', 'The token details are not valid.');
+    return Response.json(await createToken(actor, body), { status: 201 });
   } catch (err) {
     return errorResponse(err);
   }

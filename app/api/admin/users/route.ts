@@ -1,7 +1,7 @@
 import { readJsonBody } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { createUser, createUserSchema, listUsers } from '@/lib/dal/users';
-import { AppError, errorResponse } from '@/lib/errors';
+import { errorResponse, parseOrThrow } from '@/lib/errors';
 
 export async function GET() {
   try {
@@ -15,11 +15,8 @@ export async function GET() {
 export async function POST(req: Request) {
   try {
     const actor = await requireUser();
-    const body = createUserSchema.safeParse(await readJsonBody(req));
-    if (!body.success) {
-      throw new AppError('invalid:user', body.error.issues[0]?.message ?? 'The user details are not valid.');
-    }
-    const result = await createUser(actor, body.data);
+    const body = parseOrThrow(createUserSchema, await readJsonBody(req), 'invalid:user', 'The user details are not valid.');
+    const result = await createUser(actor, body);
     return Response.json(result, { status: 201 });
   } catch (err) {
     return errorResponse(err);

@@ -1,7 +1,7 @@
 import { assertSameOrigin } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { deleteDataset, getDataset } from '@/lib/dal/datasets';
-import { datasetIdFrom } from '@/lib/datasets/route-params';
+import { datasetIdFrom } from '@/lib/http/route-params';
 import { errorResponse } from '@/lib/errors';
 
 export async function GET(_req: Request, ctx: { params: Promise<{ id: string }> }) {

@@ -1,17 +1,14 @@
-import { z } from 'zod';
 import { requireUser } from '@/lib/auth/session';
 import { getFit } from '@/lib/dal/fits';
-import { AppError, errorResponse } from '@/lib/errors';
-
-const paramsSchema = z.object({ id: z.coerce.number().int().positive() });
+import { errorResponse } from '@/lib/errors';
+import { routeId } from '@/lib/http/route-params';
 
 /** { id, status, progress, message, request, results, error } plus the run's provenance. */
-export async function GET(_req: Request, { params }: { params: Promise<{ id: string }> }) {
+export async function GET(_req: Request, ctx: { params: Promise<{ id: string }> }) {
   try {
     const actor = await requireUser();
-    const p = paramsSchema.safeParse(await params);
-    if (!p.success) throw new AppError('not_found:fit', 'There is no such fit run.');
-    return Response.json(await getFit(actor, p.data.id));
+    const id = await routeId(ctx, 'id', 'not_found:fit', 'There is no such fit run.');
+    return Response.json(await getFit(actor, id));
   } catch (err) {
     return errorResponse(err);
   }

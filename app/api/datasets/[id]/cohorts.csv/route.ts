@@ -1,6 +1,6 @@
 import { requireUser } from '@/lib/auth/session';
 import { getDatasetCohortsForExport } from '@/lib/dal/datasets';
-import { datasetIdFrom } from '@/lib/datasets/route-params';
+import { datasetIdFrom } from '@/lib/http/route-params';
 import { errorResponse } from '@/lib/errors';
 import { cohortRowsToCsv } from '@/lib/ingest/export';
 

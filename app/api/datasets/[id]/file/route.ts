@@ -1,7 +1,8 @@
 import { Readable } from 'node:stream';
 import { requireUser } from '@/lib/auth/session';
 import { openDatasetFile } from '@/lib/dal/datasets';
-import { datasetIdFrom, safeDownloadName } from '@/lib/datasets/route-params';
+import { safeDownloadName } from '@/lib/http/download';
+import { datasetIdFrom } from '@/lib/http/route-params';
 import { errorResponse } from '@/lib/errors';
 
 export const runtime = 'nodejs';

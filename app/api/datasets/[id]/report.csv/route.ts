@@ -1,6 +1,6 @@
 import { requireUser } from '@/lib/auth/session';
 import { getDataset } from '@/lib/dal/datasets';
-import { datasetIdFrom } from '@/lib/datasets/route-params';
+import { datasetIdFrom } from '@/lib/http/route-params';
 import { AppError, errorResponse } from '@/lib/errors';
 import { findingsToCsv } from '@/lib/ingest/export';
 

@@ -1,6 +1,6 @@
 import { requireUser } from '@/lib/auth/session';
 import { getUploadReport } from '@/lib/dal/datasets';
-import { reportIdFrom } from '@/lib/datasets/route-params';
+import { reportIdFrom } from '@/lib/http/route-params';
 import { errorResponse } from '@/lib/errors';
 import { findingsToCsv } from '@/lib/ingest/export';
 
