@@ -1,9 +1,8 @@
 import type { Db } from '@/db/connection';
 import { AppError } from '@/lib/errors';
-import { payloadSchemaFor } from '@/lib/jobs/kinds';
+import { kindSpec } from '@/lib/jobs/kinds';
 import { claimJob, completeJob, DEFAULT_LEASE_MS, failJob, markCancelled, releaseJob, reportProgress } from '@/lib/jobs/queue';
-import { handledKinds, handlerFor } from './registry';
-import './handlers/index';
+import { handlerFor, jobHandlers, type JobHandlers } from './handlers';
 
 export type JobLoopOptions = {
   db: Db;
@@ -12,7 +11,9 @@ export type JobLoopOptions = {
   /** How long to wait between polls when the queue is empty. */
   idleMs?: number;
   leaseMs?: number;
-  /** Restrict to these kinds (default: every kind with a registered handler). */
+  /** The handlers by kind (default: every kind's, workers/handlers); tests pass their own. */
+  handlers?: JobHandlers;
+  /** Restrict to these kinds (default: every kind with a handler). */
   kinds?: string[];
   log?: (msg: string) => void;
 };
@@ -43,8 +44,8 @@ async function runOne(opts: JobLoopOptions, job: { id: number; kind: string; pay
   const { db, workerId } = opts;
   const leaseMs = opts.leaseMs ?? DEFAULT_LEASE_MS;
   const log = opts.log ?? ((m: string) => console.log(`[worker] ${m}`));
-  const handler = handlerFor(job.kind);
-  const schema = payloadSchemaFor(job.kind);
+  const handler = handlerFor(job.kind, opts.handlers);
+  const schema = kindSpec(job.kind)?.schema;
   if (!handler || !schema) {
     await failJob(db, job.id, workerId, `No handler for job kind "${job.kind}" in this worker.`, true);
     return;
@@ -120,7 +121,7 @@ async function runOne(opts: JobLoopOptions, job: { id: number; kind: string; pay
  * when `signal` is aborted (a running job is released for another worker).
  */
 export async function runJobLoop(opts: JobLoopOptions): Promise<void> {
-  const kinds = opts.kinds ?? handledKinds();
+  const kinds = opts.kinds ?? Object.keys(opts.handlers ?? jobHandlers);
   const idleMs = opts.idleMs ?? 1000;
   while (!opts.signal.aborted) {
     let job = null;

@@ -1,7 +1,7 @@
 import type { Db } from '@/db/connection';
+import { kindSpec } from '@/lib/jobs/kinds';
 import { claimJob, completeJob } from '@/lib/jobs/queue';
-import { handlerFor } from './registry';
-import './handlers/index';
+import { handlerFor } from './handlers';
 
 /**
  * Runs one queued job to completion in this process, exactly as the job loop does (claim, the
@@ -14,10 +14,11 @@ export async function runJobHere(db: Db, jobId: number, kind: string): Promise<v
   const claimed = await claimJob(db, workerId, [kind]);
   if (!claimed || claimed.id !== jobId) throw new Error(`Job ${jobId} (${kind}) could not be claimed here (is a worker running on this database?).`);
   const handler = handlerFor(kind);
-  if (!handler) throw new Error(`No handler is registered for the job kind "${kind}".`);
+  const spec = kindSpec(kind);
+  if (!handler || !spec) throw new Error(`There is no job kind "${kind}" with a handler.`);
   const write = await handler({
     jobId: claimed.id,
-    payload: claimed.payload,
+    payload: spec.schema.parse(claimed.payload),
     db,
     attempt: claimed.attempt,
     signal: new AbortController().signal,

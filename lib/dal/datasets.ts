@@ -31,7 +31,6 @@ import {
   isForeignKeyRestrictError,
   linkSupersede,
   recordRejectedUpload,
-  releaseFailedIdentity,
   storeAcceptedDataset,
   storedGzipPieces,
   storeProcessingLoanTape,
@@ -46,6 +45,7 @@ import { parseIsoDate } from '@/lib/ingest/dates';
 import type { CensoredVintageYear } from '@/lib/ingest/vintage';
 import type { Finding, FindingSummary } from '@/lib/ingest/findings';
 import { conversionFailureMessage } from '@/lib/jobs/kinds/convert-loans';
+import { releaseFailedIdentity } from './failed-conversions';
 import { cancelJob } from '@/lib/jobs/queue';
 
 /**

@@ -12,7 +12,7 @@
  *   report (processing) and a `convert-loans` job in one transaction; the job later writes the
  *   cohort rows, or deletes the dataset and keeps only the rejected report.
  */
-import { and, eq, inArray, isNotNull, sql } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
 import { createHash } from 'node:crypto';
 import { Readable } from 'node:stream';
 import { createGunzip } from 'node:zlib';
@@ -460,13 +460,4 @@ export async function writeLoanConversion(
     if (older && older.by === null) await linkSupersede(tx, older.id, datasetId);
   }
   return { status: 'accepted', rows: v.cohortRows.length, errors: 0, warnings: v.summary.warnings };
-}
-
-/** Frees the identity of datasets whose conversion failed, so the same file can be uploaded again. */
-export async function releaseFailedIdentity(db: DbOrTx, datasetIds: number[]): Promise<void> {
-  if (datasetIds.length === 0) return;
-  await db
-    .update(datasets)
-    .set({ dedupeKey: null, status: 'failed' })
-    .where(and(inArray(datasets.id, datasetIds), isNotNull(datasets.dedupeKey)));
 }

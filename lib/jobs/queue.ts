@@ -2,8 +2,7 @@ import { and, eq, inArray, lt, or, sql } from 'drizzle-orm';
 import type { Db, DbOrTx, Tx } from '@/db/connection';
 import { jobs, type Job, type JobStatus } from '@/db/schema';
 import { AppError, parseOrThrow } from '@/lib/errors';
-import { giveUpHookFor, payloadSchemaFor } from './kinds';
-import './kinds/index';
+import { kindSpec } from './kinds';
 
 /**
  * The job queue in MariaDB.
@@ -18,8 +17,8 @@ import './kinds/index';
  *   duplicate.
  * - Cancel: a queued job is cancelled at once; a running one is flagged and its worker stops at its
  *   next progress report.
- * - Giving up: when a job ends failed or cancelled, its kind's give-up hook (defineJobKind's
- *   onGiveUp) runs in the same transaction, so what waited for the job is marked with it.
+ * - Giving up: when a job ends failed or cancelled, its kind's give-up hook (the onGiveUp
+ *   of its declaration in lib/jobs/kinds) runs in the same transaction, so what waited for the job is marked with it.
  */
 
 export const DEFAULT_LEASE_MS = 60_000;
@@ -65,7 +64,7 @@ export async function enqueueJob(
   db: DbOrTx,
   input: { kind: string; payload: unknown; createdBy?: number | null; maxAttempts?: number },
 ): Promise<number> {
-  const schema = payloadSchemaFor(input.kind);
+  const schema = kindSpec(input.kind)?.schema;
   if (!schema) throw new AppError('bad_request:job-kind', `There is no job kind "${input.kind}".`);
   const payload = parseOrThrow(schema, input.payload, 'invalid:job-payload', `The ${input.kind} job's payload is not valid.`);
   const [res] = await db.insert(jobs).values({
@@ -87,7 +86,7 @@ export async function getJob(db: DbOrTx, id: number): Promise<JobDto | null> {
  * throws is rolled back alone and logged, and the job still ends.
  */
 async function runGiveUpHook(tx: Tx, job: Pick<Job, 'id' | 'kind' | 'payload'>, status: 'failed' | 'cancelled', error: string | null): Promise<void> {
-  const hook = giveUpHookFor(job.kind);
+  const hook = kindSpec(job.kind)?.onGiveUp;
   if (!hook) return;
   try {
     await tx.transaction(async (sp) => hook(sp, { jobId: job.id, payload: job.payload, status, error }));

@@ -3,7 +3,8 @@
  * with a short lease so that a killed worker's job is taken over within seconds. Prints one line
  * per event; the tests parse "job N (fit) succeeded" lines to count executions.
  *
- *   DB_NAME=rhobook_x_test WORKER_ID=w1 LEASE_MS=3000 node --import tsx tests/support/fit-worker.ts
+ *   DB_NAME=rhobook_x_test WORKER_ID=w1 LEASE_MS=3000 node --conditions=react-server --import tsx tests/support/fit-worker.ts
+ *   (with the server conditions, as npm run worker: the DAL imports server-only)
  */
 import { closeDb, getDb } from '@/db/connection';
 import { runJobLoop } from '@/workers/job-loop';

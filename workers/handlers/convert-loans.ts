@@ -10,9 +10,9 @@ import { datasets } from '@/db/schema';
 import { convertLoanTape, storedFileSource, writeLoanConversion } from '@/lib/datasets/store';
 import { AppError } from '@/lib/errors';
 import type { ByteSource } from '@/lib/ingest/csv-reader';
-import { CONVERT_LOANS_JOB, type ConvertLoansPayload } from '@/lib/jobs/kinds/convert-loans';
+import type { ConvertLoansPayload } from '@/lib/jobs/kinds/convert-loans';
 import type { Tx } from '@/db/connection';
-import { registerJobHandler, type JobContext } from '../registry';
+import type { JobContext } from '../job-handler';
 
 const PROGRESS_EVERY_MS = 500;
 
@@ -57,5 +57,3 @@ export async function convertLoansHandler(ctx: JobContext<ConvertLoansPayload>) 
     return { datasetId, reportId, ...r };
   };
 }
-
-registerJobHandler<ConvertLoansPayload>(CONVERT_LOANS_JOB, convertLoansHandler);

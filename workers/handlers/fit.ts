@@ -15,10 +15,10 @@ import { AppError } from '@/lib/errors';
 import { loadFittableDataset, loadPanels } from '@/lib/fits/panels';
 import { fitRequestSchema } from '@/lib/fits/request';
 import { computeFitRun } from '@/lib/fits/run';
-import { FIT_JOB, type FitPayload } from '@/lib/jobs/kinds/fit';
+import type { FitPayload } from '@/lib/jobs/kinds/fit';
 import type { Tx } from '@/db/connection';
 import { ENGINE_VERSION } from '@/lib/stats/version';
-import { registerJobHandler, type JobContext } from '../registry';
+import type { JobContext } from '../job-handler';
 
 /** FIT_THREADS: worker threads per fit job for the bootstrap (0 = the job's own thread); default: the cores, at most 2. */
 const threadsSchema = z.coerce.number().int().min(0).max(64).optional();
@@ -65,5 +65,3 @@ export async function fitHandler(ctx: JobContext<FitPayload>) {
     return { fitRunId, segments: results.segments.length };
   };
 }
-
-registerJobHandler(FIT_JOB, fitHandler);

@@ -1,7 +1,6 @@
-import { and, eq, sql } from 'drizzle-orm';
 import { z } from 'zod';
-import { datasets, uploadReports } from '@/db/schema';
-import { defineJobKind } from '../kinds';
+import { markConversionFailed } from '@/lib/dal/failed-conversions';
+import { defineJobKind } from '../job-kind';
 
 /**
  * `convert-loans`: validates a stored loan-level tape and aggregates it to annual cohort rows
@@ -29,7 +28,7 @@ export function conversionFailureMessage(status: 'failed' | 'cancelled', error: 
   return `${why} No cohort rows were stored. Upload the same file again to retry; if it fails again, tell an administrator (the worker's log has the detail).`.slice(0, 500);
 }
 
-defineJobKind(CONVERT_LOANS_JOB, convertLoansPayloadSchema, {
+export const convertLoansJob = defineJobKind(CONVERT_LOANS_JOB, convertLoansPayloadSchema, {
   // A conversion that ends without a result (a crash after the last attempt, a permanent error, a
   // cancel) marks its dataset and report failed in the same transaction, and frees the file's
   // identity so that the same bytes can be uploaded again. A validation rejection is not this: the
@@ -37,13 +36,6 @@ defineJobKind(CONVERT_LOANS_JOB, convertLoansPayloadSchema, {
   onGiveUp: async (tx, end) => {
     const p = convertLoansPayloadSchema.safeParse(end.payload);
     if (!p.success) return;
-    await tx
-      .update(datasets)
-      .set({ status: 'failed', dedupeKey: null })
-      .where(and(eq(datasets.id, p.data.datasetId), eq(datasets.status, 'processing')));
-    await tx
-      .update(uploadReports)
-      .set({ status: 'failed', message: conversionFailureMessage(end.status, end.error), finishedAt: sql`CURRENT_TIMESTAMP(3)` })
-      .where(and(eq(uploadReports.id, p.data.reportId), eq(uploadReports.status, 'processing')));
+    await markConversionFailed(tx, p.data, conversionFailureMessage(end.status, end.error));
   },
 });

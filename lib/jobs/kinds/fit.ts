@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { defineJobKind } from '../kinds';
+import { defineJobKind } from '../job-kind';
 
 /**
  * `fit`: estimates rho for the segments of one fit run (workers/handlers/fit.ts). Enqueued by
@@ -15,4 +15,4 @@ export const fitPayloadSchema = z.object({
 });
 export type FitPayload = z.infer<typeof fitPayloadSchema>;
 
-defineJobKind(FIT_JOB, fitPayloadSchema);
+export const fitJob = defineJobKind(FIT_JOB, fitPayloadSchema);

@@ -38,7 +38,7 @@ type Worker = { proc: ChildProcess; output: () => string; id: string };
 
 function startWorker(id: string, leaseMs = 3000): Promise<Worker> {
   let out = '';
-  const proc = spawn(process.execPath, ['--import', 'tsx', 'tests/support/fit-worker.ts'], {
+  const proc = spawn(process.execPath, ['--conditions=react-server', '--import', 'tsx', 'tests/support/fit-worker.ts'], {
     cwd: root,
     env: { ...process.env, WORKER_ID: id, LEASE_MS: String(leaseMs) },
     stdio: ['ignore', 'pipe', 'pipe'],

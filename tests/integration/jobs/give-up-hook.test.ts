@@ -3,27 +3,36 @@
  * and a hook that throws is rolled back alone (a savepoint) without keeping the job from ending.
  */
 import { eq } from 'drizzle-orm';
-import { afterAll, describe, expect, it } from 'vitest';
-import { z } from 'zod';
+import { afterAll, describe, expect, it, vi } from 'vitest';
 import { closeDb, getDb } from '@/db/connection';
 import { jobs, workerHeartbeats } from '@/db/schema';
-import { defineJobKind } from '@/lib/jobs/kinds';
 import { cancelJob, claimJob, enqueueJob, failJob } from '@/lib/jobs/queue';
 
-const ends: { jobId: number; status: string; error: string | null; payload: unknown }[] = [];
+const ends = vi.hoisted(() => [] as { jobId: number; status: string; error: string | null; payload: unknown }[]);
 
-defineJobKind('test-hooked', z.object({ tag: z.string() }), {
-  onGiveUp: async (tx, end) => {
-    ends.push({ jobId: end.jobId, status: end.status, error: end.error, payload: end.payload });
-    // A row written by the hook shows that it shares the job's transaction.
-    await tx.insert(workerHeartbeats).values({ workerId: `hook-${end.jobId}`, host: 'h', pid: 1, startedAt: new Date(), lastBeatAt: new Date() });
-  },
-});
-defineJobKind('test-hook-throws', z.object({ tag: z.string() }), {
-  onGiveUp: async (tx, end) => {
-    await tx.insert(workerHeartbeats).values({ workerId: `bad-hook-${end.jobId}`, host: 'h', pid: 1, startedAt: new Date(), lastBeatAt: new Date() });
-    throw new Error('the hook is broken');
-  },
+// Two test-only job kinds with give-up hooks, beside the real ones of lib/jobs/kinds.
+vi.mock('@/lib/jobs/kinds', async (importOriginal) => {
+  const { z } = await import('zod');
+  const { defineJobKind } = await import('@/lib/jobs/job-kind');
+  const { workerHeartbeats: beats } = await import('@/db/schema');
+  const real = await importOriginal<typeof import('@/lib/jobs/kinds')>();
+  const kinds: Record<string, import('@/lib/jobs/job-kind').JobKindSpec> = {
+    ...real.jobKinds,
+    'test-hooked': defineJobKind('test-hooked', z.object({ tag: z.string() }), {
+      onGiveUp: async (tx, end) => {
+        ends.push({ jobId: end.jobId, status: end.status, error: end.error, payload: end.payload });
+        // A row written by the hook shows that it shares the job's transaction.
+        await tx.insert(beats).values({ workerId: `hook-${end.jobId}`, host: 'h', pid: 1, startedAt: new Date(), lastBeatAt: new Date() });
+      },
+    }),
+    'test-hook-throws': defineJobKind('test-hook-throws', z.object({ tag: z.string() }), {
+      onGiveUp: async (tx, end) => {
+        await tx.insert(beats).values({ workerId: `bad-hook-${end.jobId}`, host: 'h', pid: 1, startedAt: new Date(), lastBeatAt: new Date() });
+        throw new Error('the hook is broken');
+      },
+    }),
+  };
+  return { ...real, kindSpec: (kind: string) => (Object.hasOwn(kinds, kind) ? kinds[kind] : undefined) };
 });
 
 afterAll(async () => {

@@ -1,52 +1,61 @@
-import { afterAll, beforeEach, describe, expect, it } from 'vitest';
+import { afterAll, beforeEach, describe, expect, it, vi } from 'vitest';
 import { drizzle } from 'drizzle-orm/mysql2';
 import mysql from 'mysql2/promise';
 import { eq, inArray } from 'drizzle-orm';
-import { z } from 'zod';
 import { closeDb, getDb, type Db } from '@/db/connection';
 import * as schema from '@/db/schema';
 import { jobs, workerHeartbeats } from '@/db/schema';
 import { env } from '@/lib/env';
 import { AppError } from '@/lib/errors';
-import { defineJobKind } from '@/lib/jobs/kinds';
 import { cancelJob, claimJob, completeJob, enqueueJob, getJob, reportProgress } from '@/lib/jobs/queue';
+import type { JobHandlers } from '@/workers/handlers';
+import type { JobHandler } from '@/workers/job-handler';
 import { runJobLoop } from '@/workers/job-loop';
-import { registerJobHandler } from '@/workers/registry';
 
-// Test-only job kinds, declared and handled here.
-defineJobKind('test-count', z.object({ n: z.number().int() }));
-defineJobKind('test-flaky', z.object({ failTimes: z.number().int(), permanent: z.boolean().default(false) }));
-defineJobKind('test-slow', z.object({ steps: z.number().int() }));
-defineJobKind('test-write-fails', z.object({ marker: z.string() }));
+// Test-only job kinds: the static map of lib/jobs/kinds with four more entries.
+vi.mock('@/lib/jobs/kinds', async (importOriginal) => {
+  const { z } = await import('zod');
+  const { defineJobKind } = await import('@/lib/jobs/job-kind');
+  const real = await importOriginal<typeof import('@/lib/jobs/kinds')>();
+  const kinds: Record<string, import('@/lib/jobs/job-kind').JobKindSpec> = {
+    ...real.jobKinds,
+    'test-count': defineJobKind('test-count', z.object({ n: z.number().int() })),
+    'test-flaky': defineJobKind('test-flaky', z.object({ failTimes: z.number().int(), permanent: z.boolean().default(false) })),
+    'test-slow': defineJobKind('test-slow', z.object({ steps: z.number().int() })),
+    'test-write-fails': defineJobKind('test-write-fails', z.object({ marker: z.string() })),
+  };
+  return { ...real, kindSpec: (kind: string) => (Object.hasOwn(kinds, kind) ? kinds[kind] : undefined) };
+});
 
 const runs = new Map<number, number>();
 const flakyTries = new Map<number, number>();
 
-registerJobHandler<{ n: number }>('test-count', async (ctx) => {
+const testCount: JobHandler<{ n: number }> = async (ctx) => {
   runs.set(ctx.jobId, (runs.get(ctx.jobId) ?? 0) + 1);
   await new Promise((r) => setTimeout(r, 5));
   return async () => ({ doubled: ctx.payload.n * 2 });
-});
-registerJobHandler<{ failTimes: number; permanent: boolean }>('test-flaky', async (ctx) => {
+};
+const testFlaky: JobHandler<{ failTimes: number; permanent: boolean }> = async (ctx) => {
   const tries = (flakyTries.get(ctx.jobId) ?? 0) + 1;
   flakyTries.set(ctx.jobId, tries);
   if (ctx.payload.permanent) throw new AppError('invalid:test', 'This input can never work.');
   if (tries <= ctx.payload.failTimes) throw new Error(`transient failure ${tries}`);
   return async () => ({ tries });
-});
-registerJobHandler<{ steps: number }>('test-slow', async (ctx) => {
+};
+const testSlow: JobHandler<{ steps: number }> = async (ctx) => {
   for (let i = 0; i < ctx.payload.steps; i++) {
     await new Promise((r) => setTimeout(r, 50));
     await ctx.progress((100 * (i + 1)) / ctx.payload.steps, `step ${i + 1}`);
   }
   return async () => ({ steps: ctx.payload.steps });
-});
-registerJobHandler<{ marker: string }>('test-write-fails', async (ctx) => {
+};
+const testWriteFails: JobHandler<{ marker: string }> = async (ctx) => {
   return async (tx) => {
     await tx.insert(workerHeartbeats).values({ workerId: ctx.payload.marker, host: 'x', pid: 1, startedAt: new Date(), lastBeatAt: new Date() });
     throw new Error('the writer failed half way');
   };
-});
+};
+const handlers: JobHandlers = { 'test-count': testCount, 'test-flaky': testFlaky, 'test-slow': testSlow, 'test-write-fails': testWriteFails };
 
 const extraPools: mysql.Pool[] = [];
 function secondDb(): Db {
@@ -88,8 +97,8 @@ describe('claiming', () => {
     for (let i = 0; i < 50; i++) ids.push(await enqueueJob(getDb(), { kind: 'test-count', payload: { n: i } }));
     const stop = new AbortController();
     const loops = [
-      runJobLoop({ db: getDb(), workerId: 'w-a', signal: stop.signal, idleMs: 20, kinds: ['test-count'], log: () => {} }),
-      runJobLoop({ db: secondDb(), workerId: 'w-b', signal: stop.signal, idleMs: 20, kinds: ['test-count'], log: () => {} }),
+      runJobLoop({ db: getDb(), workerId: 'w-a', signal: stop.signal, idleMs: 20, kinds: ['test-count'], log: () => {}, handlers }),
+      runJobLoop({ db: secondDb(), workerId: 'w-b', signal: stop.signal, idleMs: 20, kinds: ['test-count'], log: () => {}, handlers }),
     ];
     await waitFor(async () => (await getDb().select().from(jobs).where(eq(jobs.status, 'succeeded'))).length === 50, 60_000);
     stop.abort();
@@ -136,7 +145,7 @@ describe('running', () => {
     const flaky = await enqueueJob(getDb(), { kind: 'test-flaky', payload: { failTimes: 1 } });
     const permanent = await enqueueJob(getDb(), { kind: 'test-flaky', payload: { failTimes: 0, permanent: true } });
     const stop = new AbortController();
-    const loop = runJobLoop({ db: getDb(), workerId: 'w', signal: stop.signal, idleMs: 20, kinds: ['test-flaky'], log: () => {} });
+    const loop = runJobLoop({ db: getDb(), workerId: 'w', signal: stop.signal, idleMs: 20, kinds: ['test-flaky'], log: () => {}, handlers });
     await waitFor(async () => {
       const [a, b] = [await getJob(getDb(), flaky), await getJob(getDb(), permanent)];
       return a?.status === 'succeeded' && b?.status === 'failed';
@@ -151,7 +160,7 @@ describe('running', () => {
     const marker = `marker-${Date.now()}`;
     const id = await enqueueJob(getDb(), { kind: 'test-write-fails', payload: { marker }, maxAttempts: 1 });
     const stop = new AbortController();
-    const loop = runJobLoop({ db: getDb(), workerId: 'w', signal: stop.signal, idleMs: 20, kinds: ['test-write-fails'], log: () => {} });
+    const loop = runJobLoop({ db: getDb(), workerId: 'w', signal: stop.signal, idleMs: 20, kinds: ['test-write-fails'], log: () => {}, handlers });
     await waitFor(async () => (await getJob(getDb(), id))?.status === 'failed');
     stop.abort();
     await loop;
@@ -165,7 +174,7 @@ describe('running', () => {
 
     const running = await enqueueJob(getDb(), { kind: 'test-slow', payload: { steps: 200 } });
     const stop = new AbortController();
-    const loop = runJobLoop({ db: getDb(), workerId: 'w', signal: stop.signal, idleMs: 20, kinds: ['test-slow'], log: () => {} });
+    const loop = runJobLoop({ db: getDb(), workerId: 'w', signal: stop.signal, idleMs: 20, kinds: ['test-slow'], log: () => {}, handlers });
     await waitFor(async () => ((await getJob(getDb(), running))?.progress ?? 0) > 0);
     const flagged = await cancelJob(getDb(), running);
     expect(flagged.cancelRequested).toBe(true);
@@ -178,13 +187,13 @@ describe('running', () => {
   it('a worker shutting down releases its job for another worker without using up an attempt', async () => {
     const id = await enqueueJob(getDb(), { kind: 'test-slow', payload: { steps: 40 } });
     const stopA = new AbortController();
-    const a = runJobLoop({ db: getDb(), workerId: 'w-a', signal: stopA.signal, idleMs: 20, kinds: ['test-slow'], log: () => {} });
+    const a = runJobLoop({ db: getDb(), workerId: 'w-a', signal: stopA.signal, idleMs: 20, kinds: ['test-slow'], log: () => {}, handlers });
     await waitFor(async () => ((await getJob(getDb(), id))?.progress ?? 0) > 0);
     stopA.abort();
     await a;
     expect(await getJob(getDb(), id)).toMatchObject({ status: 'queued', attempts: 0 });
     const stopB = new AbortController();
-    const b = runJobLoop({ db: secondDb(), workerId: 'w-b', signal: stopB.signal, idleMs: 20, kinds: ['test-slow'], log: () => {} });
+    const b = runJobLoop({ db: secondDb(), workerId: 'w-b', signal: stopB.signal, idleMs: 20, kinds: ['test-slow'], log: () => {}, handlers });
     await waitFor(async () => (await getJob(getDb(), id))?.status === 'succeeded');
     stopB.abort();
     await b;

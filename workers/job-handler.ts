@@ -1,5 +1,4 @@
-import type { Db } from '@/db/connection';
-import type { Tx } from '@/db/connection';
+import type { Db, Tx } from '@/db/connection';
 
 /** What a handler gets while it runs. */
 export type JobContext<P = unknown> = {
@@ -19,18 +18,3 @@ export type JobContext<P = unknown> = {
  * retry); any other error is retried up to the job's max attempts.
  */
 export type JobHandler<P = unknown> = (ctx: JobContext<P>) => Promise<(tx: Tx) => Promise<unknown>>;
-
-const handlers = new Map<string, JobHandler>();
-
-export function registerJobHandler<P>(kind: string, handler: JobHandler<P>): void {
-  if (handlers.has(kind)) throw new Error(`A handler for job kind "${kind}" is already registered.`);
-  handlers.set(kind, handler as JobHandler);
-}
-
-export function handlerFor(kind: string): JobHandler | undefined {
-  return handlers.get(kind);
-}
-
-export function handledKinds(): string[] {
-  return [...handlers.keys()];
-}
