@@ -1,4 +1,4 @@
-import type { UploadIssue } from '@/lib/datasets/store';
+import type { UploadIssue } from '@/lib/ingest/findings';
 import type { FindingSummary } from '@/lib/ingest/findings';
 
 const plural = (n: number, one: string, many = `${one}s`) => `${n.toLocaleString('en-GB')} ${n === 1 ? one : many}`;

@@ -3,7 +3,7 @@
 import { useQuery } from '@tanstack/react-query';
 import Link from 'next/link';
 import { useRef, useState, type DragEvent } from 'react';
-import type { UploadIssue } from '@/lib/datasets/store';
+import type { UploadIssue } from '@/lib/ingest/findings';
 import type { FindingSummary } from '@/lib/ingest/findings';
 import { formatSize } from './format';
 import { ProgressBar } from './progress-bar';

@@ -21,30 +21,31 @@ import {
 } from '@/db/schema';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { can } from '@/lib/auth/permissions';
-import { gunzipSource, type ReceivedUpload } from '@/lib/datasets/multipart';
+import { isDuplicateKeyError, isForeignKeyRestrictError } from '@/db/errors';
+import { AppError, parseOrThrow } from '@/lib/errors';
+import type { ReadOptions } from '@/lib/ingest/csv-reader';
+import { parseIsoDate } from '@/lib/ingest/dates';
+import { toIssue, type Finding, type FindingSummary, type UploadIssue } from '@/lib/ingest/findings';
+import { gunzipSource } from '@/lib/ingest/gzip';
 import {
   checkLoanTapeHeader,
   dedupeKeyOf,
+  validateCohortOrVintage,
+  type DatasetConventions,
+  type UploadedFile,
+} from '@/lib/ingest/upload';
+import type { CensoredVintageYear } from '@/lib/ingest/vintage';
+import { conversionFailureMessage } from '@/lib/jobs/kinds/convert-loans';
+import {
   duplicateError,
   findDuplicate,
-  isDuplicateKeyError,
-  isForeignKeyRestrictError,
   linkSupersede,
   recordRejectedUpload,
   storeAcceptedDataset,
   storedGzipPieces,
   storeProcessingLoanTape,
-  toIssue,
-  validateCohortOrVintage,
-  type DatasetConventions,
-  type UploadIssue,
   type UploadMeta,
-} from '@/lib/datasets/store';
-import { AppError, parseOrThrow } from '@/lib/errors';
-import { parseIsoDate } from '@/lib/ingest/dates';
-import type { CensoredVintageYear } from '@/lib/ingest/vintage';
-import type { Finding, FindingSummary } from '@/lib/ingest/findings';
-import { conversionFailureMessage } from '@/lib/jobs/kinds/convert-loans';
+} from './dataset-store';
 import { releaseFailedIdentity } from './failed-conversions';
 import { cancelJob } from '@/lib/jobs/queue';
 
@@ -404,11 +405,16 @@ async function checkSupersedeTarget(actor: SessionUser, olderId: number, field =
 }
 
 /**
- * Stores an upload received by the route: validates cohort and vintage files completely (201 or a
- * 422 `invalid:upload` with every finding), checks a loan tape's header and queues its conversion
- * (202). Refuses the same upload twice (409).
+ * Stores an upload received by the route (lib/http/multipart.ts): validates cohort and vintage
+ * files completely (201 or a 422 `invalid:upload` with every finding), checks a loan tape's header
+ * and queues its conversion (202). Refuses the same upload twice (409). `limits` are the reading
+ * limits of lib/ingest (size, line length, columns).
  */
-export async function uploadDataset(actor: SessionUser, upload: ReceivedUpload, maxBytes: number): Promise<UploadResult> {
+export async function uploadDataset(
+  actor: SessionUser,
+  upload: { fields: Record<string, string>; file: UploadedFile | null },
+  limits: ReadOptions,
+): Promise<UploadResult> {
   assertMayUpload(actor);
   const f = parseOrThrow(uploadFieldsSchema, upload.fields, 'invalid:upload-form', 'The upload form is not valid.');
   const file = upload.file;
@@ -437,10 +443,10 @@ export async function uploadDataset(actor: SessionUser, upload: ReceivedUpload, 
   }
 
   if (meta.kind === 'loans') {
-    const header = await checkLoanTapeHeader(gunzipSource(file.gz), maxBytes);
+    const header = await checkLoanTapeHeader(gunzipSource(file.gzip()), limits);
     if (!header.ok) throw rejection(await recordRejectedUpload(db, meta, header), header.findings, header.summary);
     try {
-      const stored = await db.transaction((tx) => storeProcessingLoanTape(tx, meta, file.gz, header));
+      const stored = await db.transaction((tx) => storeProcessingLoanTape(tx, meta, file.gzip(), header));
       return {
         status: 202,
         body: {
@@ -464,10 +470,10 @@ export async function uploadDataset(actor: SessionUser, upload: ReceivedUpload, 
     }
   }
 
-  const v = await validateCohortOrVintage(meta.kind, gunzipSource(file.gz), maxBytes);
+  const v = await validateCohortOrVintage(meta.kind, gunzipSource(file.gzip()), limits);
   if (!v.ok) throw rejection(await recordRejectedUpload(db, meta, v), v.findings, v.summary);
   try {
-    const stored = await db.transaction((tx) => storeAcceptedDataset(tx, meta, file.gz, v));
+    const stored = await db.transaction((tx) => storeAcceptedDataset(tx, meta, file.gzip(), v));
     return {
       status: 201,
       body: { id: stored.id, kind: meta.kind, status: 'ready', segments: stored.segments, rows: stored.rows, sha256: meta.sha256, warnings: stored.warnings, reportId: stored.reportId },

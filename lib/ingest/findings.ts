@@ -114,3 +114,17 @@ export class FindingCollector {
     return { errors: this.errorCount, warnings: this.warningCount, byRule, truncated };
   }
 }
+
+/** A finding as API answers and the upload screens show it: `row` is the file's physical line (header = 1). */
+export type UploadIssue = {
+  row: number | null;
+  column: string | null;
+  rule: string;
+  severity: Severity;
+  value: string | null;
+  message: string;
+};
+
+export function toIssue(f: Finding): UploadIssue {
+  return { row: f.line, column: f.column, rule: f.rule, severity: f.severity, value: f.value, message: f.message };
+}

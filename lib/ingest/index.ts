@@ -2,7 +2,7 @@
  * Upload parsing, validation and conversion (pure: no database, no Next.js). The API route and the
  * worker call these; see each module for the rules.
  */
-export { findingSchema, FindingCollector, DEFAULT_MAX_FINDINGS_PER_RULE, type Finding, type FindingSummary, type Severity } from './findings';
+export { findingSchema, FindingCollector, DEFAULT_MAX_FINDINGS_PER_RULE, toIssue, type Finding, type FindingSummary, type Severity, type UploadIssue } from './findings';
 export { DEFAULT_MAX_UPLOAD_BYTES, MAX_SEGMENT_CHARS, MAX_TEXT_CHARS } from './limits';
 export { readCsvStream, readCsvText, type ByteSource, type ReadInfo, type ReadOptions } from './csv-reader';
 export { cohortRowSchema, validateCohortStream, validateCohortText, type CohortRow, type CohortValidation } from './cohort';
@@ -26,5 +26,14 @@ export {
 export { checkPanel, JUMP_RATIO, MIN_PERIODS, TINY_COHORT } from './panel-checks';
 export { cohortRowsToCsv, findingsToCsv } from './export';
 export { createSha256, hashingSource, sha256Hex, sha256OfStream } from './hash';
-
-export type UploadKind = 'cohort' | 'vintage' | 'loans';
+export { gunzipSource } from './gzip';
+export {
+  checkLoanTapeHeader,
+  convertLoanTape,
+  dedupeKeyOf,
+  validateCohortOrVintage,
+  type DatasetConventions,
+  type UploadedFile,
+  type UploadKind,
+  type Validated,
+} from './upload';

@@ -7,9 +7,10 @@
  */
 import { eq } from 'drizzle-orm';
 import { datasets } from '@/db/schema';
-import { convertLoanTape, storedFileSource, writeLoanConversion } from '@/lib/datasets/store';
+import { storedFileSource, writeLoanConversion } from '@/lib/dal/dataset-store';
 import { AppError } from '@/lib/errors';
 import type { ByteSource } from '@/lib/ingest/csv-reader';
+import { convertLoanTape } from '@/lib/ingest/upload';
 import type { ConvertLoansPayload } from '@/lib/jobs/kinds/convert-loans';
 import type { Tx } from '@/db/connection';
 import type { JobContext } from '../job-handler';
@@ -44,7 +45,7 @@ export async function convertLoansHandler(ctx: JobContext<ConvertLoansPayload>) 
   }
   await ctx.progress(1, 'Reading the stored file');
   const source = withProgress(storedFileSource(ctx.db, datasetId), ds.sizeBytes, ctx);
-  const { validated } = await convertLoanTape(source, {
+  const validated = await convertLoanTape(source, {
     asOf,
     referenceMonthDay,
     exitConvention,

@@ -1,10 +1,9 @@
 import { assertMultipartRequest } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { assertMayUpload, listDatasets, uploadDataset } from '@/lib/dal/datasets';
-import { receiveUpload, tooLargeError } from '@/lib/datasets/multipart';
 import { env } from '@/lib/env';
 import { errorResponse } from '@/lib/errors';
-import { formatBytes } from '@/lib/ingest/limits';
+import { withReceivedUpload } from '@/lib/http/multipart';
 
 export const runtime = 'nodejs';
 
@@ -28,11 +27,7 @@ export async function POST(req: Request) {
     assertMultipartRequest(req);
     assertMayUpload(actor);
     const maxBytes = env().UPLOAD_MAX_BYTES;
-    const declared = Number(req.headers.get('content-length') ?? NaN);
-    // The body holds the file plus a little multipart framing; refuse before reading a byte.
-    if (Number.isFinite(declared) && declared > maxBytes + 64 * 1024) throw tooLargeError(formatBytes(declared), maxBytes);
-    const upload = await receiveUpload(req, maxBytes);
-    const result = await uploadDataset(actor, upload, maxBytes);
+    const result = await withReceivedUpload(req, maxBytes, (upload) => uploadDataset(actor, upload, { maxBytes }));
     return Response.json(result.body, { status: result.status });
   } catch (err) {
     return errorResponse(err);

@@ -3,14 +3,9 @@ import { gzipSync } from 'node:zlib';
 import type { Db } from '@/db/connection';
 import type { AssetClass } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
+import { storeAcceptedDataset, type UploadMeta } from '@/lib/dal/dataset-store';
 import { listSegments, updateSegment } from '@/lib/dal/segments';
-import {
-  convertLoanTape,
-  storeAcceptedDataset,
-  validateCohortOrVintage,
-  type UploadMeta,
-  type Validated,
-} from '@/lib/datasets/store';
+import { convertLoanTape, validateCohortOrVintage, type Validated } from '@/lib/ingest/upload';
 import { fenmoorCohortCsv, fenmoorLoanTapeChunks, fenmoorVintageCsv, LENDER_NAME } from '@/lib/demo';
 
 /**
@@ -62,7 +57,7 @@ export async function seedDemoData(db: Db, analyst: SessionUser): Promise<{ coho
       uploadedBy: analyst.id,
     },
     cohort,
-    await validateCohortOrVintage('cohort', once(cohort), max),
+    await validateCohortOrVintage('cohort', once(cohort), { maxBytes: max }),
   );
 
   const vintage = Buffer.from(fenmoorVintageCsv(), 'utf8');
@@ -76,12 +71,12 @@ export async function seedDemoData(db: Db, analyst: SessionUser): Promise<{ coho
       uploadedBy: analyst.id,
     },
     vintage,
-    await validateCohortOrVintage('vintage', once(vintage), max),
+    await validateCohortOrVintage('vintage', once(vintage), { maxBytes: max }),
   );
 
   const tape = Buffer.from([...fenmoorLoanTapeChunks()].join(''), 'utf8');
   const options = { asOf: '2024-12-31', referenceMonthDay: '01-01', exitConvention: 'exits-stay' as const };
-  const { validated } = await convertLoanTape(once(tape), { ...options, maxBytes: max });
+  const validated = await convertLoanTape(once(tape), { ...options, maxBytes: max });
   await store(
     db,
     {

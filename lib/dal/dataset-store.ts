@@ -1,7 +1,8 @@
+import 'server-only';
 /**
- * Storing uploads as datasets: the database side of data intake, shared by the data access layer
- * (lib/dal/datasets.ts, which authorises), the loan-tape conversion job (workers/handlers) and the
- * demo seed. Nothing here checks who the caller is: callers do.
+ * Storing uploads as datasets: the database side of data intake, shared by the data access layer's
+ * upload (lib/dal/datasets.ts, which authorises), the loan-tape conversion job (workers/handlers)
+ * and the demo seed. Nothing here checks who the caller is: callers do.
  *
  * What is written, and when (DESIGN.md, "Data the user brings"):
  * - A rejected upload writes one `upload_reports` row (status rejected, its findings) and nothing else.
@@ -12,53 +13,22 @@
  *   report (processing) and a `convert-loans` job in one transaction; the job later writes the
  *   cohort rows, or deletes the dataset and keeps only the rejected report.
  */
-import { and, eq, sql } from 'drizzle-orm';
-import { createHash } from 'node:crypto';
-import { Readable } from 'node:stream';
-import { createGunzip } from 'node:zlib';
+import { and, count, eq, sql } from 'drizzle-orm';
 import type { DbOrTx, Tx } from '@/db/connection';
 import { cohortRows, datasetFiles, datasets, segments, uploadReports, type DatasetKind } from '@/db/schema';
 import { AppError } from '@/lib/errors';
-import { mapColumns, readCsvStream, type ByteSource, type CsvSink } from '@/lib/ingest/csv-reader';
-import { validateCohortStream, type CohortRow } from '@/lib/ingest/cohort';
-import { FindingCollector, type Finding, type FindingSummary } from '@/lib/ingest/findings';
-import { LOAN_COLUMNS, validateLoanTapeStream, type LoanTapeOptions, type LoanTapeValidation } from '@/lib/ingest/loan-tape';
-import { validateVintageStream, type CensoredVintageYear } from '@/lib/ingest/vintage';
-import { enqueueJob } from '@/lib/jobs/queue';
+import type { CohortRow } from '@/lib/ingest/cohort';
+import type { ByteSource } from '@/lib/ingest/csv-reader';
+import { toIssue, type UploadIssue } from '@/lib/ingest/findings';
+import { gunzipSource } from '@/lib/ingest/gzip';
+import { dedupeKeyOf, type HeaderCheck, type LoanOptions, type Validated } from '@/lib/ingest/upload';
 import { CONVERT_LOANS_JOB } from '@/lib/jobs/kinds/convert-loans';
+import { enqueueJob } from '@/lib/jobs/queue';
 
 /** Largest piece of the compressed file stored in one row. */
 export const FILE_PIECE_BYTES = 4 * 1024 * 1024;
 
-/** The shape of a finding in API answers: `row` is the file's physical line (header = 1). */
-export type UploadIssue = {
-  row: number | null;
-  column: string | null;
-  rule: string;
-  severity: 'error' | 'warning';
-  value: string | null;
-  message: string;
-};
-
-export function toIssue(f: Finding): UploadIssue {
-  return { row: f.line, column: f.column, rule: f.rule, severity: f.severity, value: f.value, message: f.message };
-}
-
-/** Conventions recorded with a dataset (shown on its page and in its cohorts CSV). */
-export type DatasetConventions = {
-  /** the plain-language rule, as written by the converter */
-  text: string;
-  referenceMonthDay?: string;
-  exitConvention?: string;
-  asOf?: string | null;
-  asOfSource?: string;
-  firstPeriod?: string | null;
-  lastPeriod?: string | null;
-};
-
-export const COHORT_CONVENTION_TEXT =
-  'Cohort counts as uploaded: obligors performing at the start of each annual period, defaults during it (one-year horizon). No conversion.';
-
+/** What is stored with an upload besides its content. */
 export type UploadMeta = {
   kind: DatasetKind;
   name: string;
@@ -68,142 +38,57 @@ export type UploadMeta = {
   sha256: string;
   uploadedBy: number;
   /** loan tapes only */
-  loanOptions?: Pick<LoanTapeOptions, 'asOf' | 'referenceMonthDay' | 'exitConvention'>;
+  loanOptions?: LoanOptions;
   /** id of an older dataset this upload supersedes once accepted */
   supersedes?: number | null;
 };
 
-export type Validated = {
-  ok: boolean;
-  findings: Finding[];
-  summary: FindingSummary;
-  cohortRows: CohortRow[];
-  conventions: DatasetConventions;
-  censored: CensoredVintageYear[];
-};
+/** The compressed file, in pieces of any size (an upload's temporary file, or one buffer). */
+export type GzipPieces = AsyncIterable<Uint8Array> | Iterable<Uint8Array>;
 
-/**
- * The identity used to recognise the same upload twice: the file's hash plus everything that
- * changes what is made of it (kind; for loan tapes the as-of date, reference date and exit
- * convention). The same bytes with another convention are a different dataset.
- */
-export function dedupeKeyOf(meta: Pick<UploadMeta, 'kind' | 'sha256' | 'loanOptions'>): string {
-  const o = meta.kind === 'loans' ? meta.loanOptions ?? {} : {};
-  const options = meta.kind === 'loans' ? `${o.asOf ?? ''}|${o.referenceMonthDay ?? '01-01'}|${o.exitConvention ?? 'exits-stay'}` : '';
-  return createHash('sha256').update(`${meta.sha256}|${meta.kind}|${options}`).digest('hex');
-}
-
-/** Validates a cohort or vintage file completely (the conversion of vintages included). */
-export async function validateCohortOrVintage(kind: 'cohort' | 'vintage', source: ByteSource, maxBytes: number): Promise<Validated> {
-  if (kind === 'cohort') {
-    const v = await validateCohortStream(source, { maxBytes });
-    return { ok: v.ok, findings: v.findings, summary: v.summary, cohortRows: v.rows, conventions: { text: COHORT_CONVENTION_TEXT }, censored: [] };
+/** Re-cuts the compressed file into pieces of FILE_PIECE_BYTES (the last may be shorter), holding at most two at a time. */
+async function* filePieces(gz: GzipPieces): AsyncGenerator<Buffer> {
+  let held: Buffer[] = [];
+  let heldBytes = 0;
+  let any = false;
+  for await (const chunk of gz) {
+    held.push(Buffer.from(chunk.buffer, chunk.byteOffset, chunk.byteLength));
+    heldBytes += chunk.byteLength;
+    while (heldBytes >= FILE_PIECE_BYTES) {
+      const all = Buffer.concat(held);
+      any = true;
+      yield all.subarray(0, FILE_PIECE_BYTES);
+      const rest = all.subarray(FILE_PIECE_BYTES);
+      held = rest.length > 0 ? [rest] : [];
+      heldBytes = rest.length;
+    }
   }
-  const v = await validateVintageStream(source, { maxBytes });
-  return {
-    ok: v.ok,
-    findings: v.findings,
-    summary: v.summary,
-    cohortRows: v.cohortRows,
-    conventions: { text: v.convention },
-    censored: v.censored,
-  };
+  if (heldBytes > 0 || !any) yield Buffer.concat(held);
 }
 
-/**
- * Checks what can be checked of a loan tape without reading it whole: encoding, delimiter, the
- * header and the first data row's width. Row-level rules are applied by the conversion job.
- */
-export async function checkLoanTapeHeader(source: ByteSource, maxBytes: number): Promise<{ ok: boolean; findings: Finding[]; summary: FindingSummary }> {
-  const findings = new FindingCollector();
-  const sink: CsvSink = {
-    header: (names, line) => mapColumns(names, LOAN_COLUMNS, line, findings, 'loan-level') !== null,
-    row: () => undefined,
-  };
-  // The reader stops after the first data row (not by cutting the bytes: a cut would leave a
-  // partial line that reads as a row with too few fields).
-  await readCsvStream(source, sink, findings, { maxBytes, maxDataRows: 1 });
-  return { ok: findings.errors === 0, findings: findings.sorted(), summary: findings.summary() };
-}
-
-/** Validates and aggregates a stored loan tape (the conversion job). */
-export async function convertLoanTape(source: ByteSource, options: LoanTapeOptions): Promise<{ validated: Validated; raw: LoanTapeValidation }> {
-  const v = await validateLoanTapeStream(source, options);
-  return {
-    raw: v,
-    validated: {
-      ok: v.ok,
-      findings: v.findings,
-      summary: v.summary,
-      cohortRows: v.cohortRows,
-      conventions: { text: v.conventionText, ...v.conventions },
-      censored: [],
-    },
-  };
-}
-
-/** Splits the compressed pieces into rows of at most FILE_PIECE_BYTES. */
-function filePieces(gz: readonly Buffer[]): Buffer[] {
-  const all = Buffer.concat(gz as Buffer[]);
-  const out: Buffer[] = [];
-  for (let i = 0; i < all.length; i += FILE_PIECE_BYTES) out.push(all.subarray(i, i + FILE_PIECE_BYTES));
-  if (out.length === 0) out.push(Buffer.alloc(0));
-  return out;
-}
-
-async function insertFile(tx: DbOrTx, datasetId: number, gz: readonly Buffer[]): Promise<void> {
-  const pieces = filePieces(gz);
-  for (let seq = 0; seq < pieces.length; seq++) await tx.insert(datasetFiles).values({ datasetId, seq, data: pieces[seq] });
+async function insertFile(tx: DbOrTx, datasetId: number, gz: GzipPieces): Promise<void> {
+  let seq = 0;
+  for await (const data of filePieces(gz)) await tx.insert(datasetFiles).values({ datasetId, seq: seq++, data });
 }
 
 /** The stored file of a dataset as a stream of raw (decompressed) bytes. */
 export function storedFileSource(db: DbOrTx, datasetId: number): ByteSource {
-  return (async function* () {
-    const [{ n }] = await db.select({ n: sql<number>`COUNT(*)` }).from(datasetFiles).where(eq(datasetFiles.datasetId, datasetId));
-    if (Number(n) === 0) throw new AppError('not_found:dataset-file', `Dataset ${datasetId} has no stored file.`);
-    const gunzip = createGunzip();
-    async function* pieces(): AsyncGenerator<Buffer> {
-      for (let seq = 0; seq < Number(n); seq++) {
-        const [row] = await db
-          .select({ data: datasetFiles.data })
-          .from(datasetFiles)
-          .where(and(eq(datasetFiles.datasetId, datasetId), eq(datasetFiles.seq, seq)));
-        if (!row) throw new AppError('internal:dataset-file', `Piece ${seq} of dataset ${datasetId}'s file is missing.`);
-        yield row.data;
-      }
-    }
-    const input = Readable.from(pieces());
-    input.on('error', (err) => gunzip.destroy(err));
-    input.pipe(gunzip);
-    for await (const chunk of gunzip) yield chunk as Buffer;
-  })();
+  return gunzipSource(storedGzipPieces(db, datasetId));
 }
 
-/** The stored file of a dataset, still gzip-compressed, piece by piece. */
+/** The stored file of a dataset, still gzip-compressed, piece by piece (one row read at a time). */
 export async function* storedGzipPieces(db: DbOrTx, datasetId: number): AsyncGenerator<Buffer> {
-  for (let seq = 0; ; seq++) {
+  const [{ n }] = await db.select({ n: count() }).from(datasetFiles).where(eq(datasetFiles.datasetId, datasetId));
+  if (Number(n) === 0) throw new AppError('not_found:dataset-file', `Dataset ${datasetId} has no stored file.`);
+  for (let seq = 0; seq < Number(n); seq++) {
     const [row] = await db
       .select({ data: datasetFiles.data })
       .from(datasetFiles)
       .where(and(eq(datasetFiles.datasetId, datasetId), eq(datasetFiles.seq, seq)));
-    if (!row) return;
+    if (!row) throw new AppError('internal:dataset-file', `Piece ${seq} of dataset ${datasetId}'s file is missing.`);
     yield row.data;
   }
 }
-
-function isMysqlError(err: unknown, errno: number): boolean {
-  let e: unknown = err;
-  for (let i = 0; i < 4 && e && typeof e === 'object'; i++) {
-    if ((e as { errno?: number }).errno === errno) return true;
-    e = (e as { cause?: unknown }).cause;
-  }
-  return false;
-}
-
-/** MariaDB errno 1062: duplicate entry for a unique key. */
-export const isDuplicateKeyError = (err: unknown) => isMysqlError(err, 1062);
-/** MariaDB errno 1451: cannot delete or update a parent row, a foreign key constraint fails. */
-export const isForeignKeyRestrictError = (err: unknown) => isMysqlError(err, 1451);
 
 /** The live dataset with the same identity (see dedupeKeyOf), if any. */
 export async function findDuplicate(db: DbOrTx, key: string): Promise<{ id: number; name: string; createdAt: Date } | null> {
@@ -289,7 +174,7 @@ export async function linkSupersede(tx: DbOrTx, olderId: number, newerId: number
 export type StoredDataset = { id: number; reportId: number; segments: string[]; rows: number; warnings: UploadIssue[] };
 
 /** Writes an accepted cohort or vintage upload (call inside a transaction). */
-export async function storeAcceptedDataset(tx: DbOrTx, meta: UploadMeta, gz: readonly Buffer[], v: Validated): Promise<StoredDataset> {
+export async function storeAcceptedDataset(tx: DbOrTx, meta: UploadMeta, gz: GzipPieces, v: Validated): Promise<StoredDataset> {
   const names = [...new Set(v.cohortRows.map((r) => r.segment))].sort();
   const segmentIds = await ensureSegments(tx, names, meta.uploadedBy);
   const [res] = await tx.insert(datasets).values({
@@ -341,8 +226,8 @@ export async function storeAcceptedDataset(tx: DbOrTx, meta: UploadMeta, gz: rea
 export async function storeProcessingLoanTape(
   tx: Tx,
   meta: UploadMeta,
-  gz: readonly Buffer[],
-  header: { findings: Finding[]; summary: FindingSummary },
+  gz: GzipPieces,
+  header: HeaderCheck,
 ): Promise<{ id: number; reportId: number; jobId: number }> {
   const [res] = await tx.insert(datasets).values({
     kind: 'loans',
@@ -387,7 +272,7 @@ export async function storeProcessingLoanTape(
 export async function recordRejectedUpload(
   db: DbOrTx,
   meta: Omit<UploadMeta, 'sha256'> & { sha256: string | null },
-  v: { findings: Finding[]; summary: FindingSummary },
+  v: Pick<Validated, 'findings' | 'summary'>,
 ): Promise<number> {
   const [rep] = await db.insert(uploadReports).values({
     datasetId: null,

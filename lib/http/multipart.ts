@@ -1,33 +1,28 @@
 /**
- * Reads a multipart upload (`POST /api/datasets`) as a stream: the form fields, and the one file
- * part counted, hashed (SHA-256) and gzip-compressed while it arrives. The raw file is never held
- * whole in memory; only its compressed form is (a CSV compresses about 5-10 times).
+ * Receives a multipart upload (`POST /api/datasets`) as a stream: the form fields, and the one file
+ * part counted, hashed (SHA-256) and gzip-compressed while it arrives into a temporary file
+ * (lib/http/upload-spool.ts). Neither the raw file nor its compressed copy is held in memory.
  *
- * The size limit is applied twice: by the route before reading anything (Content-Length), and here
- * while streaming, for bodies without a truthful Content-Length; reading stops as soon as the file
- * passes the limit.
+ * The size limit is applied twice: before reading anything (a declared Content-Length over the
+ * limit), and while streaming, for bodies without a truthful Content-Length; reading stops as
+ * soon as the file passes the limit. What the file says is checked later (lib/ingest/upload.ts).
  */
 import Busboy from 'busboy';
 import { createHash } from 'node:crypto';
-import { Readable, Transform, Writable } from 'node:stream';
+import { Readable, Transform } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
 import { createGzip } from 'node:zlib';
 import { AppError } from '@/lib/errors';
 import { formatBytes } from '@/lib/ingest/limits';
+import type { UploadedFile } from '@/lib/ingest/upload';
+import { createUploadSpool, type UploadSpool } from './upload-spool';
 
-export type ReceivedFile = {
-  /** file name given by the client (base name only, at most 255 characters) */
-  fileName: string;
-  sizeBytes: number;
-  sha256: string;
-  /** the file gzip-compressed, in the pieces zlib produced */
-  gz: Buffer[];
-};
-
-export type ReceivedUpload = { fields: Record<string, string>; file: ReceivedFile | null };
+export type ReceivedUpload = { fields: Record<string, string>; file: UploadedFile | null };
 
 const MAX_FIELDS = 20;
 const MAX_FIELD_BYTES = 20_000;
+/** Room for the multipart framing and the form fields beside the file in a declared Content-Length. */
+const FRAMING_BYTES = 64 * 1024;
 
 export function tooLargeError(sizeText: string | null, maxBytes: number): AppError {
   return new AppError(
@@ -45,10 +40,24 @@ export function cleanFileName(name: string | undefined): string {
 }
 
 /**
- * Parses the body. Throws `too_large:upload` (413) past `maxBytes`, `bad_request:upload-form` (400)
- * for a body that is not multipart/form-data or holds more than one file.
+ * Receives the upload, runs `handle` on it, and removes its temporary file afterwards (also when
+ * receiving or `handle` fails). Throws `too_large:upload` (413) past `maxBytes`,
+ * `bad_request:upload-form` (400) for a body that is not multipart/form-data or holds more than
+ * one file.
  */
-export async function receiveUpload(req: Request, maxBytes: number): Promise<ReceivedUpload> {
+export async function withReceivedUpload<T>(req: Request, maxBytes: number, handle: (upload: ReceivedUpload) => Promise<T>): Promise<T> {
+  const declared = Number(req.headers.get('content-length') ?? NaN);
+  // Refuse before reading a byte.
+  if (Number.isFinite(declared) && declared > maxBytes + FRAMING_BYTES) throw tooLargeError(formatBytes(declared), maxBytes);
+  const spool = await createUploadSpool();
+  try {
+    return await handle(await receive(req, maxBytes, spool));
+  } finally {
+    await spool.dispose();
+  }
+}
+
+async function receive(req: Request, maxBytes: number, spool: UploadSpool): Promise<ReceivedUpload> {
   const contentType = req.headers.get('content-type') ?? '';
   if (!/^multipart\/form-data/i.test(contentType)) {
     throw new AppError(
@@ -69,7 +78,7 @@ export async function receiveUpload(req: Request, maxBytes: number): Promise<Rec
   }
 
   const fields: Record<string, string> = {};
-  let file: ReceivedFile | null = null;
+  let file: UploadedFile | null = null;
   let filePromise: Promise<void> | null = null;
   let failure: AppError | null = null;
   const source = Readable.fromWeb(req.body as import('node:stream/web').ReadableStream<Uint8Array>);
@@ -95,9 +104,8 @@ export async function receiveUpload(req: Request, maxBytes: number): Promise<Rec
       return;
     }
     const hash = createHash('sha256');
-    const gz: Buffer[] = [];
     let size = 0;
-    const received: ReceivedFile = { fileName: cleanFileName(info.filename), sizeBytes: 0, sha256: '', gz };
+    const received: UploadedFile = { fileName: cleanFileName(info.filename), sizeBytes: 0, sha256: '', gzip: spool.reader };
     file = received;
     const counter = new Transform({
       transform(chunk: Buffer, _enc, cb) {
@@ -110,13 +118,7 @@ export async function receiveUpload(req: Request, maxBytes: number): Promise<Rec
         cb(null, chunk);
       },
     });
-    const collector = new Writable({
-      write(chunk: Buffer, _enc, cb) {
-        gz.push(chunk);
-        cb();
-      },
-    });
-    filePromise = pipeline(stream, counter, createGzip({ level: 5 }), collector)
+    filePromise = pipeline(stream, counter, createGzip({ level: 5 }), spool.writer())
       .then(() => {
         received.sizeBytes = size;
         received.sha256 = hash.digest('hex');
@@ -140,16 +142,4 @@ export async function receiveUpload(req: Request, maxBytes: number): Promise<Rec
   if (filePromise) await filePromise;
   if (failure) throw failure;
   return { fields, file };
-}
-
-/** The compressed pieces as one source of raw bytes (for the validators). */
-export function gunzipSource(gz: readonly Buffer[]): AsyncIterable<Uint8Array> {
-  // Imported lazily so that this module stays light for the route's import graph.
-  return (async function* () {
-    const { createGunzip } = await import('node:zlib');
-    const gunzip = createGunzip();
-    const input = Readable.from(gz);
-    input.pipe(gunzip);
-    for await (const chunk of gunzip) yield chunk as Buffer;
-  })();
 }
