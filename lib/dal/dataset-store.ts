@@ -15,7 +15,7 @@ import 'server-only';
  */
 import { and, count, eq, sql } from 'drizzle-orm';
 import type { DbOrTx, Tx } from '@/db/connection';
-import { cohortRows, datasetFiles, datasets, segments, uploadReports, type DatasetKind } from '@/db/schema';
+import { cohortRows, datasetFiles, datasets, segments, uploadReports, type Dataset, type DatasetKind } from '@/db/schema';
 import { AppError } from '@/lib/errors';
 import type { CohortRow } from '@/lib/ingest/cohort';
 import type { ByteSource } from '@/lib/ingest/csv-reader';
@@ -290,6 +290,16 @@ export async function recordRejectedUpload(
     finishedAt: new Date(),
   });
   return Number(rep.insertId);
+}
+
+/** The loan tape a convert-loans job is to convert: refused (permanently) when gone or no longer waiting. */
+export async function loadConvertibleDataset(db: DbOrTx, datasetId: number): Promise<Dataset> {
+  const [ds] = await db.select().from(datasets).where(eq(datasets.id, datasetId));
+  if (!ds) throw new AppError('invalid:dataset-missing', `Dataset ${datasetId} no longer exists; nothing to convert.`);
+  if (ds.status !== 'processing') {
+    throw new AppError('invalid:dataset-state', `Dataset ${datasetId} is ${ds.status}, not waiting for conversion.`);
+  }
+  return ds;
 }
 
 /**

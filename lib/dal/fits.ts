@@ -4,7 +4,7 @@ import { getDb } from '@/db/client';
 import { cohortRows, datasets, fitRuns, jobs, segments, users, type FitRunStatus } from '@/db/schema';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { AppError, parseOrThrow } from '@/lib/errors';
-import { loadFittableDataset, loadPanels } from '@/lib/fits/panels';
+import { loadFittableDataset, loadPanels } from './panels';
 import { fitRequestSchema, type FitRequest, type FitRequestInput } from '@/lib/fits/request';
 import type { FitResults } from '@/lib/fits/results';
 import { FIT_JOB } from '@/lib/jobs/kinds/fit';

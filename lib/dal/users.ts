@@ -220,7 +220,8 @@ export async function createInitialUsers(
   });
 }
 
-export async function countUsers(): Promise<number> {
-  const [r] = await getDb().select({ n: count() }).from(users);
-  return r.n;
+/** Whether the signed-in user still has to replace a one-time password (shown on their account page). */
+export async function mustChangeOwnPassword(actor: SessionUser): Promise<boolean> {
+  const [row] = await getDb().select({ must: users.mustChangePassword }).from(users).where(eq(users.id, actor.id)).limit(1);
+  return row?.must ?? false;
 }

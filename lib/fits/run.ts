@@ -7,14 +7,25 @@
  * Deterministic: the numbers depend only on the panels, the request (level, seeds, replications)
  * and ENGINE_VERSION, not on the thread count or on which worker runs the job.
  */
+import type { AssetClass } from '@/db/schema';
 import { EnginePool, fitPanelParallel } from '@/lib/engine';
 import { segmentFailure, type SegmentFailure } from '@/lib/stats/fit-panel';
 import type { AssetClass as StatsAssetClass } from '@/lib/stats/irb';
 import { ENGINE_VERSION } from '@/lib/stats/version';
-import type { SegmentInput } from './panels';
 import type { FitRequest } from './request';
 import { ESTIMATOR_ORDER, type FitResults, type FitSegmentResult, type RunWarning } from './results';
 import { compareWindows } from './windows';
+
+/** One segment's panel as read from a dataset, with the settings the fit needs. */
+export type SegmentInput = {
+  segment: string;
+  assetClass: AssetClass;
+  /** Annual turnover in EUR millions (SME size adjustment). */
+  turnoverEurMillions?: number | null;
+  periods: string[];
+  obligors: number[];
+  defaults: number[];
+};
 
 export type FitRunOptions = {
   /** Worker threads for the bootstrap and the audit (0: this thread). */

@@ -5,10 +5,7 @@
  * transaction. Nothing is written before that transaction, so a crash leaves the dataset in
  * "processing" for the next attempt.
  */
-import { eq } from 'drizzle-orm';
-import { datasets } from '@/db/schema';
-import { storedFileSource, writeLoanConversion } from '@/lib/dal/dataset-store';
-import { AppError } from '@/lib/errors';
+import { loadConvertibleDataset, storedFileSource, writeLoanConversion } from '@/lib/dal/dataset-store';
 import type { ByteSource } from '@/lib/ingest/csv-reader';
 import { convertLoanTape } from '@/lib/ingest/upload';
 import type { ConvertLoansPayload } from '@/lib/jobs/kinds/convert-loans';
@@ -38,11 +35,7 @@ function withProgress(source: ByteSource, totalBytes: number, ctx: Pick<JobConte
 
 export async function convertLoansHandler(ctx: JobContext<ConvertLoansPayload>) {
   const { datasetId, reportId, supersedes, asOf, referenceMonthDay, exitConvention } = ctx.payload;
-  const [ds] = await ctx.db.select().from(datasets).where(eq(datasets.id, datasetId));
-  if (!ds) throw new AppError('invalid:dataset-missing', `Dataset ${datasetId} no longer exists; nothing to convert.`);
-  if (ds.status !== 'processing') {
-    throw new AppError('invalid:dataset-state', `Dataset ${datasetId} is ${ds.status}, not waiting for conversion.`);
-  }
+  const ds = await loadConvertibleDataset(ctx.db, datasetId);
   await ctx.progress(1, 'Reading the stored file');
   const source = withProgress(storedFileSource(ctx.db, datasetId), ds.sizeBytes, ctx);
   const validated = await convertLoanTape(source, {

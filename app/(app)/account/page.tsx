@@ -1,17 +1,15 @@
 import type { Metadata } from 'next';
-import { eq } from 'drizzle-orm';
-import { getDb } from '@/db/client';
-import { users } from '@/db/schema';
 import { ChangePasswordForm } from '@/components/change-password-form';
 import { roleDescriptions, roleLabels } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
+import { mustChangeOwnPassword } from '@/lib/dal/users';
 import { changePasswordAction } from './actions';
 
 export const metadata: Metadata = { title: 'Your account' };
 
 export default async function AccountPage() {
   const user = await requireUser();
-  const [row] = await getDb().select({ must: users.mustChangePassword }).from(users).where(eq(users.id, user.id));
+  const mustChange = await mustChangeOwnPassword(user);
   return (
     <div className="space-y-6">
       <h1>Your account</h1>
@@ -23,7 +21,7 @@ export default async function AccountPage() {
       </section>
       <section className="panel p-5">
         <h2 className="mb-3">Password</h2>
-        {row?.must ? (
+        {mustChange ? (
           <p className="notice-caution mb-3 text-sm">You signed in with a one-time password. Choose your own now.</p>
         ) : null}
         <ChangePasswordForm action={changePasswordAction} />

@@ -1,19 +1,17 @@
+import 'server-only';
 import { and, asc, eq, gte, inArray, lte } from 'drizzle-orm';
 import type { DbOrTx } from '@/db/connection';
-import { cohortRows, datasets, segments, type AssetClass, type Dataset } from '@/db/schema';
+import { cohortRows, datasets, segments, type Dataset } from '@/db/schema';
 import { AppError } from '@/lib/errors';
-import { MIN_PERIODS, type FitRequest } from './request';
+import { MIN_PERIODS, type FitRequest } from '@/lib/fits/request';
+import type { SegmentInput } from '@/lib/fits/run';
 
-/** One segment's panel as read from a dataset, with the settings the fit needs. */
-export type SegmentInput = {
-  segment: string;
-  assetClass: AssetClass;
-  /** Annual turnover in EUR millions (SME size adjustment). */
-  turnoverEurMillions?: number | null;
-  periods: string[];
-  obligors: number[];
-  defaults: number[];
-};
+/**
+ * The panels a fit reads: each requested segment's annual cohort rows inside the window. Used when
+ * a fit is requested (lib/dal/fits.ts, to refuse a bad window before anything is written) and by
+ * the fit job (lib/dal/fit-runs.ts). Nothing here checks who the caller is: callers do.
+ */
+
 
 /**
  * A dataset may be fitted when it exists and is ready (not still converting, not failed). Anything
@@ -39,7 +37,7 @@ export async function loadPanels(db: DbOrTx, request: FitRequest): Promise<Segme
   if (request.from !== undefined) conditions.push(gte(cohortRows.period, request.from));
   if (request.to !== undefined) conditions.push(lte(cohortRows.period, request.to));
   if (request.segments) {
-    const known: { name: string }[] = await db
+    const known = await db
       .selectDistinct({ name: segments.name })
       .from(cohortRows)
       .innerJoin(segments, eq(segments.id, cohortRows.segmentId))
@@ -51,7 +49,7 @@ export async function loadPanels(db: DbOrTx, request: FitRequest): Promise<Segme
     }
     conditions.push(inArray(segments.name, request.segments));
   }
-  const rows: { segment: string; assetClass: SegmentInput['assetClass']; turnover: number | null; period: number; obligors: number; defaults: number }[] = await db
+  const rows = await db
     .select({
       segment: segments.name,
       assetClass: segments.assetClass,
