@@ -3,7 +3,7 @@
 import { useMutation } from '@tanstack/react-query';
 import { useRouter } from 'next/navigation';
 import { useState, type FormEvent } from 'react';
-import { apiSend } from '@/components/assumptions/api';
+import { apiSend } from '@/lib/client/api';
 
 const scopes = [
   ['assumptions:read', 'Read published assumptions'],

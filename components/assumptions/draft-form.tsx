@@ -5,7 +5,7 @@ import Link from 'next/link';
 import { useRouter } from 'next/navigation';
 import { useState, type FormEvent } from 'react';
 import { AppError } from '@/lib/errors';
-import { apiSend } from './api';
+import { apiSend } from '@/lib/client/api';
 
 export type FitOption = {
   fitId: number;

@@ -4,7 +4,7 @@ import { useMutation } from '@tanstack/react-query';
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { actionLabels, transitionRules, type UserAction } from '@/lib/assumptions/lifecycle';
-import { apiSend } from './api';
+import { apiSend } from '@/lib/client/api';
 
 const confirmText = {
   retire: 'Retire this published version? Consumers will no longer receive it, and it cannot be published again.',

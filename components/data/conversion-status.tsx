@@ -4,7 +4,7 @@ import { useQuery } from '@tanstack/react-query';
 import { useRouter } from 'next/navigation';
 import { useEffect } from 'react';
 import { ProgressBar } from './progress-bar';
-import { uploadReportQuery } from './queries';
+import { uploadReportQuery } from '@/lib/client/datasets';
 
 /**
  * The conversion of a loan tape, live: polls its upload report (with the job's progress) and

@@ -3,7 +3,7 @@
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { AppError } from '@/lib/errors';
-import { fetchJson } from './queries';
+import { deleteDataset, supersedeDataset } from '@/lib/client/datasets';
 
 /** Supersede this dataset by a newer one, or delete it (refused while a fit or assumption uses it). */
 export function DatasetActions({
@@ -31,11 +31,7 @@ export function DatasetActions({
             onSubmit={async (e) => {
               e.preventDefault();
               try {
-                await fetchJson(`/api/datasets/${datasetId}/supersede`, {
-                  method: 'POST',
-                  headers: { 'Content-Type': 'application/json' },
-                  body: JSON.stringify({ by: Number(by) }),
-                });
+                await supersedeDataset(datasetId, Number(by));
                 setMessage({ ok: true, text: `Superseded by dataset no. ${by}.` });
                 router.refresh();
               } catch (err) {
@@ -65,12 +61,12 @@ export function DatasetActions({
             className="btn btn-danger"
             onClick={async () => {
               if (!window.confirm('Delete this dataset, its cohort rows and its stored file? Its upload report is kept.')) return;
-              const res = await fetch(`/api/datasets/${datasetId}`, { method: 'DELETE' });
-              if (res.status === 204) {
+              try {
+                await deleteDataset(datasetId);
                 router.push('/data');
                 router.refresh();
-              } else {
-                fail(AppError.fromJSON(await res.json().catch(() => null), res.status));
+              } catch (err) {
+                fail(err);
               }
             }}
           >

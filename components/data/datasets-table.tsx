@@ -1,11 +1,11 @@
 'use client';
 
-import { useQuery, useQueryClient } from '@tanstack/react-query';
+import { useQuery } from '@tanstack/react-query';
 import Link from 'next/link';
-import { useEffect, useMemo, useState } from 'react';
+import { useMemo, useState } from 'react';
 import type { DatasetDto } from '@/lib/dal/datasets';
 import { formatSize, formatWhen, kindLabels, statusLabels } from './format';
-import { datasetsQuery } from './queries';
+import { datasetsQuery } from '@/lib/client/datasets';
 
 type SortKey = 'id' | 'name' | 'kind' | 'uploadedBy' | 'createdAt' | 'rowCount' | 'status';
 
@@ -25,14 +25,12 @@ function sortValue(d: DatasetDto, key: SortKey): string | number {
   return d[key];
 }
 
-/** The datasets, sortable by any column and filtered by text, kind and status. */
-export function DatasetsTable({ initial, canUpload = false }: { initial: DatasetDto[]; canUpload?: boolean }) {
-  const queryClient = useQueryClient();
-  // The server just read the list: it replaces whatever an earlier visit left in the cache.
-  useEffect(() => {
-    queryClient.setQueryData(datasetsQuery().queryKey, initial);
-  }, [queryClient, initial]);
-  const { data = [] } = useQuery(datasetsQuery(initial));
+/**
+ * The datasets, sortable by any column and filtered by text, kind and status. The page prefetches
+ * the list (a HydrationBoundary), which replaces whatever an earlier visit left in the cache.
+ */
+export function DatasetsTable({ canUpload = false }: { canUpload?: boolean }) {
+  const { data = [] } = useQuery(datasetsQuery());
   const [text, setText] = useState('');
   const [kind, setKind] = useState('');
   const [status, setStatus] = useState('');

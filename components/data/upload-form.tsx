@@ -7,7 +7,7 @@ import type { UploadIssue } from '@/lib/ingest/findings';
 import type { FindingSummary } from '@/lib/ingest/findings';
 import { formatSize } from './format';
 import { ProgressBar } from './progress-bar';
-import { uploadReportQuery } from './queries';
+import { uploadDatasetFile, uploadReportQuery } from '@/lib/client/datasets';
 import { ReportTable } from './report-table';
 
 type Kind = 'cohort' | 'vintage' | 'loans';
@@ -24,21 +24,6 @@ type Outcome =
   | { type: 'rejected'; message: string; issues: UploadIssue[]; reportId: number | null; summary?: FindingSummary }
   | { type: 'duplicate'; message: string; datasetId: number }
   | { type: 'error'; message: string };
-
-/** Sends the form with XMLHttpRequest, which reports upload progress (fetch does not). */
-function send(form: FormData, onProgress: (fraction: number) => void): Promise<{ status: number; body: Record<string, unknown> }> {
-  return new Promise((resolve) => {
-    const xhr = new XMLHttpRequest();
-    xhr.open('POST', '/api/datasets');
-    xhr.responseType = 'json';
-    xhr.upload.onprogress = (e) => {
-      if (e.lengthComputable) onProgress(e.loaded / e.total);
-    };
-    xhr.onload = () => resolve({ status: xhr.status, body: (xhr.response as Record<string, unknown>) ?? {} });
-    xhr.onerror = () => resolve({ status: 0, body: { message: 'The upload failed: the connection to the server was lost. Try again.' } });
-    xhr.send(form);
-  });
-}
 
 function toOutcome(status: number, body: Record<string, unknown>): Outcome {
   if (status === 201) return { type: 'accepted', id: body.id as number, rows: body.rows as number, segments: body.segments as string[], warnings: body.warnings as UploadIssue[] };
@@ -79,7 +64,7 @@ export function UploadForm({ supersedable }: { supersedable: { id: number; name:
     data.append('file', file, file.name);
     setOutcome(null);
     setProgress(0);
-    const { status, body } = await send(data, setProgress);
+    const { status, body } = await uploadDatasetFile(data, setProgress);
     setProgress(null);
     setOutcome(toOutcome(status, body));
     if (status === 201 || status === 202) {

@@ -3,7 +3,7 @@
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { AppError } from '@/lib/errors';
-import { fetchJson } from './queries';
+import { waiveWarnings } from '@/lib/client/datasets';
 
 /** Waives the warnings of one rule on a dataset, with a reason (kept with the dataset). */
 export function WaiveForm({ datasetId, rules }: { datasetId: number; rules: { rule: string; count: number }[] }) {
@@ -21,11 +21,7 @@ export function WaiveForm({ datasetId, rules }: { datasetId: number; rules: { ru
         e.preventDefault();
         setPending(true);
         try {
-          await fetchJson(`/api/datasets/${datasetId}/waivers`, {
-            method: 'POST',
-            headers: { 'Content-Type': 'application/json' },
-            body: JSON.stringify({ rule, reason }),
-          });
+          await waiveWarnings(datasetId, { rule, reason });
           setMessage({ ok: true, text: `Waived "${rule}".` });
           setReason('');
           router.refresh();

@@ -3,25 +3,26 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useRouter } from 'next/navigation';
 import { useEffect } from 'react';
-import { fitQueryOptions, postCancelFit, TERMINAL, type FitStatusDto } from '@/lib/fits/queries';
+import { cancelFit, fitStatusQuery, TERMINAL, type FitStatusDto } from '@/lib/client/fits';
 
 /**
- * Follows a fit run live (TanStack Query polling GET /api/fits/:id). The page's URL carries the
- * run id, so a reload picks the progress up again. When the run finishes the server page is
- * refreshed to render the review.
+ * Follows a fit run live (TanStack Query polling GET /api/fits/:id, starting from the status the
+ * server page prefetched). The page's URL carries the run id, so a reload picks the progress up
+ * again. When the run finishes the server page is refreshed to render the review.
  */
-export function FitProgress({ id, initial }: { id: number; initial: FitStatusDto }) {
+export function FitProgress({ id, renderedStatus }: { id: number; renderedStatus: FitStatusDto['status'] }) {
   const router = useRouter();
   const qc = useQueryClient();
-  const { data, error } = useQuery({ ...fitQueryOptions(id), initialData: initial });
+  const query = fitStatusQuery(id);
+  const { data, error } = useQuery(query);
   const cancel = useMutation({
-    mutationFn: () => postCancelFit(id),
-    onSettled: () => qc.invalidateQueries({ queryKey: ['fit', id] }),
+    mutationFn: () => cancelFit(id),
+    onSettled: () => qc.invalidateQueries({ queryKey: query.queryKey }),
   });
-  const status = data?.status ?? initial.status;
+  const status = data?.status ?? renderedStatus;
   useEffect(() => {
-    if (TERMINAL.has(status) && status !== initial.status) router.refresh();
-  }, [status, initial.status, router]);
+    if (TERMINAL.has(status) && status !== renderedStatus) router.refresh();
+  }, [status, renderedStatus, router]);
   const pct = Math.max(0, Math.min(100, data?.progress ?? 0));
   return (
     <section className="panel space-y-3 p-5" aria-live="polite" data-testid="fit-progress">

@@ -4,7 +4,7 @@ import { useMutation } from '@tanstack/react-query';
 import { useRouter } from 'next/navigation';
 import { useId, useMemo, useState, type FormEvent } from 'react';
 import type { AppError } from '@/lib/errors';
-import { postFit } from '@/lib/fits/queries';
+import { requestFit } from '@/lib/client/fits';
 
 export type DatasetOption = {
   id: number;
@@ -43,7 +43,7 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
   const [localError, setLocalError] = useState<string | null>(null);
 
   const submit = useMutation({
-    mutationFn: postFit,
+    mutationFn: requestFit,
     onSuccess: (res) => router.push(`/fits/${res.id}`),
   });
 

@@ -1,8 +1,11 @@
+import { HydrationBoundary } from '@tanstack/react-query';
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { DatasetsTable } from '@/components/data/datasets-table';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
+import { datasetsQuery } from '@/lib/client/datasets';
+import { dehydrated } from '@/lib/client/prefetch';
 import { listDatasets } from '@/lib/dal/datasets';
 import { assetClassLabels, listSegments } from '@/lib/dal/segments';
 
@@ -30,7 +33,9 @@ export default async function DataPage() {
         <h2 id="datasets-heading" className="mb-3">
           Datasets
         </h2>
-        <DatasetsTable initial={datasets} canUpload={can(actor.role, 'datasets:upload')} />
+        <HydrationBoundary state={dehydrated((qc) => qc.setQueryData(datasetsQuery().queryKey, datasets))}>
+          <DatasetsTable canUpload={can(actor.role, 'datasets:upload')} />
+        </HydrationBoundary>
       </section>
       <section className="panel p-5" aria-labelledby="segments-heading">
         <h2 id="segments-heading" className="mb-3">

@@ -1,3 +1,4 @@
+import { HydrationBoundary } from '@tanstack/react-query';
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
@@ -6,6 +7,8 @@ import { FitProgress } from '@/components/fits/fit-progress';
 import { SegmentReview } from '@/components/fits/segment-review';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
+import { fitStatusQuery } from '@/lib/client/fits';
+import { dehydrated } from '@/lib/client/prefetch';
 import { getFit } from '@/lib/dal/fits';
 import { AppError } from '@/lib/errors';
 import { isCurrentResults, segmentsInOrder } from '@/lib/fits/results';
@@ -47,10 +50,20 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
       </div>
 
       {fit.status !== 'succeeded' ? (
-        <FitProgress
-          id={fit.id}
-          initial={{ id: fit.id, status: fit.status, progress: fit.progress, message: fit.message, error: fit.error, mayCancel: fit.mayCancel }}
-        />
+        <HydrationBoundary
+          state={dehydrated((qc) =>
+            qc.setQueryData(fitStatusQuery(fit.id).queryKey, {
+              id: fit.id,
+              status: fit.status,
+              progress: fit.progress,
+              message: fit.message,
+              error: fit.error,
+              mayCancel: fit.mayCancel,
+            }),
+          )}
+        >
+          <FitProgress id={fit.id} renderedStatus={fit.status} />
+        </HydrationBoundary>
       ) : null}
 
       {fit.results && !isCurrentResults(fit.results) ? (
