@@ -342,7 +342,7 @@ export const mailCaptured = mysqlTable(
 export type MailCapturedRow = typeof mailCaptured.$inferSelect;
 
 // ---------------------------------------------------------------------------------------------
-// Datasets (issue 4): segments, uploaded datasets, their compressed files, cohort rows, upload
+// Datasets (data intake, DESIGN.md "Data the user brings"): segments, uploaded datasets, their compressed files, cohort rows, upload
 // reports and waivers. A dataset is never edited in place: a correction is a newer upload that
 // supersedes it. Fits and assumptions refer to datasets.id with ON DELETE RESTRICT, so a dataset
 // in use cannot be deleted (lib/dal/datasets.ts maps errno 1451 to a 409).
@@ -510,7 +510,7 @@ export const datasetWaivers = mysqlTable(
 export type DatasetWaiver = typeof datasetWaivers.$inferSelect;
 
 // ---------------------------------------------------------------------------------------------
-// Fit runs (issue 5, lib/dal/fits.ts): one estimation request over a dataset, computed by a 'fit'
+// Fit runs (lib/dal/fits.ts): one estimation request over a dataset, computed by a 'fit'
 // job; the results are written in the transaction that marks the job succeeded. Everything needed
 // to reproduce the numbers is kept: dataset hash, engine version, request (window, level) and seeds.
 // ---------------------------------------------------------------------------------------------
@@ -538,7 +538,7 @@ export const fitRuns = mysqlTable(
       .references(() => users.id),
     /** Mirrors the job for lists; the job row is the live truth while it runs. */
     status: mysqlEnum('status', fitRunStatuses).notNull().default('queued'),
-    /** { engine: { version }, segments: [...] } in the engine's per-segment shape (issue 3 CLI). */
+    /** { engine: { version }, segments: [...] } in the engine's per-segment shape (the CLI's `fit --json`). */
     results: json('results'),
     error: text('error'),
     createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),

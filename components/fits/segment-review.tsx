@@ -1,18 +1,10 @@
 import { PairExplorer } from '@/components/pairs/pair-explorer';
+import { assetClassNames } from '@/lib/asset-classes';
 import { fixed, interval, pct } from '@/lib/fits/format';
 import { ESTIMATOR_NAMES, ESTIMATOR_ORDER, type FitSegmentResult } from '@/lib/fits/results';
 import { WARNING_CODES } from '@/lib/stats/fit-warnings';
 import { BandsChart } from './bands-chart';
 import { FactorChart, ProfileChart, ForestChart } from './svg-charts';
-
-const ASSET_CLASS_NAMES: Record<string, string> = {
-  corporate: 'corporate',
-  'sme-corporate': 'SME corporate',
-  'residential-mortgage': 'residential mortgage',
-  'qualifying-revolving': 'qualifying revolving retail',
-  'other-retail': 'other retail',
-  none: 'no asset class',
-};
 
 /** Warnings that are cautions of DESIGN.md (short series, zero-default years, boundary, autocorrelation,
  * identification): every engine warning except the two that only say an optional part was not run. */
@@ -99,7 +91,7 @@ export function SegmentReview({ seg, index, bootstrapRequested }: { seg: FitSegm
           ) : (
             <>No estimator gives a correlation for these data</>
           )}
-          . {seg.T} periods, {seg.periods[0]}–{seg.periods[seg.periods.length - 1]}; {ASSET_CLASS_NAMES[seg.assetClass]}.
+          . {seg.T} periods, {seg.periods[0]}–{seg.periods[seg.periods.length - 1]}; {assetClassNames[seg.assetClass]}.
         </p>
         {cautions.length > 0 ? (
           <ul className="notice-caution mt-3 list-disc space-y-1 pl-8 text-sm" data-testid="cautions" aria-label="Cautions">
@@ -408,7 +400,7 @@ export function SegmentReview({ seg, index, bootstrapRequested }: { seg: FitSegm
                 </tr>
                 <tr>
                   <td>
-                    Supervisory correlation for {ASSET_CLASS_NAMES[seg.assetClass]}
+                    Supervisory correlation for {assetClassNames[seg.assetClass]}
                     {imp.supervisory ? ' and K with it' : ''}
                   </td>
                   <td className="num text-right">

@@ -1,4 +1,4 @@
-import { fixed, pct } from '@/lib/fits/format';
+import { fixed } from '@/lib/fits/format';
 import { ESTIMATOR_NAMES, ESTIMATOR_ORDER, type FitSegmentResult } from '@/lib/fits/results';
 
 /** Linear scale helper. */
@@ -243,8 +243,4 @@ export function FactorChart({ periods, factor, pit }: { periods: string[]; facto
       )}
     </svg>
   );
-}
-
-export function percentCell(v: number | null | undefined) {
-  return <span className="num">{pct(v ?? null)}</span>;
 }

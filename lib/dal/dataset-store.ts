@@ -173,45 +173,67 @@ export async function linkSupersede(tx: DbOrTx, olderId: number, newerId: number
 
 export type StoredDataset = { id: number; reportId: number; segments: string[]; rows: number; warnings: UploadIssue[] };
 
-/** Writes an accepted cohort or vintage upload (call inside a transaction). */
-export async function storeAcceptedDataset(tx: DbOrTx, meta: UploadMeta, gz: GzipPieces, v: Validated): Promise<StoredDataset> {
-  const names = [...new Set(v.cohortRows.map((r) => r.segment))].sort();
-  const segmentIds = await ensureSegments(tx, names, meta.uploadedBy);
-  const [res] = await tx.insert(datasets).values({
+/** The dataset row of an upload as it arrives (the same for every kind). */
+function datasetOf(meta: UploadMeta) {
+  return {
     kind: meta.kind,
     name: meta.name,
     description: meta.description,
     sha256: meta.sha256,
     dedupeKey: dedupeKeyOf(meta),
-    status: 'ready',
     sizeBytes: meta.sizeBytes,
     fileName: meta.fileName,
     uploadedBy: meta.uploadedBy,
+  };
+}
+
+/** A dataset whose cohort rows are stored: at upload (cohort, vintage) or when its conversion ends (loans). */
+function readyOf(v: Validated, segmentCount: number) {
+  return {
+    status: 'ready' as const,
     conventions: v.conventions,
     censored: v.censored,
-    segmentCount: names.length,
+    segmentCount,
     rowCount: v.cohortRows.length,
     warningCount: v.summary.warnings,
     readyAt: new Date(),
-  });
-  const id = Number(res.insertId);
-  await insertFile(tx, id, gz);
-  await insertCohortRows(tx, id, v.cohortRows, segmentIds);
-  const [rep] = await tx.insert(uploadReports).values({
-    datasetId: id,
+  };
+}
+
+/** The upload report row of an upload as it arrives. */
+function reportOf(meta: Omit<UploadMeta, 'sha256'> & { sha256: string | null }, datasetId: number | null) {
+  return {
+    datasetId,
     kind: meta.kind,
     name: meta.name,
     fileName: meta.fileName,
     sha256: meta.sha256,
     sizeBytes: meta.sizeBytes,
     uploadedBy: meta.uploadedBy,
-    status: 'accepted',
-    errorCount: 0,
+  };
+}
+
+/** A report's outcome: its findings and counts, finished now. */
+function outcomeOf(status: 'accepted' | 'rejected', v: Pick<Validated, 'findings' | 'summary'>) {
+  return {
+    status,
+    errorCount: v.summary.errors,
     warningCount: v.summary.warnings,
     findings: v.findings,
     summary: v.summary,
     finishedAt: new Date(),
-  });
+  };
+}
+
+/** Writes an accepted cohort or vintage upload (call inside a transaction). */
+export async function storeAcceptedDataset(tx: DbOrTx, meta: UploadMeta, gz: GzipPieces, v: Validated): Promise<StoredDataset> {
+  const names = [...new Set(v.cohortRows.map((r) => r.segment))].sort();
+  const segmentIds = await ensureSegments(tx, names, meta.uploadedBy);
+  const [res] = await tx.insert(datasets).values({ ...datasetOf(meta), ...readyOf(v, names.length) });
+  const id = Number(res.insertId);
+  await insertFile(tx, id, gz);
+  await insertCohortRows(tx, id, v.cohortRows, segmentIds);
+  const [rep] = await tx.insert(uploadReports).values({ ...reportOf(meta, id), ...outcomeOf('accepted', v) });
   if (meta.supersedes) await linkSupersede(tx, meta.supersedes, id);
   return {
     id,
@@ -230,28 +252,15 @@ export async function storeProcessingLoanTape(
   header: HeaderCheck,
 ): Promise<{ id: number; reportId: number; jobId: number }> {
   const [res] = await tx.insert(datasets).values({
-    kind: 'loans',
-    name: meta.name,
-    description: meta.description,
-    sha256: meta.sha256,
-    dedupeKey: dedupeKeyOf(meta),
+    ...datasetOf(meta),
     status: 'processing',
-    sizeBytes: meta.sizeBytes,
-    fileName: meta.fileName,
-    uploadedBy: meta.uploadedBy,
     conventions: { text: 'Conversion pending.', ...meta.loanOptions },
     censored: [],
   });
   const id = Number(res.insertId);
   await insertFile(tx, id, gz);
   const [rep] = await tx.insert(uploadReports).values({
-    datasetId: id,
-    kind: 'loans',
-    name: meta.name,
-    fileName: meta.fileName,
-    sha256: meta.sha256,
-    sizeBytes: meta.sizeBytes,
-    uploadedBy: meta.uploadedBy,
+    ...reportOf(meta, id),
     status: 'processing',
     errorCount: 0,
     warningCount: header.summary.warnings,
@@ -274,21 +283,7 @@ export async function recordRejectedUpload(
   meta: Omit<UploadMeta, 'sha256'> & { sha256: string | null },
   v: Pick<Validated, 'findings' | 'summary'>,
 ): Promise<number> {
-  const [rep] = await db.insert(uploadReports).values({
-    datasetId: null,
-    kind: meta.kind,
-    name: meta.name,
-    fileName: meta.fileName,
-    sha256: meta.sha256,
-    sizeBytes: meta.sizeBytes,
-    uploadedBy: meta.uploadedBy,
-    status: 'rejected',
-    errorCount: v.summary.errors,
-    warningCount: v.summary.warnings,
-    findings: v.findings,
-    summary: v.summary,
-    finishedAt: new Date(),
-  });
+  const [rep] = await db.insert(uploadReports).values({ ...reportOf(meta, null), ...outcomeOf('rejected', v) });
   return Number(rep.insertId);
 }
 
@@ -317,15 +312,7 @@ export async function writeLoanConversion(
   if (!v.ok) {
     await tx
       .update(uploadReports)
-      .set({
-        status: 'rejected',
-        datasetId: null,
-        errorCount: v.summary.errors,
-        warningCount: v.summary.warnings,
-        findings: v.findings,
-        summary: v.summary,
-        finishedAt: new Date(),
-      })
+      .set({ ...outcomeOf('rejected', v), datasetId: null })
       .where(eq(uploadReports.id, reportId));
     await tx.delete(datasets).where(eq(datasets.id, datasetId));
     return { status: 'rejected', rows: 0, errors: v.summary.errors, warnings: v.summary.warnings };
@@ -334,22 +321,8 @@ export async function writeLoanConversion(
   const segmentIds = await ensureSegments(tx, names, ds.uploadedBy);
   await tx.delete(cohortRows).where(eq(cohortRows.datasetId, datasetId));
   await insertCohortRows(tx, datasetId, v.cohortRows, segmentIds);
-  await tx
-    .update(datasets)
-    .set({
-      status: 'ready',
-      conventions: v.conventions,
-      censored: v.censored,
-      segmentCount: names.length,
-      rowCount: v.cohortRows.length,
-      warningCount: v.summary.warnings,
-      readyAt: new Date(),
-    })
-    .where(eq(datasets.id, datasetId));
-  await tx
-    .update(uploadReports)
-    .set({ status: 'accepted', errorCount: 0, warningCount: v.summary.warnings, findings: v.findings, summary: v.summary, finishedAt: new Date() })
-    .where(eq(uploadReports.id, reportId));
+  await tx.update(datasets).set(readyOf(v, names.length)).where(eq(datasets.id, datasetId));
+  await tx.update(uploadReports).set(outcomeOf('accepted', v)).where(eq(uploadReports.id, reportId));
   if (input.supersedes) {
     const [older] = await tx.select({ id: datasets.id, by: datasets.supersededById }).from(datasets).where(eq(datasets.id, input.supersedes));
     if (older && older.by === null) await linkSupersede(tx, older.id, datasetId);

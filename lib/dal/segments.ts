@@ -12,15 +12,6 @@ import { AppError, parseOrThrow } from '@/lib/errors';
  * owner) are edited here by analysts and administrators.
  */
 
-export const assetClassLabels: Record<AssetClass, string> = {
-  corporate: 'Corporate',
-  'sme-corporate': 'SME corporate (with turnover)',
-  'residential-mortgage': 'Residential mortgage',
-  'qualifying-revolving': 'Qualifying revolving retail',
-  'other-retail': 'Other retail',
-  none: 'None (no supervisory benchmark)',
-};
-
 export type SegmentDto = {
   id: number;
   name: string;

@@ -17,11 +17,6 @@ import { recordAdminAction } from './admin-audit';
 export const tokenScopes = ['assumptions:read', 'assumptions:export'] as const;
 export type TokenScope = (typeof tokenScopes)[number];
 
-export const scopeLabels: Record<TokenScope, string> = {
-  'assumptions:read': 'Read published assumptions (in force or exact version)',
-  'assumptions:export': 'Export the published library as CSV',
-};
-
 export type ApiPrincipal = { kind: 'token'; tokenId: number; name: string; scopes: TokenScope[] };
 
 export type TokenDto = {

@@ -1,7 +1,7 @@
 /**
  * The results of a fit run, as stored in fit_runs.results and answered by GET /api/fits/:id.
  *
- * `{ engine: { version }, segments: [...] }` is the JSON document of the engine CLI (issue 3,
+ * `{ engine: { version }, segments: [...] }` is the JSON document of the engine CLI (`fit --json`,
  * lib/cli/fit.ts): each segment is the engine's own TimedSegmentFit (lib/stats/fit-panel.ts:
  * estimates of the five estimators with the profile, Wald and bootstrap intervals of binomialMle,
  * warnings, level, profileCurve, profileCutoff, diagnostics, implications, observed, timing,

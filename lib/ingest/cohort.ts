@@ -13,8 +13,9 @@
  */
 import { z } from 'zod';
 import { FindingCollector, type Finding, type FindingSummary } from './findings';
-import { mapColumns, readCsvStream, readCsvText, type ByteSource, type CsvSink, type Delimiter, type ReadInfo, type ReadOptions } from './csv-reader';
-import { checkSegment, checkText, countOrReport } from './values';
+import { readCsvStream, readCsvText, type ByteSource, type ReadInfo, type ReadOptions } from './csv-reader';
+import { KindSink } from './kind-sink';
+import { checkText, countOrReport } from './values';
 import { checkPanel } from './panel-checks';
 import { MAX_SEGMENT_CHARS } from './limits';
 
@@ -81,28 +82,19 @@ export function checkPeriod(raw: string, line: number, findings: FindingCollecto
   return null;
 }
 
-class CohortSink implements CsvSink {
+class CohortSink extends KindSink<'segment' | 'period' | 'obligors' | 'defaults', 'default_definition' | 'note'> {
   rows: CohortRow[] = [];
-  private cols: ReturnType<typeof mapColumns<'segment' | 'period' | 'obligors' | 'defaults', 'default_definition' | 'note'>> = null;
   private readonly seen = new Map<string, number>();
-  private readonly segmentsSeen = new Set<string>();
-  delimiter: Delimiter = ',';
 
-  constructor(private readonly findings: FindingCollector) {}
-
-  header(names: string[], line: number, delimiter: Delimiter): boolean {
-    this.delimiter = delimiter;
-    this.cols = mapColumns(names, COHORT_COLUMNS, line, this.findings, 'cohort');
-    return this.cols !== null;
+  constructor(findings: FindingCollector) {
+    super(findings, COHORT_COLUMNS, 'cohort');
   }
 
   row(fields: string[], line: number): void {
     const c = this.cols!;
     const f = this.findings;
     const errorsBefore = f.errors;
-    const segRaw = fields[c.segment];
-    const segment = checkSegment(segRaw, line, f, !this.segmentsSeen.has(segRaw.trim()));
-    if (segment !== null) this.segmentsSeen.add(segment);
+    const segment = this.segments.check(fields[c.segment], line);
     const period = checkPeriod(fields[c.period], line, f);
     const obligors = countOrReport(fields[c.obligors], 'obligors', 'obligors', line, this.delimiter, f);
     const defaults = countOrReport(fields[c.defaults], 'defaults', 'defaults', line, this.delimiter, f);

@@ -149,3 +149,20 @@ export function checkText(raw: string | undefined, column: string, line: number,
   }
   return s;
 }
+
+/**
+ * The segment names of a file's rows, checked row by row (checkSegment); a name that looks like a
+ * formula is reported on the first row that has it, not on every row.
+ */
+export class SegmentNames {
+  private readonly seen = new Set<string>();
+
+  constructor(private readonly findings: FindingCollector) {}
+
+  /** The row's segment name, or null when it is unusable (reported). */
+  check(raw: string, line: number): string | null {
+    const segment = checkSegment(raw, line, this.findings, !this.seen.has(raw.trim()));
+    if (segment !== null) this.seen.add(segment);
+    return segment;
+  }
+}

@@ -17,8 +17,9 @@
  */
 import { z } from 'zod';
 import { FindingCollector, type Finding, type FindingSummary } from './findings';
-import { mapColumns, readCsvStream, readCsvText, type ByteSource, type CsvSink, type Delimiter, type ReadInfo, type ReadOptions } from './csv-reader';
-import { checkSegment, countOrReport } from './values';
+import { readCsvStream, readCsvText, type ByteSource, type ReadInfo, type ReadOptions } from './csv-reader';
+import { KindSink } from './kind-sink';
+import { countOrReport } from './values';
 import { checkPanel } from './panel-checks';
 import { MAX_SEGMENT_CHARS } from './limits';
 import { type CohortRow } from './cohort';
@@ -145,28 +146,19 @@ export function convertVintagesToCohorts(rows: readonly VintageRow[]): VintageCo
   return { cohortRows, censored, convention };
 }
 
-class VintageSink implements CsvSink {
+class VintageSink extends KindSink<'segment' | 'vintage' | 'months_on_book' | 'active' | 'defaults', never> {
   rows: VintageRow[] = [];
-  private cols: ReturnType<typeof mapColumns<'segment' | 'vintage' | 'months_on_book' | 'active' | 'defaults', never>> = null;
   private readonly seen = new Map<string, number>();
-  private readonly segmentsSeen = new Set<string>();
-  private delimiter: Delimiter = ',';
 
-  constructor(private readonly findings: FindingCollector) {}
-
-  header(names: string[], line: number, delimiter: Delimiter): boolean {
-    this.delimiter = delimiter;
-    this.cols = mapColumns(names, VINTAGE_COLUMNS, line, this.findings, 'vintage');
-    return this.cols !== null;
+  constructor(findings: FindingCollector) {
+    super(findings, VINTAGE_COLUMNS, 'vintage');
   }
 
   row(fields: string[], line: number): void {
     const c = this.cols!;
     const f = this.findings;
     const before = f.errors;
-    const segRaw = fields[c.segment];
-    const segment = checkSegment(segRaw, line, f, !this.segmentsSeen.has(segRaw.trim()));
-    if (segment !== null) this.segmentsSeen.add(segment);
+    const segment = this.segments.check(fields[c.segment], line);
     const vintage = checkVintage(fields[c.vintage], line, f);
     const mob = countOrReport(fields[c.months_on_book], 'months on book', 'months_on_book', line, this.delimiter, f);
     if (mob === 0) {

@@ -1,7 +1,7 @@
 import { expect, test } from '@playwright/test';
 import { signIn } from './helpers';
 
-// Found in QA of issue 4: uploads above 10 MB were cut short by the proxy (Next buffers a copy of
+// Found in QA of data intake: uploads above 10 MB were cut short by the proxy (Next buffers a copy of
 // the body there, up to 10 MB) and loan tapes larger than one read chunk were refused by the
 // header check; the validation report did not group findings by severity.
 

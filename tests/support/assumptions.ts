@@ -6,7 +6,7 @@ import type { SessionUser } from '@/lib/auth/guard';
 let counter = 0;
 
 /**
- * Panel A of issue 3, fitted with SciPy 1.17 (the issue's reference values): binomialMle rho
+ * Panel A, fitted with SciPy 1.17 (tests/fixtures/engine/make_fixtures.py): binomialMle rho
  * 0.037091, pd 0.013307, profile interval [0.01177, 0.1147] at 95%.
  */
 export const PANEL_A_FIT = { rho: 0.037091, pd: 0.013307, profile: { level: 0.95, lower: 0.01177, upper: 0.1147 } };

@@ -4,7 +4,7 @@ import { cohortRows, datasets, segments, type AssetClass, type DatasetStatus } f
 
 let counter = 0;
 
-/** Panel A of issue 3 (binomialMle rho 0.037091, pd 0.013307 computed with SciPy 1.17). */
+/** Panel A (binomialMle rho 0.037091, pd 0.013307 computed with SciPy 1.17 by tests/fixtures/engine/make_fixtures.py). */
 export const PANEL_A = {
   obligors: [1000, 1050, 1100, 980, 1020, 1200, 1150, 1080, 990, 1010],
   defaults: [8, 12, 25, 30, 9, 5, 14, 20, 11, 6],

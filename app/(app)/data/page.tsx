@@ -7,7 +7,8 @@ import { requireUser } from '@/lib/auth/session';
 import { datasetsQuery } from '@/lib/client/datasets';
 import { dehydrated } from '@/lib/client/prefetch';
 import { listDatasets } from '@/lib/dal/datasets';
-import { assetClassLabels, listSegments } from '@/lib/dal/segments';
+import { assetClassLabels } from '@/lib/asset-classes';
+import { listSegments } from '@/lib/dal/segments';
 
 export const metadata: Metadata = { title: 'Data' };
 

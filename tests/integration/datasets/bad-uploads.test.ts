@@ -2,8 +2,8 @@
  * Bad files through the real route handler (POST /api/datasets), against the test database: each
  * must answer with the right status, name the rule and the physical line (header = line 1), and
  * write no dataset, no cohort row and no stored file (only the rejected upload's report).
- * The rules and line numbers expected here are those of DESIGN.md "Data the user brings" and
- * issue 4; the lines are counted by hand in each file below.
+ * The rules and line numbers expected here are those of DESIGN.md "Data the user brings"; the
+ * lines are counted by hand in each file below.
  */
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import type { SessionUser } from '@/lib/auth/guard';

@@ -114,7 +114,7 @@ describe('fit jobs', () => {
     expect(fit.progress).toBe(100);
     expect(fit.results!.segments.map((s) => s.segment)).toEqual(dataset.segments);
     const a = fit.results!.segments[0];
-    // Panel A, issue 3: binomialMle rho 0.037091, pd 0.013307, logLik -33.785195, profile [0.01177, 0.1147] (SciPy 1.17).
+    // Panel A: binomialMle rho 0.037091, pd 0.013307, logLik -33.785195, profile [0.01177, 0.1147] (computed with SciPy 1.17 by tests/fixtures/engine/make_fixtures.py).
     expect(a.estimates.binomialMle.rho).toBeCloseTo(0.037091, 5);
     expect(a.estimates.binomialMle.pd).toBeCloseTo(0.013307, 5);
     expect(a.estimates.binomialMle.logLik).toBeCloseTo(-33.785195, 5);
@@ -174,7 +174,7 @@ describe('fit jobs', () => {
         { level: 0.9, bootstrap: { replications: 40, seed: 5 }, audit: { replications: 12, seed: 3 }, assetClass: 'corporate' },
       );
       expect(engineFields).toEqual(JSON.parse(JSON.stringify(direct)));
-      // Panel A's numbers in both (issue 3, SciPy 1.17), so the equality is not between two wrong answers.
+      // Panel A's numbers in both (computed with SciPy 1.17 by tests/fixtures/engine/make_fixtures.py), so the equality is not between two wrong answers.
       expect(cli.segments[0].estimates.binomialMle.rho).toBeCloseTo(0.037091, 5);
       expect(cli.segments[0].estimates.binomialMle.intervals.bootstrap).toMatchObject({ replications: 40, seed: 5, level: 0.9 });
     } finally {

@@ -9,12 +9,12 @@ describe('pairMetrics', () => {
     expect(m.joint).toBeCloseTo(0.0071346, 7);
   });
 
-  it('does not confuse rho 0.98 (about 4.18%) with rho 0.9 (3.19%) (issue 3, common practice)', () => {
+  it('does not confuse rho 0.98 (about 4.18%) with rho 0.9 (3.19%) (common practice)', () => {
     expect(pairMetrics(0.05, 0.05, 0.98).joint).toBeCloseTo(0.0418, 4);
     expect(pairMetrics(0.05, 0.05, 0.9).joint).toBeCloseTo(0.0319, 4);
   });
 
-  it('default correlation at p = 1%, rho = 0.12 is 0.01182789 (SciPy 1.17, issue 3 worked check)', () => {
+  it('default correlation at p = 1%, rho = 0.12 is 0.01182789 (computed with SciPy 1.17: a worked check of the engine specification)', () => {
     expect(pairMetrics(0.01, 0.01, 0.12).defaultCorrelation).toBeCloseTo(0.01182789, 7);
   });
 

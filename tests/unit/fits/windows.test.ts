@@ -28,7 +28,7 @@ describe('alternativeWindows', () => {
 });
 
 describe('compareWindows', () => {
-  // Panel A of issue 3 (binomialMle rho 0.037091 computed with SciPy 1.17).
+  // Panel A (binomialMle rho 0.037091 computed with SciPy 1.17 by tests/fixtures/engine/make_fixtures.py).
   const panelA = {
     segment: 'A',
     periods: years(10, 2010),

@@ -10,7 +10,7 @@ import { ReportTable } from '@/components/data/report-table';
 import { WaiveForm } from '@/components/data/waive-form';
 import { requireUser } from '@/lib/auth/session';
 import { getDataset, listDatasets, type DatasetDetailDto } from '@/lib/dal/datasets';
-import { assetClassLabels } from '@/lib/dal/segments';
+import { assetClassLabels } from '@/lib/asset-classes';
 import { AppError } from '@/lib/errors';
 
 export const metadata: Metadata = { title: 'Dataset' };

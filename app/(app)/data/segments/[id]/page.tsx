@@ -5,7 +5,8 @@ import { SegmentSettingsForm } from '@/components/data/segment-settings-form';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { kindLabels } from '@/components/data/format';
-import { assetClassLabels, getSegment, listPossibleOwners, listSegmentDatasets, type SegmentDto } from '@/lib/dal/segments';
+import { assetClassLabels } from '@/lib/asset-classes';
+import { getSegment, listPossibleOwners, listSegmentDatasets, type SegmentDto } from '@/lib/dal/segments';
 import { AppError } from '@/lib/errors';
 import { updateSegmentAction } from '../actions';
 
