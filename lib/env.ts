@@ -39,6 +39,10 @@ const envSchema = z.object({
   /** Seconds after which the worker's heartbeat is reported stale by /api/health. */
   WORKER_STALE_SECONDS: z.coerce.number().int().min(5).default(60),
   UPLOAD_MAX_BYTES: z.coerce.number().int().min(1024).default(100 * 1024 * 1024),
+  /** Longest row of an uploaded file, in characters (lib/ingest/limits.ts). */
+  UPLOAD_MAX_LINE_CHARS: z.coerce.number().int().min(1024).default(64 * 1024),
+  /** Most columns in an uploaded file's header. */
+  UPLOAD_MAX_COLUMNS: z.coerce.number().int().min(10).default(1000),
   SMTP_URL: z.string().optional(),
   MAIL_FROM: z.string().default('Rhobook <rhobook@fenmoor.example>'),
 });
@@ -57,4 +61,10 @@ export function env(): Env {
     cached = parsed.data;
   }
   return cached;
+}
+
+/** The reading limits of an upload (lib/ingest's ReadOptions), from the configuration. */
+export function uploadLimits(): { maxBytes: number; maxLineChars: number; maxColumns: number } {
+  const e = env();
+  return { maxBytes: e.UPLOAD_MAX_BYTES, maxLineChars: e.UPLOAD_MAX_LINE_CHARS, maxColumns: e.UPLOAD_MAX_COLUMNS };
 }

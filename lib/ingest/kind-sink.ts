@@ -1,4 +1,5 @@
-import { mapColumns, type ColumnSpec, type CsvSink, type Delimiter } from './csv-reader';
+import { mapColumns, type ColumnSpec } from './columns';
+import type { CsvSink, Delimiter } from './csv-reader';
 import type { FindingCollector } from './findings';
 import { SegmentNames } from './values';
 

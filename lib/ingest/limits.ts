@@ -6,6 +6,19 @@
 /** Default largest accepted upload: 100 MB (100 * 1024 * 1024 bytes), counted on the raw bytes. */
 export const DEFAULT_MAX_UPLOAD_BYTES = 100 * 1024 * 1024;
 
+/**
+ * Longest accepted row, in characters (64 KB of plain text): a row of any upload kind is far
+ * shorter, and a longer one (a file whose line breaks were lost, a quote never closed) would cost
+ * the parser time that grows with the square of its length. UPLOAD_MAX_LINE_CHARS overrides it.
+ */
+export const DEFAULT_MAX_LINE_CHARS = 64 * 1024;
+
+/**
+ * Most columns accepted in a header: the upload kinds have at most six, and spreadsheets may add
+ * some empty ones at the end. UPLOAD_MAX_COLUMNS overrides it.
+ */
+export const DEFAULT_MAX_COLUMNS = 1000;
+
 /** Longest accepted segment name, in characters. */
 export const MAX_SEGMENT_CHARS = 100;
 

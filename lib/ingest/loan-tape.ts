@@ -23,7 +23,8 @@
  * per character + 30 bytes per loan) plus a few hundred counters per segment; rows are never kept.
  */
 import { FindingCollector, type Finding, type FindingSummary } from './findings';
-import { mapColumns, readCsvStream, readCsvText, type ByteSource, type CsvSink, type ReadInfo, type ReadOptions } from './csv-reader';
+import { mapColumns } from './columns';
+import { readCsvStream, readCsvText, type ByteSource, type CsvSink, type ReadInfo, type ReadOptions } from './csv-reader';
 import { checkSegment } from './values';
 import { checkPanel } from './panel-checks';
 import { MAX_TEXT_CHARS } from './limits';

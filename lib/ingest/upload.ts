@@ -10,7 +10,8 @@
  *   validates every row and aggregates it later (convertLoanTape).
  */
 import { createHash } from 'node:crypto';
-import { mapColumns, readCsvStream, type ByteSource, type CsvSink, type ReadOptions } from './csv-reader';
+import { mapColumns } from './columns';
+import { readCsvStream, type ByteSource, type CsvSink, type ReadOptions } from './csv-reader';
 import { validateCohortStream, type CohortRow } from './cohort';
 import { FindingCollector, type Finding, type FindingSummary } from './findings';
 import { LOAN_COLUMNS, validateLoanTapeStream, type LoanTapeOptions } from './loan-tape';

@@ -5,11 +5,12 @@
  * transaction. Nothing is written before that transaction, so a crash leaves the dataset in
  * "processing" for the next attempt.
  */
+import type { Tx } from '@/db/connection';
 import { loadConvertibleDataset, storedFileSource, writeLoanConversion } from '@/lib/dal/dataset-store';
+import { uploadLimits } from '@/lib/env';
 import type { ByteSource } from '@/lib/ingest/csv-reader';
 import { convertLoanTape } from '@/lib/ingest/upload';
 import type { ConvertLoansPayload } from '@/lib/jobs/kinds/convert-loans';
-import type { Tx } from '@/db/connection';
 import type { JobContext } from '../job-handler';
 
 const PROGRESS_EVERY_MS = 500;
@@ -43,6 +44,8 @@ export async function convertLoansHandler(ctx: JobContext<ConvertLoansPayload>) 
     referenceMonthDay,
     exitConvention,
     // The file passed the size limit when it was uploaded; the limit does not apply again here.
+    // The row and header limits do: a tape's rows past its first are read here for the first time.
+    ...uploadLimits(),
     maxBytes: Number.MAX_SAFE_INTEGER,
   });
   await ctx.progress(97, validated.ok ? `Writing ${validated.cohortRows.length} cohort rows` : `Rejected: ${validated.summary.errors} errors`);

@@ -1,7 +1,7 @@
 import { assertMultipartRequest } from '@/lib/auth/same-origin';
 import { requireUser } from '@/lib/auth/session';
 import { assertMayUpload, listDatasets, uploadDataset } from '@/lib/dal/datasets';
-import { env } from '@/lib/env';
+import { uploadLimits } from '@/lib/env';
 import { errorResponse } from '@/lib/errors';
 import { withReceivedUpload } from '@/lib/http/multipart';
 
@@ -26,8 +26,8 @@ export async function POST(req: Request) {
     const actor = await requireUser();
     assertMultipartRequest(req);
     assertMayUpload(actor);
-    const maxBytes = env().UPLOAD_MAX_BYTES;
-    const result = await withReceivedUpload(req, maxBytes, (upload) => uploadDataset(actor, upload, { maxBytes }));
+    const limits = uploadLimits();
+    const result = await withReceivedUpload(req, limits.maxBytes, (upload) => uploadDataset(actor, upload, limits));
     return Response.json(result.body, { status: result.status });
   } catch (err) {
     return errorResponse(err);

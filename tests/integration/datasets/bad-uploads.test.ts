@@ -280,6 +280,31 @@ describe('files over the size limit (UPLOAD_MAX_BYTES = 1 MB here)', () => {
   });
 });
 
+describe('rows and headers over the limits (defaults: 65,536 characters a row, 1,000 columns)', () => {
+  it('41. a row of 300,000 characters (line breaks lost) is refused naming its line, and nothing else is read', async () => {
+    const glued = 'Retail A,2016,1000,12 '.repeat(14_000);
+    const body = await expectRejected('cohort', `${COHORT_HEADER}\nRetail A,2015,1000,12\n${glued}\nRetail A,2017,1000,12\n`, 'line-too-long', 3);
+    expect(body.issues.filter((i) => i.severity === 'error').map((i) => i.rule)).toEqual(['line-too-long']);
+    expect(body.message).toMatch(/line 3, line-too-long/);
+  });
+  it('42. a quote never closed is refused at the line it opens on, not read to the end of the file', async () => {
+    let text = `${COHORT_HEADER},note\nRetail A,2015,1000,12,"a note that never ends\n`;
+    for (let y = 0; y < 4000; y++) text += `Retail A,${2016 + (y % 80)},1000,12,fine\n`;
+    const body = await expectRejected('cohort', text, 'line-too-long', 2);
+    expect(body.issues.find((i) => i.rule === 'line-too-long')!.message).toMatch(/never closed/);
+  });
+  it('43. a header of 1,200 columns is refused naming its line', async () => {
+    const header = Array.from({ length: 1200 }, (_, i) => `c${i}`).join(',');
+    await expectRejected('cohort', `${header}\n1,2,3\n`, 'too-many-columns', 1);
+  });
+  it('44. a loan tape whose header is too wide is refused at upload, before any job', async () => {
+    const [{ n: jobsBefore }] = await getDb().select({ n: count() }).from(jobs);
+    await expectRejected('loans', `loan_id,segment,start_date,default_date,exit_date${',x'.repeat(1000)}\nL1,A,2015-01-01,,\n`, 'too-many-columns', 1);
+    const [{ n: jobsAfter }] = await getDb().select({ n: count() }).from(jobs);
+    expect(jobsAfter).toBe(jobsBefore);
+  });
+});
+
 describe('text from a file is neutralised in CSV exports', () => {
   it('40. a formula in a segment name is accepted with a warning, and neutralised in the report CSV', async () => {
     const res = await POST(
