@@ -109,27 +109,14 @@ export class TextGate {
     const { rule, line, multiLine } = this.guard.trip!;
     this.stopped = true;
     this.cutLine = line;
-    if (rule === 'too-many-columns') {
-      const max = this.maxColumns.toLocaleString('en');
-      this.findings.error(
-        rule,
-        line,
-        null,
-        `more than ${max} columns`,
-        `The header (line ${line}) has more than ${max} columns, so it is not the header of a cohort, vintage or loan-level file. Check that this is the right file; if a spreadsheet added empty columns at the end, delete them and save the file again.`,
-      );
-      return;
-    }
-    const max = this.maxLineChars.toLocaleString('en');
-    this.findings.error(
-      rule,
-      line,
-      null,
-      `more than ${max} characters`,
-      multiLine
+    const columns = rule === 'too-many-columns';
+    const max = (columns ? this.maxColumns : this.maxLineChars).toLocaleString('en');
+    const message = columns
+      ? `The header (line ${line}) has more than ${max} columns, so it is not the header of a cohort, vintage or loan-level file. Check that this is the right file; if a spreadsheet added empty columns at the end, delete them and save the file again.`
+      : multiLine
         ? `The row that starts on line ${line} runs over several lines and is longer than ${max} characters: a double quote in it is probably never closed. Close the quoted value (a double quote inside one is written twice: "") and upload the file again.`
-        : `Line ${line} is longer than ${max} characters, far longer than any row of a cohort, vintage or loan-level file: the file's line breaks may have been lost, or it is not a CSV file of these kinds. Check the file and upload it again.`,
-    );
+        : `Line ${line} is longer than ${max} characters, far longer than any row of a cohort, vintage or loan-level file: the file's line breaks may have been lost, or it is not a CSV file of these kinds. Check the file and upload it again.`;
+    this.findings.error(rule, line, null, `more than ${max} ${columns ? 'columns' : 'characters'}`, message);
   }
 
   /** Flushes a held CR at the end of the input, and checks a first line that never ended. */
