@@ -35,7 +35,7 @@ export type { Ar1MleResult, Ar1ProfilePoint } from './ar1-mle';
 export { momentTarget, MOMENT_ESTIMATOR_KEYS } from './moment-target';
 export type { MomentEstimatorKey, MomentTarget } from './moment-target';
 export { vasicekMle } from './vasicek-mle';
-export { ESTIMATOR_KEYS, undefinedEstimate } from './types';
+export { ESTIMATOR_KEYS, ESTIMATOR_LABELS, estimatorLabel, undefinedEstimate } from './types';
 export type { Estimate, EstimateStatus, EstimatorKey } from './types';
 
 /** The five estimators by DESIGN.md key (binomialMle without its intervals). */
@@ -45,13 +45,4 @@ export const ESTIMATORS: Readonly<Record<EstimatorKey, (panel: Panel) => Estimat
   momentVariance,
   momentVarianceCorrected,
   jointDefault,
-};
-
-/** Plain names for display, by key. */
-export const ESTIMATOR_LABELS: Readonly<Record<EstimatorKey, string>> = {
-  binomialMle: 'Binomial-mixture maximum likelihood',
-  vasicekMle: 'Vasicek closed-form maximum likelihood',
-  momentVariance: 'Moments of the default-rate variance',
-  momentVarianceCorrected: 'Moments, finite-cohort corrected',
-  jointDefault: 'Joint-default-probability moments',
 };

@@ -33,6 +33,23 @@ export const ESTIMATOR_KEYS = [
 ] as const;
 export type EstimatorKey = (typeof ESTIMATOR_KEYS)[number];
 
+/**
+ * The readable name of each estimator, by key: the one place every screen, the CLI's text and the
+ * API's readable names take them from (the keys stay the names in JSON and CSV).
+ */
+export const ESTIMATOR_LABELS: Readonly<Record<EstimatorKey, string>> = {
+  binomialMle: 'Binomial-mixture maximum likelihood',
+  vasicekMle: 'Vasicek closed-form maximum likelihood',
+  momentVariance: 'Moments of the default-rate variance',
+  momentVarianceCorrected: 'Moments, finite-cohort corrected',
+  jointDefault: 'Joint-default-probability moments',
+};
+
+/** The readable name of an estimator key as stored anywhere (a key without a label is shown as it is). */
+export function estimatorLabel(key: string): string {
+  return (ESTIMATOR_LABELS as Record<string, string>)[key] ?? key;
+}
+
 /** An undefined estimate with its reason. */
 export function undefinedEstimate(reason: string): Estimate {
   return { rho: null, pd: null, status: 'undefined', reason };
