@@ -12,6 +12,7 @@ export default defineConfig({
   retries: 0,
   use: {
     baseURL: process.env.E2E_BASE_URL ?? 'http://127.0.0.1:3100',
+    viewport: { width: 1440, height: 900 },
     screenshot: 'only-on-failure',
     trace: 'retain-on-failure',
     launchOptions: {

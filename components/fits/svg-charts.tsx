@@ -1,5 +1,6 @@
-import { fixed } from '@/lib/fits/format';
-import { ESTIMATOR_NAMES, ESTIMATOR_ORDER, type FitSegmentResult } from '@/lib/fits/results';
+import { rho } from '@/lib/format';
+import { ESTIMATOR_ORDER, type FitSegmentResult } from '@/lib/fits/results';
+import { estimatorLabel } from '@/lib/stats/estimators/types';
 
 /** Linear scale helper. */
 function scale(d0: number, d1: number, r0: number, r1: number) {
@@ -42,9 +43,9 @@ export function ForestChart({ seg, supervisory }: { seg: FitSegmentResult; super
     supervisory ?? 0,
   ];
   const max = niceMax(Math.max(...values) * 1.05);
-  const W = 520;
-  const left = 200;
-  const right = 52;
+  const W = 660;
+  const left = 300;
+  const right = 60;
   const rowH = 32;
   const mleH = 62;
   const top = 10;
@@ -73,7 +74,7 @@ export function ForestChart({ seg, supervisory }: { seg: FitSegmentResult; super
         <g>
           <line x1={x(supervisory)} x2={x(supervisory)} y1={top} y2={H - 28} stroke="var(--color-caution)" strokeDasharray="4 3" />
           <text x={x(supervisory) + 3} y={H - 32} fontSize={10.5} fill="var(--color-caution)">
-            supervisory {fixed(supervisory, 3)}
+            supervisory {rho(supervisory)}
           </text>
         </g>
       ) : null}
@@ -88,8 +89,8 @@ export function ForestChart({ seg, supervisory }: { seg: FitSegmentResult; super
         return (
           <g key={k}>
             {chosen ? <rect x={0} y={rowTop(i)} width={W} height={h} fill="var(--color-accent-soft)" /> : null}
-            <text x={6} y={nameY + 4} fontSize={13} fontWeight={chosen ? 600 : 400} fill="var(--color-ink)">
-              {ESTIMATOR_NAMES[k]}
+            <text x={6} y={nameY + 4} fontSize={12.5} fontWeight={chosen ? 600 : 400} fill="var(--color-ink)">
+              {estimatorLabel(k)}
               {chosen ? ' (chosen)' : ''}
             </text>
             {isMle
@@ -106,7 +107,7 @@ export function ForestChart({ seg, supervisory }: { seg: FitSegmentResult; super
               <>
                 <circle cx={x(e.rho)} cy={y} r={chosen ? 5.5 : 4} fill={chosen ? 'var(--color-accent)' : 'white'} stroke="var(--color-accent)" strokeWidth={1.5} />
                 <text x={W - 6} y={y + 4} fontSize={12} textAnchor="end" className="num" fill="var(--color-ink)">
-                  {fixed(e.rho, 3)}
+                  {rho(e.rho)}
                 </text>
               </>
             ) : (
@@ -170,7 +171,7 @@ export function ProfileChart({ curve, cutoff, estimate, logLik, interval }: {
       <path d={path} fill="none" stroke="var(--color-accent)" strokeWidth={2} clipPath={`url(#${clipId})`} />
       <line x1={x(estimate)} x2={x(estimate)} y1={m.t} y2={H - m.b} stroke="var(--color-accent)" strokeOpacity={0.6} />
       <text x={x(estimate) + 4} y={H - m.b - 6} fontSize={10} fill="var(--color-accent)">
-        ρ̂ {fixed(estimate, 3)}
+        ρ̂ {rho(estimate)}
       </text>
     </svg>
   );

@@ -6,7 +6,7 @@ import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { AppError, parseOrThrow } from '@/lib/errors';
 import { loadFittableDataset, loadPanels } from './panels';
 import { fitRequestSchema, type FitRequest, type FitRequestInput } from '@/lib/fits/request';
-import type { FitResults } from '@/lib/fits/results';
+import { findSegment, isCurrentResults, type FitResults, type FitSegmentResult } from '@/lib/fits/results';
 import { FIT_JOB } from '@/lib/jobs/kinds/fit';
 import { cancelJob, enqueueJob } from '@/lib/jobs/queue';
 import { ENGINE_VERSION } from '@/lib/stats/version';
@@ -138,6 +138,23 @@ export async function getFit(actor: SessionUser, id: number): Promise<FitDto> {
     jobId: r.run.jobId,
     mayCancel: r.run.createdBy === actor.id && (live.status === 'queued' || live.status === 'running'),
   };
+}
+
+/**
+ * One segment of a finished run, as the review draws it, for pages that show a single segment's
+ * evidence (an assumption version's page). Null when the run has no current results for it (not
+ * finished, an older layout, or the segment failed).
+ */
+export async function getFitSegment(
+  actor: SessionUser,
+  fitId: number,
+  segment: string,
+): Promise<{ fitId: number; bootstrapRequested: boolean; engineVersion: string; segment: FitSegmentResult } | null> {
+  const fit = await getFit(actor, fitId);
+  if (!fit.results || !isCurrentResults(fit.results)) return null;
+  const found = findSegment(fit.results, segment);
+  if (!found || !('fit' in found)) return null;
+  return { fitId: fit.id, bootstrapRequested: !!fit.request.bootstrap, engineVersion: fit.engineVersion, segment: found.fit };
 }
 
 export async function listFits(actor: SessionUser, opts: { limit?: number } = {}): Promise<FitSummaryDto[]> {

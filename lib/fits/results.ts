@@ -11,26 +11,13 @@
  * comparison.
  */
 import type { AssetClass } from '@/db/schema';
-import type { Estimate } from '@/lib/stats/estimators/types';
+import { ESTIMATOR_KEYS, type Estimate, type EstimatorKey } from '@/lib/stats/estimators/types';
 import type { SegmentFailure, TimedSegmentFit } from '@/lib/stats/fit-panel';
 
-export type EstimatorKey = 'binomialMle' | 'vasicekMle' | 'momentVariance' | 'momentVarianceCorrected' | 'jointDefault';
+export type { EstimatorKey };
 
-export const ESTIMATOR_ORDER: readonly EstimatorKey[] = [
-  'binomialMle',
-  'vasicekMle',
-  'momentVariance',
-  'momentVarianceCorrected',
-  'jointDefault',
-];
-
-export const ESTIMATOR_NAMES: Record<EstimatorKey, string> = {
-  binomialMle: 'Binomial-mixture ML',
-  vasicekMle: 'Vasicek closed-form ML',
-  momentVariance: 'Moments (DR variance)',
-  momentVarianceCorrected: 'Moments, finite-cohort corrected',
-  jointDefault: 'Joint-default moments',
-};
+/** The estimators in the order the screens list them (DESIGN.md's order). */
+export const ESTIMATOR_ORDER: readonly EstimatorKey[] = ESTIMATOR_KEYS;
 
 /** A warning of the fit run itself (not of the engine), same shape as the engine's. */
 export type RunWarning = { code: 'sme-turnover-missing'; message: string };
@@ -99,4 +86,29 @@ export function isCurrentResults(results: unknown): results is FitResults {
       (s) => Array.isArray(s?.observed) && Array.isArray(s?.profileCurve) && Array.isArray(s?.windows) && typeof s?.level === 'number' && s.estimatorAudit !== undefined,
     )
   );
+}
+
+/**
+ * A segment of a run by the name in a page address: the name as given, or percent-decoded once
+ * (a name with `%` or `/` reaches the page either way). Null when the run has no such segment.
+ */
+export function findSegment(results: FitResults, name: string): { fit: FitSegmentResult; index: number } | { failure: SegmentFailure } | null {
+  let decoded = name;
+  try {
+    decoded = decodeURIComponent(name);
+  } catch {
+    // not percent-encoded: the name as given
+  }
+  for (const candidate of name === decoded ? [name] : [name, decoded]) {
+    const index = results.segments.findIndex((s) => s.segment === candidate);
+    if (index >= 0) return { fit: results.segments[index], index };
+    const failure = results.failures?.find((f) => f.segment === candidate);
+    if (failure) return { failure };
+  }
+  return null;
+}
+
+/** The address of a segment's review page. */
+export function segmentHref(fitId: number, segment: string): string {
+  return `/fits/${fitId}/segments/${encodeURIComponent(segment)}`;
 }

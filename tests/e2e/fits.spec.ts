@@ -1,5 +1,5 @@
 import { expect, test } from '@playwright/test';
-import { signIn } from './helpers';
+import { keepScreenshot, signIn } from './helpers';
 
 // Needs the seeded demo data and a running worker (npm test starts both).
 
@@ -36,15 +36,40 @@ test('an analyst starts a fit with a bootstrap, follows its progress and reads t
   const before = Number(await bar.getAttribute('aria-valuenow'));
   expect(before).toBeGreaterThan(0);
   await page.reload();
-  const review = page.getByTestId('segment-review-0');
-  await expect(bar.or(review)).toBeVisible();
+  const overview = page.getByTestId('segments-overview');
+  await expect(bar.or(overview)).toBeVisible();
 
-  await expect(review).toBeVisible({ timeout: 180_000 });
-  await expect(review.getByRole('heading', { level: 2, name: segmentName })).toBeVisible();
+  // The fit page is an overview of its segments: estimate, interval, PD, window, links.
+  await expect(overview).toBeVisible({ timeout: 180_000 });
+  await expect(page.getByRole('navigation', { name: 'Breadcrumb' })).toContainText(`Fits/Fit #${fitId}`);
+  const row = overview.getByTestId('overview-row-0');
+  await expect(row).toContainText(segmentName);
+  await expect(row).toContainText(/0\.\d{4}\s*Binomial-mixture maximum likelihood/);
+  await expect(row).toContainText(/\[0\.\d{4}, 0\.\d{4}\]/);
+  await expect(row).toContainText(/\d\.\d+%/);
+  await expect(row.getByRole('link', { name: `Draft an assumption for ${segmentName} from this fit` })).toBeVisible();
+  const periods = Number((await row.textContent())!.match(/\((\d+) periods\)/)![1]);
+  expect(periods).toBeGreaterThan(5);
+  await keepScreenshot(page, testInfo, 'fit-overview', { narrow: true });
+
+  // Each segment has its own review page, its sections in a side index.
+  await row.getByRole('link', { name: segmentName, exact: true }).click();
+  await expect(page).toHaveURL(new RegExp(`/fits/${fitId}/segments/`));
+  await expect(page.getByRole('heading', { level: 1, name: segmentName })).toBeVisible();
+  await expect(page.getByRole('navigation', { name: 'Breadcrumb' })).toContainText(`Fits/Fit #${fitId}/${segmentName}`);
+  const index = page.getByRole('navigation', { name: 'Sections of this review' });
+  for (const title of ['Estimates and intervals', 'Default rates against the fitted model', 'Profile log-likelihood of ρ', 'Implied factor and probability integral transform', 'Small-sample simulation study', 'What the estimate means', 'Window comparison', 'The data, period by period']) {
+    await expect(index.getByRole('link', { name: title })).toBeVisible();
+    await expect(page.getByRole('heading', { level: 2, name: title })).toBeVisible();
+  }
+  await index.getByRole('link', { name: 'Window comparison' }).click();
+  await expect(page).toHaveURL(/#review-windows$/);
+  const review = page.getByTestId('segment-review');
+  await expect(review.getByTestId('segment-summary')).toContainText(/Estimated asset correlation ρ = 0\.\d{4} by binomial-mixture maximum likelihood/);
   await expect(review.getByTestId('forest-chart')).toBeVisible();
   await expect(review.getByText('(chosen)')).toBeVisible();
   await expect(review.getByRole('img', { name: /fitted 50%, 95% and 99% bands/ }).locator('svg')).toBeVisible();
-  await expect(review.getByTestId('exceedances')).toContainText(/of \d+ periods lie above the fitted 95% quantile/);
+  await expect(review.getByTestId('exceedances')).toContainText(/Quantile exceedances: \d+ of \d+ periods lie above the fitted 95% quantile/);
   await expect(review.getByTestId('profile-chart')).toBeVisible();
   await expect(review.getByTestId('lr-test')).toContainText(/Likelihood-ratio test of ρ = 0: statistic \d+\.\d\d/);
   await expect(review.getByText(/^Dashed red line: the cut-off -?\d+\.\d\d, the maximum less χ²₁\(0\.95\)\/2/)).toBeVisible();
@@ -52,14 +77,16 @@ test('an analyst starts a fit with a bootstrap, follows its progress and reads t
   await expect(review.getByTestId('autocorrelation')).toContainText(/Lag-1 autocorrelation of the implied factor: (-?\d\.\d\d, against ±\d\.\d\d|not computed)/);
   // The three intervals of the likelihood estimate: profile, Wald (with its standard error) and the bootstrap asked for.
   const intervals = review.getByTestId('intervals-table');
-  await expect(intervals.getByRole('row', { name: /Profile likelihood \[0\.\d{3}, 0\.\d{3}\]/ })).toBeVisible();
-  await expect(intervals.getByRole('row', { name: /Wald \[0\.\d{3}, 0\.\d{3}\] standard error of ρ 0\.\d{4}/ })).toBeVisible();
-  await expect(intervals.getByRole('row', { name: /Parametric bootstrap \[0\.\d{3}, 0\.\d{3}\] bias [+−]0\.\d{4}, B = 1000, seed 7/ })).toBeVisible();
-  await expect(review.getByTestId('audit-table').getByRole('row', { name: /^Binomial-mixture ML 100 \/ 100 / })).toBeVisible();
+  await expect(intervals.getByRole('row', { name: /Profile likelihood \[0\.\d{4}, 0\.\d{4}\]/ })).toBeVisible();
+  await expect(intervals.getByRole('row', { name: /Wald \[0\.\d{4}, 0\.\d{4}\] standard error of ρ 0\.\d{4}/ })).toBeVisible();
+  await expect(intervals.getByRole('row', { name: /Parametric bootstrap \[0\.\d{4}, 0\.\d{4}\] bias [+−]0\.\d{4}, B = 1000, seed 7/ })).toBeVisible();
+  await expect(review.getByTestId('audit-table').getByRole('row', { name: /^Binomial-mixture maximum likelihood 100 \/ 100 / })).toBeVisible();
   await expect(review.getByTestId('implications')).toContainText('99.9% quantile of the yearly default rate');
   await expect(review.getByTestId('implications')).toContainText('Supervisory correlation');
   await expect(review.getByTestId('windows-table')).toContainText('Whole window');
   await expect(review.getByTestId('windows-table')).toContainText('Without the worst period');
+  // Every period of the window is a row of the data table (no inner scroll hides any).
+  await expect(review.getByTestId('observed-table').locator('tbody tr')).toHaveCount(periods);
   await expect(page.getByTestId('fit-provenance')).toContainText('bootstrap B 1000, seed 7');
 
   // The pair explorer inside the review follows the correlation at once.
@@ -69,8 +96,7 @@ test('an analyst starts a fit with a bootstrap, follows its progress and reads t
   await review.getByLabel('Asset correlation ρ').fill('0.5');
   await expect(joint).not.toHaveText(first!);
 
-  await page.screenshot({ path: testInfo.outputPath('fit-review.png'), fullPage: true });
-  await testInfo.attach('fit-review', { path: testInfo.outputPath('fit-review.png'), contentType: 'image/png' });
+  await keepScreenshot(page, testInfo, 'fit-segment-review', { narrow: true });
 
   // The API answers the same run.
   const api = await page.request.get(`/api/fits/${fitId}`);

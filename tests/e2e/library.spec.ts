@@ -1,5 +1,5 @@
 import { expect, test, type APIRequestContext, type Page } from '@playwright/test';
-import { signIn } from './helpers';
+import { keepScreenshot, signIn } from './helpers';
 
 /**
  * The maker-checker loop in chromium: an analyst drafts and submits, a validator requests changes,
@@ -32,7 +32,7 @@ async function act(page: Page, button: string, expectState: string) {
   await expect(page.getByRole('heading', { level: 1 }).getByTestId('status-badge')).toHaveText(expectState);
 }
 
-test('draft, request changes, fix, approve, publish; a viewer sees the published value', async ({ browser }) => {
+test('draft, request changes, fix, approve, publish; a viewer sees the published value', async ({ browser }, testInfo) => {
   const analystCtx = await browser.newContext();
   const analyst = await analystCtx.newPage();
   await signIn(analyst, 'analyst@fenmoor.example');
@@ -60,6 +60,13 @@ test('draft, request changes, fix, approve, publish; a viewer sees the published
   await validator.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Queue', exact: true }).click();
   await validator.getByRole('table', { name: 'Awaiting me' }).getByRole('link', { name: segment }).first().click();
   await expect(validator).toHaveURL(versionUrl, { timeout: 60_000 });
+  // The version page carries the frozen review of its segment: the validator need not leave it.
+  const evidence = validator.getByTestId('version-evidence');
+  await expect(evidence.getByRole('heading', { level: 2, name: `Evidence: the review of ${segment} from fit #${fitId}` })).toBeVisible();
+  await expect(evidence.getByTestId('forest-chart')).toBeVisible();
+  await expect(evidence.getByTestId('profile-chart')).toBeVisible();
+  await expect(evidence.getByRole('navigation', { name: 'Sections of this review' }).getByRole('link', { name: 'Small-sample simulation study' })).toBeVisible();
+  await keepScreenshot(validator, testInfo, 'version-with-evidence');
   await act(validator, 'Start review', 'in review');
   await validator.getByRole('button', { name: 'Request changes', exact: true }).click();
   await expect(validator.getByRole('alert').filter({ hasText: 'a comment is required' })).toBeVisible();

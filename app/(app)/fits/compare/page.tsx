@@ -3,8 +3,9 @@ import Link from 'next/link';
 import { z } from 'zod';
 import { requireUser } from '@/lib/auth/session';
 import { getFitsForCompare } from '@/lib/dal/fits';
-import { fixed, interval, pct } from '@/lib/fits/format';
-import { ESTIMATOR_NAMES, ESTIMATOR_ORDER, isCurrentResults, type FitSegmentResult } from '@/lib/fits/results';
+import { fixed, interval, pct } from '@/lib/format';
+import { estimatorLabel } from '@/lib/stats/estimators/types';
+import { ESTIMATOR_ORDER, isCurrentResults, type FitSegmentResult } from '@/lib/fits/results';
 
 export const metadata: Metadata = { title: 'Compare fits' };
 
@@ -99,7 +100,7 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
             {row('Level', (c) => `${Math.round(c.fit.request.level * 100)}%`)}
             {row('Engine', (c) => c.fit.engineVersion)}
             {row('Seeds (bootstrap, audit)', (c) => `${c.fit.seeds.bootstrap ?? '—'}, ${c.fit.seeds.audit ?? '—'}`)}
-            {ESTIMATOR_ORDER.map((k) => row(`ρ ${ESTIMATOR_NAMES[k]}`, (c) => fixed(c.seg.estimates[k].rho, 4)))}
+            {ESTIMATOR_ORDER.map((k) => row(`ρ ${estimatorLabel(k)}`, (c) => fixed(c.seg.estimates[k].rho, 4)))}
             {row('PD (likelihood)', (c) => pct(c.seg.estimates.binomialMle.pd))}
             {row('Profile interval', (c) => interval(c.seg.estimates.binomialMle.intervals.profile?.lower, c.seg.estimates.binomialMle.intervals.profile?.upper))}
             {row('Wald interval', (c) => interval(c.seg.estimates.binomialMle.intervals.wald?.lower, c.seg.estimates.binomialMle.intervals.wald?.upper))}

@@ -5,10 +5,12 @@ import { z } from 'zod';
 import { Cautions } from '@/components/assumptions/cautions';
 import { fmt, StatusBadge } from '@/components/assumptions/status-badge';
 import { TransitionPanel } from '@/components/assumptions/transition-panel';
+import { VersionEvidence } from '@/components/assumptions/version-evidence';
 import { editableStatuses, statusLabels } from '@/lib/assumptions/lifecycle';
 import { can, roleLabels } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { getVersionPage } from '@/lib/dal/assumptions';
+import { getFitSegment } from '@/lib/dal/fits';
 import { AppError } from '@/lib/errors';
 
 export const metadata: Metadata = { title: 'Assumption' };
@@ -48,6 +50,7 @@ export default async function VersionPage({
     throw err;
   });
   const v = page.version;
+  const evidence = v.fitRunId ? await getFitSegment(actor, v.fitRunId, v.segment) : null;
   const canEdit = can(actor.role, 'assumptions:draft') && editableStatuses.includes(v.status);
   return (
     <div className="space-y-5">
@@ -191,6 +194,8 @@ export default async function VersionPage({
           ) : null}
         </div>
       </section>
+
+      <VersionEvidence evidence={evidence} segment={v.segment} />
 
       {page.changesFromPrevious && page.comparedWith ? (
         <section className="panel p-5" aria-labelledby="diff-heading">

@@ -1,0 +1,25 @@
+import { BandsSection } from './bands-section';
+import { DataSection } from './data-section';
+import { EstimatesSection } from './estimates-section';
+import { FactorSection } from './factor-section';
+import { ImplicationsSection } from './implications-section';
+import { ProfileSection } from './profile-section';
+import { SimulationSection } from './simulation-section';
+import type { ReviewSection } from './types';
+import { WindowsSection } from './windows-section';
+
+/**
+ * The sections of a segment's review, in the order of the page and its side index. Adding a section
+ * is one entry here: a component taking ReviewContext (types.ts), an anchor id and a heading, and
+ * optionally `applies` for results that may not carry its part.
+ */
+export const REVIEW_SECTIONS: readonly ReviewSection[] = [
+  { id: 'estimates', title: 'Estimates and intervals', Component: EstimatesSection },
+  { id: 'bands', title: 'Default rates against the fitted model', Component: BandsSection },
+  { id: 'profile', title: 'Profile log-likelihood of ρ', Component: ProfileSection },
+  { id: 'factor', title: 'Implied factor and probability integral transform', Component: FactorSection },
+  { id: 'simulation', title: 'Small-sample simulation study', Component: SimulationSection },
+  { id: 'implications', title: 'What the estimate means', Component: ImplicationsSection },
+  { id: 'windows', title: 'Window comparison', Component: WindowsSection },
+  { id: 'data', title: 'The data, period by period', Component: DataSection },
+];
