@@ -1,3 +1,4 @@
+import { ScrollBox } from '@/components/layout/scroll-box';
 import Link from 'next/link';
 import { count, interval, pd, rho } from '@/lib/format';
 import { segmentHref, segmentsInOrder, type FitResults } from '@/lib/fits/results';
@@ -12,7 +13,7 @@ import { splitWarnings } from './review/summary';
  */
 export function SegmentsOverview({ fitId, results, mayDraft }: { fitId: number; results: FitResults; mayDraft: boolean }) {
   return (
-    <div className="overflow-x-auto" role="region" aria-label="Segments of this fit (scrolls sideways on narrow screens)" tabIndex={0}>
+    <ScrollBox label="Segments of this fit">
       <table className="table" data-testid="segments-overview">
         <thead>
           <tr>
@@ -94,6 +95,6 @@ export function SegmentsOverview({ fitId, results, mayDraft }: { fitId: number; 
           })}
         </tbody>
       </table>
-    </div>
+    </ScrollBox>
   );
 }

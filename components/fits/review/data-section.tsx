@@ -1,3 +1,4 @@
+import { ScrollBox } from '@/components/layout/scroll-box';
 import { fixed, integer, pd } from '@/lib/format';
 import type { ReviewContext } from './types';
 
@@ -5,7 +6,7 @@ import type { ReviewContext } from './types';
 export function DataSection({ seg }: ReviewContext) {
   const d = seg.diagnostics;
   return (
-    <div className="overflow-x-auto">
+    <ScrollBox label="The data, period by period">
       <table className="table text-sm" data-testid="observed-table">
         <thead>
           <tr>
@@ -30,6 +31,6 @@ export function DataSection({ seg }: ReviewContext) {
           ))}
         </tbody>
       </table>
-    </div>
+    </ScrollBox>
   );
 }

@@ -1,3 +1,4 @@
+import { ScrollBox } from '@/components/layout/scroll-box';
 import { interval, level, pd, rho, signed } from '@/lib/format';
 import { ESTIMATOR_ORDER } from '@/lib/fits/results';
 import { estimatorLabel } from '@/lib/stats/estimators/types';
@@ -21,7 +22,7 @@ export function EstimatesSection({ seg, bootstrapRequested }: ReviewContext) {
         </p>
       </div>
       <div className="grid gap-4 xl:grid-cols-2">
-        <div className="overflow-x-auto">
+        <ScrollBox label="Estimates of every estimator">
           <table className="table text-sm" data-testid="estimates-table">
             <thead>
               <tr>
@@ -45,8 +46,8 @@ export function EstimatesSection({ seg, bootstrapRequested }: ReviewContext) {
               })}
             </tbody>
           </table>
-        </div>
-        <div className="overflow-x-auto">
+        </ScrollBox>
+        <ScrollBox label="Intervals of the likelihood estimate">
           <table className="table text-sm" data-testid="intervals-table">
             <caption className="mb-1 text-left text-sm text-[var(--color-muted)]">
               {lv} intervals of the likelihood estimate
@@ -113,7 +114,7 @@ export function EstimatesSection({ seg, bootstrapRequested }: ReviewContext) {
               </tr>
             </tbody>
           </table>
-        </div>
+        </ScrollBox>
       </div>
     </div>
   );

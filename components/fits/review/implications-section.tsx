@@ -1,3 +1,4 @@
+import { ScrollBox } from '@/components/layout/scroll-box';
 import { PairExplorer } from '@/components/pairs/pair-explorer';
 import { assetClassNames } from '@/lib/asset-classes';
 import { interval, pct, pd, rho } from '@/lib/format';
@@ -17,7 +18,7 @@ export function ImplicationsSection({ seg }: ReviewContext) {
   const lgdAndMaturity = `LGD ${pct(imp.lgd, 2)}${imp.maturityYears !== null ? `, maturity ${imp.maturityYears} years` : ', no maturity adjustment'}`;
   return (
     <div className="space-y-4">
-      <div className="overflow-x-auto">
+      <ScrollBox label="What the estimate means">
         <table className="table text-sm" data-testid="implications">
           <tbody>
             <tr>
@@ -64,7 +65,7 @@ export function ImplicationsSection({ seg }: ReviewContext) {
             </tr>
           </tbody>
         </table>
-      </div>
+      </ScrollBox>
       <p className="notice-caution text-xs" data-testid="capital-caution">
         K is an illustration ({lgdAndMaturity}), not regulatory capital; an estimated correlation does not replace the supervisory correlation
         in Pillar 1 own-funds requirements. {imp.convention}

@@ -1,3 +1,4 @@
+import { ScrollBox } from '@/components/layout/scroll-box';
 import { count, level, pct, pd, rho, signed } from '@/lib/format';
 import { ESTIMATOR_ORDER } from '@/lib/fits/results';
 import { estimatorLabel } from '@/lib/stats/estimators/types';
@@ -38,7 +39,7 @@ export function SimulationSection({ seg }: ReviewContext) {
         ) : null}
       </p>
       <div className="grid gap-4 xl:grid-cols-2">
-        <div className="overflow-x-auto">
+        <ScrollBox label="Bias and RMSE of every estimator">
           <table className="table text-sm" data-testid="audit-table">
             <thead>
               <tr>
@@ -69,8 +70,8 @@ export function SimulationSection({ seg }: ReviewContext) {
               })}
             </tbody>
           </table>
-        </div>
-        <div className="overflow-x-auto">
+        </ScrollBox>
+        <ScrollBox label="Coverage of the intervals">
           <table className="table text-sm" data-testid="audit-coverage">
             <thead>
               <tr>
@@ -101,7 +102,7 @@ export function SimulationSection({ seg }: ReviewContext) {
               })}
             </tbody>
           </table>
-        </div>
+        </ScrollBox>
       </div>
       <p className="text-xs text-[var(--color-muted)]">
         The study simulates at the estimate, not at the unknown true value: it tells how the estimators behave if the estimate were right.

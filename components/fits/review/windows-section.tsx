@@ -1,3 +1,4 @@
+import { ScrollBox } from '@/components/layout/scroll-box';
 import { interval, level, pd, rho } from '@/lib/format';
 import type { ReviewContext } from './types';
 
@@ -5,7 +6,7 @@ import type { ReviewContext } from './types';
 export function WindowsSection({ seg }: ReviewContext) {
   return (
     <div>
-      <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Window comparison (scrolls sideways)">
+      <ScrollBox label="Window comparison">
         <table className="table text-sm" data-testid="windows-table">
           <thead>
             <tr>
@@ -38,7 +39,7 @@ export function WindowsSection({ seg }: ReviewContext) {
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollBox>
       <p className="mt-1 text-xs text-[var(--color-muted)]">
         Each window fitted by the same engine at {level(seg.level)}. Shorter windows give wider intervals; a large move when one year is left
         out means the estimate rests on that year.
