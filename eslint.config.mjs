@@ -21,7 +21,7 @@ const config = [
   ...nextVitals,
   ...nextTs,
   {
-    ignores: ['node_modules/**', '.next/**', '.data/**', 'next-env.d.ts', 'test-results/**', 'playwright-report/**', 'db/migrations/**'],
+    ignores: ['node_modules/**', '.next/**', '.next-*/**', '.data/**', 'next-env.d.ts', 'test-results/**', 'playwright-report/**', 'db/migrations/**'],
   },
   {
     rules: {
