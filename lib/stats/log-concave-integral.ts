@@ -96,6 +96,8 @@ export interface LogConcaveIntegral {
 
 /** Most panels of the adaptive stage. */
 export const MAX_PANELS = 64;
+/** Most moment functions of one integrand (work arrays grow with it: 64 panels x (1 + moments) doubles). */
+export const MAX_MOMENTS = 1024;
 /** Default log-units below the maximum at which the integrand is cut. */
 export const TRUNCATION_LOG_UNITS = 40;
 /** Default relative tolerance of the adaptive stage. */
@@ -128,10 +130,13 @@ export class LogConcaveIntegrator {
   private readonly acc: Float64Array;
   private evaluations = 0;
 
-  /** @param maxMoments the largest `moments` of any integrand this integrator will see. */
+  /**
+   * @param maxMoments the largest `moments` of any integrand this integrator will see (at most
+   * {@link MAX_MOMENTS}: the grade model's Hessian in two parameters per grade needs hundreds).
+   */
   constructor(maxMoments: number) {
-    if (!Number.isInteger(maxMoments) || maxMoments < 0 || maxMoments > 64) {
-      throw new RangeError(`LogConcaveIntegrator: maxMoments must be a whole number from 0 to 64; got ${maxMoments}.`);
+    if (!Number.isInteger(maxMoments) || maxMoments < 0 || maxMoments > MAX_MOMENTS) {
+      throw new RangeError(`LogConcaveIntegrator: maxMoments must be a whole number from 0 to ${MAX_MOMENTS}; got ${maxMoments}.`);
     }
     this.width = 1 + maxMoments;
     this.moments = new Float64Array(Math.max(1, maxMoments));
@@ -194,7 +199,11 @@ export class LogConcaveIntegrator {
     // 2. Truncation half-widths.
     const curvature = -d[2];
     const sigma = curvature > 0 ? 1 / Math.sqrt(curvature) : 1;
-    const maxWidth = c > 0 ? Math.sqrt((2 * truncation) / c) : Infinity;
+    // With g'' <= -c the drop of `truncation` below g(mode) is reached within sqrt(2 L / c) of the
+    // true maximiser; the mode found may miss it by |g'(mode)| / c (and g(mode) the maximum by
+    // g'^2 / (2c)), which matters when the curvature is c itself (a purely normal integrand).
+    const slack = c > 0 ? Math.abs(d[1]) / c : 0;
+    const maxWidth = c > 0 ? Math.sqrt((2 * (truncation + 0.5 * slack * slack * c)) / c) + slack : Infinity;
     const left = mode > lower ? Math.min(mode - lower, this.halfWidth(f, mode, -1, gMax - truncation, options.leftWidth, sigma, maxWidth, truncation)) : 0;
     const right = mode < upper ? Math.min(upper - mode, this.halfWidth(f, mode, 1, gMax - truncation, options.rightWidth, sigma, maxWidth, truncation)) : 0;
     if (!(left >= 0 && right >= 0) || !(left + right > 0)) {

@@ -88,3 +88,16 @@ describe('LogConcaveIntegrator', () => {
     }
   });
 });
+
+describe('an integrand whose curvature is exactly the bound', () => {
+  it('integrates a standard normal from a warm start off its mode (the mode found is within 1e-6 of 0)', () => {
+    // closed form: Int exp(-x^2 / 2) dx = sqrt(2 pi); the curvature equals the bound c = 1, so the
+    // truncation width must allow for the small error of the mode (regression: grades at rho = 0)
+    const I = new LogConcaveIntegrator(2);
+    for (const start of [-8.5e-7, 3e-4, 0.7, -5]) {
+      const r = I.integrate(gaussian(0, 1), { start, leftWidth: 0.05, rightWidth: 0.05, curvatureBound: 1 });
+      expect(r.converged, `start ${start}`).toBe(true);
+      expect(Math.abs(r.value - LN_SQRT_2PI)).toBeLessThan(1e-12);
+    }
+  });
+});
