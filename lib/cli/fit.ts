@@ -13,6 +13,10 @@ import { segmentFailure, type PanelInput, type SegmentFailure, type TimedSegment
 import { ASSET_CLASSES, type AssetClass } from '../stats/irb';
 import { ENGINE_VERSION } from '../stats/version';
 import { formatTable } from './format';
+import { parsePortfolioArgs, portfolioBlocks, PORTFOLIO_OPTIONS, PORTFOLIO_USAGE, type PortfolioArgs } from './portfolio';
+import type { GradeFit } from '../stats/grade-fit';
+import type { FactorCorrelationMatrix } from '../stats/factor-correlation-matrix';
+import type { PosteriorBlock, PrudentPdBlock } from '../stats/low-default';
 
 /** Where the CLI writes; injectable for tests. */
 export interface CliIo {
@@ -23,7 +27,11 @@ export interface CliIo {
 /** The JSON document printed with --json: the fitted segments and, in their places, the failed ones. */
 export interface FitDocument {
   engine: { version: string };
-  segments: TimedSegmentFit[];
+  segments: (TimedSegmentFit & { posterior?: PosteriorBlock; prudentPd?: PrudentPdBlock })[];
+  /** Grades under one factor (--group). */
+  group?: GradeFit;
+  /** The factor-correlation matrix (--pairs). */
+  pairs?: FactorCorrelationMatrix;
   /** Segments whose fit failed, with the reason and their position among all segments (exit code 3). */
   failures: SegmentFailure[];
 }
@@ -41,7 +49,8 @@ export class CliInputError extends Error {
 
 export const FIT_USAGE = `Usage: npm run --silent cli -- fit FILE.csv [--json] [--segment NAME] [--from PERIOD] [--to PERIOD]
                               [--level 0.95] [--bootstrap B] [--seed N] [--audit R] [--audit-seed N] [--threads N]
-                              [--asset-class CLASS] [--turnover S]
+                              [--asset-class CLASS] [--turnover S] [--group "A,B,C"] [--common-window] [--pairs]
+                              [--prior flat|supervisory:S|beta:A,B] [--prudent RHO,CONFIDENCE]
 
 Fits the asset correlation of every segment of a cohort CSV (columns segment,period,obligors,defaults).
   --json            print one JSON document (engine version, one entry per segment) instead of a table
@@ -55,6 +64,7 @@ Fits the asset correlation of every segment of a cohort CSV (columns segment,per
   --threads N       worker threads for the bootstrap and the audit (default: available cores; 0 = this thread)
   --asset-class C   compare with the Basel IRB supervisory correlation of ${ASSET_CLASSES.join(', ')}
   --turnover S      annual turnover in EUR millions, for the SME size adjustment of sme-corporate
+${PORTFOLIO_USAGE}
 
 Exit codes: 0 every segment fitted; 2 bad command line or file (nothing fitted); 3 some segments
 failed (each named with its reason on stderr and under "failures" in the JSON, the others fitted);
@@ -88,6 +98,8 @@ export interface FitArgs {
   threads?: number;
   assetClass?: AssetClass;
   turnoverMillions?: number;
+  /** Grades, pairs, posterior and most prudent PD (lib/cli/portfolio.ts). */
+  portfolio: PortfolioArgs;
 }
 
 /** Parses the arguments after `fit`; throws CliInputError with a sentence for anything wrong. */
@@ -111,6 +123,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
         threads: { type: 'string' },
         'asset-class': { type: 'string' },
         turnover: { type: 'string' },
+        ...PORTFOLIO_OPTIONS,
       },
     });
   } catch (err) {
@@ -160,6 +173,7 @@ export function parseFitArgs(argv: string[]): FitArgs {
     ...(threads !== undefined ? { threads } : {}),
     ...(rawClass !== undefined ? { assetClass: rawClass as AssetClass } : {}),
     ...(turnover !== undefined ? { turnoverMillions: turnover } : {}),
+    portfolio: parsePortfolioArgs(values, (m) => new CliInputError(m)),
   };
 }
 
@@ -224,8 +238,13 @@ export async function runFit(argv: string[], io: CliIo): Promise<number> {
     );
   }
   const panels = panelsFromRows(validation.rows, args);
+  const unknown = (args.portfolio.group ?? []).filter((g) => !panels.some((p) => p.segment === g));
+  if (unknown.length > 0) {
+    throw new CliInputError(`--group names ${unknown.map((g) => `"${g}"`).join(', ')}, which the file (in the window) does not have. Its segments: ${panels.map((p) => `"${p.segment}"`).join(', ')}.`);
+  }
   const anyBootstrap = args.bootstrap !== undefined;
-  const pool = (anyBootstrap || args.audit !== undefined) && args.threads !== 0 ? new EnginePool(args.threads ?? undefined) : undefined;
+  const pool = (anyBootstrap || args.audit !== undefined || args.portfolio.pairs) && args.threads !== 0 ? new EnginePool(args.threads ?? undefined) : undefined;
+  let blocks: Awaited<ReturnType<typeof portfolioBlocks>> | null = null;
   const segments: TimedSegmentFit[] = [];
   const failures: SegmentFailure[] = [];
   try {
@@ -252,10 +271,26 @@ export async function runFit(argv: string[], io: CliIo): Promise<number> {
         io.err(`error: segment "${panel.segment}" was not fitted: ${failures.at(-1)!.reason}`);
       }
     }
+    blocks = await portfolioBlocks(
+      panels,
+      args.portfolio,
+      { level: args.level, assetClass: args.assetClass ?? null, turnoverMillions: args.turnoverMillions ?? null, ...(pool ? { pool } : {}) },
+      (m) => new CliInputError(m),
+    );
   } finally {
     await pool?.close();
   }
-  const doc: FitDocument = { engine: { version: ENGINE_VERSION }, segments, failures };
+  const doc: FitDocument = {
+    engine: { version: ENGINE_VERSION },
+    segments: segments.map((s) => ({
+      ...s,
+      ...(blocks?.posterior.has(s.segment) ? { posterior: blocks.posterior.get(s.segment)! } : {}),
+      ...(blocks?.prudentPd.has(s.segment) ? { prudentPd: blocks.prudentPd.get(s.segment)! } : {}),
+    })),
+    ...(blocks?.group ? { group: blocks.group } : {}),
+    ...(blocks?.pairs ? { pairs: blocks.pairs } : {}),
+    failures,
+  };
   io.out(args.json ? JSON.stringify(doc, null, 2) : formatTable(doc));
   return failures.length > 0 ? EXIT_SOME_SEGMENTS_FAILED : 0;
 }

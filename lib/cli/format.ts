@@ -71,6 +71,37 @@ export function formatTable(doc: FitDocument): string {
       lines.push(`  (${im.convention})`);
     }
     for (const w of s.warnings) lines.push(`  ! ${w.message}`);
+    const post = doc.segments[items.filter((x) => x.kind === 'fit').indexOf(item)]?.posterior;
+    if (post) {
+      lines.push(
+        post.status === 'ok'
+          ? `  posterior of rho (prior ${post.prior.rho}, p ${post.prior.pd}): median ${num(post.median)}, mean ${num(post.mean)}, ${(100 * post.level).toFixed(0)}% [${num(post.lower)}, ${num(post.upper)}], HPD [${num(post.hpdLower)}, ${num(post.hpdUpper)}]; ${post.influence}`
+          : `  posterior of rho: not computed: ${post.reason}`,
+      );
+    }
+    const prudent = doc.segments[items.filter((x) => x.kind === 'fit').indexOf(item)]?.prudentPd;
+    if (prudent) {
+      lines.push(prudent.status === 'undefined' ? `  most prudent PD: not computed: ${prudent.reason}` : `  most prudent PD at rho ${num(prudent.rho)}, confidence ${prudent.confidence}: ${pct(prudent.upper)}`);
+    }
+  }
+  if (doc.group) {
+    const g = doc.group;
+    lines.push('', `Grades ${g.segments.join(', ')} under one factor: ${g.status}${g.reason ? `: ${g.reason}` : ''}`);
+    if (g.commonRho) {
+      const iv = g.commonRho.interval;
+      lines.push(`  common rho ${num(g.commonRho.rho)} [${num(iv.lower)}, ${num(iv.upper)}], log-likelihood ${num(g.commonRho.logLik, 3)}`);
+      for (const s of g.segments) lines.push(`  ${pad(s, 16)} PD ${pct(g.pds![s].pd)} [${pct(g.pds![s].lower)}, ${pct(g.pds![s].upper)}], own rho ${num(g.gradeRho![s])}, alone: rho ${num(g.single[s]?.rho)}, PD ${pct(g.single[s]?.pd)}`);
+      lines.push(`  LR test of one common rho: statistic ${num(g.lrTest!.statistic, 3)}, df ${g.lrTest!.df}, p-value ${num(g.lrTest!.pValue)}`);
+      for (const w of g.warnings) lines.push(`  ! ${w.message}`);
+    }
+  }
+  if (doc.pairs) {
+    const m = doc.pairs;
+    lines.push('', 'Factor correlations between segments (maximum likelihood, margins at their own estimates):');
+    for (const e of m.entries) {
+      lines.push(`  ${pad(`${e.a} - ${e.b}`, 30)} ${e.r === null ? `- (${e.reason})` : `r ${num(e.r)} [${num(e.lower)}, ${num(e.upper)}], moment ${num(e.moment)}`}`);
+    }
+    lines.push(`  ${m.nearestNote}`);
   }
   return lines.join('\n');
 }

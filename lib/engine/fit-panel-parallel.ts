@@ -162,7 +162,7 @@ export async function fitPanelParallel(
   const audit: AuditReplication[] = [];
   for (const r of results) {
     if (r.kind === 'bootstrap') bootstrap.push(...r.replications);
-    else audit.push(...r.replications);
+    else if (r.kind === 'audit') audit.push(...r.replications);
   }
   const fit = completeSegmentFit(prepared, {
     ...(prepared.bootstrap ? { bootstrap } : {}),

@@ -1,10 +1,11 @@
 /**
  * The units of work the engine's worker threads run: a slice [from, to) of a bootstrap's or an
- * estimator audit's replications. A task is plain data (structured-clone safe) and runTask is the only code that
+ * estimator audit's replications, or of the pairs of a factor-correlation matrix. A task is plain data (structured-clone safe) and runTask is the only code that
  * executes it, in a worker thread or in the calling thread alike, so every split of the index
  * range gives the same numbers.
  */
 import { auditRange, type AuditReplication, type AuditSpec } from '../stats/audit';
+import { factorCorrelation, type FactorCorrelation, type PairSegmentInput } from '../stats/factor-correlation';
 import { bootstrapRange, type BootstrapReplication, type BootstrapSpec } from '../stats/intervals/bootstrap';
 
 /** Bootstrap replications from .. to - 1 of one spec. */
@@ -23,7 +24,18 @@ export interface AuditTask {
   to: number;
 }
 
-export type EngineTask = BootstrapTask | AuditTask;
+/** Factor correlations of the pairs from .. to - 1 of a list of segment pairs (lib/stats/factor-correlation.ts). */
+export interface PairsTask {
+  kind: 'pairs';
+  segments: PairSegmentInput[];
+  /** Index pairs (i, j) into `segments`. */
+  pairs: [number, number][];
+  level: number;
+  from: number;
+  to: number;
+}
+
+export type EngineTask = BootstrapTask | AuditTask | PairsTask;
 
 export interface BootstrapTaskResult {
   kind: 'bootstrap';
@@ -35,7 +47,12 @@ export interface AuditTaskResult {
   replications: AuditReplication[];
 }
 
-export type EngineTaskResult = BootstrapTaskResult | AuditTaskResult;
+export interface PairsTaskResult {
+  kind: 'pairs';
+  entries: FactorCorrelation[];
+}
+
+export type EngineTaskResult = BootstrapTaskResult | AuditTaskResult | PairsTaskResult;
 
 /** Number of replications (progress units) in a task. */
 export function taskSize(task: EngineTask): number {
@@ -49,6 +66,15 @@ export function runTask(task: EngineTask, onItem?: () => void): EngineTaskResult
       return { kind: 'bootstrap', replications: bootstrapRange(task.spec, task.from, task.to, onItem && (() => onItem())) };
     case 'audit':
       return { kind: 'audit', replications: auditRange(task.spec, task.from, task.to, onItem && (() => onItem())) };
+    case 'pairs': {
+      const entries: FactorCorrelation[] = [];
+      for (let i = task.from; i < task.to; i++) {
+        const [a, b] = task.pairs[i];
+        entries.push(factorCorrelation(task.segments[a], task.segments[b], { level: task.level }));
+        onItem?.();
+      }
+      return { kind: 'pairs', entries };
+    }
     default: {
       const unknown: never = task;
       throw new RangeError(`runTask: unknown task kind ${String((unknown as { kind: unknown }).kind)}.`);
