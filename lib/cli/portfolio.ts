@@ -5,13 +5,10 @@
  * the JSON blocks they add: `group` and `pairs` beside `segments`, `posterior` and `prudentPd` in
  * each segment.
  */
-import { EnginePool, factorCorrelationMatrixParallel } from '../engine';
+import { EnginePool, portfolioBlocks as engineBlocks, type PortfolioBlocks } from '../engine';
 import type { RhoPriorSpec } from '../stats/beta-prior';
-import type { FactorCorrelationMatrix } from '../stats/factor-correlation-matrix';
 import type { PanelInput } from '../stats/fit-panel';
-import { fitGrades, type GradeFit } from '../stats/grade-fit';
 import type { AssetClass } from '../stats/irb';
-import { posteriorBlock, prudentPdBlock, type PosteriorBlock, type PrudentPdBlock } from '../stats/low-default';
 
 /** Parsed portfolio options. */
 export interface PortfolioArgs {
@@ -82,18 +79,9 @@ export function parsePortfolioArgs(values: Record<string, unknown>, fail: (messa
   return out;
 }
 
-/** The blocks the portfolio options add to the document. */
-export interface PortfolioBlocks {
-  group?: GradeFit;
-  pairs?: FactorCorrelationMatrix;
-  /** Per segment name. */
-  posterior: Map<string, PosteriorBlock>;
-  prudentPd: Map<string, PrudentPdBlock>;
-}
-
 /**
- * Computes the portfolio blocks for the file's panels (all segments, within the window).
- * Throws `fail(sentence)` for a --group naming a segment the file does not have.
+ * Computes the portfolio blocks for the file's panels (all segments, within the window), with
+ * the CLI's asset class for a supervisory-centred prior.
  */
 export async function portfolioBlocks(
   panels: readonly PanelInput[],
@@ -101,21 +89,15 @@ export async function portfolioBlocks(
   context: { level: number; assetClass: AssetClass | null; turnoverMillions: number | null; pool?: EnginePool },
   fail: (message: string) => Error,
 ): Promise<PortfolioBlocks> {
-  const out: PortfolioBlocks = { posterior: new Map(), prudentPd: new Map() };
-  if (args.group) {
-    const byName = new Map(panels.map((p) => [p.segment, p]));
-    const missing = args.group.filter((g) => !byName.has(g));
-    if (missing.length > 0) throw fail(`--group names ${missing.map((m) => `"${m}"`).join(', ')}, which the file (in the window) does not have. Its segments: ${panels.map((p) => `"${p.segment}"`).join(', ')}.`);
-    out.group = fitGrades(args.group.map((g) => byName.get(g)!), { level: context.level, commonWindow: args.commonWindow });
-  }
-  if (args.pairs) {
-    if (panels.length < 2) throw fail('--pairs needs a file (or window) with at least two segments.');
-    out.pairs = await factorCorrelationMatrixParallel(panels, { level: context.level }, context.pool ? { pool: context.pool } : { threads: 0 });
-  }
-  for (const p of panels) {
-    const panel = { obligors: p.obligors, defaults: p.defaults };
-    if (args.prior) out.posterior.set(p.segment, posteriorBlock(panel, args.prior, { assetClass: context.assetClass, turnoverMillions: context.turnoverMillions, level: context.level }));
-    if (args.prudent) out.prudentPd.set(p.segment, prudentPdBlock(panel, args.prudent));
-  }
-  return out;
+  if (args.pairs && panels.length < 2) throw fail('--pairs needs a file (or window) with at least two segments.');
+  return engineBlocks(
+    panels.map((p) => ({ ...p, assetClass: context.assetClass, turnoverMillions: context.turnoverMillions })),
+    {
+      group: args.group ? { segments: args.group, commonWindow: args.commonWindow } : null,
+      pairs: args.pairs,
+      prior: args.prior ?? null,
+      prudent: args.prudent ? { rho: args.prudent.rho ?? null, confidence: args.prudent.confidence } : null,
+    },
+    { level: context.level, ...(context.pool ? { pool: context.pool } : {}) },
+  );
 }

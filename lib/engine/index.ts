@@ -6,3 +6,4 @@ export { fitPanelParallel, type ParallelOptions } from './fit-panel-parallel';
 export { defaultThreads, EngineAbortError, EnginePool, MAX_THREADS } from './pool';
 export { splitRange, type EngineTask, type EngineTaskResult } from './tasks';
 export { factorCorrelationMatrixParallel, type PairsRunOptions } from './pairs-parallel';
+export { portfolioBlocks, type PortfolioBlocks, type PortfolioPanel, type PortfolioRequest } from './portfolio';

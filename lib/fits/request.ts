@@ -36,9 +36,44 @@ export const fitRequestSchema = z
         seed,
       })
       .nullish(),
+    /** Grades under one factor: the segments, best grade first (lib/stats/grade-fit.ts). */
+    group: z
+      .object({
+        segments: z.array(z.string().trim().min(1).max(120)).min(2, 'A grade group needs at least two segments.').max(20, 'At most 20 grades in a group.'),
+        commonWindow: z.boolean().default(false),
+      })
+      .nullish(),
+    /** The factor correlation of every pair of the fitted segments (lib/stats/factor-correlation-matrix.ts). */
+    pairs: z.boolean().optional(),
+    /** Prior of each segment's grid posterior of rho (lib/stats/rho-posterior.ts). */
+    prior: z
+      .discriminatedUnion('kind', [
+        z.object({ kind: z.literal('flat') }),
+        z.object({ kind: z.literal('supervisory'), strength: z.number().positive('The prior strength must be positive.').max(10_000, 'The prior strength must be at most 10,000.') }),
+        z.object({
+          kind: z.literal('beta'),
+          a: z.number().positive('A Beta prior needs a > 0 (with a = 0 it has no mass inside (0, 1)).').max(10_000),
+          b: z.number().positive('A Beta prior needs b > 0 (with b = 0 it has no mass inside (0, 1)).').max(10_000),
+        }),
+      ])
+      .nullish(),
+    /** Most prudent PD: rho (null: the segment's binomialMle) and confidence (lib/stats/prudent-pd.ts). */
+    prudent: z
+      .object({
+        rho: z.number().min(0, 'rho must be in [0, 1).').lt(1, 'rho must be in [0, 1).').nullable(),
+        confidence: z.number().gt(0, 'The confidence must be strictly between 0 and 1.').lt(1, 'The confidence must be strictly between 0 and 1.'),
+      })
+      .nullish(),
   })
   .strict()
   .superRefine((v, ctx) => {
+    if (v.group && v.segments) {
+      const missing = v.group.segments.filter((s) => !v.segments!.includes(s));
+      if (missing.length > 0) ctx.addIssue({ code: 'custom', path: ['group', 'segments'], message: `The grade group names ${missing.join(', ')}, which the fit does not include; choose them among its segments.` });
+    }
+    if (v.pairs && v.segments && v.segments.length < 2) {
+      ctx.addIssue({ code: 'custom', path: ['pairs'], message: 'Factor correlations need at least two segments.' });
+    }
     if (v.from !== undefined && v.to !== undefined && v.from > v.to) {
       ctx.addIssue({ code: 'custom', path: ['to'], message: `The window ends (${v.to}) before it starts (${v.from}).` });
     }

@@ -12,7 +12,10 @@
  */
 import type { AssetClass } from '@/db/schema';
 import { ESTIMATOR_KEYS, type Estimate, type EstimatorKey } from '@/lib/stats/estimators/types';
+import type { FactorCorrelationMatrix } from '@/lib/stats/factor-correlation-matrix';
 import type { SegmentFailure, TimedSegmentFit } from '@/lib/stats/fit-panel';
+import type { GradeFit } from '@/lib/stats/grade-fit';
+import type { PosteriorBlock, PrudentPdBlock } from '@/lib/stats/low-default';
 
 export type { EstimatorKey };
 
@@ -47,13 +50,25 @@ export type FitSegmentResult = Omit<TimedSegmentFit, 'warnings'> & {
   /** The estimator the review leads with: binomialMle unless it gives no value. */
   chosen: EstimatorKey;
   windows: WindowResult[];
+  /** The grid posterior of rho, when the request set a prior. */
+  posterior?: PosteriorBlock;
+  /** The most prudent PD, when the request asked for it. */
+  prudentPd?: PrudentPdBlock;
 };
 
 /**
  * A run's results. `failures` (absent in runs stored before segments could fail one by one) lists
  * the segments whose fit failed, each with its reason and its position among all the run's segments.
  */
-export type FitResults = { engine: { version: string }; segments: FitSegmentResult[]; failures?: SegmentFailure[] };
+export type FitResults = {
+  engine: { version: string };
+  segments: FitSegmentResult[];
+  failures?: SegmentFailure[];
+  /** Grades under one factor, when the request named a group. */
+  group?: GradeFit;
+  /** The factor-correlation matrix, when the request asked for pairs. */
+  pairs?: FactorCorrelationMatrix;
+};
 
 /** The run's segments in their order, fitted and failed alike (older results have no failures). */
 export function segmentsInOrder(results: FitResults): ({ kind: 'fit'; fit: FitSegmentResult; index: number } | { kind: 'failed'; failure: SegmentFailure })[] {

@@ -8,7 +8,7 @@
  * and ENGINE_VERSION, not on the thread count or on which worker runs the job.
  */
 import type { AssetClass } from '@/db/schema';
-import { EnginePool, fitPanelParallel } from '@/lib/engine';
+import { EnginePool, fitPanelParallel, portfolioBlocks } from '@/lib/engine';
 import { segmentFailure, type SegmentFailure } from '@/lib/stats/fit-panel';
 import type { AssetClass as StatsAssetClass } from '@/lib/stats/irb';
 import { ENGINE_VERSION } from '@/lib/stats/version';
@@ -65,7 +65,7 @@ export async function computeFitRun(panels: readonly SegmentInput[], request: Fi
   const w = weights(request);
   const perSegment = w.base + w.replications + w.windows;
   const total = perSegment * panels.length;
-  const pool = (request.bootstrap || request.audit) && options.threads > 0 ? new EnginePool(options.threads) : null;
+  const pool = (request.bootstrap || request.audit || request.pairs) && options.threads > 0 ? new EnginePool(options.threads) : null;
   const segments: FitSegmentResult[] = [];
   const failures: SegmentFailure[] = [];
   try {
@@ -125,6 +125,30 @@ export async function computeFitRun(panels: readonly SegmentInput[], request: Fi
         chosen,
         windows,
       });
+    }
+    if (request.group || request.pairs || request.prior || request.prudent) {
+      await report(99, 'Grades, pairs and posteriors');
+      const blocks = await portfolioBlocks(
+        panels.map((p) => {
+          const b = benchmarkOf(p);
+          return { ...p, assetClass: b.assetClass, turnoverMillions: b.turnoverMillions };
+        }),
+        { group: request.group ?? null, pairs: request.pairs ?? false, prior: request.prior ?? null, prudent: request.prudent ?? null },
+        { level: request.level, ...(pool ? { pool } : {}), ...(options.signal ? { signal: options.signal } : {}) },
+      );
+      for (const s of segments) {
+        const posterior = blocks.posterior.get(s.segment);
+        const prudentPd = blocks.prudentPd.get(s.segment);
+        if (posterior) s.posterior = posterior;
+        if (prudentPd) s.prudentPd = prudentPd;
+      }
+      return {
+        engine: { version: ENGINE_VERSION },
+        segments,
+        failures,
+        ...(blocks.group ? { group: blocks.group } : {}),
+        ...(blocks.pairs ? { pairs: blocks.pairs } : {}),
+      };
     }
   } finally {
     await pool?.close();
