@@ -15,6 +15,7 @@ import { ENGINE_VERSION } from '../stats/version';
 import { formatTable } from './format';
 import { parsePortfolioArgs, portfolioBlocks, PORTFOLIO_OPTIONS, PORTFOLIO_USAGE, type PortfolioArgs } from './portfolio';
 import type { GradeFit } from '../stats/grade-fit';
+import type { GradeAuditSummary } from '../stats/grade-audit';
 import type { FactorCorrelationMatrix } from '../stats/factor-correlation-matrix';
 import type { PosteriorBlock, PrudentPdBlock } from '../stats/low-default';
 
@@ -29,7 +30,7 @@ export interface FitDocument {
   engine: { version: string };
   segments: (TimedSegmentFit & { posterior?: PosteriorBlock; prudentPd?: PrudentPdBlock })[];
   /** Grades under one factor (--group). */
-  group?: GradeFit;
+  group?: GradeFit & { estimatorAudit?: GradeAuditSummary | null };
   /** The factor-correlation matrix (--pairs). */
   pairs?: FactorCorrelationMatrix;
   /** Segments whose fit failed, with the reason and their position among all segments (exit code 3). */
@@ -274,7 +275,13 @@ export async function runFit(argv: string[], io: CliIo): Promise<number> {
     blocks = await portfolioBlocks(
       panels,
       args.portfolio,
-      { level: args.level, assetClass: args.assetClass ?? null, turnoverMillions: args.turnoverMillions ?? null, ...(pool ? { pool } : {}) },
+      {
+        level: args.level,
+        assetClass: args.assetClass ?? null,
+        turnoverMillions: args.turnoverMillions ?? null,
+        ...(pool ? { pool } : {}),
+        ...(args.audit !== undefined ? { audit: { replications: args.audit, seed: args.auditSeed } } : {}),
+      },
       (m) => new CliInputError(m),
     );
   } finally {

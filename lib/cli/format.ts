@@ -92,6 +92,8 @@ export function formatTable(doc: FitDocument): string {
       lines.push(`  common rho ${num(g.commonRho.rho)} [${num(iv.lower)}, ${num(iv.upper)}], log-likelihood ${num(g.commonRho.logLik, 3)}`);
       for (const s of g.segments) lines.push(`  ${pad(s, 16)} PD ${pct(g.pds![s].pd)} [${pct(g.pds![s].lower)}, ${pct(g.pds![s].upper)}], own rho ${num(g.gradeRho![s])}, alone: rho ${num(g.single[s]?.rho)}, PD ${pct(g.single[s]?.pd)}`);
       lines.push(`  LR test of one common rho: statistic ${num(g.lrTest!.statistic, 3)}, df ${g.lrTest!.df}, p-value ${num(g.lrTest!.pValue)}`);
+      const a = g.estimatorAudit;
+      if (a) lines.push(`  audit of the common rho (R = ${a.replications}, seed ${a.seed}): bias ${num(a.bias)}, sd ${num(a.sd)}, interval coverage ${pct(a.coverage)} (MCSE ${pct(a.coverageMcse)})`);
       for (const w of g.warnings) lines.push(`  ! ${w.message}`);
     }
   }

@@ -30,6 +30,7 @@ export const PORTFOLIO_OPTIONS = {
 
 export const PORTFOLIO_USAGE = `  --group "A,B,C"   fit these segments as grades under one factor (best grade first): common rho with
                     its profile interval, grade PDs with intervals, grade-specific rho, LR test
+                    (with --audit R, also the coverage of the common-rho interval at these n_gt and T)
   --common-window   with --group, use the years every grade has instead of refusing different windows
   --pairs           the factor correlation of every pair of segments, with the nearest correlation matrix
   --prior P         grid posterior of rho in each segment: flat, supervisory:STRENGTH (Beta centred on the
@@ -86,7 +87,7 @@ export function parsePortfolioArgs(values: Record<string, unknown>, fail: (messa
 export async function portfolioBlocks(
   panels: readonly PanelInput[],
   args: PortfolioArgs,
-  context: { level: number; assetClass: AssetClass | null; turnoverMillions: number | null; pool?: EnginePool },
+  context: { level: number; assetClass: AssetClass | null; turnoverMillions: number | null; pool?: EnginePool; audit?: { replications: number; seed: number } },
   fail: (message: string) => Error,
 ): Promise<PortfolioBlocks> {
   if (args.pairs && panels.length < 2) throw fail('--pairs needs a file (or window) with at least two segments.');
@@ -97,6 +98,7 @@ export async function portfolioBlocks(
       pairs: args.pairs,
       prior: args.prior ?? null,
       prudent: args.prudent ? { rho: args.prudent.rho ?? null, confidence: args.prudent.confidence } : null,
+      gradeAudit: args.group && context.audit ? context.audit : null,
     },
     { level: context.level, ...(context.pool ? { pool: context.pool } : {}) },
   );

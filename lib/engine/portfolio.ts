@@ -9,8 +9,10 @@ import type { PanelInput } from '../stats/fit-panel';
 import { fitGrades, type GradeFit } from '../stats/grade-fit';
 import type { AssetClass } from '../stats/irb';
 import { posteriorBlock, prudentPdBlock, type PosteriorBlock, type PrudentPdBlock } from '../stats/low-default';
+import { mergeGradeAudit, type GradeAuditReplication, type GradeAuditSummary } from '../stats/grade-audit';
 import { factorCorrelationMatrixParallel } from './pairs-parallel';
 import type { EnginePool } from './pool';
+import { runTask, splitRange, type EngineTask } from './tasks';
 
 /** What to compute beyond the segment fits. */
 export interface PortfolioRequest {
@@ -22,6 +24,8 @@ export interface PortfolioRequest {
   prior?: RhoPriorSpec | null;
   /** Most prudent PD: rho (null: the segment's binomialMle) and confidence. */
   prudent?: { rho: number | null; confidence: number } | null;
+  /** The estimator audit of the grade model: R groups simulated at the fit (lib/stats/grade-audit.ts). */
+  gradeAudit?: { replications: number; seed: number } | null;
 }
 
 /** A segment's panel with its supervisory benchmark (for a supervisory-centred prior). */
@@ -29,7 +33,7 @@ export type PortfolioPanel = PanelInput & { assetClass: AssetClass | null; turno
 
 /** The blocks computed (absent when not asked for). */
 export interface PortfolioBlocks {
-  group?: GradeFit;
+  group?: GradeFit & { estimatorAudit?: GradeAuditSummary | null };
   pairs?: FactorCorrelationMatrix;
   posterior: Map<string, PosteriorBlock>;
   prudentPd: Map<string, PrudentPdBlock>;
@@ -59,6 +63,24 @@ export async function portfolioBlocks(
             reason: `The group names ${missing.map((m) => `"${m}"`).join(', ')}, which the fitted segments do not include.`,
           }
         : fitGrades(request.group.segments.map((g) => byName.get(g)!), { level: context.level, commonWindow: request.group.commonWindow });
+    const fit = out.group;
+    if (request.gradeAudit && fit.commonRho && fit.pds) {
+      const spec = {
+        obligors: fit.segments.map((s) => {
+          const p = byName.get(s)!;
+          return fit.periods.map((y) => p.obligors[p.periods.indexOf(y)]);
+        }),
+        pds: fit.segments.map((s) => fit.pds![s].pd),
+        rho: fit.commonRho.rho,
+        seed: request.gradeAudit.seed,
+        level: context.level,
+      };
+      const tasks: EngineTask[] = splitRange(request.gradeAudit.replications, 5).map(({ from, to }) => ({ kind: 'grade-audit', spec, from, to }));
+      const results = context.pool ? await context.pool.run(tasks, context.signal ? { signal: context.signal } : {}) : tasks.map((t) => runTask(t));
+      const reps: GradeAuditReplication[] = [];
+      for (const r of results) if (r.kind === 'grade-audit') reps.push(...r.replications);
+      out.group = { ...fit, estimatorAudit: mergeGradeAudit([reps], spec) };
+    }
   }
   if (request.pairs) {
     if (panels.length < 2) throw new RangeError('The factor-correlation matrix needs at least two segments.');

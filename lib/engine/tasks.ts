@@ -6,6 +6,7 @@
  */
 import { auditRange, type AuditReplication, type AuditSpec } from '../stats/audit';
 import { factorCorrelation, type FactorCorrelation, type PairSegmentInput } from '../stats/factor-correlation';
+import { gradeAuditRange, type GradeAuditReplication, type GradeAuditSpec } from '../stats/grade-audit';
 import { bootstrapRange, type BootstrapReplication, type BootstrapSpec } from '../stats/intervals/bootstrap';
 
 /** Bootstrap replications from .. to - 1 of one spec. */
@@ -35,7 +36,15 @@ export interface PairsTask {
   to: number;
 }
 
-export type EngineTask = BootstrapTask | AuditTask | PairsTask;
+/** Grade-model audit replications from .. to - 1 (lib/stats/grade-audit.ts). */
+export interface GradeAuditTask {
+  kind: 'grade-audit';
+  spec: GradeAuditSpec;
+  from: number;
+  to: number;
+}
+
+export type EngineTask = BootstrapTask | AuditTask | PairsTask | GradeAuditTask;
 
 export interface BootstrapTaskResult {
   kind: 'bootstrap';
@@ -52,7 +61,12 @@ export interface PairsTaskResult {
   entries: FactorCorrelation[];
 }
 
-export type EngineTaskResult = BootstrapTaskResult | AuditTaskResult | PairsTaskResult;
+export interface GradeAuditTaskResult {
+  kind: 'grade-audit';
+  replications: GradeAuditReplication[];
+}
+
+export type EngineTaskResult = BootstrapTaskResult | AuditTaskResult | PairsTaskResult | GradeAuditTaskResult;
 
 /** Number of replications (progress units) in a task. */
 export function taskSize(task: EngineTask): number {
@@ -75,6 +89,8 @@ export function runTask(task: EngineTask, onItem?: () => void): EngineTaskResult
       }
       return { kind: 'pairs', entries };
     }
+    case 'grade-audit':
+      return { kind: 'grade-audit', replications: gradeAuditRange(task.spec, task.from, task.to, onItem && (() => onItem())) };
     default: {
       const unknown: never = task;
       throw new RangeError(`runTask: unknown task kind ${String((unknown as { kind: unknown }).kind)}.`);

@@ -15,6 +15,7 @@ import { ESTIMATOR_KEYS, type Estimate, type EstimatorKey } from '@/lib/stats/es
 import type { FactorCorrelationMatrix } from '@/lib/stats/factor-correlation-matrix';
 import type { SegmentFailure, TimedSegmentFit } from '@/lib/stats/fit-panel';
 import type { GradeFit } from '@/lib/stats/grade-fit';
+import type { GradeAuditSummary } from '@/lib/stats/grade-audit';
 import type { PosteriorBlock, PrudentPdBlock } from '@/lib/stats/low-default';
 
 export type { EstimatorKey };
@@ -65,7 +66,7 @@ export type FitResults = {
   segments: FitSegmentResult[];
   failures?: SegmentFailure[];
   /** Grades under one factor, when the request named a group. */
-  group?: GradeFit;
+  group?: GradeFit & { estimatorAudit?: GradeAuditSummary | null };
   /** The factor-correlation matrix, when the request asked for pairs. */
   pairs?: FactorCorrelationMatrix;
 };

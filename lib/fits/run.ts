@@ -133,7 +133,7 @@ export async function computeFitRun(panels: readonly SegmentInput[], request: Fi
           const b = benchmarkOf(p);
           return { ...p, assetClass: b.assetClass, turnoverMillions: b.turnoverMillions };
         }),
-        { group: request.group ?? null, pairs: request.pairs ?? false, prior: request.prior ?? null, prudent: request.prudent ?? null },
+        { group: request.group ?? null, pairs: request.pairs ?? false, prior: request.prior ?? null, prudent: request.prudent ?? null, gradeAudit: request.audit ?? null },
         { level: request.level, ...(pool ? { pool } : {}), ...(options.signal ? { signal: options.signal } : {}) },
       );
       for (const s of segments) {

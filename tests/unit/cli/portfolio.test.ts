@@ -67,4 +67,13 @@ describe('cli fit: --group, --pairs, --prior, --prudent', () => {
     expect(seg.posterior).toMatchObject({ status: 'undefined', reason: expect.stringMatching(/asset class/) });
     expect(seg.prudentPd).toMatchObject({ status: 'ok', confidence: 0.95, rho: seg.estimates.binomialMle.rho });
   });
+
+  it('with --audit runs the grade audit on the worker threads, with the numbers of this thread', async () => {
+    // reproducibility across threads (deriveSeed per replication)
+    const args = ['fit', CSV, '--json', '--group', 'Panel A,Panel B', '--audit', '6', '--audit-seed', '5'];
+    const threaded = JSON.parse((await runCli([...args, '--threads', '2'])).out) as FitDocument;
+    const here = JSON.parse((await runCli([...args, '--threads', '0'])).out) as FitDocument;
+    expect(threaded.group!.estimatorAudit).toMatchObject({ replications: 6, seed: 5 });
+    expect(threaded.group!.estimatorAudit).toEqual(here.group!.estimatorAudit);
+  });
 });
