@@ -13,7 +13,7 @@ import { ReportTable } from './report-table';
 type Kind = 'cohort' | 'vintage' | 'loans';
 
 const kinds: { value: Kind; label: string; columns: string; sample: string }[] = [
-  { value: 'cohort', label: 'Cohort counts', columns: 'segment, period, obligors, defaults (optional default_definition, note)', sample: '/samples/cohort.csv' },
+  { value: 'cohort', label: 'Cohort counts', columns: 'segment, period, obligors, defaults (optional default_definition, note, grade: each grade becomes the panel "segment / grade")', sample: '/samples/cohort.csv' },
   { value: 'vintage', label: 'Vintages', columns: 'segment, vintage (YYYY-MM), months_on_book, active, defaults', sample: '/samples/vintage.csv' },
   { value: 'loans', label: 'Loan-level tape', columns: 'loan_id, segment, start_date, default_date, exit_date (YYYY-MM-DD)', sample: '/samples/loans.csv' },
 ];

@@ -5,6 +5,7 @@
  */
 import { Readable } from 'node:stream';
 import { createRng } from '@/lib/stats/random';
+import { conditionalPd as vasicekConditionalPd } from '@/lib/stats/vasicek';
 import { cohortRowsCsv, DEMO_SEED, FENMOOR_SEGMENTS, generateCohortRows, generateVintageCsv } from './fenmoor';
 import { generateLoanTape } from './loan-tape';
 
@@ -30,8 +31,32 @@ export function fenmoorLoanTapeStream(seed: number = DEMO_SEED + 2, loans = 200_
   return Readable.from(fenmoorLoanTapeChunks(seed, loans));
 }
 
+/**
+ * A cohort file with a `grade` column: five rating grades of invented corporate loans, 2005-2024,
+ * whose defaults share one factor per year (asset correlation 0.12), for the grade model.
+ */
+export function gradedCohortCsv(seed: number = DEMO_SEED + 4): string {
+  const rng = createRng(seed);
+  const grades = [
+    { grade: 'A', pd: 0.002, obligors: 900 },
+    { grade: 'BBB', pd: 0.006, obligors: 1400 },
+    { grade: 'BB', pd: 0.015, obligors: 1600 },
+    { grade: 'B', pd: 0.04, obligors: 1100 },
+    { grade: 'CCC', pd: 0.12, obligors: 400 },
+  ];
+  const lines = ['segment,grade,period,obligors,defaults'];
+  for (let year = 2005; year <= 2024; year++) {
+    const x = rng.normal();
+    for (const g of grades) {
+      const n = g.obligors + Math.round(g.obligors * 0.1 * rng.normal());
+      lines.push(`Corporate loans,${g.grade},${year},${n},${rng.binomial(n, vasicekConditionalPd(g.pd, 0.12, x))}`);
+    }
+  }
+  return lines.join('\n') + '\n';
+}
+
 /** Small files offered for download on the upload page (public/samples). */
-export function sampleFiles(seed: number = DEMO_SEED + 3): { 'cohort.csv': string; 'vintage.csv': string; 'loans.csv': string } {
+export function sampleFiles(seed: number = DEMO_SEED + 3): { 'cohort.csv': string; 'vintage.csv': string; 'loans.csv': string; 'cohort-grades.csv': string } {
   const rng = createRng(seed);
   const two = FENMOOR_SEGMENTS.filter((s) => s.name === 'SME term loans' || s.name === 'Credit cards');
   const cohort = cohortRowsCsv(generateCohortRows(rng, two), () => undefined);
@@ -44,5 +69,5 @@ export function sampleFiles(seed: number = DEMO_SEED + 3): { 'cohort.csv': strin
     term: 36,
   });
   const loans = [...generateLoanTape(rng, { loans: 300, segments: two, weights: [1, 1] })].join('');
-  return { 'cohort.csv': cohort, 'vintage.csv': vintage, 'loans.csv': loans };
+  return { 'cohort.csv': cohort, 'vintage.csv': vintage, 'loans.csv': loans, 'cohort-grades.csv': gradedCohortCsv() };
 }

@@ -1,6 +1,6 @@
 /**
- * Cohort uploads: `segment, period, obligors, defaults` (+ optional `default_definition`, `note`),
- * one row per segment and period (DESIGN.md, "Data the user brings").
+ * Cohort uploads: `segment, period, obligors, defaults` (+ optional `default_definition`, `note`,
+ * `grade`), one row per segment and period (DESIGN.md, "Data the user brings").
  *
  * Decisions documented here:
  * - Periods are calendar years written YYYY (1900-2100). YYYY-MM and YYYY-Qn are refused with
@@ -10,6 +10,10 @@
  *   converts to annual cohorts by a stated rule.
  * - Unknown columns are warnings (ignored, not stored), see `mapColumns`.
  * - Rows with errors are left out of `rows`; the upload is accepted only when there are no errors.
+ * - An optional `grade` column splits a segment into rating grades: a row with a grade belongs to
+ *   the panel `SEGMENT / GRADE` (GRADE_SEPARATOR), which is stored, listed and fitted as a segment
+ *   of its own, so the grades of one portfolio can be fitted together under one factor (the grade
+ *   model). A row with an empty grade stays in the segment itself.
  */
 import { z } from 'zod';
 import { FindingCollector, type Finding, type FindingSummary } from './findings';
@@ -35,8 +39,11 @@ export type CohortRow = z.infer<typeof cohortRowSchema>;
 
 export const COHORT_COLUMNS = {
   required: ['segment', 'period', 'obligors', 'defaults'] as const,
-  optional: ['default_definition', 'note'] as const,
+  optional: ['default_definition', 'note', 'grade'] as const,
 };
+
+/** Between a segment and its grade in the name of a graded panel: `Corporate loans / BB`. */
+export const GRADE_SEPARATOR = ' / ';
 
 export interface CohortValidation {
   kind: 'cohort';
@@ -82,7 +89,7 @@ export function checkPeriod(raw: string, line: number, findings: FindingCollecto
   return null;
 }
 
-class CohortSink extends KindSink<'segment' | 'period' | 'obligors' | 'defaults', 'default_definition' | 'note'> {
+class CohortSink extends KindSink<'segment' | 'period' | 'obligors' | 'defaults', 'default_definition' | 'note' | 'grade'> {
   rows: CohortRow[] = [];
   private readonly seen = new Map<string, number>();
 
@@ -94,7 +101,8 @@ class CohortSink extends KindSink<'segment' | 'period' | 'obligors' | 'defaults'
     const c = this.cols!;
     const f = this.findings;
     const errorsBefore = f.errors;
-    const segment = this.segments.check(fields[c.segment], line);
+    const grade = c.grade !== undefined ? fields[c.grade].trim() : '';
+    const segment = this.segments.check(grade === '' || fields[c.segment].trim() === '' ? fields[c.segment] : `${fields[c.segment].trim()}${GRADE_SEPARATOR}${grade}`, line);
     const period = checkPeriod(fields[c.period], line, f);
     const obligors = countOrReport(fields[c.obligors], 'obligors', 'obligors', line, this.delimiter, f);
     const defaults = countOrReport(fields[c.defaults], 'defaults', 'defaults', line, this.delimiter, f);
