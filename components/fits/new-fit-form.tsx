@@ -5,6 +5,7 @@ import { useRouter } from 'next/navigation';
 import { useId, useMemo, useState, type FormEvent } from 'react';
 import type { AppError } from '@/lib/errors';
 import { requestFit } from '@/lib/client/fits';
+import { INITIAL_PORTFOLIO, PortfolioFields, portfolioRequest, type PortfolioState } from './portfolio-fields';
 
 export type DatasetOption = {
   id: number;
@@ -40,6 +41,7 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
   const [audit, setAudit] = useState(false);
   const [auditR, setAuditR] = useState('50');
   const [auditSeed, setAuditSeed] = useState('20260102');
+  const [portfolio, setPortfolio] = useState<PortfolioState>(INITIAL_PORTFOLIO);
   const [localError, setLocalError] = useState<string | null>(null);
 
   const submit = useMutation({
@@ -77,7 +79,9 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
       if (!Number.isFinite(s)) return setLocalError('Audit seed: give a whole number.');
       body.audit = { replications: r, seed: s };
     }
-    submit.mutate(body);
+    const extra = portfolioRequest(portfolio, dataset.segments.map((s) => s.name).filter((n) => chosen.has(n)));
+    if ('error' in extra) return setLocalError(extra.error);
+    submit.mutate({ ...body, ...extra.body });
   }
 
   if (datasets.length === 0) {
@@ -153,6 +157,7 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
           the numbers can be reproduced exactly.
         </p>
       </fieldset>
+      <PortfolioFields id={id} state={portfolio} onChange={setPortfolio} />
       {localError || serverError ? (
         <p className="notice-bad text-sm" role="alert">
           {localError ?? serverError?.message}

@@ -82,7 +82,8 @@ export function posteriorBlock(
  * `confidence` (default 0.9, DESIGN.md).
  *
  * Special cases: no rho given and no likelihood estimate (a segment without defaults) gives
- * status `undefined` with a sentence asking for one.
+ * status `undefined` with a sentence asking for one; a segment with more defaults than the bound
+ * is meant for (MAX_PRUDENT_DEFAULTS) gives status `undefined` with that sentence.
  *
  * @example prudentPdBlock({ obligors: [400, 420], defaults: [0, 0] }, { rho: 0.12, confidence: 0.9 })
  *
@@ -102,6 +103,12 @@ export function prudentPdBlock(panel: Panel, options: { rho?: number; confidence
     }
     rho = mle.rho;
   }
-  const r = prudentPd(panel, rho, confidence);
-  return { ...r, status: r.converged ? 'ok' : 'not-converged' };
+  try {
+    const r = prudentPd(panel, rho, confidence);
+    return { ...r, status: r.converged ? 'ok' : 'not-converged' };
+  } catch (err) {
+    // Too many defaults for the convolution (the bound is for low-default segments): say so in place.
+    if (!(err instanceof RangeError)) throw err;
+    return { status: 'undefined', confidence, reason: err.message.replace(/^prudentPd: /, '') };
+  }
 }

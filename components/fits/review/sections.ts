@@ -3,6 +3,7 @@ import { DataSection } from './data-section';
 import { EstimatesSection } from './estimates-section';
 import { FactorSection } from './factor-section';
 import { ImplicationsSection } from './implications-section';
+import { isLowDefault, PosteriorReviewSection } from './posterior-section';
 import { ProfileSection } from './profile-section';
 import { SimulationSection } from './simulation-section';
 import type { ReviewSection } from './types';
@@ -14,6 +15,13 @@ import { WindowsSection } from './windows-section';
  * optionally `applies` for results that may not carry its part.
  */
 export const REVIEW_SECTIONS: readonly ReviewSection[] = [
+  // With fewer defaults than the setting the likelihood estimate is not informative: the posterior leads.
+  {
+    id: 'posterior-first',
+    title: 'Posterior of ρ (few defaults)',
+    Component: PosteriorReviewSection,
+    applies: (seg) => (seg.posterior !== undefined || seg.prudentPd !== undefined) && isLowDefault(seg),
+  },
   { id: 'estimates', title: 'Estimates and intervals', Component: EstimatesSection },
   { id: 'bands', title: 'Default rates against the fitted model', Component: BandsSection },
   { id: 'profile', title: 'Profile log-likelihood of ρ', Component: ProfileSection },
@@ -21,5 +29,11 @@ export const REVIEW_SECTIONS: readonly ReviewSection[] = [
   { id: 'simulation', title: 'Small-sample simulation study', Component: SimulationSection },
   { id: 'implications', title: 'What the estimate means', Component: ImplicationsSection },
   { id: 'windows', title: 'Window comparison', Component: WindowsSection },
+  {
+    id: 'posterior',
+    title: 'Posterior of ρ and the most prudent PD',
+    Component: PosteriorReviewSection,
+    applies: (seg) => (seg.posterior !== undefined || seg.prudentPd !== undefined) && !isLowDefault(seg),
+  },
   { id: 'data', title: 'The data, period by period', Component: DataSection },
 ];

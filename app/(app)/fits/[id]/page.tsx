@@ -8,6 +8,7 @@ import { FitProvenance, OldResultsNotice } from '@/components/fits/fit-provenanc
 import { ModelCautions } from '@/components/fits/model-cautions';
 import { SegmentsOverview } from '@/components/fits/segments-overview';
 import { Breadcrumbs } from '@/components/layout/breadcrumbs';
+import { GroupResults, PairMatrix } from '@/components/fits/portfolio-review';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { fitStatusQuery } from '@/lib/client/fits';
@@ -74,6 +75,8 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
             </p>
             <SegmentsOverview fitId={fit.id} results={fit.results} mayDraft={can(actor.role, 'assumptions:draft')} />
           </section>
+          {fit.results.group ? <GroupResults group={fit.results.group} /> : null}
+          {fit.results.pairs ? <PairMatrix pairs={fit.results.pairs} fitId={fit.id} /> : null}
           <ModelCautions />
         </>
       ) : null}

@@ -45,3 +45,12 @@ describe('prudentPd (most prudent PD, multi-period)', () => {
     expect(prudentPd({ obligors: [5], defaults: [5] }, 0.1, 0.9).upper).toBe(1);
   });
 });
+
+describe('prudentPdBlock', () => {
+  it('gives a segment with many defaults a status and a sentence instead of failing the fit', async () => {
+    // regression: a fit of the demo loan tape (12,458 defaults in one segment) stopped here
+    const { prudentPdBlock } = await import('@/lib/stats/low-default');
+    const r = prudentPdBlock({ obligors: [100000, 100000], defaults: [5000, 4000] }, { rho: 0.1, confidence: 0.9 });
+    expect(r).toMatchObject({ status: 'undefined', confidence: 0.9, reason: expect.stringMatching(/9000 defaults/) });
+  });
+});
