@@ -43,6 +43,8 @@ const envSchema = z.object({
   UPLOAD_MAX_LINE_CHARS: z.coerce.number().int().min(1024).default(64 * 1024),
   /** Most columns in an uploaded file's header. */
   UPLOAD_MAX_COLUMNS: z.coerce.number().int().min(10).default(1000),
+  /** How often the worker's scheduler publishes, expires and reminds (seconds). */
+  SCHEDULER_INTERVAL_SECONDS: z.coerce.number().int().min(1).max(3600).default(60),
   SMTP_URL: z.string().optional(),
   MAIL_FROM: z.string().default('Rhobook <rhobook@fenmoor.example>'),
 });

@@ -1,15 +1,16 @@
 import type { Db } from '@/db/connection';
 import { runScheduledTransitions } from '@/lib/dal/assumptions';
+import { env } from '@/lib/env';
 import { sleep } from './mail-loop';
 
 /**
- * The assumption scheduler: once a minute it publishes approved versions whose effective date has
+ * The assumption scheduler: once a minute (SCHEDULER_INTERVAL_SECONDS) it publishes approved versions whose effective date has
  * come (the segment's previous published version becomes superseded; never a back-dated one), expires published versions
  * whose review-by date has passed, and queues the 30- and 7-day review reminders (once each).
  * Every step is idempotent and re-checks the state under a row lock, so several workers may run it.
  */
 export async function runScheduler(opts: { db: Db; signal: AbortSignal; intervalMs?: number }): Promise<void> {
-  const interval = opts.intervalMs ?? 60_000;
+  const interval = opts.intervalMs ?? env().SCHEDULER_INTERVAL_SECONDS * 1000;
   const told = new Set<number>();
   while (!opts.signal.aborted) {
     try {

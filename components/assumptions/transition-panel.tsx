@@ -5,17 +5,23 @@ import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { actionLabels, transitionRules, type UserAction } from '@/lib/assumptions/lifecycle';
 import { apiSend } from '@/lib/client/api';
+import { AppError } from '@/lib/errors';
+import { DecisionDialog, type DecisionFacts } from './decision-dialog';
 
 const confirmText = {
   retire: 'Retire this published version? Consumers will no longer receive it, and it cannot be published again.',
   reject: 'Reject this version? A rejected version cannot be reopened; the analyst drafts a new one.',
 } as const;
 
-/** The actions open to the signed-in person on a version; the server decides again on each. */
-export function TransitionPanel({ versionId, actions }: { versionId: number; actions: UserAction[] }) {
+/**
+ * The actions open to the signed-in person on a version; the server decides again on each. Approve
+ * and publish ask for confirmation in a dialog that shows the value and what it stands with.
+ */
+export function TransitionPanel({ versionId, actions, facts }: { versionId: number; actions: UserAction[]; facts: DecisionFacts }) {
   const router = useRouter();
   const [comment, setComment] = useState('');
   const [done, setDone] = useState<string | null>(null);
+  const [confirming, setConfirming] = useState<'approve' | 'publish' | null>(null);
   const m = useMutation({
     mutationFn: (action: UserAction) =>
       apiSend<{ status: string }>('POST', `/api/assumptions/${versionId}/transitions`, { action, comment: comment.trim() || undefined }),
@@ -25,15 +31,25 @@ export function TransitionPanel({ versionId, actions }: { versionId: number; act
       router.refresh();
     },
   });
+  const commentRefused = m.error instanceof AppError && m.error.code === 'invalid:comment';
   if (!actions.length) return <p className="text-sm text-[var(--color-muted)]">Nothing for you to do on this version now.</p>;
   const needsComment = actions.some((a) => transitionRules[a].commentRequired);
+  const commentFor = actions.filter((a) => transitionRules[a].commentRequired).map((a) => actionLabels[a].toLowerCase());
   return (
     <div className="space-y-3">
       <div>
         <label className="label" htmlFor="transition-comment">
-          Comment{needsComment ? ' (required to request changes or reject)' : ' (optional)'}
+          Comment{needsComment ? ` (required to ${commentFor.join(', ').replace(/, ([^,]*)$/, ' or $1')})` : ' (optional)'}
         </label>
-        <textarea id="transition-comment" className="field" rows={3} value={comment} onChange={(e) => setComment(e.target.value)} />
+        <textarea
+          id="transition-comment"
+          className="field"
+          rows={3}
+          value={comment}
+          onChange={(e) => setComment(e.target.value)}
+          aria-invalid={commentRefused || undefined}
+          aria-describedby={commentRefused ? 'transition-error' : undefined}
+        />
       </div>
       <div className="flex flex-wrap gap-2">
         {actions.map((a) => (
@@ -46,6 +62,11 @@ export function TransitionPanel({ versionId, actions }: { versionId: number; act
               setDone(null);
               // Retiring and rejecting cannot be undone: ask once.
               if ((a === 'retire' || a === 'reject') && !window.confirm(confirmText[a])) return;
+              // Approving and publishing: say what the decision does first (a missing comment is the server's sentence).
+              if (a === 'publish' || (a === 'approve' && comment.trim())) {
+                setConfirming(a);
+                return;
+              }
               m.mutate(a);
             }}
           >
@@ -53,8 +74,20 @@ export function TransitionPanel({ versionId, actions }: { versionId: number; act
           </button>
         ))}
       </div>
+      {confirming ? (
+        <DecisionDialog
+          action={confirming}
+          facts={facts}
+          comment={comment}
+          onCancel={() => setConfirming(null)}
+          onConfirm={() => {
+            setConfirming(null);
+            m.mutate(confirming);
+          }}
+        />
+      ) : null}
       {m.error ? (
-        <p className="notice-bad text-sm" role="alert">
+        <p className="notice-bad text-sm" role="alert" id="transition-error">
           {m.error.message}
         </p>
       ) : null}

@@ -33,7 +33,7 @@ export const transitionRules: Record<UserAction, Rule> = {
   'start-review': { from: ['submitted'], to: 'in_review', roles: ['validator'] },
   'request-changes': { from: ['in_review'], to: 'draft', roles: ['validator'], commentRequired: true },
   reject: { from: ['in_review'], to: 'rejected', roles: ['validator'], commentRequired: true },
-  approve: { from: ['in_review'], to: 'approved', roles: ['validator'] },
+  approve: { from: ['in_review'], to: 'approved', roles: ['validator'], commentRequired: true },
   publish: { from: ['approved'], to: 'published', roles: ['analyst', 'validator', 'admin'] },
   retire: { from: ['published'], to: 'retired', roles: ['validator', 'admin'] },
 };
@@ -80,6 +80,11 @@ export type TransitionContext = {
   today: string;
   /** The day the version was approved (YYYY-MM-DD, UTC), once it has been. */
   approvedOn?: string | null;
+  /**
+   * Whether the scheduler is running (a worker's heartbeat is fresh). It publishes an approved
+   * version on its effective date by itself, so a person is offered Publish only while it is not.
+   */
+  schedulerRunning?: boolean;
 };
 
 /**
@@ -127,7 +132,7 @@ export function planTransition(action: UserAction, ctx: TransitionContext): { fr
     );
   }
   if (rule.commentRequired && !ctx.comment?.trim()) {
-    throw new AppError('invalid:comment', `Say why when you ${action === 'reject' ? 'reject a version' : 'request changes'}: a comment is required.`);
+    throw new AppError('invalid:comment', commentRefusal(action), { field: 'comment' });
   }
   if (action === 'approve') {
     const problem = backDatingProblem(ctx.effectiveDate, ctx.today, 'approve');
@@ -144,6 +149,11 @@ export function planTransition(action: UserAction, ctx: TransitionContext): { fr
     );
   }
   return { from: status, to: rule.to };
+}
+
+function commentRefusal(action: UserAction): string {
+  if (action === 'approve') return "Write your conclusion when you approve a version (what you checked and why it holds): a comment is required.";
+  return `Say why when you ${action === 'reject' ? 'reject a version' : 'request changes'}: a comment is required.`;
 }
 
 function roleRefusal(action: UserAction, role: Role): string {
@@ -194,10 +204,12 @@ export function planEdit(ctx: { actor: { role: Role }; status: AssumptionStatus 
 /**
  * The actions a person could take now (for buttons); the server still decides. An action refused
  * only for a back-dated effective date stays offered, so that the person reads the server's
- * sentence saying what to change.
+ * sentence saying what to change. Publish is offered only where a person's action is needed: while
+ * the scheduler runs, it publishes an approved version on its effective date by itself.
  */
 export function availableActions(ctx: Omit<TransitionContext, 'comment'>): UserAction[] {
   return userActions.filter((a) => {
+    if (a === 'publish' && ctx.schedulerRunning !== false) return false;
     try {
       planTransition(a, { ...ctx, comment: 'x' });
       return true;

@@ -25,6 +25,8 @@ const testEnv = {
   NEXTAUTH_URL: `http://127.0.0.1:${E2E_PORT}`,
   NEXT_TELEMETRY_DISABLED: '1',
   DEMO_PASSWORD: 'rhobook-demo',
+  // The end-to-end tests wait for the scheduler to publish what a validator approved.
+  SCHEDULER_INTERVAL_SECONDS: '3',
 };
 
 let passed = 0;

@@ -3,7 +3,7 @@ import { keepScreenshot, signIn } from './helpers';
 
 /**
  * The maker-checker loop in chromium: an analyst drafts and submits, a validator requests changes,
- * the analyst fixes and resubmits, the validator approves and publishes, and a viewer sees the
+ * the analyst fixes and resubmits, the validator approves, the scheduler publishes, and a viewer sees the
  * published value in the library. The fit it drafts from is requested through the fits API and
  * computed by the worker, as a person would.
  */
@@ -32,7 +32,7 @@ async function act(page: Page, button: string, expectState: string) {
   await expect(page.getByRole('heading', { level: 1 }).getByTestId('status-badge')).toHaveText(expectState);
 }
 
-test('draft, request changes, fix, approve, publish; a viewer sees the published value', async ({ browser }, testInfo) => {
+test('draft, request changes, fix, approve; the scheduler publishes; a viewer sees the published value', async ({ browser }, testInfo) => {
   const analystCtx = await browser.newContext();
   const analyst = await analystCtx.newPage();
   await signIn(analyst, 'analyst@fenmoor.example');
@@ -87,11 +87,30 @@ test('draft, request changes, fix, approve, publish; a viewer sees the published
   const published = (await analyst.getByTestId('final-value').textContent())!.trim();
   await act(analyst, 'Submit for review', 'submitted');
 
-  // The validator approves and publishes (effective today).
+  // The validator approves with a conclusion, after a confirmation that shows what is approved;
+  // the scheduler publishes it (effective today): nobody is offered a Publish button.
   await validator.goto(versionUrl);
   await act(validator, 'Start review', 'in review');
-  await act(validator, 'Approve', 'approved');
-  await act(validator, 'Publish', 'published');
+  await expect(validator.getByTestId('publication-note')).toContainText('publishes on');
+  await validator.getByLabel(/^Comment/).fill('Margins justified against the profile interval; approved for economic capital.');
+  await validator.getByRole('button', { name: 'Approve', exact: true }).click();
+  const dialog = validator.getByRole('dialog', { name: new RegExp(`Approve ${segment} version`) });
+  await expect(dialog.getByTestId('decision-facts')).toContainText(published);
+  await expect(dialog.getByTestId('decision-facts')).toContainText('Effective date');
+  await expect(dialog).toContainText('no tail dependence');
+  await dialog.getByRole('button', { name: 'Approve now' }).click();
+  await expect(validator.getByRole('status').filter({ hasText: 'now approved' })).toBeVisible({ timeout: 30_000 });
+  await expect(validator.getByRole('button', { name: 'Publish', exact: true })).toHaveCount(0);
+  await expect
+    .poll(
+      async () => {
+        await validator.reload();
+        return validator.getByRole('heading', { level: 1 }).getByTestId('status-badge').textContent();
+      },
+      { timeout: 45_000, intervals: [2000] },
+    )
+    .toBe('published');
+  await expect(validator.getByTestId('publication-note')).toContainText('Published on');
   await expect(validator.getByRole('table', { name: 'Audit trail' })).toContainText('request-changes');
 
   // A viewer reads the published value in the library.

@@ -4,6 +4,7 @@ import type { DbOrTx } from '@/db/connection';
 import { users, type AssumptionAuditRow, type AssumptionStatus, type AssumptionVersion } from '@/db/schema';
 import type { FieldChange, VersionContent } from '@/lib/assumptions/content';
 import type { UserAction } from '@/lib/assumptions/lifecycle';
+import type { PublicationNote } from '@/lib/assumptions/publication';
 
 /**
  * What the assumption screens, route handlers and the consumer API receive: small objects built
@@ -51,6 +52,8 @@ export type VersionPageDto = {
   reviews: ReviewDto[];
   audit: AuditDto[];
   actions: UserAction[];
+  /** When the version publishes or published, in a sentence (null for a rejected version). */
+  publication: PublicationNote | null;
   makerIds: number[];
   /** The diff against the previous version (or, when asked, another version of the same assumption). */
   changesFromPrevious: FieldChange[] | null;

@@ -5,10 +5,12 @@ import { assumptionAudit, assumptionReviews, assumptions, assumptionVersions, ty
 import { diffVersions } from '@/lib/assumptions/content';
 import { daysBetween, EXPIRING_SOON_DAYS, todayIso } from '@/lib/assumptions/dates';
 import { availableActions, openStatuses, reviewActions } from '@/lib/assumptions/lifecycle';
+import { publicationNote } from '@/lib/assumptions/publication';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { toCsv } from '@/lib/csv';
 import { AppError } from '@/lib/errors';
 import { roleChangesOf } from '../admin-audit';
+import { getHealth } from '../health';
 import { makerIds } from './actors';
 import {
   peopleById,
@@ -55,6 +57,8 @@ export async function getVersionPage(actor: SessionUser, id: number, now: Date =
   const makers = await makerIds(db, row.v);
   const roleChanges = await roleChangesDuringReview(row.v, now);
   const asked = compareTo !== undefined && compareTo !== id ? dtos.find((d) => d.id === compareTo) : undefined;
+  const schedulerRunning = !(await getHealth()).worker.stale;
+  const today = todayIso(now);
   const prev = asked ?? dtos.filter((d) => d.version < version.version).sort((a, b) => b.version - a.version)[0];
   return {
     version,
@@ -69,7 +73,16 @@ export async function getVersionPage(actor: SessionUser, id: number, now: Date =
       at: r.at.toISOString(),
     })),
     audit: await listAudit(actor, row.v.assumptionId),
-    actions: availableActions({ actor, status: row.v.status, makerIds: makers, effectiveDate: row.v.effectiveDate, today: todayIso(now) }),
+    actions: availableActions({
+      actor,
+      status: row.v.status,
+      makerIds: makers,
+      effectiveDate: row.v.effectiveDate,
+      today,
+      approvedOn: row.v.decidedAt ? todayIso(row.v.decidedAt) : null,
+      schedulerRunning,
+    }),
+    publication: publicationNote(version, today, schedulerRunning),
     makerIds: makers,
     changesFromPrevious: prev ? diffVersions(prev, version) : null,
     comparedWith: prev ? { id: prev.id, version: prev.version } : null,

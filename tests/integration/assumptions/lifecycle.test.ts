@@ -1,11 +1,12 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest';
-import { and, asc, eq } from 'drizzle-orm';
+import { and, asc, eq, isNull } from 'drizzle-orm';
 import { closeDb, getDb } from '@/db/connection';
-import { assumptionAudit, assumptionReviews, assumptionVersions, mailOutbox, users } from '@/db/schema';
+import { assumptionAudit, assumptionReviews, assumptionVersions, mailOutbox, users, workerHeartbeats } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
 import { contentHash } from '@/lib/assumptions/content';
 import { todayIso } from '@/lib/assumptions/dates';
 import { createDraft, getVersionPage, runScheduledTransitions, transition } from '@/lib/dal/assumptions';
+import { beat, markStopped } from '@/lib/jobs/heartbeat';
 import * as draftRoute from '@/app/api/assumptions/route';
 import * as versionRoute from '@/app/api/assumptions/[id]/route';
 import * as transitionRoute from '@/app/api/assumptions/[id]/transitions/route';
@@ -334,7 +335,7 @@ describe('forbidden moves, with the status code and the audit rows they leave (n
     const { id } = await newDraft();
     await act(analyst, id, 'submit');
     await act(validator, id, 'start-review');
-    await act(validator, id, 'approve');
+    await act(validator, id, 'approve', 'Checked.');
     await act(analyst, id, 'publish');
     const [before] = await getDb().select().from(assumptionVersions).where(eq(assumptionVersions.id, id));
     const auditBefore = (await auditOf(id)).length;
@@ -347,9 +348,49 @@ describe('forbidden moves, with the status code and the audit rows they leave (n
     expect(await auditOf(id)).toHaveLength(auditBefore);
   });
 
+  it('approval without a comment is refused (422 naming the comment): the validator states a conclusion; nothing is written', async () => {
+    const { id } = await newDraft();
+    await act(analyst, id, 'submit');
+    await act(validator, id, 'start-review');
+    const before = (await auditOf(id)).length;
+    for (const comment of [undefined, '', '   ']) {
+      const res = await act(validator, id, 'approve', comment);
+      expect(res.status).toBe(422);
+      expect(res.body.code).toBe('invalid:comment');
+      expect(res.body.field).toBe('comment');
+      expect(res.body.message).toBe('Write your conclusion when you approve a version (what you checked and why it holds): a comment is required.');
+    }
+    expect(await statusOf(id)).toBe('in_review');
+    expect(await auditOf(id)).toHaveLength(before);
+    const res = await act(validator, id, 'approve', 'Profile interval and margins checked; fit for economic capital.');
+    expect(res.status).toBe(200);
+    const [row] = await getDb().select().from(assumptionVersions).where(eq(assumptionVersions.id, id));
+    expect(row.decisionComment).toBe('Profile interval and margins checked; fit for economic capital.');
+  });
+
+  it('the version page offers Publish only while no scheduler runs, and says when it publishes', async () => {
+    const { id } = await newDraft();
+    await act(analyst, id, 'submit');
+    await act(validator, id, 'start-review');
+    expect((await getVersionPage(validator, id)).publication?.text).toContain(`publishes on ${todayIso()}`);
+    await act(validator, id, 'approve', 'Checked.');
+    // A worker's fresh heartbeat means the scheduler runs: nobody is asked to publish.
+    const w = { workerId: `lifecycle-test:${process.pid}`, host: 'test', pid: process.pid, startedAt: new Date() };
+    await beat(getDb(), w);
+    let page = await getVersionPage(validator, id);
+    expect(page.publication?.kind).toBe('due');
+    expect(page.actions).not.toContain('publish');
+    // Without a running worker (every heartbeat of the test database stopped) a person publishes.
+    await markStopped(getDb(), w.workerId);
+    await getDb().update(workerHeartbeats).set({ stoppedAt: new Date() }).where(isNull(workerHeartbeats.stoppedAt));
+    page = await getVersionPage(validator, id);
+    expect(page.publication?.kind).toBe('waiting');
+    expect(page.actions).toContain('publish');
+  });
+
   it('transitions not allowed from the state answer 409 with a sentence', async () => {
     const { id } = await newDraft();
-    let res = await act(validator, id, 'approve');
+    let res = await act(validator, id, 'approve', 'Checked.');
     expect(res.status).toBe(409);
     expect(res.body.message).toBe('A draft version cannot be approved: only a in review version can.');
     res = await act(analyst, id, 'withdraw');
@@ -366,7 +407,7 @@ describe('forbidden moves, with the status code and the audit rows they leave (n
     const { id } = await newDraft(analyst, { effectiveDate: future });
     await act(analyst, id, 'submit');
     await act(validator, id, 'start-review');
-    await act(validator, id, 'approve');
+    await act(validator, id, 'approve', 'Checked.');
     const res = await act(validator, id, 'publish');
     expect(res.status).toBe(409);
     expect(res.body.message).toContain(`becomes effective on ${future}`);
@@ -391,14 +432,14 @@ describe('forbidden moves, with the status code and the audit rows they leave (n
     expect((await edit(analyst, id, { effectiveDate: todayIso() })).status).toBe(200);
     await act(analyst, id, 'submit');
     await act(validator, id, 'start-review');
-    expect((await act(validator, id, 'approve')).status).toBe(200);
+    expect((await act(validator, id, 'approve', 'Checked.')).status).toBe(200);
   });
 
   it('back-dating: an approved version whose effective date is before its approval date is not published, by a person (409) or by the scheduler', async () => {
     const { id } = await newDraft(analyst);
     await act(analyst, id, 'submit');
     await act(validator, id, 'start-review');
-    await act(validator, id, 'approve');
+    await act(validator, id, 'approve', 'Checked.');
     // As a version approved before the rule, or changed in the database, would be stored.
     const earlier = new Date(Date.now() - 3 * 86_400_000).toISOString().slice(0, 10);
     await getDb().update(assumptionVersions).set({ effectiveDate: earlier }).where(eq(assumptionVersions.id, id));
@@ -466,12 +507,12 @@ describe('editing after submission', () => {
 describe('publication supersedes the previous version', () => {
   it('publishing version 2 makes version 1 superseded, with a system audit row', async () => {
     const { id: v1, segment } = await newDraft();
-    for (const [u, a] of [[analyst, 'submit'], [validator, 'start-review'], [validator, 'approve'], [analyst, 'publish']] as const) await act(u, v1, a);
+    for (const [u, a] of [[analyst, 'submit'], [validator, 'start-review'], [validator, 'approve'], [analyst, 'publish']] as const) await act(u, v1, a, 'Checked.');
     const { fitId } = await makeFitRun(analyst.id, segment, { rho: 0.05, pd: 0.0133, profile: { level: 0.95, lower: 0.02, upper: 0.12 } });
     const res = await draft(analyst, draftBody(fitId, segment));
     expect(res.body.version).toBe(2);
     const v2 = res.body.id as number;
-    for (const [u, a] of [[analyst, 'submit'], [validator, 'start-review'], [validator, 'approve'], [validator, 'publish']] as const) await act(u, v2, a);
+    for (const [u, a] of [[analyst, 'submit'], [validator, 'start-review'], [validator, 'approve'], [validator, 'publish']] as const) await act(u, v2, a, 'Checked.');
     expect(await statusOf(v1)).toBe('superseded');
     expect(await statusOf(v2)).toBe('published');
     const last = (await auditOf(v1)).at(-1)!;

@@ -22,7 +22,7 @@ async function publishWithGeneralMargin(general: number, effectiveDate: string):
   const v = await createDraft(analyst, body as never, at);
   await transition(analyst, v.id, { action: 'submit' }, at);
   await transition(validator, v.id, { action: 'start-review' }, at);
-  await transition(validator, v.id, { action: 'approve' }, at);
+  await transition(validator, v.id, { action: 'approve', comment: 'Checked.' }, at);
   await transition(validator, v.id, { action: 'publish' }, at);
   return v.id;
 }

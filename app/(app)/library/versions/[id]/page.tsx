@@ -3,9 +3,11 @@ import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { z } from 'zod';
 import { Cautions } from '@/components/assumptions/cautions';
+import { PublicationLine } from '@/components/assumptions/publication-line';
 import { fmt, StatusBadge } from '@/components/assumptions/status-badge';
 import { TransitionPanel } from '@/components/assumptions/transition-panel';
 import { VersionEvidence } from '@/components/assumptions/version-evidence';
+import { assumptionCautions } from '@/lib/assumptions/cautions';
 import { editableStatuses, statusLabels } from '@/lib/assumptions/lifecycle';
 import { can, roleLabels } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
@@ -67,6 +69,7 @@ export default async function VersionPage({
             with PD <span className="num">{fmt(v.pd, 6)}</span>; effective {v.effectiveDate}, review by {v.reviewBy}
           </span>
         </p>
+        <PublicationLine note={page.publication} />
       </div>
 
       <section className="grid gap-4 lg:grid-cols-3">
@@ -177,7 +180,21 @@ export default async function VersionPage({
         </div>
         <div className="panel space-y-3 p-5">
           <h2>Your action</h2>
-          {actor.role !== 'viewer' ? <TransitionPanel versionId={v.id} actions={page.actions} /> : <p className="text-sm">Viewers read published versions.</p>}
+          {actor.role !== 'viewer' ? <TransitionPanel
+              versionId={v.id}
+              actions={page.actions}
+              facts={{
+                segment: v.segment,
+                version: v.version,
+                value: v.finalValue,
+                pd: v.pd,
+                interval: { lower: v.intervalLower, upper: v.intervalUpper, method: v.intervalMethod, level: v.intervalLevel },
+                effectiveDate: v.effectiveDate,
+                publishes: page.publication?.text ?? null,
+                cautions: assumptionCautions,
+                findings: [],
+              }}
+            /> : <p className="text-sm">Viewers read published versions.</p>}
           {canEdit ? (
             <Link className="btn btn-quiet no-underline" href={`/library/versions/${v.id}/edit`}>
               Edit{v.status !== 'draft' ? ' (returns it to draft)' : ''}

@@ -1,0 +1,107 @@
+'use client';
+
+import { useEffect, useRef } from 'react';
+
+/** What a person confirms before approving or publishing: the value and everything it stands with. */
+export type DecisionFacts = {
+  segment: string;
+  version: number;
+  value: number;
+  pd: number;
+  interval: { lower: number; upper: number; method: string; level: number };
+  effectiveDate: string;
+  /** When it publishes, in a sentence (lib/assumptions/publication.ts). */
+  publishes: string | null;
+  cautions: readonly string[];
+  /** Findings on the version, its fit or its dataset that do not block approval (medium and low, not closed). */
+  findings: { id: number; title: string; severity: string; status: string; dueDate: string }[];
+};
+
+const num = (x: number, d = 6) => Number(x.toFixed(d)).toString();
+
+/**
+ * A modal confirmation (the native dialog element: focus stays inside, Escape cancels) that says
+ * what the decision does before it is sent.
+ */
+export function DecisionDialog({
+  action,
+  facts,
+  comment,
+  onConfirm,
+  onCancel,
+}: {
+  action: 'approve' | 'publish';
+  facts: DecisionFacts;
+  comment: string;
+  onConfirm: () => void;
+  onCancel: () => void;
+}) {
+  const ref = useRef<HTMLDialogElement>(null);
+  useEffect(() => {
+    const d = ref.current;
+    if (d && !d.open) d.showModal();
+  }, []);
+  const verb = action === 'approve' ? 'Approve' : 'Publish';
+  return (
+    <dialog
+      ref={ref}
+      className="decision-dialog panel w-[min(40rem,95vw)] p-5"
+      aria-labelledby="decision-title"
+      onCancel={(e) => {
+        e.preventDefault();
+        onCancel();
+      }}
+    >
+      <h2 id="decision-title" className="mb-2">
+        {verb} {facts.segment} version {facts.version}?
+      </h2>
+      <dl className="grid grid-cols-[10rem_1fr] gap-x-3 gap-y-1 text-sm" data-testid="decision-facts">
+        <dt>Value</dt>
+        <dd className="num font-semibold">{num(facts.value)}</dd>
+        <dt>With the PD</dt>
+        <dd className="num">{num(facts.pd)}</dd>
+        <dt>Interval</dt>
+        <dd className="num">
+          [{num(facts.interval.lower)}, {num(facts.interval.upper)}] {facts.interval.method}, {num(facts.interval.level * 100, 2)}%
+        </dd>
+        <dt>Effective date</dt>
+        <dd className="num">{facts.effectiveDate}</dd>
+      </dl>
+      {facts.publishes ? <p className="mt-2 text-sm font-medium">{facts.publishes}</p> : null}
+      {action === 'approve' ? (
+        <div className="mt-2 text-sm">
+          <p className="font-medium">Your conclusion</p>
+          <p className="whitespace-pre-wrap">{comment.trim() || '—'}</p>
+        </div>
+      ) : null}
+      {facts.findings.length ? (
+        <div className="notice-caution mt-3 text-sm" data-testid="decision-findings">
+          <p className="font-medium">Findings still open (medium and low do not block approval):</p>
+          <ul className="mt-1 list-disc pl-5">
+            {facts.findings.map((f) => (
+              <li key={f.id}>
+                {f.severity}: {f.title} ({f.status.replace('_', ' ')}, due {f.dueDate})
+              </li>
+            ))}
+          </ul>
+        </div>
+      ) : null}
+      <div className="notice-caution mt-3 text-sm">
+        <p className="font-medium">Cautions that travel with this value</p>
+        <ul className="mt-1 list-disc pl-5">
+          {facts.cautions.map((c) => (
+            <li key={c}>{c}</li>
+          ))}
+        </ul>
+      </div>
+      <div className="mt-4 flex justify-end gap-2">
+        <button type="button" className="btn btn-quiet" onClick={onCancel}>
+          Cancel
+        </button>
+        <button type="button" className="btn" onClick={onConfirm} autoFocus>
+          {verb} now
+        </button>
+      </div>
+    </dialog>
+  );
+}
