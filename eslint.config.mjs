@@ -12,10 +12,10 @@ import nextTs from 'eslint-config-next/typescript';
  *    infrastructure stores that are data access by nature and act for no person (the job queue and
  *    heartbeat in lib/jobs, the mail outbox and its sender in lib/mail, sign-in and the session in
  *    lib/auth). Everywhere else only types and the enum lists (roles, ...Statuses, ...Kinds,
- *    assetClasses) may be imported from db/schema.
+ *    ...Severities, ...Targets, assetClasses) may be imported from db/schema.
  */
 
-const SCHEMA_VALUES_ALLOWED = '^(roles|[a-z][A-Za-z]*(Statuses|Kinds|Classes))$';
+const SCHEMA_VALUES_ALLOWED = '^(roles|[a-z][A-Za-z]*(Statuses|Kinds|Classes|Severities|Targets))$';
 
 const config = [
   ...nextVitals,

@@ -547,3 +547,63 @@ export const fitRuns = mysqlTable(
   (t) => [index('fit_runs_dataset_idx').on(t.datasetId), index('fit_runs_created_idx').on(t.createdAt), index('fit_runs_job_idx').on(t.jobId)],
 );
 export type FitRun = typeof fitRuns.$inferSelect;
+
+// ---------------------------------------------------------------------------------------------
+// Validation findings (lib/dal/findings.ts): what a validator records on a fit, a dataset or an
+// assumption version, with its owner, due date and status; the history of each finding (status
+// changes and comments) is append-only (triggers in the migration).
+// ---------------------------------------------------------------------------------------------
+
+export const findingTargets = ['fit', 'dataset', 'version'] as const;
+export type FindingTarget = (typeof findingTargets)[number];
+export const findingSeverities = ['high', 'medium', 'low'] as const;
+export type FindingSeverity = (typeof findingSeverities)[number];
+/** accepted: accepted with a rationale (the risk is taken knowingly). */
+export const findingStatuses = ['open', 'in_remediation', 'remediated', 'accepted', 'closed'] as const;
+export type FindingStatus = (typeof findingStatuses)[number];
+
+export const findings = mysqlTable(
+  'findings',
+  {
+    id: int('id').autoincrement().primaryKey(),
+    targetType: mysqlEnum('target_type', findingTargets).notNull(),
+    targetId: bigint('target_id', { mode: 'number' }).notNull(),
+    title: varchar('title', { length: 200 }).notNull(),
+    description: text('description').notNull(),
+    severity: mysqlEnum('severity', findingSeverities).notNull(),
+    ownerId: int('owner_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    dueDate: date('due_date', { mode: 'string' }).notNull(),
+    status: mysqlEnum('status', findingStatuses).notNull().default('open'),
+    /** Why the finding was accepted (status accepted). */
+    rationale: text('rationale'),
+    createdBy: int('created_by')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [index('findings_target_idx').on(t.targetType, t.targetId), index('findings_status_idx').on(t.status, t.dueDate)],
+);
+export type Finding = typeof findings.$inferSelect;
+
+/** A finding's history: recorded, each status change and each comment, with who and when. */
+export const findingEvents = mysqlTable(
+  'finding_events',
+  {
+    id: bigint('id', { mode: 'number' }).autoincrement().primaryKey(),
+    findingId: int('finding_id')
+      .notNull()
+      .references(() => findings.id, { onDelete: 'restrict' }),
+    kind: varchar('kind', { length: 20 }).notNull(),
+    actorId: int('actor_id'),
+    actorEmail: varchar('actor_email', { length: 254 }).notNull(),
+    fromStatus: varchar('from_status', { length: 20 }),
+    toStatus: varchar('to_status', { length: 20 }),
+    comment: text('comment'),
+    at: datetime('at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [index('finding_events_finding_idx').on(t.findingId, t.id)],
+);
+export type FindingEvent = typeof findingEvents.$inferSelect;

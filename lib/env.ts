@@ -70,3 +70,9 @@ export function uploadLimits(): { maxBytes: number; maxLineChars: number; maxCol
   const e = env();
   return { maxBytes: e.UPLOAD_MAX_BYTES, maxLineChars: e.UPLOAD_MAX_LINE_CHARS, maxColumns: e.UPLOAD_MAX_COLUMNS };
 }
+
+/** An absolute link into the app (e-mails, webhooks, reports): NEXTAUTH_URL, or the development default. */
+export function appUrl(path: string): string {
+  const base = (env().NEXTAUTH_URL ?? 'http://127.0.0.1:3000').replace(/\/$/, '');
+  return `${base}${path}`;
+}

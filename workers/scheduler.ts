@@ -6,7 +6,8 @@ import { sleep } from './mail-loop';
 /**
  * The assumption scheduler: once a minute (SCHEDULER_INTERVAL_SECONDS) it publishes approved versions whose effective date has
  * come (the segment's previous published version becomes superseded; never a back-dated one), expires published versions
- * whose review-by date has passed, and queues the 30- and 7-day review reminders (once each).
+ * whose review-by date has passed, and queues the 30- and 7-day review reminders and the findings'
+ * reminders (once each).
  * Every step is idempotent and re-checks the state under a row lock, so several workers may run it.
  */
 export async function runScheduler(opts: { db: Db; signal: AbortSignal; intervalMs?: number }): Promise<void> {
@@ -15,8 +16,10 @@ export async function runScheduler(opts: { db: Db; signal: AbortSignal; interval
   while (!opts.signal.aborted) {
     try {
       const r = await runScheduledTransitions(new Date(), opts.db);
-      if (r.published.length || r.expired.length || r.reminders) {
-        console.log(`[worker] scheduler: published ${r.published.length}, expired ${r.expired.length}, reminders queued ${r.reminders}`);
+      if (r.published.length || r.expired.length || r.reminders || r.findingReminders) {
+        console.log(
+          `[worker] scheduler: published ${r.published.length}, expired ${r.expired.length}, reminders queued ${r.reminders}, finding reminders ${r.findingReminders}`,
+        );
       }
       // Once per process: a person must edit these (the scheduler will not publish them).
       for (const { id, reason } of r.refused.filter((x) => !told.has(x.id))) {

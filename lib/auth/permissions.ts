@@ -21,6 +21,10 @@ export const permissions = {
   'assumptions:review': ['validator'],
   'assumptions:publish': ['analyst', 'validator', 'admin'],
   'assumptions:retire': ['validator', 'admin'],
+  'findings:read': ['viewer', 'analyst', 'validator', 'admin'],
+  /** record a finding, close it or accept it with a rationale (owners report progress: lib/findings/rules.ts) */
+  'findings:record': ['validator'],
+  'findings:comment': ['analyst', 'validator'],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof permissions;

@@ -1,6 +1,6 @@
 import type { DbOrTx } from '@/db/connection';
 import { mailOutbox } from '@/db/schema';
-import { renderMail, type MailFacts, type MailKind } from './templates';
+import { renderMail, type MailFacts, type MailKind, type Message, type OtherMailKind } from './templates';
 
 /**
  * Writes one outbox row per recipient, in the caller's transaction: the mail goes out only if the
@@ -9,11 +9,15 @@ import { renderMail, type MailFacts, type MailKind } from './templates';
  */
 export async function queueMail(
   tx: DbOrTx,
-  m: { kind: MailKind; to: readonly string[]; facts: MailFacts; versionId?: number; dedupeKey?: (to: string) => string },
+  m: ({ kind: MailKind; facts: MailFacts } | { kind: OtherMailKind; message: Message }) & {
+    to: readonly string[];
+    versionId?: number;
+    dedupeKey?: (to: string) => string;
+  },
 ): Promise<number> {
   const recipients = [...new Set(m.to.map((t) => t.trim().toLowerCase()).filter(Boolean))];
   if (!recipients.length) return 0;
-  const { subject, body } = renderMail(m.kind, m.facts);
+  const { subject, body } = 'facts' in m ? renderMail(m.kind, m.facts) : m.message;
   const rows = recipients.map((to) => ({
     kind: m.kind,
     toAddress: to,

@@ -13,6 +13,12 @@ export const mailKinds = [
 ] as const;
 export type MailKind = (typeof mailKinds)[number];
 
+/** The other e-mails (findings, evidence, consuming models), rendered by their own functions below. */
+export const otherMailKinds = ['finding-recorded', 'finding-due-soon', 'finding-overdue'] as const;
+export type OtherMailKind = (typeof otherMailKinds)[number];
+
+export type Message = { subject: string; body: string };
+
 export type MailFacts = {
   segment: string;
   version: number;
@@ -70,6 +76,46 @@ export function renderMail(kind: MailKind, f: MailFacts): { subject: string; bod
         // The reminder goes out when the date is 30 (7) days away or closer: say how close it really is.
         subject: `Review due ${f.daysLeft !== undefined ? dueIn(f.daysLeft) : `within ${kind === 'review-by-30' ? 30 : 7} days`}: ${what}`,
         body: `${what} must be reviewed by ${f.reviewBy}${f.daysLeft !== undefined ? ` (${dueIn(f.daysLeft)})` : ''}. After that date it expires and downstream models no longer receive it as the value in force.${link}${footer}`,
+      };
+  }
+}
+
+/** What a message about a validation finding says of it. */
+export type FindingMailFacts = {
+  id: number;
+  title: string;
+  severity: string;
+  status: string;
+  dueDate: string;
+  /** What the finding is on, in words ("SME term loans v3", "fit 12", "dataset 4 “Cohorts 2024”"). */
+  target: string;
+  recordedBy?: string;
+  /** Whole days from today to the due date (negative when past). */
+  daysLeft?: number;
+  url: string;
+};
+
+const findingFooter =
+  "\n\n--\nRhobook. A high-severity finding blocks approval until a validator closes it or accepts it with a rationale.\nYou receive this as the finding's owner or as the validator who recorded it.";
+
+export function renderFindingMail(kind: 'finding-recorded' | 'finding-due-soon' | 'finding-overdue', f: FindingMailFacts): Message {
+  const what = `finding ${f.id} “${f.title}” (${f.severity}) on ${f.target}`;
+  const link = `\n\nOpen it: ${f.url}`;
+  switch (kind) {
+    case 'finding-recorded':
+      return {
+        subject: `Finding recorded (${f.severity}): ${f.title}`,
+        body: `${f.recordedBy ?? 'A validator'} recorded ${what} and made you its owner. It is due on ${f.dueDate}.${link}${findingFooter}`,
+      };
+    case 'finding-due-soon':
+      return {
+        subject: `Finding due ${f.daysLeft !== undefined ? dueIn(f.daysLeft) : 'soon'}: ${f.title}`,
+        body: `${what} is ${f.status} and due on ${f.dueDate}${f.daysLeft !== undefined ? ` (${dueIn(f.daysLeft)})` : ''}. Report its remediation, or ask the validator to accept it with a rationale.${link}${findingFooter}`,
+      };
+    case 'finding-overdue':
+      return {
+        subject: `Finding overdue: ${f.title}`,
+        body: `${what} was due on ${f.dueDate}${f.daysLeft !== undefined ? ` (${-f.daysLeft} day${f.daysLeft === -1 ? '' : 's'} ago)` : ''} and is still ${f.status}.${link}${findingFooter}`,
       };
   }
 }

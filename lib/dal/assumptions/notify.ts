@@ -2,7 +2,7 @@ import 'server-only';
 import { and, eq, inArray } from 'drizzle-orm';
 import type { DbOrTx, Tx } from '@/db/connection';
 import { users, type AssumptionVersion, type Role } from '@/db/schema';
-import { env } from '@/lib/env';
+import { appUrl } from '@/lib/env';
 import { queueMail } from '@/lib/mail/outbox';
 import type { MailKind } from '@/lib/mail/templates';
 import { makerIds, type Actor } from './actors';
@@ -11,11 +11,6 @@ import { makerIds, type Actor } from './actors';
  * The e-mail an assumption's transitions and review-by dates cause, written to the outbox in the
  * transaction of the change (the worker's mail loop sends it).
  */
-function appUrl(path: string): string {
-  const base = (env().NEXTAUTH_URL ?? 'http://127.0.0.1:3000').replace(/\/$/, '');
-  return `${base}${path}`;
-}
-
 /** What every message about a version says of it. */
 function versionFacts(v: AssumptionVersion, segment: string) {
   return {

@@ -6,27 +6,31 @@ import { assumptions, assumptionVersions } from '@/db/schema';
 import { daysBetween, todayIso } from '@/lib/assumptions/dates';
 import { backDatingProblem } from '@/lib/assumptions/lifecycle';
 import type { MailKind } from '@/lib/mail/templates';
+import { queueFindingReminders } from '../findings';
 import { SYSTEM } from './actors';
 import { queueReviewReminder } from './notify';
 import { applyTransition, lockVersion } from './writes';
 
 /**
  * The scheduler's transitions (workers/scheduler.ts runs this once a minute): publish approved
- * versions on their effective date (never one whose effective date is before its approval date), expire published versions after their review-by date, and
- * remind 30 and 7 days before it (once each). Each step re-checks the state under a row lock, so
+ * versions on their effective date (never one whose effective date is before its approval date), expire published versions after their review-by date,
+ * remind 30 and 7 days before it (once each), and remind the owners of findings due within 7 days
+ * or overdue (once each). Each step re-checks the state under a row lock, so
  * several workers may run it at once.
  */
 export type ScheduleReport = {
   published: number[];
   expired: number[];
   reminders: number;
+  /** Reminders of findings due within 7 days or overdue (messages written). */
+  findingReminders: number;
   /** Approved versions not published because their effective date is before their approval date. */
   refused: { id: number; reason: string }[];
 };
 
 export async function runScheduledTransitions(now: Date = new Date(), db: Db = getDb()): Promise<ScheduleReport> {
   const today = todayIso(now);
-  const report: ScheduleReport = { published: [], expired: [], reminders: 0, refused: [] };
+  const report: ScheduleReport = { published: [], expired: [], reminders: 0, findingReminders: 0, refused: [] };
 
   const due = await db
     .select({ id: assumptionVersions.id })
@@ -71,5 +75,6 @@ export async function runScheduledTransitions(now: Date = new Date(), db: Db = g
     if (!kind) continue;
     report.reminders += await queueReviewReminder(db, v, segment, kind, left);
   }
+  report.findingReminders = await queueFindingReminders(db, now);
   return report;
 }

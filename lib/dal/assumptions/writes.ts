@@ -19,6 +19,7 @@ import { conservativeValue } from '@/lib/assumptions/margins';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { AppError, parseOrThrow } from '@/lib/errors';
 import { loadFitEvidence } from '../fit-evidence';
+import { blockingRefusal } from '../findings';
 import { asActor, makerIds, SYSTEM, type Actor } from './actors';
 import { contentOf, versionDtos, type VersionDto } from './dto';
 import { notifyTransition } from './notify';
@@ -235,6 +236,11 @@ export async function transition(
       today,
       approvedOn: v.decidedAt ? todayIso(v.decidedAt) : null,
     });
+    if (input.action === 'approve') {
+      // An unresolved high finding on the version, its fit or its dataset blocks approval.
+      const refusal = await blockingRefusal(tx, v);
+      if (refusal) throw refusal;
+    }
     await applyTransition(tx, { v, segment }, asActor(actor), input.action, from, to, input.comment ?? null, now);
     return { id, status: to, previous: from };
   });

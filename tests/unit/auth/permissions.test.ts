@@ -20,6 +20,11 @@ describe('role permissions', () => {
     expect(roles.filter((r) => can(r, 'assumptions:review'))).toEqual(['validator']);
   });
 
+  it('only validators record validation findings; analysts and validators comment on them (the model-risk reviewer records, the owner answers)', () => {
+    expect(roles.filter((r) => can(r, 'findings:record'))).toEqual(['validator']);
+    expect(roles.filter((r) => can(r, 'findings:comment'))).toEqual(['analyst', 'validator']);
+  });
+
   it('viewers may read but not upload or run fits', () => {
     expect(can('viewer', 'assumptions:read')).toBe(true);
     expect(can('viewer', 'datasets:upload')).toBe(false);
