@@ -4,6 +4,8 @@ import { roleDescriptions, roleLabels } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { getHealth } from '@/lib/dal/health';
 import { listLibrary, listQueue } from '@/lib/dal/assumptions';
+import { listFindings } from '@/lib/dal/findings';
+import { FindingsOverview } from '@/components/findings/findings-overview';
 import type { Role } from '@/db/schema';
 
 export const metadata: Metadata = { title: 'Overview' };
@@ -40,7 +42,7 @@ function nextSteps(role: Role): NextStep[] {
 
 export default async function OverviewPage() {
   const user = await requireUser();
-  const [health, queue, library] = await Promise.all([getHealth(), listQueue(user), listLibrary(user)]);
+  const [health, queue, library, unresolved] = await Promise.all([getHealth(), listQueue(user), listLibrary(user), listFindings(user, { unresolved: true })]);
   const steps = nextSteps(user.role);
   const expiring = library.filter((e) => e.health === 'expiring');
   const expired = library.filter((e) => e.health === 'expired');
@@ -119,6 +121,10 @@ export default async function OverviewPage() {
           </ul>
         ) : null}
       </section>
+      </div>
+
+      <div className="grid gap-4 md:grid-cols-2">
+        <FindingsOverview unresolved={unresolved} meId={user.id} />
       </div>
 
       <section className="grid gap-4 md:grid-cols-3">

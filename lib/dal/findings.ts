@@ -16,7 +16,7 @@ import {
   type FindingStatus,
   type FindingTarget,
 } from '@/db/schema';
-import { daysBetween, todayIso } from '@/lib/assumptions/dates';
+import { addDays, daysBetween, todayIso } from '@/lib/assumptions/dates';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { can } from '@/lib/auth/permissions';
 import { appUrl } from '@/lib/env';
@@ -424,4 +424,22 @@ export async function queueFindingReminders(db: DbOrTx, now: Date = new Date()):
     });
   }
   return written;
+}
+
+/**
+ * What a page's findings section needs: the findings of the target (for a version, with those on
+ * its fit and dataset), and for validators the possible owners and a default due date (30 days).
+ */
+export async function findingsPanel(
+  actor: SessionUser,
+  target: FindingTargetRef,
+  now: Date = new Date(),
+): Promise<{ findings: FindingDto[]; owners: { id: number; name: string; role: string }[] | null; defaultDue: string; target: FindingTargetRef }> {
+  const list = target.type === 'version' ? await listFindingsForVersion(actor, target.id, now) : await listFindings(actor, { targets: [target] }, now);
+  return {
+    findings: list,
+    owners: can(actor.role, 'findings:record') ? await listFindingOwners(actor) : null,
+    defaultDue: addDays(todayIso(now), 30),
+    target,
+  };
 }

@@ -8,8 +8,10 @@ import { DefaultRateChart } from '@/components/data/default-rate-chart';
 import { formatSize, formatWhen, kindLabels } from '@/components/data/format';
 import { ReportTable } from '@/components/data/report-table';
 import { WaiveForm } from '@/components/data/waive-form';
+import { FindingsSection } from '@/components/findings/findings-section';
 import { requireUser } from '@/lib/auth/session';
 import { getDataset, listDatasets, type DatasetDetailDto } from '@/lib/dal/datasets';
+import { findingsPanel } from '@/lib/dal/findings';
 import { assetClassLabels } from '@/lib/asset-classes';
 import { AppError } from '@/lib/errors';
 
@@ -32,6 +34,7 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
   const d = await load(id);
   const actor = await requireUser();
   const newer = d.canManage && !d.supersededBy ? (await listDatasets(actor)).filter((x) => x.id !== d.id && x.status === 'ready' && !x.supersededBy && x.createdAt >= d.createdAt) : [];
+  const findings = await findingsPanel(actor, { type: 'dataset', id: d.id });
   const waived = new Set(d.waivers.map((w) => w.rule));
   const inUse = d.usedBy.fits + d.usedBy.assumptions > 0;
   const warningRules = Object.entries(d.report?.summary.byRule ?? {})
@@ -241,6 +244,7 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
           <DatasetActions datasetId={d.id} canDelete={d.canDelete} canSupersede={d.canManage && !d.supersededBy} newer={newer} />
         </section>
       ) : null}
+      <FindingsSection {...findings} />
     </div>
   );
 }

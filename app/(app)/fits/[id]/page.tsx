@@ -3,6 +3,7 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { z } from 'zod';
+import { FindingsSection } from '@/components/findings/findings-section';
 import { FitProgress } from '@/components/fits/fit-progress';
 import { FitProvenance, OldResultsNotice } from '@/components/fits/fit-provenance';
 import { ModelCautions } from '@/components/fits/model-cautions';
@@ -13,6 +14,7 @@ import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { fitStatusQuery } from '@/lib/client/fits';
 import { dehydrated } from '@/lib/client/prefetch';
+import { findingsPanel } from '@/lib/dal/findings';
 import { getFit } from '@/lib/dal/fits';
 import { AppError } from '@/lib/errors';
 import { isCurrentResults } from '@/lib/fits/results';
@@ -30,6 +32,7 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
     if (err instanceof AppError && err.status === 404) notFound();
     throw err;
   });
+  const findings = await findingsPanel(actor, { type: 'fit', id: fit.id });
   return (
     <div className="space-y-5">
       <div className="flex flex-wrap items-end justify-between gap-2">
@@ -80,6 +83,7 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
           <ModelCautions />
         </>
       ) : null}
+      <FindingsSection {...findings} />
     </div>
   );
 }

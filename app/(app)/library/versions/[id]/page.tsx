@@ -4,6 +4,7 @@ import { notFound } from 'next/navigation';
 import { z } from 'zod';
 import { Cautions } from '@/components/assumptions/cautions';
 import { PublicationLine } from '@/components/assumptions/publication-line';
+import { FindingsSection } from '@/components/findings/findings-section';
 import { fmt, StatusBadge } from '@/components/assumptions/status-badge';
 import { TransitionPanel } from '@/components/assumptions/transition-panel';
 import { VersionEvidence } from '@/components/assumptions/version-evidence';
@@ -13,6 +14,7 @@ import { can, roleLabels } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { getVersionPage } from '@/lib/dal/assumptions';
 import { getFitSegment } from '@/lib/dal/fits';
+import { findingsPanel } from '@/lib/dal/findings';
 import { AppError } from '@/lib/errors';
 
 export const metadata: Metadata = { title: 'Assumption' };
@@ -53,6 +55,7 @@ export default async function VersionPage({
   });
   const v = page.version;
   const evidence = v.fitRunId ? await getFitSegment(actor, v.fitRunId, v.segment) : null;
+  const findings = await findingsPanel(actor, { type: 'version', id: v.id });
   const canEdit = can(actor.role, 'assumptions:draft') && editableStatuses.includes(v.status);
   return (
     <div className="space-y-5">
@@ -192,7 +195,9 @@ export default async function VersionPage({
                 effectiveDate: v.effectiveDate,
                 publishes: page.publication?.text ?? null,
                 cautions: assumptionCautions,
-                findings: [],
+                findings: findings.findings
+                  .filter((f) => f.unresolved && f.severity !== 'high')
+                  .map((f) => ({ id: f.id, title: f.title, severity: f.severity, status: f.statusLabel, dueDate: f.dueDate })),
               }}
             /> : <p className="text-sm">Viewers read published versions.</p>}
           {canEdit ? (
@@ -213,6 +218,7 @@ export default async function VersionPage({
       </section>
 
       <VersionEvidence evidence={evidence} segment={v.segment} />
+      <FindingsSection {...findings} note="Findings on this version, on its fit and on its dataset." />
 
       {page.changesFromPrevious && page.comparedWith ? (
         <section className="panel p-5" aria-labelledby="diff-heading">
