@@ -195,6 +195,8 @@ export const assumptionVersions = mysqlTable(
     pd: double('pd').notNull(),
     windowFrom: varchar('window_from', { length: 20 }).notNull(),
     windowTo: varchar('window_to', { length: 20 }).notNull(),
+    /** The definitions of default of the fitted years ({ definition, from, to, periods }[]); null for versions drafted before it was carried. */
+    defaultDefinitions: json('default_definitions'),
     // The analyst's judgement.
     marginData: double('margin_data').notNull().default(0),
     marginDataRationale: text('margin_data_rationale').notNull(),
@@ -409,6 +411,8 @@ export const datasets = mysqlTable(
     conventions: json('conventions'),
     /** Vintage-years left out of the conversion because they were not observed for twelve months. */
     censored: json('censored'),
+    /** The definition of default given at upload: rows that name none take it (lib/ingest/default-definition.ts). */
+    defaultDefinition: text('default_definition'),
     segmentCount: int('segment_count').notNull().default(0),
     rowCount: int('row_count').notNull().default(0),
     warningCount: int('warning_count').notNull().default(0),

@@ -143,7 +143,23 @@ export function UploadForm({ supersedable }: { supersedable: { id: number; name:
             </select>
           </div>
           <div className="md:col-span-2">
-            <label className="label" htmlFor="upload-description">Description (source, default definition, anything a reviewer should know)</label>
+            <label className="label" htmlFor="upload-default-definition">
+              Definition of default{kind === 'cohort' ? ' (for rows without a default_definition value)' : ''}
+            </label>
+            <input
+              id="upload-default-definition"
+              name="defaultDefinition"
+              maxLength={500}
+              className="field"
+              placeholder="for example: 90 days past due or unlikely to pay"
+              aria-describedby="upload-default-definition-hint"
+            />
+            <p id="upload-default-definition-hint" className="mt-1 text-xs text-[var(--color-muted)]">
+              A correlation is valid only with the definition of default it was fitted on: it travels with the data to the fit, the assumption and the API.
+            </p>
+          </div>
+          <div className="md:col-span-2">
+            <label className="label" htmlFor="upload-description">Description (source, anything a reviewer should know)</label>
             <textarea id="upload-description" name="description" maxLength={2000} rows={2} className="field" />
           </div>
           {kind === 'loans' ? (

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { assumptionStatuses } from '@/db/schema';
 import type { CsvValue } from '@/lib/csv';
+import { describeSpans, isMixed, mixedDefinitionCaution } from '@/lib/ingest/default-definition';
 import { assumptionCautions } from './cautions';
 import type { VersionContent } from './content';
 
@@ -16,6 +17,7 @@ const interval = z.object({
   upper: z.number(),
 });
 const margin = z.object({ value: z.number(), rationale: z.string() });
+const definitionSpan = z.object({ definition: z.string().nullable(), from: z.string(), to: z.string(), periods: z.array(z.string()) });
 
 export const consumerVersionSchema = z.object({
   assumptionId: z.number().int(),
@@ -30,6 +32,14 @@ export const consumerVersionSchema = z.object({
   margins: z.object({ data: margin, practice: margin, general: margin }),
   conservativeValue: z.number(),
   window: z.object({ from: z.string(), to: z.string() }),
+  defaultDefinition: z
+    .object({
+      text: z.string().nullable().describe('The definition of default of the fitted years, or each with its years when they differ; null when the data named none.'),
+      mixed: z.boolean().describe('True when the fitted years use more than one definition of default.'),
+      spans: z.array(definitionSpan),
+    })
+    .nullable()
+    .describe('The definition of default the value was fitted on (null for versions drafted before it was carried). The value is valid only with it.'),
   effectiveDate: z.string().describe('YYYY-MM-DD'),
   reviewBy: z.string().describe('YYYY-MM-DD'),
   publishedAt: z.string().nullable(),
@@ -40,6 +50,7 @@ export const consumerVersionSchema = z.object({
   intendedUses: z.string(),
   limitations: z.string(),
   approvedBy: z.string().nullable(),
+  cautions: z.array(z.string()).describe('Cautions of this version in particular (a mix of definitions of default, evidence that has aged); the general cautions are in the answer beside it.'),
   lineage: z.object({
     fitRunId: z.number().int().nullable(),
     datasetId: z.number().int().nullable(),
@@ -96,6 +107,9 @@ export function toConsumerVersion(v: VersionLike): ConsumerVersion {
     },
     conservativeValue: v.conservativeValue,
     window: { from: v.windowFrom, to: v.windowTo },
+    defaultDefinition: v.defaultDefinitions
+      ? { text: describeSpans(v.defaultDefinitions), mixed: isMixed(v.defaultDefinitions), spans: v.defaultDefinitions }
+      : null,
     effectiveDate: v.effectiveDate,
     reviewBy: v.reviewBy,
     publishedAt: v.publishedAt,
@@ -103,6 +117,7 @@ export function toConsumerVersion(v: VersionLike): ConsumerVersion {
     intendedUses: v.intendedUses,
     limitations: v.limitations,
     approvedBy: v.validator?.name ?? null,
+    cautions: versionCautions(v),
     lineage: {
       fitRunId: v.fitRunId,
       datasetId: v.datasetId,
@@ -117,6 +132,17 @@ export function toConsumerVersion(v: VersionLike): ConsumerVersion {
 }
 
 export const cautions = [...assumptionCautions];
+
+/** The cautions of one version in particular (a fit over mixed definitions of default). */
+export function versionCautions(v: Pick<VersionContent, 'defaultDefinitions'>): string[] {
+  const mixed = v.defaultDefinitions ? mixedDefinitionCaution(v.defaultDefinitions) : null;
+  return mixed ? [mixed] : [];
+}
+
+/** The cautions of an answer about one version: the general ones and the version's own. */
+export function cautionsFor(v: ConsumerVersion): string[] {
+  return [...assumptionCautions, ...v.cautions];
+}
 
 export const exportColumns = [
   'segment',
@@ -134,6 +160,7 @@ export const exportColumns = [
   'margin_general',
   'window_from',
   'window_to',
+  'default_definition',
   'effective_date',
   'review_by',
   'fit_run_id',
@@ -161,6 +188,7 @@ export function exportRow(c: ConsumerVersion): CsvValue[] {
     c.margins.general.value,
     c.window.from,
     c.window.to,
+    c.defaultDefinition?.text ?? null,
     c.effectiveDate,
     c.reviewBy,
     c.lineage.fitRunId,

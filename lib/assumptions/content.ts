@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto';
 import { z } from 'zod';
 import { isIsoDate, reviewByProblem } from './dates';
+import type { DefinitionSpan } from '@/lib/ingest/default-definition';
 import { marginProblems } from './margins';
 
 /**
@@ -23,6 +24,11 @@ export type Evidence = {
   pd: number;
   windowFrom: string;
   windowTo: string;
+  /**
+   * The definitions of default over the fitted years, frozen at drafting; undefined for versions
+   * drafted before they were carried (left out of the hash, so their hashes stay as stored).
+   */
+  defaultDefinitions?: DefinitionSpan[];
 };
 
 export type Judgement = {
@@ -57,6 +63,7 @@ export const contentFields = [
   'pd',
   'windowFrom',
   'windowTo',
+  'defaultDefinitions',
   'marginData',
   'marginDataRationale',
   'marginPractice',
@@ -104,6 +111,7 @@ export const fieldLabels: Record<(typeof contentFields)[number], string> = {
   pd: 'PD',
   windowFrom: 'Window from',
   windowTo: 'Window to',
+  defaultDefinitions: 'Definition of default',
   marginData: 'Margin: data and method',
   marginDataRationale: 'Rationale: data and method',
   marginPractice: 'Margin: lending practice',

@@ -41,6 +41,8 @@ export type UploadMeta = {
   loanOptions?: LoanOptions;
   /** id of an older dataset this upload supersedes once accepted */
   supersedes?: number | null;
+  /** The definition of default given at upload; rows that name none take it. */
+  defaultDefinition?: string | null;
 };
 
 /** The compressed file, in pieces of any size (an upload's temporary file, or one buffer). */
@@ -149,7 +151,13 @@ export async function ensureSegments(tx: DbOrTx, names: readonly string[], owner
   return out;
 }
 
-async function insertCohortRows(tx: DbOrTx, datasetId: number, rows: readonly CohortRow[], segmentIds: Map<string, number>): Promise<void> {
+async function insertCohortRows(
+  tx: DbOrTx,
+  datasetId: number,
+  rows: readonly CohortRow[],
+  segmentIds: Map<string, number>,
+  defaultDefinition: string | null,
+): Promise<void> {
   for (let i = 0; i < rows.length; i += 1000) {
     await tx.insert(cohortRows).values(
       rows.slice(i, i + 1000).map((r) => ({
@@ -159,7 +167,7 @@ async function insertCohortRows(tx: DbOrTx, datasetId: number, rows: readonly Co
         obligors: r.obligors,
         defaults: r.defaults,
         sourceLine: r.line,
-        defaultDefinition: r.defaultDefinition ?? null,
+        defaultDefinition: r.defaultDefinition ?? defaultDefinition,
         note: r.note ?? null,
       })),
     );
@@ -184,6 +192,7 @@ function datasetOf(meta: UploadMeta) {
     sizeBytes: meta.sizeBytes,
     fileName: meta.fileName,
     uploadedBy: meta.uploadedBy,
+    defaultDefinition: meta.defaultDefinition ?? null,
   };
 }
 
@@ -232,7 +241,7 @@ export async function storeAcceptedDataset(tx: DbOrTx, meta: UploadMeta, gz: Gzi
   const [res] = await tx.insert(datasets).values({ ...datasetOf(meta), ...readyOf(v, names.length) });
   const id = Number(res.insertId);
   await insertFile(tx, id, gz);
-  await insertCohortRows(tx, id, v.cohortRows, segmentIds);
+  await insertCohortRows(tx, id, v.cohortRows, segmentIds, meta.defaultDefinition ?? null);
   const [rep] = await tx.insert(uploadReports).values({ ...reportOf(meta, id), ...outcomeOf('accepted', v) });
   if (meta.supersedes) await linkSupersede(tx, meta.supersedes, id);
   return {
@@ -320,7 +329,7 @@ export async function writeLoanConversion(
   const names = [...new Set(v.cohortRows.map((r) => r.segment))].sort();
   const segmentIds = await ensureSegments(tx, names, ds.uploadedBy);
   await tx.delete(cohortRows).where(eq(cohortRows.datasetId, datasetId));
-  await insertCohortRows(tx, datasetId, v.cohortRows, segmentIds);
+  await insertCohortRows(tx, datasetId, v.cohortRows, segmentIds, ds.defaultDefinition);
   await tx.update(datasets).set(readyOf(v, names.length)).where(eq(datasets.id, datasetId));
   await tx.update(uploadReports).set(outcomeOf('accepted', v)).where(eq(uploadReports.id, reportId));
   if (input.supersedes) {

@@ -25,6 +25,7 @@ import { isDuplicateKeyError, isForeignKeyRestrictError } from '@/db/errors';
 import { AppError, parseOrThrow } from '@/lib/errors';
 import type { ReadOptions } from '@/lib/ingest/csv-reader';
 import { parseIsoDate } from '@/lib/ingest/dates';
+import { definitionSpans, describeSpans, type DefinitionSpan } from '@/lib/ingest/default-definition';
 import { toIssue, type Finding, type FindingSummary, type UploadIssue } from '@/lib/ingest/findings';
 import { gunzipSource } from '@/lib/ingest/gzip';
 import {
@@ -85,7 +86,9 @@ export type SegmentHistory = {
   segmentId: number;
   name: string;
   assetClass: AssetClass;
-  rows: { period: number; obligors: number; defaults: number; sourceLine: number | null }[];
+  rows: { period: number; obligors: number; defaults: number; sourceLine: number | null; defaultDefinition: string | null }[];
+  /** The definitions of default over the segment's years (lib/ingest/default-definition.ts). */
+  definitions: DefinitionSpan[];
 };
 
 export type WaiverDto = { rule: string; reason: string; by: string; at: string };
@@ -112,6 +115,8 @@ export type ReportDto = {
 
 export type DatasetDetailDto = DatasetDto & {
   conventions: DatasetConventions | null;
+  /** The definition of default given at upload (rows that name none took it). */
+  defaultDefinition: string | null;
   censored: CensoredVintageYear[];
   segments: SegmentHistory[];
   supersedes: { id: number; name: string }[];
@@ -253,6 +258,7 @@ export async function getDataset(actor: SessionUser, id: number): Promise<Datase
       obligors: cohortRows.obligors,
       defaults: cohortRows.defaults,
       sourceLine: cohortRows.sourceLine,
+      defaultDefinition: cohortRows.defaultDefinition,
     })
     .from(cohortRows)
     .innerJoin(segments, eq(segments.id, cohortRows.segmentId))
@@ -261,9 +267,10 @@ export async function getDataset(actor: SessionUser, id: number): Promise<Datase
   const bySegment = new Map<number, SegmentHistory>();
   for (const r of cohort) {
     let s = bySegment.get(r.segmentId);
-    if (!s) bySegment.set(r.segmentId, (s = { segmentId: r.segmentId, name: r.name, assetClass: r.assetClass, rows: [] }));
-    s.rows.push({ period: r.period, obligors: r.obligors, defaults: r.defaults, sourceLine: r.sourceLine });
+    if (!s) bySegment.set(r.segmentId, (s = { segmentId: r.segmentId, name: r.name, assetClass: r.assetClass, rows: [], definitions: [] }));
+    s.rows.push({ period: r.period, obligors: r.obligors, defaults: r.defaults, sourceLine: r.sourceLine, defaultDefinition: r.defaultDefinition });
   }
+  for (const s of bySegment.values()) s.definitions = definitionSpans(s.rows.map((r) => ({ period: r.period, definition: r.defaultDefinition })));
   const supersedes = await db.select({ id: datasets.id, name: datasets.name }).from(datasets).where(eq(datasets.supersededById, id));
   const [rep] = await db.select().from(uploadReports).where(eq(uploadReports.datasetId, id)).orderBy(desc(uploadReports.id)).limit(1);
   const waivers = await db
@@ -280,6 +287,7 @@ export async function getDataset(actor: SessionUser, id: number): Promise<Datase
     ...base,
     usedBy: { fits: Number(fitUse?.n ?? 0), assumptions: Number(assumptionUse?.n ?? 0) },
     conventions: (row.conventions as DatasetConventions | null) ?? null,
+    defaultDefinition: row.defaultDefinition,
     censored: (row.censored as CensoredVintageYear[] | null) ?? [],
     segments: [...bySegment.values()],
     supersedes,
@@ -313,6 +321,7 @@ export async function getDatasetCohortsForExport(
     `Rhobook dataset ${d.id}: ${d.name} (${d.kind})`,
     `File ${d.fileName}, SHA-256 ${d.sha256}, uploaded ${d.createdAt.slice(0, 10)} by ${d.uploadedBy.name}`,
     `Conventions: ${d.conventions?.text ?? 'none recorded'}`,
+    ...d.segments.map((s) => `Definition of default, ${s.name}: ${describeSpans(s.definitions) ?? 'not stated'}`),
   ];
   if (d.censored.length > 0) {
     comments.push(`Censored vintage-years (${d.censored.length}), left out of the cohorts:`);
@@ -363,6 +372,7 @@ export const uploadFieldsSchema = z
       'The reference date must be a month and day written MM-DD that exists every year (for example 01-01 or 07-01).',
     ),
     exitConvention: z.enum(['exits-stay', 'exits-removed'], { message: 'Choose exits-stay or exits-removed.' }).optional(),
+    defaultDefinition: optionalText(500, 'Keep the definition of default under 500 characters.'),
   })
   .superRefine((v, ctx) => {
     if (v.kind !== 'loans') {
@@ -431,6 +441,7 @@ export async function uploadDataset(
     loanOptions:
       f.kind === 'loans' ? { asOf: f.asOf, referenceMonthDay: f.referenceMonthDay, exitConvention: f.exitConvention ?? 'exits-stay' } : undefined,
     supersedes: f.supersedes ?? null,
+    defaultDefinition: f.defaultDefinition ?? null,
   };
   const db = getDb();
 

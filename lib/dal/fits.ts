@@ -5,6 +5,8 @@ import { cohortRows, datasets, fitRuns, jobs, segments, users, type FitRunStatus
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { AppError, parseOrThrow } from '@/lib/errors';
 import { loadFittableDataset, loadPanels } from './panels';
+import { definitionsOf } from './default-definitions';
+import type { DefinitionSpan } from '@/lib/ingest/default-definition';
 import { fitRequestSchema, type FitRequest, type FitRequestInput } from '@/lib/fits/request';
 import { findSegment, isCurrentResults, type FitResults, type FitSegmentResult } from '@/lib/fits/results';
 import { FIT_JOB } from '@/lib/jobs/kinds/fit';
@@ -41,6 +43,8 @@ export type FitDto = FitSummaryDto & {
   seeds: { bootstrap: number | null; audit: number | null };
   jobId: number | null;
   mayCancel: boolean;
+  /** Each segment's definitions of default over the fitted years (from the dataset's rows). */
+  defaultDefinitions: { segment: string; spans: DefinitionSpan[] }[];
 };
 
 type Row = {
@@ -127,8 +131,11 @@ export async function getFit(actor: SessionUser, id: number): Promise<FitDto> {
   const [r] = await selectRuns().where(eq(fitRuns.id, id)).limit(1);
   if (!r) throw new AppError('not_found:fit', `There is no fit run ${id}.`);
   const live = liveStatus(r as Row);
+  const summary = toSummary(r as Row);
+  const request = r.run.request as FitRequest;
+  const definitions = await definitionsOf(getDb(), r.run.datasetId, summary.segments, { from: request.from, to: request.to });
   return {
-    ...toSummary(r as Row),
+    ...summary,
     request: r.run.request as FitRequest,
     results: (r.run.results as FitResults | null) ?? null,
     error: live.error,
@@ -137,6 +144,7 @@ export async function getFit(actor: SessionUser, id: number): Promise<FitDto> {
     seeds: r.run.seeds as FitDto['seeds'],
     jobId: r.run.jobId,
     mayCancel: r.run.createdBy === actor.id && (live.status === 'queued' || live.status === 'running'),
+    defaultDefinitions: summary.segments.map((segment) => ({ segment, spans: definitions.get(segment) ?? [] })),
   };
 }
 

@@ -21,6 +21,7 @@ import { readCsvStream, readCsvText, type ByteSource, type ReadInfo, type ReadOp
 import { KindSink } from './kind-sink';
 import { checkText, countOrReport } from './values';
 import { checkPanel } from './panel-checks';
+import { checkDefaultDefinitions } from './default-definition';
 import { MAX_SEGMENT_CHARS } from './limits';
 
 export const cohortRowSchema = z
@@ -156,7 +157,10 @@ class CohortSink extends KindSink<'segment' | 'period' | 'obligors' | 'defaults'
 }
 
 function finish(sink: CohortSink, findings: FindingCollector, file: ReadInfo): CohortValidation {
-  if (findings.errors === 0) checkPanel(sink.rows, findings, 'file');
+  if (findings.errors === 0) {
+    checkPanel(sink.rows, findings, 'file');
+    checkDefaultDefinitions(sink.rows, findings);
+  }
   return { kind: 'cohort', ok: findings.errors === 0, rows: sink.rows, findings: findings.sorted(), summary: findings.summary(), file };
 }
 

@@ -16,31 +16,40 @@ export async function makeFitRun(
   userId: number,
   segment: string,
   fit: { rho: number; pd: number; profile: { level: number; lower: number; upper: number } } = PANEL_A_FIT,
-  opts: { status?: 'succeeded' | 'running' } = {},
+  opts: { status?: 'succeeded' | 'running'; dataset?: { id: number; sha256: string }; periods?: string[] } = {},
 ): Promise<{ fitId: number; datasetId: number; sha256: string }> {
   counter += 1;
   const tag = `${Date.now().toString(36)}-${counter}`;
-  const sha256 = createHash('sha256').update(`assumption-test-${tag}`).digest('hex');
   const db = getDb();
-  const [ds] = await db.insert(datasets).values({
-    kind: 'cohort',
-    name: `Assumption test data ${tag}`,
-    sha256,
-    dedupeKey: sha256,
-    status: 'ready',
-    sizeBytes: 100,
-    fileName: `cohorts-${tag}.csv`,
-    uploadedBy: userId,
-    segmentCount: 1,
-    rowCount: 10,
-  });
-  const periods = Array.from({ length: 10 }, (_, i) => String(2010 + i));
+  let datasetId: number;
+  let sha256: string;
+  if (opts.dataset) {
+    // A fit of a dataset that was uploaded for real (its cohort rows are stored).
+    datasetId = opts.dataset.id;
+    sha256 = opts.dataset.sha256;
+  } else {
+    sha256 = createHash('sha256').update(`assumption-test-${tag}`).digest('hex');
+    const [ds] = await db.insert(datasets).values({
+      kind: 'cohort',
+      name: `Assumption test data ${tag}`,
+      sha256,
+      dedupeKey: sha256,
+      status: 'ready',
+      sizeBytes: 100,
+      fileName: `cohorts-${tag}.csv`,
+      uploadedBy: userId,
+      segmentCount: 1,
+      rowCount: 10,
+    });
+    datasetId = Number(ds.insertId);
+  }
+  const periods = opts.periods ?? Array.from({ length: 10 }, (_, i) => String(2010 + i));
   const results = {
     engine: { version: 'test-engine-1' },
     segments: [
       {
         segment,
-        T: 10,
+        T: periods.length,
         periods,
         estimates: {
           binomialMle: { rho: fit.rho, pd: fit.pd, status: 'ok', atBoundary: false, logLik: -33.785195, intervals: { profile: fit.profile, wald: null, bootstrap: null } },
@@ -55,7 +64,7 @@ export async function makeFitRun(
     ],
   };
   const [run] = await db.insert(fitRuns).values({
-    datasetId: Number(ds.insertId),
+    datasetId,
     datasetSha256: sha256,
     request: { segments: [segment], level: 0.95 },
     engineVersion: 'test-engine-1',
@@ -65,7 +74,7 @@ export async function makeFitRun(
     results: opts.status === 'running' ? null : results,
     finishedAt: opts.status === 'running' ? null : new Date(),
   });
-  return { fitId: Number(run.insertId), datasetId: Number(ds.insertId), sha256 };
+  return { fitId: Number(run.insertId), datasetId, sha256 };
 }
 
 /** A complete draft body for POST /api/assumptions. */

@@ -3,6 +3,7 @@ import { inArray } from 'drizzle-orm';
 import type { DbOrTx } from '@/db/connection';
 import { users, type AssumptionAuditRow, type AssumptionStatus, type AssumptionVersion } from '@/db/schema';
 import type { FieldChange, VersionContent } from '@/lib/assumptions/content';
+import type { DefinitionSpan } from '@/lib/ingest/default-definition';
 import type { UserAction } from '@/lib/assumptions/lifecycle';
 import type { PublicationNote } from '@/lib/assumptions/publication';
 
@@ -96,6 +97,7 @@ export function contentOf(v: AssumptionVersion, segment: string): VersionContent
     pd: v.pd,
     windowFrom: v.windowFrom,
     windowTo: v.windowTo,
+    defaultDefinitions: (v.defaultDefinitions as DefinitionSpan[] | null) ?? undefined,
     marginData: v.marginData,
     marginDataRationale: v.marginDataRationale,
     marginPractice: v.marginPractice,

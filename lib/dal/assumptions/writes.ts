@@ -18,6 +18,7 @@ import { openStatuses, planEdit, planTransition, type UserAction } from '@/lib/a
 import { conservativeValue } from '@/lib/assumptions/margins';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { AppError, parseOrThrow } from '@/lib/errors';
+import { definitionsOf } from '../default-definitions';
 import { loadFitEvidence } from '../fit-evidence';
 import { blockingRefusal } from '../findings';
 import { asActor, makerIds, SYSTEM, type Actor } from './actors';
@@ -74,6 +75,9 @@ export async function createDraft(actor: SessionUser, input: DraftInput, now: Da
   return getDb().transaction(async (tx) => {
     const fit = await loadFitEvidence(tx, d.fitId);
     const picked = pickEvidence(fit.results, d.segment, d.estimator, d.intervalMethod);
+    const definitions = fit.datasetId
+      ? ((await definitionsOf(tx, fit.datasetId, [d.segment], { from: picked.windowFrom, to: picked.windowTo })).get(d.segment) ?? [])
+      : [];
     const margins = { data: d.margins.data.value, practice: d.margins.practice.value, general: d.margins.general.value };
     const cons = conservativeValue(picked.estimate, margins);
     const judgement = {
@@ -115,6 +119,7 @@ export async function createDraft(actor: SessionUser, input: DraftInput, now: Da
       estimator: d.estimator,
       intervalMethod: d.intervalMethod,
       ...picked,
+      defaultDefinitions: definitions,
       ...judgement,
       conservativeValue: cons,
     };

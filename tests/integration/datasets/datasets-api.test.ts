@@ -193,7 +193,7 @@ describe('vintage files are converted to annual cohorts by observation year', ()
     expect(status, JSON.stringify(body)).toBe(201);
     expect(body.rows).toBe(1);
     const { body: d } = await json(await getRoute(new Request('http://x'), paramsOf({ id: String(body.id) })));
-    expect(d.dataset.segments[0].rows).toEqual([{ period: 2016, obligors: 100, defaults: 12, sourceLine: null }]);
+    expect(d.dataset.segments[0].rows).toEqual([{ period: 2016, obligors: 100, defaults: 12, sourceLine: null, defaultDefinition: null }]);
     expect(d.dataset.censored).toEqual([expect.objectContaining({ segment: 'Auto V', vintage: '2015-12', year: 2017 })]);
     expect(d.dataset.conventions.text).toMatch(/observation year/);
     const text = await (await cohortsCsv(new Request('http://x'), paramsOf({ id: String(body.id) }))).text();

@@ -4,6 +4,7 @@ import { notFound } from 'next/navigation';
 import { DatasetActions } from '@/components/data/dataset-actions';
 import { ConversionStatus } from '@/components/data/conversion-status';
 import { StatusBadge } from '@/components/data/datasets-table';
+import { DefaultDefinitions } from '@/components/data/default-definitions';
 import { DefaultRateChart } from '@/components/data/default-rate-chart';
 import { formatSize, formatWhen, kindLabels } from '@/components/data/format';
 import { ReportTable } from '@/components/data/report-table';
@@ -134,6 +135,7 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
             </table>
           </details>
         ) : null}
+        {d.status === 'ready' ? <DefaultDefinitions uploadField={d.defaultDefinition} segments={d.segments} /> : null}
         <p className="text-xs text-[var(--color-muted)]">
           A correlation fitted on these cohorts is valid only with the default definition and the one-year horizon they were counted on.
         </p>

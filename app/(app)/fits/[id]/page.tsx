@@ -4,6 +4,7 @@ import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { z } from 'zod';
 import { FindingsSection } from '@/components/findings/findings-section';
+import { FitDefaultDefinitions } from '@/components/fits/fit-default-definitions';
 import { FitProgress } from '@/components/fits/fit-progress';
 import { FitProvenance, OldResultsNotice } from '@/components/fits/fit-provenance';
 import { ModelCautions } from '@/components/fits/model-cautions';
@@ -47,6 +48,8 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
           </Link>
         ) : null}
       </div>
+
+      <FitDefaultDefinitions definitions={fit.defaultDefinitions} />
 
       {fit.status !== 'succeeded' ? (
         <HydrationBoundary

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { cautions, toConsumerVersion } from '@/lib/assumptions/consumer';
+import { cautions, cautionsFor, toConsumerVersion } from '@/lib/assumptions/consumer';
 import { isIsoDate, todayIso } from '@/lib/assumptions/dates';
 import { listInForce, versionInForce } from '@/lib/dal/assumptions';
 import { authenticateToken } from '@/lib/dal/tokens';
@@ -23,8 +23,8 @@ export async function GET(req: Request) {
     const now = new Date();
     const asOf = q.data.asOf ?? todayIso(now);
     if (q.data.segment) {
-      const v = await versionInForce(principal, q.data.segment, asOf, now);
-      return Response.json({ asOf, assumption: toConsumerVersion(v), cautions });
+      const c = toConsumerVersion(await versionInForce(principal, q.data.segment, asOf, now));
+      return Response.json({ asOf, assumption: c, cautions: cautionsFor(c) });
     }
     const { versions, missing } = await listInForce(principal, asOf, now);
     return Response.json({ asOf, assumptions: versions.map(toConsumerVersion), missing, cautions });

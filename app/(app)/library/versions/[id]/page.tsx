@@ -4,11 +4,14 @@ import { notFound } from 'next/navigation';
 import { z } from 'zod';
 import { Cautions } from '@/components/assumptions/cautions';
 import { PublicationLine } from '@/components/assumptions/publication-line';
+import { VersionCautions } from '@/components/assumptions/version-cautions';
 import { FindingsSection } from '@/components/findings/findings-section';
 import { fmt, StatusBadge } from '@/components/assumptions/status-badge';
 import { TransitionPanel } from '@/components/assumptions/transition-panel';
 import { VersionEvidence } from '@/components/assumptions/version-evidence';
 import { assumptionCautions } from '@/lib/assumptions/cautions';
+import { versionCautions } from '@/lib/assumptions/consumer';
+import { describeSpans, type DefinitionSpan } from '@/lib/ingest/default-definition';
 import { editableStatuses, statusLabels } from '@/lib/assumptions/lifecycle';
 import { can, roleLabels } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
@@ -36,6 +39,13 @@ const when = (s: string | null) => (s ? `${s.replace('T', ' ').slice(0, 16)} UTC
 function show(v: unknown): string {
   if (v === null || v === undefined || v === '') return '—';
   return typeof v === 'object' ? JSON.stringify(v) : String(v);
+}
+
+/** A changed field's value in the diff. */
+function cell(field: string, value: unknown): string {
+  if (field === 'seeds') return seedsText(value);
+  if (field === 'defaultDefinitions') return Array.isArray(value) ? (describeSpans(value as DefinitionSpan[]) ?? 'not stated') : '—';
+  return show(value);
 }
 
 export default async function VersionPage({
@@ -74,6 +84,7 @@ export default async function VersionPage({
         </p>
         <PublicationLine note={page.publication} />
       </div>
+      <VersionCautions cautions={versionCautions(v)} />
 
       <section className="grid gap-4 lg:grid-cols-3">
         <div className="panel p-5 lg:col-span-2">
@@ -91,6 +102,8 @@ export default async function VersionPage({
             <dd>
               {v.windowFrom} to {v.windowTo}
             </dd>
+            <dt>Definition of default</dt>
+            <dd data-testid="version-default-definition">{v.defaultDefinitions ? (describeSpans(v.defaultDefinitions) ?? 'not stated in the data') : 'not recorded (drafted before it was carried)'}</dd>
             <dt>Fit run</dt>
             <dd>{v.lineage.fitUrl ? <Link href={v.lineage.fitUrl}>fit {v.fitRunId}</Link> : '—'}</dd>
             <dt>Dataset</dt>
@@ -243,8 +256,8 @@ export default async function VersionPage({
                   .map((c) => (
                     <tr key={c.field}>
                       <td>{c.label}</td>
-                      <td className="whitespace-pre-wrap text-[var(--color-bad)]">{c.field === 'seeds' ? seedsText(c.before) : show(c.before)}</td>
-                      <td className="whitespace-pre-wrap text-[var(--color-good)]">{c.field === 'seeds' ? seedsText(c.after) : show(c.after)}</td>
+                      <td className="whitespace-pre-wrap text-[var(--color-bad)]">{cell(c.field, c.before)}</td>
+                      <td className="whitespace-pre-wrap text-[var(--color-good)]">{cell(c.field, c.after)}</td>
                     </tr>
                   ))}
               </tbody>

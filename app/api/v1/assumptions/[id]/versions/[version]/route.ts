@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { cautions, toConsumerVersion } from '@/lib/assumptions/consumer';
+import { cautionsFor, toConsumerVersion } from '@/lib/assumptions/consumer';
 import { publishedVersion } from '@/lib/dal/assumptions';
 import { authenticateToken } from '@/lib/dal/tokens';
 import { AppError, errorResponse } from '@/lib/errors';
@@ -12,8 +12,8 @@ export async function GET(req: Request, ctx: { params: Promise<{ id: string; ver
     const principal = await authenticateToken(req.headers.get('authorization'), 'assumptions:read');
     const p = paramsSchema.safeParse(await ctx.params);
     if (!p.success) throw new AppError('not_found:assumption', 'There is no such assumption version.');
-    const v = await publishedVersion(principal, p.data.id, p.data.version);
-    return Response.json({ assumption: toConsumerVersion(v), cautions });
+    const c = toConsumerVersion(await publishedVersion(principal, p.data.id, p.data.version));
+    return Response.json({ assumption: c, cautions: cautionsFor(c) });
   } catch (err) {
     return errorResponse(err);
   }
