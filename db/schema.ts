@@ -611,3 +611,53 @@ export const findingEvents = mysqlTable(
   (t) => [index('finding_events_finding_idx').on(t.findingId, t.id)],
 );
 export type FindingEvent = typeof findingEvents.$inferSelect;
+
+// ---------------------------------------------------------------------------------------------
+// Evidence that ages (lib/dal/evidence.ts): the backtests of published values on the years of a
+// newer dataset, computed by the worker's monitor-backtest job; and the institution's policy for
+// values past their review-by date, whose changes are kept so that an as-of answer never changes.
+// ---------------------------------------------------------------------------------------------
+
+export const backtestStatuses = ['queued', 'done', 'failed'] as const;
+export type BacktestStatus = (typeof backtestStatuses)[number];
+
+export const evidenceBacktests = mysqlTable(
+  'evidence_backtests',
+  {
+    id: int('id').autoincrement().primaryKey(),
+    versionId: int('version_id')
+      .notNull()
+      .references(() => assumptionVersions.id, { onDelete: 'restrict' }),
+    /** The newer dataset whose years are tested. */
+    datasetId: bigint('dataset_id', { mode: 'number' })
+      .notNull()
+      .references(() => datasets.id, { onDelete: 'cascade' }),
+    periods: json('periods').notNull(),
+    status: mysqlEnum('status', backtestStatuses).notNull().default('queued'),
+    /** lib/stats/backtest.ts BacktestResult, with the tested (p, rho). */
+    result: json('result'),
+    error: text('error'),
+    engineVersion: varchar('engine_version', { length: 60 }),
+    jobId: bigint('job_id', { mode: 'number' }),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    finishedAt: datetime('finished_at', { mode: 'date', fsp: 3 }),
+  },
+  (t) => [uniqueIndex('evidence_backtests_uq').on(t.versionId, t.datasetId)],
+);
+export type EvidenceBacktest = typeof evidenceBacktests.$inferSelect;
+
+/** flag: past review-by a value stays readable, flagged overdue; withdraw: it is no longer served. */
+export const overduePolicyKinds = ['flag', 'withdraw'] as const;
+export type OverduePolicy = (typeof overduePolicyKinds)[number];
+
+/** Every change of the overdue policy (the first row's absence means the default, flag). */
+export const overduePolicyChanges = mysqlTable('overdue_policy_changes', {
+  id: int('id').autoincrement().primaryKey(),
+  policy: mysqlEnum('policy', overduePolicyKinds).notNull(),
+  changedBy: int('changed_by')
+    .notNull()
+    .references(() => users.id, { onDelete: 'restrict' }),
+  reason: text('reason').notNull(),
+  at: datetime('at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+});
+export type OverduePolicyChange = typeof overduePolicyChanges.$inferSelect;

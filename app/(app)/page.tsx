@@ -6,6 +6,7 @@ import { getHealth } from '@/lib/dal/health';
 import { listLibrary, listQueue } from '@/lib/dal/assumptions';
 import { listFindings } from '@/lib/dal/findings';
 import { FindingsOverview } from '@/components/findings/findings-overview';
+import { AgedEvidenceOverview } from '@/components/assumptions/aged-evidence-overview';
 import type { Role } from '@/db/schema';
 
 export const metadata: Metadata = { title: 'Overview' };
@@ -45,7 +46,7 @@ export default async function OverviewPage() {
   const [health, queue, library, unresolved] = await Promise.all([getHealth(), listQueue(user), listLibrary(user), listFindings(user, { unresolved: true })]);
   const steps = nextSteps(user.role);
   const expiring = library.filter((e) => e.health === 'expiring');
-  const expired = library.filter((e) => e.health === 'expired');
+  const expired = library.filter((e) => e.health === 'expired' || e.health === 'overdue');
   const published = library.filter((e) => e.current?.status === 'published');
   return (
     <div className="space-y-6">
@@ -103,7 +104,10 @@ export default async function OverviewPage() {
           {expired.length ? (
             <>
               {' · '}
-              <span className="font-medium text-[var(--color-bad)]">{expired.length} past review-by</span>
+              <span className="font-medium text-[var(--color-bad)]">
+                {expired.length} past review-by
+                {expired.some((e) => e.health === 'overdue') ? ` (${expired.filter((e) => e.health === 'overdue').length} still served, flagged overdue)` : ''}
+              </span>
             </>
           ) : null}
         </p>
@@ -125,6 +129,7 @@ export default async function OverviewPage() {
 
       <div className="grid gap-4 md:grid-cols-2">
         <FindingsOverview unresolved={unresolved} meId={user.id} />
+        <AgedEvidenceOverview library={library} />
       </div>
 
       <section className="grid gap-4 md:grid-cols-3">

@@ -21,8 +21,15 @@ export function StatusBadge({ status }: { status: AssumptionStatus }) {
   );
 }
 
-export function HealthBadge({ health, days }: { health: 'ok' | 'expiring' | 'expired' | 'none'; days: number | null }) {
+export function HealthBadge({ health, days }: { health: 'ok' | 'expiring' | 'overdue' | 'expired' | 'none'; days: number | null }) {
   if (health === 'expired') return <span className="badge bg-[var(--color-bad-soft)] text-[var(--color-bad)]">expired</span>;
+  if (health === 'overdue') {
+    return (
+      <span className="badge bg-[var(--color-bad-soft)] text-[var(--color-bad)]" title="Past its review-by date; still served, flagged overdue, under the overdue policy">
+        overdue{days !== null ? ` ${-days} d` : ''}
+      </span>
+    );
+  }
   if (health === 'expiring') return <span className="badge bg-[var(--color-caution-soft)] text-[var(--color-caution)]">review in {days} d</span>;
   if (health === 'ok') return <span className="badge bg-[var(--color-good-soft)] text-[var(--color-good)]">current</span>;
   return <span className="badge">not published</span>;

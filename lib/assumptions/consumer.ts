@@ -1,8 +1,9 @@
 import { z } from 'zod';
-import { assumptionStatuses } from '@/db/schema';
+import { assumptionStatuses, overduePolicyKinds } from '@/db/schema';
 import type { CsvValue } from '@/lib/csv';
 import { describeSpans, isMixed, mixedDefinitionCaution } from '@/lib/ingest/default-definition';
 import { assumptionCautions } from './cautions';
+import { overdueCaution } from './overdue-policy';
 import type { VersionContent } from './content';
 
 /**
@@ -50,6 +51,30 @@ export const consumerVersionSchema = z.object({
   intendedUses: z.string(),
   limitations: z.string(),
   approvedBy: z.string().nullable(),
+  evidence: z
+    .object({
+      superseded: z.boolean().describe('The dataset the value was drawn from has been superseded.'),
+      newerDatasetId: z.number().int().nullable().describe('The newer dataset: the one that superseded it, or the newest with later years of the segment.'),
+      newPeriods: z.array(z.string()).describe('Years of the segment in the newer dataset after the value\'s window.'),
+      backtest: z
+        .object({
+          verdict: z.enum(['consistent', 'watch', 'breach']),
+          summary: z.string(),
+          periods: z.array(z.string()),
+          exceedances: z.object({ above95: z.number().int(), above99: z.number().int(), expected95: z.number(), expected99: z.number() }),
+          logLik: z.number(),
+        })
+        .nullable()
+        .describe('The worker\'s backtest of the published value and PD on the new years, once it has run.'),
+    })
+    .describe('Whether the evidence behind the value has aged.'),
+  review: z
+    .object({
+      reviewBy: z.string(),
+      overdue: z.boolean().describe('Past its review-by date on the asked day.'),
+      policy: z.enum(overduePolicyKinds).describe('The overdue policy in force: flag keeps an overdue value readable, flagged; withdraw stops serving it.'),
+    })
+    .describe('The review state of the value.'),
   cautions: z.array(z.string()).describe('Cautions of this version in particular (a mix of definitions of default, evidence that has aged); the general cautions are in the answer beside it.'),
   lineage: z.object({
     fitRunId: z.number().int().nullable(),
@@ -78,7 +103,24 @@ export const consumerListSchema = z.object({
 });
 export const errorSchema = z.object({ code: z.string(), message: z.string() });
 
+type EvidenceLike = {
+  superseded: boolean;
+  newerDatasetId: number | null;
+  newerDatasetName?: string | null;
+  newPeriods: string[];
+  flagged?: boolean;
+  backtest: {
+    verdict: 'consistent' | 'watch' | 'breach' | null;
+    summary: string | null;
+    periods: string[];
+    result: { exceedances: { above95: number; above99: number; expected95: number; expected99: number }; logLik: number } | null;
+  } | null;
+};
+type ReviewLike = { reviewBy: string; overdue: boolean; policy: (typeof overduePolicyKinds)[number] };
+
 type VersionLike = VersionContent & {
+  evidence: EvidenceLike;
+  review: ReviewLike;
   assumptionId: number;
   version: number;
   status: (typeof assumptionStatuses)[number];
@@ -117,6 +159,27 @@ export function toConsumerVersion(v: VersionLike): ConsumerVersion {
     intendedUses: v.intendedUses,
     limitations: v.limitations,
     approvedBy: v.validator?.name ?? null,
+    evidence: {
+      superseded: v.evidence.superseded,
+      newerDatasetId: v.evidence.newerDatasetId,
+      newPeriods: v.evidence.newPeriods,
+      backtest:
+        v.evidence.backtest?.result && v.evidence.backtest.verdict
+          ? {
+              verdict: v.evidence.backtest.verdict,
+              summary: v.evidence.backtest.summary ?? '',
+              periods: v.evidence.backtest.periods,
+              exceedances: {
+                above95: v.evidence.backtest.result.exceedances.above95,
+                above99: v.evidence.backtest.result.exceedances.above99,
+                expected95: v.evidence.backtest.result.exceedances.expected95,
+                expected99: v.evidence.backtest.result.exceedances.expected99,
+              },
+              logLik: v.evidence.backtest.result.logLik,
+            }
+          : null,
+    },
+    review: v.review,
     cautions: versionCautions(v),
     lineage: {
       fitRunId: v.fitRunId,
@@ -133,10 +196,28 @@ export function toConsumerVersion(v: VersionLike): ConsumerVersion {
 
 export const cautions = [...assumptionCautions];
 
-/** The cautions of one version in particular (a fit over mixed definitions of default). */
-export function versionCautions(v: Pick<VersionContent, 'defaultDefinitions'>): string[] {
+/** The flag of aged evidence in a sentence, or null. */
+export function evidenceCautionOf(e: EvidenceLike): string | null {
+  if (!e.superseded && !e.newPeriods.length) return null;
+  const where = e.newerDatasetId ? `dataset ${e.newerDatasetId}${e.newerDatasetName ? ` “${e.newerDatasetName}”` : ''}` : 'a newer dataset';
+  const years = e.newPeriods.length ? ` and holds later years (${e.newPeriods.join(', ')})` : '';
+  return e.superseded
+    ? `The dataset this value was drawn from has been superseded by ${where}${years}: the evidence behind the value has aged; a new fit and version should follow.`
+    : `A newer dataset, ${where}, covers later years of this segment (${e.newPeriods.join(', ')}) that the value was not fitted on; a new fit and version should follow.`;
+}
+
+/**
+ * The cautions of one version in particular: a fit over mixed definitions of default, evidence
+ * that has aged, a review-by date that has passed.
+ */
+export function versionCautions(v: Pick<VersionContent, 'defaultDefinitions'> & { evidence?: EvidenceLike; review?: ReviewLike }): string[] {
+  const out: string[] = [];
   const mixed = v.defaultDefinitions ? mixedDefinitionCaution(v.defaultDefinitions) : null;
-  return mixed ? [mixed] : [];
+  if (mixed) out.push(mixed);
+  const aged = v.evidence ? evidenceCautionOf(v.evidence) : null;
+  if (aged) out.push(aged);
+  if (v.review?.overdue) out.push(overdueCaution(v.review.reviewBy));
+  return out;
 }
 
 /** The cautions of an answer about one version: the general ones and the version's own. */
@@ -169,6 +250,9 @@ export const exportColumns = [
   'engine_version',
   'content_sha256',
   'approved_by',
+  'evidence_aged',
+  'newer_dataset_id',
+  'overdue',
 ] as const;
 
 export function exportRow(c: ConsumerVersion): CsvValue[] {
@@ -197,5 +281,8 @@ export function exportRow(c: ConsumerVersion): CsvValue[] {
     c.lineage.engineVersion,
     c.lineage.contentHash,
     c.approvedBy,
+    c.evidence.superseded || c.evidence.newPeriods.length > 0,
+    c.evidence.newerDatasetId,
+    c.review.overdue,
   ];
 }

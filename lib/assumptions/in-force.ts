@@ -1,4 +1,4 @@
-import type { AssumptionStatus } from '@/db/schema';
+import type { AssumptionStatus, OverduePolicy } from '@/db/schema';
 
 /**
  * Which version of a segment's assumption was in force on a date: the rule of the consumer API
@@ -13,8 +13,11 @@ import type { AssumptionStatus } from '@/db/schema';
  * approval date and publication never comes before the effective date, so the two agree under the
  * rules; where stored data disagrees (a version back-dated before those rules), publication time wins.
  *
- * A version in force whose review-by date is before D is not in force on D (a projection for a
- * future date says so before the scheduler has expired it).
+ * A version in force whose review-by date is before D is overdue on D. What that means is the
+ * institution's overdue policy in force at the cutoff (lib/assumptions/overdue-policy.ts): under
+ * `flag` it stays in force, flagged overdue; under `withdraw` it is not in force (a projection for a
+ * future date says so before the scheduler has expired it). The policy's changes are kept with
+ * their times, so an answer for a past date reads the policy of then and never changes.
  */
 export type PublishedRecord = {
   version: number;
@@ -25,10 +28,11 @@ export type PublishedRecord = {
 };
 
 export type InForce<V extends PublishedRecord> =
-  | { kind: 'in-force'; version: V }
+  /** overdue: its review-by date is before the asked date (only under the flag policy). */
+  | { kind: 'in-force'; version: V; overdue: boolean }
   /** Nothing had been published by then. */
   | { kind: 'none' }
-  /** The version in force was past its review-by date on that day (or the scheduler had expired it). */
+  /** The version in force was past its review-by date on that day under the withdraw policy (or the scheduler had expired it). */
   | { kind: 'expired'; version: V }
   /** The last published version had been retired by then. */
   | { kind: 'retired'; version: V; on: string }
@@ -58,8 +62,11 @@ export function lastPublishedBy<V extends PublishedRecord>(versions: readonly V[
   return best;
 }
 
-/** Decides what was in force on `asOf` from the last version published by the cutoff. */
-export function judgeInForce<V extends PublishedRecord>(last: V | null, asOf: string, cutoff: Date): InForce<V> {
+/**
+ * Decides what was in force on `asOf` from the last version published by the cutoff, under the
+ * overdue policy in force at the cutoff.
+ */
+export function judgeInForce<V extends PublishedRecord>(last: V | null, asOf: string, cutoff: Date, policy: OverduePolicy = 'withdraw'): InForce<V> {
   if (!last) return { kind: 'none' };
   if (last.endedAt && last.endedAt.getTime() <= cutoff.getTime()) {
     const on = last.endedAt.toISOString().slice(0, 10);
@@ -67,12 +74,20 @@ export function judgeInForce<V extends PublishedRecord>(last: V | null, asOf: st
     if (last.status === 'expired') return { kind: 'expired', version: last };
     return { kind: 'ended', version: last, on };
   }
-  if (last.reviewBy < asOf) return { kind: 'expired', version: last };
-  return { kind: 'in-force', version: last };
+  if (last.reviewBy < asOf) return policy === 'withdraw' ? { kind: 'expired', version: last } : { kind: 'in-force', version: last, overdue: true };
+  return { kind: 'in-force', version: last, overdue: false };
 }
 
-/** The version of one segment in force on `asOf`, seen at `now` (see the file comment). */
-export function versionInForceAt<V extends PublishedRecord>(versions: readonly V[], asOf: string, now: Date): InForce<V> {
+/**
+ * The version of one segment in force on `asOf`, seen at `now` (see the file comment), under the
+ * overdue policy in force at the cutoff (`policyAt`; by default the withdraw rule).
+ */
+export function versionInForceAt<V extends PublishedRecord>(
+  versions: readonly V[],
+  asOf: string,
+  now: Date,
+  policyAt: (t: Date) => OverduePolicy = () => 'withdraw',
+): InForce<V> {
   const cutoff = inForceCutoff(asOf, now);
-  return judgeInForce(lastPublishedBy(versions, cutoff), asOf, cutoff);
+  return judgeInForce(lastPublishedBy(versions, cutoff), asOf, cutoff, policyAt(cutoff));
 }

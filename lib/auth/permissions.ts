@@ -9,6 +9,8 @@ export const permissions = {
   'users:manage': ['admin'],
   'tokens:manage': ['admin'],
   'outbox:read': ['admin'],
+  /** institution-wide settings such as the overdue policy */
+  'settings:manage': ['admin'],
   'datasets:read': ['viewer', 'analyst', 'validator', 'admin'],
   'datasets:upload': ['analyst', 'admin'],
   /** waive warnings, supersede, delete (the DAL lets analysts delete only their own uploads) */

@@ -14,7 +14,7 @@ export const mailKinds = [
 export type MailKind = (typeof mailKinds)[number];
 
 /** The other e-mails (findings, evidence, consuming models), rendered by their own functions below. */
-export const otherMailKinds = ['finding-recorded', 'finding-due-soon', 'finding-overdue'] as const;
+export const otherMailKinds = ['finding-recorded', 'finding-due-soon', 'finding-overdue', 'evidence-aged', 'review-overdue', 'review-withdrawn'] as const;
 export type OtherMailKind = (typeof otherMailKinds)[number];
 
 export type Message = { subject: string; body: string };
@@ -118,4 +118,30 @@ export function renderFindingMail(kind: 'finding-recorded' | 'finding-due-soon' 
         body: `${what} was due on ${f.dueDate}${f.daysLeft !== undefined ? ` (${-f.daysLeft} day${f.daysLeft === -1 ? '' : 's'} ago)` : ''} and is still ${f.status}.${link}${findingFooter}`,
       };
   }
+}
+
+/** The evidence behind a published value has aged (a superseded dataset, or later years in a newer one). */
+export function renderEvidenceMail(f: { segment: string; version: number; caution: string; backtest: boolean; url: string }): Message {
+  const what = `${f.segment} v${f.version}`;
+  return {
+    subject: `Evidence has aged: ${what}`,
+    body: `${f.caution}${f.backtest ? ' The worker backtests the published value on the new years; the result is shown beside the flag on the version page.' : ''}\n\nDraft a new version from a fit of the newer data, or record why the value still holds.\n\nOpen it: ${f.url}${footer}`,
+  };
+}
+
+/** A published value is past its review-by date: the escalation to validators and administrators. */
+export function renderOverdueMail(
+  kind: 'review-overdue' | 'review-withdrawn',
+  f: { segment: string; version: number; reviewBy: string; url: string },
+): Message {
+  const what = `${f.segment} v${f.version}`;
+  return kind === 'review-overdue'
+    ? {
+        subject: `Past review-by, still served: ${what}`,
+        body: `${what} was due for review by ${f.reviewBy} and no reviewed version has replaced it. Under the institution's overdue policy it stays readable in the consumer API, flagged overdue. Review it and publish a new version, or retire it.\n\nOpen it: ${f.url}${footer}`,
+      }
+    : {
+        subject: `Withdrawn past review-by: ${what}`,
+        body: `${what} was due for review by ${f.reviewBy} and no reviewed version has replaced it. Under the institution's overdue policy it is withdrawn: the consumer API no longer serves it as the value in force. Review it and publish a new version.\n\nOpen it: ${f.url}${footer}`,
+      };
 }

@@ -6,6 +6,7 @@ import type { JobKind, JobPayload } from '@/lib/jobs/kinds';
 import type { JobHandler } from '../job-handler';
 import { convertLoansHandler } from './convert-loans';
 import { fitHandler } from './fit';
+import { monitorBacktestHandler } from './monitor-backtest';
 
 /** One handler per kind, taking that kind's payload. */
 export type JobHandlerMap = { [K in JobKind]: JobHandler<JobPayload<K>> };
@@ -13,6 +14,7 @@ export type JobHandlerMap = { [K in JobKind]: JobHandler<JobPayload<K>> };
 export const jobHandlers = {
   fit: fitHandler,
   'convert-loans': convertLoansHandler,
+  'monitor-backtest': monitorBacktestHandler,
 } satisfies JobHandlerMap;
 
 /** Handlers by the name stored in jobs.kind (the job loop's option; tests pass their own). */

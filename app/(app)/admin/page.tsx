@@ -21,6 +21,7 @@ export default async function AdminPage() {
       <h1>Admin</h1>
       <nav aria-label="Administration" className="flex flex-wrap gap-4 text-sm">
         <Link href="/admin/tokens">API tokens</Link>
+        <Link href="/admin/policy">Overdue policy</Link>
         {mailIsCaptured() ? <Link href="/admin/outbox">Mail outbox (local capture)</Link> : null}
       </nav>
       <section className="panel p-5">

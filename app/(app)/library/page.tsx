@@ -1,6 +1,7 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { Cautions } from '@/components/assumptions/cautions';
+import { EvidenceBadge } from '@/components/assumptions/evidence-badge';
 import { fmt, HealthBadge, StatusBadge } from '@/components/assumptions/status-badge';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
@@ -62,7 +63,8 @@ export default async function LibraryPage() {
                 <td className="num whitespace-nowrap">{e.current?.effectiveDate ?? '—'}</td>
                 <td className="num whitespace-nowrap">{e.current?.reviewBy ?? '—'}</td>
                 <td>
-                  {e.current ? <StatusBadge status={e.current.status} /> : null} <HealthBadge health={e.health} days={e.daysToReview} />
+                  {e.current ? <StatusBadge status={e.current.status} /> : null} <HealthBadge health={e.health} days={e.daysToReview} />{' '}
+                  <EvidenceBadge evidence={e.evidence} />
                 </td>
                 {actor.role !== 'viewer' ? (
                   <td>

@@ -1,10 +1,15 @@
 import 'server-only';
 import { and, asc, desc, eq, inArray, isNotNull, lte } from 'drizzle-orm';
 import { getDb } from '@/db/client';
-import { assumptions, assumptionVersions, type AssumptionStatus } from '@/db/schema';
+import type { DbOrTx } from '@/db/connection';
+import { assumptions, assumptionVersions, type AssumptionStatus, type OverduePolicy } from '@/db/schema';
+import { todayIso } from '@/lib/assumptions/dates';
 import { inForceCutoff, judgeInForce } from '@/lib/assumptions/in-force';
+import { overduePolicyAt } from '@/lib/assumptions/overdue-policy';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { AppError } from '@/lib/errors';
+import { evidenceOf, type EvidenceDto } from '../evidence-store';
+import { policyChanges } from '../overdue-policy';
 import type { ApiPrincipal, TokenScope } from '../tokens';
 import { versionDtos, type VersionDto } from './dto';
 
@@ -16,6 +21,17 @@ const everPublished: AssumptionStatus[] = ['published', 'superseded', 'expired',
 
 /** A consumer is a signed-in user (any role reads published versions) or an API token with the scope. */
 export type Consumer = SessionUser | ApiPrincipal;
+
+/** Whether a version is past its review-by date on the asked day, and the policy that decided what that means. */
+export type ReviewState = { reviewBy: string; overdue: boolean; policy: OverduePolicy };
+
+/** What the consumer API answers about a version: the version, the state of its evidence and of its review. */
+export type ConsumerVersionDto = VersionDto & { evidence: EvidenceDto; review: ReviewState };
+
+async function withEvidence(db: DbOrTx, dtos: VersionDto[], review: (v: VersionDto) => ReviewState): Promise<ConsumerVersionDto[]> {
+  const evidence = await evidenceOf(db, dtos);
+  return dtos.map((v) => ({ ...v, evidence: evidence.get(v.id)!, review: review(v) }));
+}
 
 function assertConsumer(p: Consumer, scope: TokenScope): void {
   if ('kind' in p && p.kind === 'token') {
@@ -31,7 +47,7 @@ function assertConsumer(p: Consumer, scope: TokenScope): void {
  * that day, or now), with the last publication found by one indexed query. A date with nothing in
  * force is a 404 whose sentence says why (nothing published yet, past review-by, retired).
  */
-export async function versionInForce(consumer: Consumer, segment: string, asOf: string, now: Date = new Date()): Promise<VersionDto> {
+export async function versionInForce(consumer: Consumer, segment: string, asOf: string, now: Date = new Date()): Promise<ConsumerVersionDto> {
   assertConsumer(consumer, 'assumptions:read');
   const db = getDb();
   const cutoff = inForceCutoff(asOf, now);
@@ -42,16 +58,20 @@ export async function versionInForce(consumer: Consumer, segment: string, asOf: 
     .where(and(eq(assumptions.segment, segment), isNotNull(assumptionVersions.publishedAt), lte(assumptionVersions.publishedAt, cutoff)))
     .orderBy(desc(assumptionVersions.publishedAt), desc(assumptionVersions.version))
     .limit(1);
-  const answer = judgeInForce(last ? last.v : null, asOf, cutoff);
+  const policy = overduePolicyAt(await policyChanges(db), cutoff);
+  const answer = judgeInForce(last ? last.v : null, asOf, cutoff, policy);
   switch (answer.kind) {
-    case 'in-force':
-      return (await versionDtos(db, [last!]))[0];
+    case 'in-force': {
+      const overdue = answer.overdue;
+      return (await withEvidence(db, await versionDtos(db, [last!]), (v) => ({ reviewBy: v.reviewBy, overdue, policy })))[0];
+    }
     case 'none':
       throw new AppError('not_found:assumption', `No published assumption for the segment “${segment}” was in force on ${asOf}.`);
     case 'expired':
       throw new AppError(
         'not_found:assumption-expired',
-        `Version ${answer.version.version} of “${segment}” was due for review by ${answer.version.reviewBy} and is not in force on ${asOf}.`,
+        `Version ${answer.version.version} of “${segment}” was due for review by ${answer.version.reviewBy} and is withdrawn under the institution's overdue policy: it is not in force on ${asOf}.`,
+        { policy: 'withdraw', reviewBy: answer.version.reviewBy },
       );
     case 'retired':
       throw new AppError(
@@ -66,7 +86,14 @@ export async function versionInForce(consumer: Consumer, segment: string, asOf: 
   }
 }
 
-export async function publishedVersion(consumer: Consumer, assumptionId: number, version: number): Promise<VersionDto> {
+/** The review state of a version read as it is now (an exact version, the published library). */
+async function reviewNow(db: DbOrTx, now: Date): Promise<(v: VersionDto) => ReviewState> {
+  const policy = overduePolicyAt(await policyChanges(db), now);
+  const today = todayIso(now);
+  return (v) => ({ reviewBy: v.reviewBy, overdue: v.status === 'published' && v.reviewBy < today, policy });
+}
+
+export async function publishedVersion(consumer: Consumer, assumptionId: number, version: number, now: Date = new Date()): Promise<ConsumerVersionDto> {
   assertConsumer(consumer, 'assumptions:read');
   const db = getDb();
   const [row] = await db
@@ -75,11 +102,11 @@ export async function publishedVersion(consumer: Consumer, assumptionId: number,
     .innerJoin(assumptions, eq(assumptions.id, assumptionVersions.assumptionId))
     .where(and(eq(assumptionVersions.assumptionId, assumptionId), eq(assumptionVersions.version, version), inArray(assumptionVersions.status, everPublished)));
   if (!row) throw new AppError('not_found:assumption', `There is no published version ${version} of assumption ${assumptionId}.`);
-  return (await versionDtos(db, [row]))[0];
+  return (await withEvidence(db, await versionDtos(db, [row]), await reviewNow(db, now)))[0];
 }
 
 /** The versions published now, one per segment. */
-export async function listPublished(consumer: Consumer, scope: TokenScope = 'assumptions:read'): Promise<VersionDto[]> {
+export async function listPublished(consumer: Consumer, scope: TokenScope = 'assumptions:read', now: Date = new Date()): Promise<ConsumerVersionDto[]> {
   assertConsumer(consumer, scope);
   const db = getDb();
   const rows = await db
@@ -88,11 +115,11 @@ export async function listPublished(consumer: Consumer, scope: TokenScope = 'ass
     .innerJoin(assumptions, eq(assumptions.id, assumptionVersions.assumptionId))
     .where(eq(assumptionVersions.status, 'published'))
     .orderBy(asc(assumptions.segment));
-  return versionDtos(db, rows);
+  return withEvidence(db, await versionDtos(db, rows), await reviewNow(db, now));
 }
 
 /** Every segment's version in force on `asOf`, and the segments without one (with the reason). */
-export async function listInForce(consumer: Consumer, asOf: string, now: Date = new Date()): Promise<{ versions: VersionDto[]; missing: { segment: string; reason: string }[] }> {
+export async function listInForce(consumer: Consumer, asOf: string, now: Date = new Date()): Promise<{ versions: ConsumerVersionDto[]; missing: { segment: string; reason: string }[] }> {
   assertConsumer(consumer, 'assumptions:read');
   const segs = await getDb()
     .selectDistinct({ segment: assumptions.segment })
@@ -100,7 +127,7 @@ export async function listInForce(consumer: Consumer, asOf: string, now: Date = 
     .innerJoin(assumptionVersions, eq(assumptionVersions.assumptionId, assumptions.id))
     .where(inArray(assumptionVersions.status, everPublished))
     .orderBy(asc(assumptions.segment));
-  const versions: VersionDto[] = [];
+  const versions: ConsumerVersionDto[] = [];
   const missing: { segment: string; reason: string }[] = [];
   for (const { segment } of segs) {
     try {

@@ -4,6 +4,8 @@ import type { DbOrTx } from '@/db/connection';
 import { users, type AssumptionAuditRow, type AssumptionStatus, type AssumptionVersion } from '@/db/schema';
 import type { FieldChange, VersionContent } from '@/lib/assumptions/content';
 import type { DefinitionSpan } from '@/lib/ingest/default-definition';
+import type { EvidenceDto } from '../evidence-store';
+import type { OverduePolicy } from '@/db/schema';
 import type { UserAction } from '@/lib/assumptions/lifecycle';
 import type { PublicationNote } from '@/lib/assumptions/publication';
 
@@ -62,6 +64,10 @@ export type VersionPageDto = {
   comparedWith: { id: number; version: number } | null;
   /** Role changes of the people who reviewed this version, between its drafting and its decision (or now). */
   roleChanges: RoleChangeDto[];
+  /** Whether the evidence behind the version has aged, with the monitoring backtest. */
+  evidence: EvidenceDto;
+  /** Past its review-by date while published, and the overdue policy in force. */
+  review: { reviewBy: string; overdue: boolean; policy: OverduePolicy };
 };
 
 /** A role change (from the administration log) of someone who reviewed a version, during its review. */
@@ -71,8 +77,13 @@ export type LibraryEntryDto = {
   assumptionId: number;
   segment: string;
   current: VersionDto | null;
-  /** 'ok' | 'expiring' (review-by within 30 days) | 'expired' (the last published version expired). */
-  health: 'ok' | 'expiring' | 'expired' | 'none';
+  /**
+   * 'ok' | 'expiring' (review-by within 30 days) | 'overdue' (past review-by, still served under the
+   * flag policy) | 'expired' (withdrawn: the last published version expired).
+   */
+  health: 'ok' | 'expiring' | 'overdue' | 'expired' | 'none';
+  /** Whether the evidence of the current version has aged (null without a current version). */
+  evidence: EvidenceDto | null;
   daysToReview: number | null;
   pending: { id: number; version: number; status: AssumptionStatus } | null;
 };

@@ -12,4 +12,4 @@ export type { AuditDto, LibraryEntryDto, PersonDto, QueueItemDto, ReviewDto, Rol
 export { createDraft, editDraft, transition } from './writes';
 export { runScheduledTransitions, type ScheduleReport } from './scheduler';
 export { auditCsv, getVersion, getVersionPage, listAudit, listLibrary, listOpenVersions, listQueue } from './reads';
-export { listInForce, listPublished, publishedVersion, versionInForce, type Consumer } from './consumer';
+export { listInForce, listPublished, publishedVersion, versionInForce, type Consumer, type ConsumerVersionDto, type ReviewState } from './consumer';

@@ -4,7 +4,7 @@ import type { DbOrTx, Tx } from '@/db/connection';
 import { users, type AssumptionVersion, type Role } from '@/db/schema';
 import { appUrl } from '@/lib/env';
 import { queueMail } from '@/lib/mail/outbox';
-import type { MailKind } from '@/lib/mail/templates';
+import { renderOverdueMail, type MailKind } from '@/lib/mail/templates';
 import { makerIds, type Actor } from './actors';
 
 /**
@@ -76,5 +76,21 @@ export async function queueReviewReminder(db: DbOrTx, v: AssumptionVersion, segm
     versionId: v.id,
     dedupeKey: (addr) => `${kind}:${v.id}:${v.reviewBy}:${addr}`,
     facts: { ...versionFacts(v, segment), daysLeft },
+  });
+}
+
+/**
+ * The escalation of a published value past its review-by date, to the active validators and
+ * administrators, once per version and review-by date: flagged overdue and still served, or
+ * withdrawn, by the overdue policy. Returns the rows written.
+ */
+export async function queueOverdueEscalation(db: DbOrTx, v: AssumptionVersion, segment: string, kind: 'review-overdue' | 'review-withdrawn'): Promise<number> {
+  const to = [...(await activeEmails(db, { role: 'validator' })), ...(await activeEmails(db, { role: 'admin' }))].map((u) => u.email);
+  return queueMail(db, {
+    kind,
+    to,
+    versionId: v.id,
+    dedupeKey: (addr) => `${kind}:${v.id}:${v.reviewBy}:${addr}`,
+    message: renderOverdueMail(kind, { segment, version: v.version, reviewBy: v.reviewBy, url: appUrl(`/library/versions/${v.id}`) }),
   });
 }

@@ -11,6 +11,8 @@ import { toCsv } from '@/lib/csv';
 import { AppError } from '@/lib/errors';
 import { roleChangesOf } from '../admin-audit';
 import { getHealth } from '../health';
+import { evidenceOf } from '../evidence-store';
+import { overduePolicyIn } from '../overdue-policy';
 import { makerIds } from './actors';
 import {
   peopleById,
@@ -59,6 +61,8 @@ export async function getVersionPage(actor: SessionUser, id: number, now: Date =
   const asked = compareTo !== undefined && compareTo !== id ? dtos.find((d) => d.id === compareTo) : undefined;
   const schedulerRunning = !(await getHealth()).worker.stale;
   const today = todayIso(now);
+  const evidence = (await evidenceOf(db, [version])).get(version.id)!;
+  const policy = await overduePolicyIn(db, now);
   const prev = asked ?? dtos.filter((d) => d.version < version.version).sort((a, b) => b.version - a.version)[0];
   return {
     version,
@@ -87,6 +91,8 @@ export async function getVersionPage(actor: SessionUser, id: number, now: Date =
     changesFromPrevious: prev ? diffVersions(prev, version) : null,
     comparedWith: prev ? { id: prev.id, version: prev.version } : null,
     roleChanges,
+    evidence,
+    review: { reviewBy: version.reviewBy, overdue: version.status === 'published' && version.reviewBy < today, policy },
   };
 }
 
@@ -164,6 +170,10 @@ export async function listLibrary(actor: SessionUser, now: Date = new Date()): P
   const dtos = await versionDtos(db, rows);
   const bySegment = new Map<number, VersionDto[]>();
   for (const d of dtos) bySegment.set(d.assumptionId, [...(bySegment.get(d.assumptionId) ?? []), d]);
+  const currents = [...bySegment.values()]
+    .map((vs) => vs.find((v) => v.status === 'published') ?? vs.find((v) => v.status === 'expired'))
+    .filter((v): v is VersionDto => !!v);
+  const evidence = await evidenceOf(db, currents);
   const out: LibraryEntryDto[] = [];
   for (const [assumptionId, vs] of bySegment) {
     const published = vs.find((v) => v.status === 'published');
@@ -176,8 +186,17 @@ export async function listLibrary(actor: SessionUser, now: Date = new Date()): P
       assumptionId,
       segment: vs[0].segment,
       current,
-      health: !current ? 'none' : lapsed || (days !== null && days < 0) ? 'expired' : days !== null && days <= EXPIRING_SOON_DAYS ? 'expiring' : 'ok',
+      health: !current
+        ? 'none'
+        : lapsed
+          ? 'expired'
+          : days !== null && days < 0
+            ? 'overdue'
+            : days !== null && days <= EXPIRING_SOON_DAYS
+              ? 'expiring'
+              : 'ok',
       daysToReview: days,
+      evidence: current ? (evidence.get(current.id) ?? null) : null,
       pending: pending && actor.role !== 'viewer' ? { id: pending.id, version: pending.version, status: pending.status } : null,
     });
   }

@@ -6,21 +6,33 @@ import { assumptions, assumptionVersions } from '@/db/schema';
 import { daysBetween, todayIso } from '@/lib/assumptions/dates';
 import { backDatingProblem } from '@/lib/assumptions/lifecycle';
 import type { MailKind } from '@/lib/mail/templates';
+import { sweepEvidence } from '../evidence-store';
 import { queueFindingReminders } from '../findings';
+import { overduePolicyIn } from '../overdue-policy';
 import { SYSTEM } from './actors';
-import { queueReviewReminder } from './notify';
+import { queueOverdueEscalation, queueReviewReminder } from './notify';
 import { applyTransition, lockVersion } from './writes';
 
 /**
  * The scheduler's transitions (workers/scheduler.ts runs this once a minute): publish approved
- * versions on their effective date (never one whose effective date is before its approval date), expire published versions after their review-by date,
+ * versions on their effective date (never one whose effective date is before its approval date); past a
+ * published version's review-by date, withdraw it or keep it flagged overdue as the overdue policy
+ * says, escalating once to validators and administrators;
  * remind 30 and 7 days before it (once each), and remind the owners of findings due within 7 days
- * or overdue (once each). Each step re-checks the state under a row lock, so
+ * or overdue (once each); and sweep the evidence of published versions (a superseded dataset or
+ * later years in a newer one: one e-mail and one backtest per newer dataset). Each step re-checks the state under a row lock, so
  * several workers may run it at once.
  */
 export type ScheduleReport = {
   published: number[];
+  /** Withdrawn past review-by (the withdraw policy). */
   expired: number[];
+  /** Past review-by and kept readable, flagged overdue (the flag policy); escalated once. */
+  overdue: number[];
+  /** Escalation e-mails written (overdue or withdrawn). */
+  escalations: number;
+  /** Published versions whose evidence has aged, the e-mails and backtests queued for them. */
+  evidence: { flagged: number; mails: number; backtestsQueued: number };
   reminders: number;
   /** Reminders of findings due within 7 days or overdue (messages written). */
   findingReminders: number;
@@ -30,7 +42,16 @@ export type ScheduleReport = {
 
 export async function runScheduledTransitions(now: Date = new Date(), db: Db = getDb()): Promise<ScheduleReport> {
   const today = todayIso(now);
-  const report: ScheduleReport = { published: [], expired: [], reminders: 0, findingReminders: 0, refused: [] };
+  const report: ScheduleReport = {
+    published: [],
+    expired: [],
+    overdue: [],
+    escalations: 0,
+    evidence: { flagged: 0, mails: 0, backtestsQueued: 0 },
+    reminders: 0,
+    findingReminders: 0,
+    refused: [],
+  };
 
   const due = await db
     .select({ id: assumptionVersions.id })
@@ -55,12 +76,29 @@ export async function runScheduledTransitions(now: Date = new Date(), db: Db = g
     .select({ id: assumptionVersions.id })
     .from(assumptionVersions)
     .where(and(eq(assumptionVersions.status, 'published'), sql`${assumptionVersions.reviewBy} < ${today}`));
+  // Past review-by: the overdue policy in force now decides (lib/assumptions/overdue-policy.ts).
+  const policy = await overduePolicyIn(db, now);
   for (const { id } of stale) {
     await db.transaction(async (tx) => {
       const row = await lockVersion(tx, id);
       if (row.v.status !== 'published' || row.v.reviewBy >= today) return;
-      await applyTransition(tx, row, SYSTEM, 'expire', 'published', 'expired', `Review-by date ${row.v.reviewBy} passed without a new version.`, now);
-      report.expired.push(id);
+      if (policy === 'withdraw') {
+        await applyTransition(
+          tx,
+          row,
+          SYSTEM,
+          'expire',
+          'published',
+          'expired',
+          `Review-by date ${row.v.reviewBy} passed without a new version: withdrawn under the overdue policy.`,
+          now,
+        );
+        report.expired.push(id);
+        report.escalations += await queueOverdueEscalation(tx, row.v, row.segment, 'review-withdrawn');
+      } else {
+        report.overdue.push(id);
+        report.escalations += await queueOverdueEscalation(tx, row.v, row.segment, 'review-overdue');
+      }
     });
   }
 
@@ -76,5 +114,6 @@ export async function runScheduledTransitions(now: Date = new Date(), db: Db = g
     report.reminders += await queueReviewReminder(db, v, segment, kind, left);
   }
   report.findingReminders = await queueFindingReminders(db, now);
+  report.evidence = await sweepEvidence(db, now);
   return report;
 }

@@ -7,10 +7,12 @@ import type { z } from 'zod';
 import type { JobKindSpec } from '../job-kind';
 import { convertLoansJob } from './convert-loans';
 import { fitJob } from './fit';
+import { monitorBacktestJob } from './monitor-backtest';
 
 export const jobKinds = {
   fit: fitJob,
   'convert-loans': convertLoansJob,
+  'monitor-backtest': monitorBacktestJob,
 } as const satisfies Record<string, JobKindSpec>;
 
 export type JobKind = keyof typeof jobKinds;

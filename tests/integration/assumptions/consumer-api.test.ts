@@ -3,7 +3,7 @@ import { eq } from 'drizzle-orm';
 import { closeDb, getDb } from '@/db/connection';
 import { apiTokens } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
-import { addDays, todayIso } from '@/lib/assumptions/dates';
+import { addDays, addMonths, todayIso } from '@/lib/assumptions/dates';
 import { createDraft, transition } from '@/lib/dal/assumptions';
 import { createToken, listTokens, revokeToken } from '@/lib/dal/tokens';
 import * as inForceRoute from '@/app/api/v1/assumptions/route';
@@ -91,11 +91,16 @@ describe('the version in force at a date', () => {
     expect((res.body.assumption as { value: number }).value).toBe(0.08);
   });
 
-  it('after version 2 lapses (past its review-by date): 404 saying why', async () => {
+  it('after the review-by date of version 2 (a projection), under the default overdue policy: still served, flagged overdue, with the caution', async () => {
     const lapse = addDays(v2Effective, 400);
     const res = await inForce(`segment=${encodeURIComponent(segment)}&asOf=${lapse}`);
-    expect(res.status).toBe(404);
-    expect(res.body.message).toMatch(/due for review by/);
+    expect(res.status).toBe(200);
+    const a = res.body.assumption as { version: number; review: { overdue: boolean; policy: string; reviewBy: string }; cautions: string[] };
+    expect(a.version).toBe(2);
+    expect(a.review).toEqual({ reviewBy: addMonths(v2Effective, 12), overdue: true, policy: 'flag' });
+    expect(a.cautions.some((c) => c.startsWith(`This value is past its review-by date (${addMonths(v2Effective, 12)})`))).toBe(true);
+    const now = await inForce(`segment=${encodeURIComponent(segment)}`);
+    expect((now.body.assumption as { review: { overdue: boolean } }).review.overdue).toBe(false);
   });
 
   it('without a segment: every segment in force', async () => {

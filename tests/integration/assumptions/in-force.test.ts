@@ -12,6 +12,8 @@ import { assumptions, assumptionVersions, mailOutbox } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
 import { addDays, todayIso } from '@/lib/assumptions/dates';
 import { versionInForceAt } from '@/lib/assumptions/in-force';
+import { overduePolicyAt } from '@/lib/assumptions/overdue-policy';
+import { policyChanges } from '@/lib/dal/overdue-policy';
 import { createDraft, runScheduledTransitions, transition, versionInForce } from '@/lib/dal/assumptions';
 import { createToken } from '@/lib/dal/tokens';
 import { AppError } from '@/lib/errors';
@@ -112,7 +114,9 @@ async function modelAnswer(segment: string, asOf: string, now: Date): Promise<st
     .from(assumptionVersions)
     .innerJoin(assumptions, eq(assumptions.id, assumptionVersions.assumptionId))
     .where(eq(assumptions.segment, segment));
-  const a = versionInForceAt(rows.map((r) => r.v), asOf, now);
+  // Under the overdue policy of the cutoff, as the consumer API reads it.
+  const changes = await policyChanges(getDb());
+  const a = versionInForceAt(rows.map((r) => r.v), asOf, now, (t) => overduePolicyAt(changes, t));
   return a.kind === 'in-force' ? `v${a.version.version}` : codeOf[a.kind];
 }
 

@@ -114,7 +114,7 @@ describe('the scheduler', () => {
     expect(mail.map((m) => m.toAddress).sort()).toEqual([analyst.email, validator.email].sort());
   });
 
-  it('queues the 30- and 7-day reminders once each, and expires after the review-by date', async () => {
+  it('queues the 30- and 7-day reminders once each; after the review-by date, under the default policy, keeps it flagged overdue and escalates once', async () => {
     const today = todayIso();
     const reviewBy = addDays(today, 25);
     const effective = addDays(today, -300);
@@ -140,10 +140,20 @@ describe('the scheduler', () => {
     expect((await remindersOf('review-by-7'))[0].subject).toMatch(/^Review due in 6 days: /);
 
     const onTheDay = await runScheduledTransitions(new Date(`${reviewBy}T08:00:00Z`));
+    expect(onTheDay.overdue).not.toContain(id);
     expect(onTheDay.expired).not.toContain(id);
-    const after = await runScheduledTransitions(new Date(`${addDays(reviewBy, 1)}T08:00:00Z`));
-    expect(after.expired).toContain(id);
+    const dayAfter = new Date(`${addDays(reviewBy, 1)}T08:00:00Z`);
+    const after = await runScheduledTransitions(dayAfter);
+    await runScheduledTransitions(dayAfter);
+    // The default overdue policy (flag): still published, flagged, escalated once to the validators.
+    expect(after.overdue).toContain(id);
+    expect(after.expired).not.toContain(id);
     const [v] = await getDb().select().from(assumptionVersions).where(eq(assumptionVersions.id, id));
-    expect(v.status).toBe('expired');
+    expect(v.status).toBe('published');
+    const escalations = await remindersOf('review-overdue');
+    expect(escalations.map((m) => m.toAddress)).toContain(validator.email);
+    expect(escalations.map((m) => m.toAddress)).not.toContain(analyst.email);
+    expect(new Set(escalations.map((m) => m.toAddress)).size).toBe(escalations.length);
+    expect(escalations[0].subject).toMatch(/^Past review-by, still served: /);
   });
 });

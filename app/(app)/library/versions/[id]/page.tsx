@@ -4,6 +4,7 @@ import { notFound } from 'next/navigation';
 import { z } from 'zod';
 import { Cautions } from '@/components/assumptions/cautions';
 import { PublicationLine } from '@/components/assumptions/publication-line';
+import { EvidencePanel } from '@/components/assumptions/evidence-panel';
 import { VersionCautions } from '@/components/assumptions/version-cautions';
 import { FindingsSection } from '@/components/findings/findings-section';
 import { fmt, StatusBadge } from '@/components/assumptions/status-badge';
@@ -84,7 +85,8 @@ export default async function VersionPage({
         </p>
         <PublicationLine note={page.publication} />
       </div>
-      <VersionCautions cautions={versionCautions(v)} />
+      <VersionCautions cautions={versionCautions({ ...v, evidence: page.evidence, review: page.review })} />
+      <EvidencePanel evidence={page.evidence} />
 
       <section className="grid gap-4 lg:grid-cols-3">
         <div className="panel p-5 lg:col-span-2">
