@@ -295,6 +295,8 @@ export const apiTokens = mysqlTable(
     lastUsedAt: datetime('last_used_at', { mode: 'date', fsp: 3 }),
     revokedAt: datetime('revoked_at', { mode: 'date', fsp: 3 }),
     revokedBy: int('revoked_by').references(() => users.id, { onDelete: 'restrict' }),
+    /** The consuming model this token is for (lib/dal/models.ts), if any. */
+    modelId: int('model_id').references((): AnyMySqlColumn => consumingModels.id, { onDelete: 'set null' }),
   },
   (t) => [uniqueIndex('api_tokens_hash_uq').on(t.tokenHash)],
 );
@@ -661,3 +663,101 @@ export const overduePolicyChanges = mysqlTable('overdue_policy_changes', {
   at: datetime('at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
 });
 export type OverduePolicyChange = typeof overduePolicyChanges.$inferSelect;
+
+// ---------------------------------------------------------------------------------------------
+// Consuming models (lib/dal/models.ts): the register of downstream models that use published
+// assumptions, the assumptions each uses, and the signed webhook deliveries that tell them of a
+// publication, supersession, overdue value, withdrawal or retirement (an outbox: written in the
+// transaction of the change, sent by the worker with retries).
+// ---------------------------------------------------------------------------------------------
+
+export const consumingModels = mysqlTable(
+  'consuming_models',
+  {
+    id: int('id').autoincrement().primaryKey(),
+    name: varchar('name', { length: 160 }).notNull(),
+    ownerName: varchar('owner_name', { length: 120 }).notNull(),
+    contactEmail: varchar('contact_email', { length: 254 }).notNull(),
+    intendedUse: text('intended_use').notNull(),
+    webhookUrl: varchar('webhook_url', { length: 500 }),
+    /** The HMAC-SHA256 key of the model's webhooks: shown once when set, never answered again. */
+    webhookSecret: varchar('webhook_secret', { length: 100 }),
+    active: boolean('active').notNull().default(true),
+    createdBy: int('created_by')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [uniqueIndex('consuming_models_name_uq').on(t.name)],
+);
+export type ConsumingModel = typeof consumingModels.$inferSelect;
+
+/** Which assumptions (segments) a model uses. */
+export const consumingModelAssumptions = mysqlTable(
+  'consuming_model_assumptions',
+  {
+    modelId: int('model_id')
+      .notNull()
+      .references(() => consumingModels.id, { onDelete: 'cascade' }),
+    assumptionId: int('assumption_id')
+      .notNull()
+      .references(() => assumptions.id, { onDelete: 'restrict' }),
+    addedBy: int('added_by')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    addedAt: datetime('added_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [primaryKey({ columns: [t.modelId, t.assumptionId] }), index('consuming_model_assumptions_assumption_idx').on(t.assumptionId)],
+);
+
+export const webhookStatuses = ['pending', 'delivered', 'failed'] as const;
+export type WebhookStatus = (typeof webhookStatuses)[number];
+
+export const webhookDeliveries = mysqlTable(
+  'webhook_deliveries',
+  {
+    id: bigint('id', { mode: 'number' }).autoincrement().primaryKey(),
+    /** Sent as X-Rhobook-Delivery; the same on every retry, so a receiver can drop duplicates. */
+    deliveryId: varchar('delivery_id', { length: 36 }).notNull(),
+    modelId: int('model_id')
+      .notNull()
+      .references(() => consumingModels.id, { onDelete: 'cascade' }),
+    event: varchar('event', { length: 40 }).notNull(),
+    versionId: int('version_id'),
+    url: varchar('url', { length: 500 }).notNull(),
+    /** The exact JSON body that is signed and sent. */
+    body: mediumtext('body').notNull(),
+    /** One delivery per model, version and event (an overdue value is told once per review-by date). */
+    dedupeKey: varchar('dedupe_key', { length: 160 }),
+    status: mysqlEnum('status', webhookStatuses).notNull().default('pending'),
+    attempts: int('attempts').notNull().default(0),
+    nextAttemptAt: datetime('next_attempt_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    lastError: text('last_error'),
+    lastStatus: int('last_status'),
+    deliveredAt: datetime('delivered_at', { mode: 'date', fsp: 3 }),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [
+    uniqueIndex('webhook_deliveries_delivery_uq').on(t.deliveryId),
+    uniqueIndex('webhook_deliveries_dedupe_uq').on(t.dedupeKey),
+    index('webhook_deliveries_due_idx').on(t.status, t.nextAttemptAt),
+    index('webhook_deliveries_model_idx').on(t.modelId, t.id),
+  ],
+);
+export type WebhookDelivery = typeof webhookDeliveries.$inferSelect;
+
+/** What the local webhook receiver (app/api/webhook-receiver, while mail is captured locally) received. */
+export const webhookCaptured = mysqlTable(
+  'webhook_captured',
+  {
+    id: bigint('id', { mode: 'number' }).autoincrement().primaryKey(),
+    deliveryId: varchar('delivery_id', { length: 36 }),
+    modelId: int('model_id'),
+    event: varchar('event', { length: 40 }),
+    signatureValid: boolean('signature_valid').notNull(),
+    body: mediumtext('body').notNull(),
+    receivedAt: datetime('received_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [index('webhook_captured_delivery_idx').on(t.deliveryId)],
+);

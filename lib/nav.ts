@@ -21,6 +21,7 @@ export const navItems: NavItem[] = [
   { href: '/library', label: 'Library', roles: everyone },
   { href: '/queue', label: 'Queue', roles: ['analyst', 'validator'] },
   { href: '/findings', label: 'Findings', roles: everyone },
+  { href: '/models', label: 'Models', roles: everyone },
   { href: '/pairs', label: 'Pair explorer', roles: everyone },
   { href: '/admin', label: 'Admin', roles: ['admin'] },
   { href: '/admin/tokens', label: 'API tokens', roles: ['admin'] },

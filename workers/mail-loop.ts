@@ -1,8 +1,10 @@
 import type { Db } from '@/db/connection';
 import { openTransport, sendDueMail } from '@/lib/mail/sender';
+import { sendDueWebhooks } from '@/lib/mail/webhook-sender';
 
 /**
- * Sends the mail outbox every few seconds until the worker stops (lib/mail/sender.ts). A failure
+ * Sends the mail outbox and the webhook outbox every few seconds until the worker stops
+ * (lib/mail/sender.ts, lib/mail/webhook-sender.ts). A failure
  * to reach the SMTP server is kept on the message and retried with backoff; it never stops the
  * loop and never blocks a transition (those only write the outbox).
  */
@@ -25,6 +27,12 @@ export async function runMailLoop(opts: { db: Db; signal: AbortSignal; intervalM
         if (r.sent || r.failed || r.retrying) console.log(`[worker] mail: ${r.sent} sent, ${r.retrying} to retry, ${r.failed} failed for good`);
       } catch (err) {
         console.error('[worker] mail loop error:', err instanceof Error ? err.message : err);
+      }
+      try {
+        const w = await sendDueWebhooks(opts.db);
+        if (w.delivered || w.failed || w.retrying) console.log(`[worker] webhooks: ${w.delivered} delivered, ${w.retrying} to retry, ${w.failed} failed for good`);
+      } catch (err) {
+        console.error('[worker] webhook loop error:', err instanceof Error ? err.message : err);
       }
       await sleep(interval, opts.signal);
     }

@@ -11,15 +11,21 @@ const scopes = [
 ] as const;
 
 /** Creates an API token (its secret is shown once) and revokes tokens. */
-export function CreateTokenForm() {
+export function CreateTokenForm({ models = [] }: { models?: { id: number; name: string }[] }) {
   const router = useRouter();
   const [name, setName] = useState('');
+  const [modelId, setModelId] = useState('');
   const [chosen, setChosen] = useState<string[]>(['assumptions:read']);
   const [days, setDays] = useState('365');
   const [secret, setSecret] = useState<string | null>(null);
   const m = useMutation({
     mutationFn: () =>
-      apiSend<{ token: string }>('POST', '/api/admin/tokens', { name, scopes: chosen, expiresInDays: days ? Number(days) : null }),
+      apiSend<{ token: string }>('POST', '/api/admin/tokens', {
+        name,
+        scopes: chosen,
+        expiresInDays: days ? Number(days) : null,
+        modelId: modelId ? Number(modelId) : null,
+      }),
     onSuccess: (r) => {
       setSecret(r.token);
       setName('');
@@ -41,6 +47,17 @@ export function CreateTokenForm() {
         <div>
           <label className="label" htmlFor="token-days">Expires after (days, empty: never)</label>
           <input id="token-days" className="field num" type="number" min="1" max="730" value={days} onChange={(e) => setDays(e.target.value)} />
+        </div>
+        <div>
+          <label className="label" htmlFor="token-model">For the consuming model</label>
+          <select id="token-model" className="field" value={modelId} onChange={(e) => setModelId(e.target.value)}>
+            <option value="">(none)</option>
+            {models.map((m) => (
+              <option key={m.id} value={m.id}>
+                {m.name}
+              </option>
+            ))}
+          </select>
         </div>
         <fieldset>
           <legend className="label">Scopes</legend>

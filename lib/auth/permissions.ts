@@ -27,6 +27,9 @@ export const permissions = {
   /** record a finding, close it or accept it with a rationale (owners report progress: lib/findings/rules.ts) */
   'findings:record': ['validator'],
   'findings:comment': ['analyst', 'validator'],
+  'models:read': ['viewer', 'analyst', 'validator', 'admin'],
+  /** the register of consuming models: register, change, tie assumptions, webhook secrets */
+  'models:manage': ['analyst', 'admin'],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof permissions;

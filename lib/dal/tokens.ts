@@ -3,7 +3,7 @@ import { createHash, randomBytes, timingSafeEqual } from 'node:crypto';
 import { and, desc, eq, isNull, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { getDb } from '@/db/client';
-import { apiTokens, users } from '@/db/schema';
+import { apiTokens, consumingModels, users } from '@/db/schema';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { AppError, parseOrThrow } from '@/lib/errors';
 import { recordAdminAction } from './admin-audit';
@@ -17,7 +17,7 @@ import { recordAdminAction } from './admin-audit';
 export const tokenScopes = ['assumptions:read', 'assumptions:export'] as const;
 export type TokenScope = (typeof tokenScopes)[number];
 
-export type ApiPrincipal = { kind: 'token'; tokenId: number; name: string; scopes: TokenScope[] };
+export type ApiPrincipal = { kind: 'token'; tokenId: number; name: string; scopes: TokenScope[]; modelId: number | null };
 
 export type TokenDto = {
   id: number;
@@ -30,6 +30,8 @@ export type TokenDto = {
   lastUsedAt: string | null;
   revokedAt: string | null;
   status: 'active' | 'revoked' | 'expired';
+  /** The consuming model the token is for. */
+  model: { id: number; name: string } | null;
 };
 
 const TOKEN_PREFIX = 'rhb_';
@@ -44,6 +46,8 @@ export const createTokenSchema = z.object({
     .array(z.enum(tokenScopes, { message: `Scopes are ${tokenScopes.join(' and ')}.` }))
     .min(1, 'Choose at least one scope.'),
   expiresInDays: z.number().int().min(1, 'A token lasts at least one day.').max(730, 'A token lasts at most 730 days.').nullable().optional(),
+  /** The consuming model the token is for (lib/dal/models.ts). */
+  modelId: z.number().int().positive('Choose the model from the list.').nullable().optional(),
 });
 export type CreateTokenInput = z.input<typeof createTokenSchema>;
 
@@ -55,11 +59,12 @@ function scopesOf(v: unknown): TokenScope[] {
 export async function listTokens(actor: SessionUser, now: Date = new Date()): Promise<TokenDto[]> {
   assertCan(actor, 'tokens:manage', 'Only administrators manage API tokens.');
   const rows = await getDb()
-    .select({ t: apiTokens, by: users.email })
+    .select({ t: apiTokens, by: users.email, modelName: consumingModels.name })
     .from(apiTokens)
     .leftJoin(users, eq(users.id, apiTokens.createdBy))
+    .leftJoin(consumingModels, eq(consumingModels.id, apiTokens.modelId))
     .orderBy(desc(apiTokens.id));
-  return rows.map(({ t, by }) => ({
+  return rows.map(({ t, by, modelName }) => ({
     id: t.id,
     name: t.name,
     prefix: t.prefix,
@@ -70,6 +75,7 @@ export async function listTokens(actor: SessionUser, now: Date = new Date()): Pr
     lastUsedAt: t.lastUsedAt?.toISOString() ?? null,
     revokedAt: t.revokedAt?.toISOString() ?? null,
     status: t.revokedAt ? 'revoked' : t.expiresAt && t.expiresAt <= now ? 'expired' : 'active',
+    model: t.modelId !== null && modelName ? { id: t.modelId, name: modelName } : null,
   }));
 }
 
@@ -81,7 +87,12 @@ export async function createToken(actor: SessionUser, input: CreateTokenInput): 
   const prefix = secret.slice(0, 12);
   const expiresAt = v.expiresInDays ? new Date(Date.now() + v.expiresInDays * 86_400_000) : null;
   return getDb().transaction(async (tx) => {
+    if (v.modelId) {
+      const [m] = await tx.select({ id: consumingModels.id }).from(consumingModels).where(eq(consumingModels.id, v.modelId));
+      if (!m) throw new AppError('invalid:token', `There is no model ${v.modelId}.`, { field: 'modelId' });
+    }
     const [res] = await tx.insert(apiTokens).values({
+      modelId: v.modelId ?? null,
       name: v.name,
       prefix,
       tokenHash: hashToken(secret),
@@ -93,7 +104,7 @@ export async function createToken(actor: SessionUser, input: CreateTokenInput): 
       action: 'token.create',
       targetType: 'api_token',
       targetId: res.insertId,
-      after: { name: v.name, prefix, scopes: v.scopes, expiresAt: expiresAt?.toISOString() ?? null },
+      after: { name: v.name, prefix, scopes: v.scopes, expiresAt: expiresAt?.toISOString() ?? null, modelId: v.modelId ?? null },
     });
     return { token: secret, id: res.insertId, prefix };
   });
@@ -135,5 +146,5 @@ export async function authenticateToken(authorization: string | null, scope: Tok
     throw new AppError('forbidden:token-scope', `This API token does not carry the scope ${scope}; ask an administrator for a token that does.`);
   }
   await db.update(apiTokens).set({ lastUsedAt: now }).where(eq(apiTokens.id, t.id));
-  return { kind: 'token', tokenId: t.id, name: t.name, scopes };
+  return { kind: 'token', tokenId: t.id, name: t.name, scopes, modelId: t.modelId };
 }

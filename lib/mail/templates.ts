@@ -14,7 +14,15 @@ export const mailKinds = [
 export type MailKind = (typeof mailKinds)[number];
 
 /** The other e-mails (findings, evidence, consuming models), rendered by their own functions below. */
-export const otherMailKinds = ['finding-recorded', 'finding-due-soon', 'finding-overdue', 'evidence-aged', 'review-overdue', 'review-withdrawn'] as const;
+export const otherMailKinds = [
+  'finding-recorded',
+  'finding-due-soon',
+  'finding-overdue',
+  'evidence-aged',
+  'review-overdue',
+  'review-withdrawn',
+  'model-notice',
+] as const;
 export type OtherMailKind = (typeof otherMailKinds)[number];
 
 export type Message = { subject: string; body: string };
@@ -144,4 +152,41 @@ export function renderOverdueMail(
         subject: `Withdrawn past review-by: ${what}`,
         body: `${what} was due for review by ${f.reviewBy} and no reviewed version has replaced it. Under the institution's overdue policy it is withdrawn: the consumer API no longer serves it as the value in force. Review it and publish a new version.\n\nOpen it: ${f.url}${footer}`,
       };
+}
+
+/** The events a consuming model is told of (by e-mail to its contact, and by webhook where it has one). */
+export const modelEvents = ['assumption.published', 'assumption.superseded', 'assumption.overdue', 'assumption.withdrawn', 'assumption.retired'] as const;
+export type ModelEvent = (typeof modelEvents)[number];
+
+/** What a consuming model's contact reads about an event of an assumption the model uses. */
+export function renderModelMail(
+  event: ModelEvent,
+  f: { model: string; segment: string; version: number; value: number; pd: number; effectiveDate: string; reviewBy: string; supersededBy?: number | null; url: string },
+): Message {
+  const what = `${f.segment} v${f.version}`;
+  const value = `${Number(f.value.toFixed(6))} (with the PD ${Number(f.pd.toFixed(6))})`;
+  const lead = `Your model “${f.model}” uses the correlation assumption of ${f.segment}.`;
+  const link = `\n\nOpen it: ${f.url}`;
+  const tail = `\n\n--\nRhobook. You receive this as the contact of a model registered as using this assumption. Approval in Rhobook is neither an independent validation nor a regulator's approval.`;
+  switch (event) {
+    case 'assumption.published':
+      return { subject: `Published for ${f.model}: ${what} = ${Number(f.value.toFixed(6))}`, body: `${lead} Version ${f.version} is now the published value: ${value}, effective ${f.effectiveDate}, to be reviewed by ${f.reviewBy}.${link}${tail}` };
+    case 'assumption.superseded':
+      return {
+        subject: `Superseded for ${f.model}: ${what}`,
+        body: `${lead} Version ${f.version} (${value}) is superseded${f.supersededBy ? ` by version ${f.supersededBy}` : ''}: read the new published value before your next run.${link}${tail}`,
+      };
+    case 'assumption.overdue':
+      return {
+        subject: `Overdue for ${f.model}: ${what}`,
+        body: `${lead} Version ${f.version} (${value}) is past its review-by date, ${f.reviewBy}. Under the institution's overdue policy it stays readable, flagged overdue, until a reviewed version replaces it.${link}${tail}`,
+      };
+    case 'assumption.withdrawn':
+      return {
+        subject: `Withdrawn for ${f.model}: ${what}`,
+        body: `${lead} Version ${f.version} (${value}) was due for review by ${f.reviewBy} and is withdrawn under the institution's overdue policy: the consumer API no longer serves a value in force for ${f.segment}.${link}${tail}`,
+      };
+    case 'assumption.retired':
+      return { subject: `Retired for ${f.model}: ${what}`, body: `${lead} Version ${f.version} (${value}) is retired: no value of ${f.segment} is in force any more.${link}${tail}` };
+  }
 }

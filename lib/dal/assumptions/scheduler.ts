@@ -8,6 +8,7 @@ import { backDatingProblem } from '@/lib/assumptions/lifecycle';
 import type { MailKind } from '@/lib/mail/templates';
 import { sweepEvidence } from '../evidence-store';
 import { queueFindingReminders } from '../findings';
+import { notifyModels } from '../model-notify';
 import { overduePolicyIn } from '../overdue-policy';
 import { SYSTEM } from './actors';
 import { queueOverdueEscalation, queueReviewReminder } from './notify';
@@ -98,6 +99,7 @@ export async function runScheduledTransitions(now: Date = new Date(), db: Db = g
       } else {
         report.overdue.push(id);
         report.escalations += await queueOverdueEscalation(tx, row.v, row.segment, 'review-overdue');
+        await notifyModels(tx, row.v, row.segment, 'assumption.overdue', now);
       }
     });
   }

@@ -21,6 +21,7 @@ import { AppError, parseOrThrow } from '@/lib/errors';
 import { definitionsOf } from '../default-definitions';
 import { loadFitEvidence } from '../fit-evidence';
 import { blockingRefusal } from '../findings';
+import { notifyModels } from '../model-notify';
 import { asActor, makerIds, SYSTEM, type Actor } from './actors';
 import { contentOf, versionDtos, type VersionDto } from './dto';
 import { notifyTransition } from './notify';
@@ -300,7 +301,11 @@ export async function applyTransition(
         comment: `Superseded by version ${v.version}.`,
         contentHash: p.contentHash,
       }, now);
+      await notifyModels(tx, { ...p, status: 'superseded' }, segment, 'assumption.superseded', now, { supersededBy: v.version });
     }
   }
   await notifyTransition(tx, { ...v, status: to }, segment, action, actor, comment);
+  // The models that use the assumption hear of what changes their input.
+  const modelEvent = action === 'publish' ? 'assumption.published' : action === 'retire' ? 'assumption.retired' : action === 'expire' ? 'assumption.withdrawn' : null;
+  if (modelEvent) await notifyModels(tx, { ...v, status: to }, segment, modelEvent, now);
 }

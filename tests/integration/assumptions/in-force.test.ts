@@ -154,14 +154,14 @@ describe('random histories (12, seeded): the query agrees with the rule, and pas
         const now = new Date(clock);
         for (let q = 0; q < 4; q++) {
           const asOf = todayIso(new Date(clock - (next() % 400) * DAY));
-          const answer = await label(versionInForce({ kind: 'token', tokenId: 0, name: 'test', scopes: ['assumptions:read'] }, segment, asOf, now));
+          const answer = await label(versionInForce({ kind: 'token', tokenId: 0, name: 'test', scopes: ['assumptions:read'], modelId: null }, segment, asOf, now));
           expect(answer, `${segment} asOf ${asOf} at ${now.toISOString()}`).toBe(await modelAnswer(segment, asOf, now));
           if (asOf < todayIso(now)) asked.push({ asOf, at: now, answer });
         }
       }
       const end = new Date(clock + 400 * DAY);
       for (const q of asked) {
-        const later = await label(versionInForce({ kind: 'token', tokenId: 0, name: 'test', scopes: ['assumptions:read'] }, segment, q.asOf, end));
+        const later = await label(versionInForce({ kind: 'token', tokenId: 0, name: 'test', scopes: ['assumptions:read'], modelId: null }, segment, q.asOf, end));
         expect(later, `${segment} asOf ${q.asOf}, first asked at ${q.at.toISOString()}`).toBe(q.answer);
       }
     }

@@ -25,6 +25,11 @@ describe('role permissions', () => {
     expect(roles.filter((r) => can(r, 'findings:comment'))).toEqual(['analyst', 'validator']);
   });
 
+  it('analysts and administrators keep the register of consuming models; everyone reads it', () => {
+    expect(roles.filter((r) => can(r, 'models:manage'))).toEqual(['analyst', 'admin']);
+    expect(roles.filter((r) => can(r, 'models:read'))).toEqual([...roles]);
+  });
+
   it('viewers may read but not upload or run fits', () => {
     expect(can('viewer', 'assumptions:read')).toBe(true);
     expect(can('viewer', 'datasets:upload')).toBe(false);

@@ -4,6 +4,7 @@ import { forbidden } from 'next/navigation';
 import { CreateTokenForm, RevokeTokenButton } from '@/components/admin/token-manager';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
+import { listModelChoices } from '@/lib/dal/models';
 import { listTokens } from '@/lib/dal/tokens';
 
 export const metadata: Metadata = { title: 'API tokens' };
@@ -13,7 +14,7 @@ const day = (s: string | null) => (s ? s.replace('T', ' ').slice(0, 16) : '—')
 export default async function TokensPage() {
   const actor = await requireUser();
   if (!can(actor.role, 'tokens:manage')) forbidden();
-  const tokens = await listTokens(actor);
+  const [tokens, models] = await Promise.all([listTokens(actor), listModelChoices(actor)]);
   return (
     <div className="space-y-5">
       <p className="text-sm">
@@ -26,7 +27,7 @@ export default async function TokensPage() {
       </p>
       <section className="panel p-5">
         <h2 className="mb-3">Create a token</h2>
-        <CreateTokenForm />
+        <CreateTokenForm models={models} />
       </section>
       <section className="panel overflow-x-auto p-2">
         <table className="table" aria-label="API tokens">
@@ -35,6 +36,7 @@ export default async function TokensPage() {
               <th>Name</th>
               <th>Starts with</th>
               <th>Scopes</th>
+              <th>Model</th>
               <th>Created (UTC)</th>
               <th>Expires</th>
               <th>Last used</th>
@@ -48,6 +50,7 @@ export default async function TokensPage() {
                 <td>{t.name}</td>
                 <td className="num">{t.prefix}…</td>
                 <td>{t.scopes.join(', ')}</td>
+                <td>{t.model ? <Link href={`/models/${t.model.id}`}>{t.model.name}</Link> : '—'}</td>
                 <td className="num whitespace-nowrap">
                   {day(t.createdAt)} <span className="text-xs text-[var(--color-muted)]">{t.createdBy}</span>
                 </td>
@@ -61,7 +64,7 @@ export default async function TokensPage() {
             ))}
             {tokens.length === 0 ? (
               <tr>
-                <td colSpan={8} className="text-[var(--color-muted)]">
+                <td colSpan={9} className="text-[var(--color-muted)]">
                   No tokens yet.
                 </td>
               </tr>

@@ -7,6 +7,7 @@ import { PublicationLine } from '@/components/assumptions/publication-line';
 import { EvidencePanel } from '@/components/assumptions/evidence-panel';
 import { VersionCautions } from '@/components/assumptions/version-cautions';
 import { FindingsSection } from '@/components/findings/findings-section';
+import { ModelsUsing } from '@/components/models/models-using';
 import { fmt, StatusBadge } from '@/components/assumptions/status-badge';
 import { TransitionPanel } from '@/components/assumptions/transition-panel';
 import { VersionEvidence } from '@/components/assumptions/version-evidence';
@@ -19,6 +20,7 @@ import { requireUser } from '@/lib/auth/session';
 import { getVersionPage } from '@/lib/dal/assumptions';
 import { getFitSegment } from '@/lib/dal/fits';
 import { findingsPanel } from '@/lib/dal/findings';
+import { modelsUsing } from '@/lib/dal/models';
 import { AppError } from '@/lib/errors';
 
 export const metadata: Metadata = { title: 'Assumption' };
@@ -67,6 +69,7 @@ export default async function VersionPage({
   const v = page.version;
   const evidence = v.fitRunId ? await getFitSegment(actor, v.fitRunId, v.segment) : null;
   const findings = await findingsPanel(actor, { type: 'version', id: v.id });
+  const usedBy = await modelsUsing(actor, v.assumptionId);
   const canEdit = can(actor.role, 'assumptions:draft') && editableStatuses.includes(v.status);
   return (
     <div className="space-y-5">
@@ -234,6 +237,7 @@ export default async function VersionPage({
 
       <VersionEvidence evidence={evidence} segment={v.segment} />
       <FindingsSection {...findings} note="Findings on this version, on its fit and on its dataset." />
+      <ModelsUsing models={usedBy} />
 
       {page.changesFromPrevious && page.comparedWith ? (
         <section className="panel p-5" aria-labelledby="diff-heading">
