@@ -5,7 +5,7 @@ const nextConfig = {
   reactStrictMode: true,
   poweredByHeader: false,
   // Packages that load files or native code at run time stay outside the server bundle.
-  serverExternalPackages: ['mysql2', 'bcryptjs', 'nodemailer'],
+  serverExternalPackages: ['mysql2', 'bcryptjs', 'nodemailer', 'pdfkit'],
   typedRoutes: false,
   // `npm test` runs `tsc --noEmit` as its own step; the build does not type-check a second time.
   typescript: { ignoreBuildErrors: true },

@@ -23,6 +23,7 @@ export const navItems: NavItem[] = [
   { href: '/findings', label: 'Findings', roles: everyone },
   { href: '/models', label: 'Models', roles: everyone },
   { href: '/pairs', label: 'Pair explorer', roles: everyone },
+  { href: '/method', label: 'Method', roles: everyone },
   { href: '/admin', label: 'Admin', roles: ['admin'] },
   { href: '/admin/tokens', label: 'API tokens', roles: ['admin'] },
   { href: '/admin/outbox', label: 'Outbox', roles: ['admin'], whenMailCaptured: true },

@@ -237,3 +237,13 @@ export async function writeBacktest(tx: Tx, backtestId: number, result: StoredBa
 export async function markBacktestFailed(tx: DbOrTx, backtestId: number, error: string): Promise<void> {
   await tx.update(evidenceBacktests).set({ status: 'failed', error: error.slice(0, 2000), finishedAt: new Date() }).where(eq(evidenceBacktests.id, backtestId));
 }
+
+/** The jobs of backtests still queued (the demo seed runs them in-process). */
+export async function queuedBacktestJobs(db: DbOrTx): Promise<number[]> {
+  const rows = await db
+    .select({ jobId: evidenceBacktests.jobId })
+    .from(evidenceBacktests)
+    .where(eq(evidenceBacktests.status, 'queued'))
+    .orderBy(asc(evidenceBacktests.id));
+  return rows.map((r) => r.jobId).filter((x): x is number => x !== null);
+}

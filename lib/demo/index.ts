@@ -6,7 +6,7 @@
 import { Readable } from 'node:stream';
 import { createRng } from '@/lib/stats/random';
 import { conditionalPd as vasicekConditionalPd } from '@/lib/stats/vasicek';
-import { cohortRowsCsv, DEMO_SEED, FENMOOR_SEGMENTS, generateCohortRows, generateVintageCsv } from './fenmoor';
+import { cohortRowsCsv, conditionalPd, DEMO_SEED, FENMOOR_SEGMENTS, generateCohortRows, generateVintageCsv } from './fenmoor';
 import { generateLoanTape } from './loan-tape';
 
 export { LENDER_NAME, FENMOOR_SEGMENTS, DEMO_SEED, conditionalPd } from './fenmoor';
@@ -14,6 +14,36 @@ export { LENDER_NAME, FENMOOR_SEGMENTS, DEMO_SEED, conditionalPd } from './fenmo
 /** Cohort file: 5 segments x 15-25 annual cohorts (see fenmoor.ts for the parameters). */
 export function fenmoorCohortCsv(seed: number = DEMO_SEED): string {
   return cohortRowsCsv(generateCohortRows(createRng(seed)));
+}
+
+/** The factor of the restated file's new year: an invented downturn, two standard deviations bad. */
+export const RESTATED_YEAR = 2025;
+export const RESTATED_FACTOR = -2.2;
+export const RESTATED_DEFINITION = '90 days past due or unlikely to pay';
+export const EARLY_SME_DEFINITION = '120 days past due';
+
+/**
+ * The restated cohort file that supersedes the first one: the same history with the definition of
+ * default written on every row (the first two SME years were counted at 120 days past due, which
+ * the restatement makes explicit), and one more year, 2025, drawn at an invented downturn factor
+ * (RESTATED_FACTOR) with its own seed. Used by the demo to show evidence that ages.
+ */
+export function fenmoorRestatedCohortCsv(seed: number = DEMO_SEED): string {
+  const rows = generateCohortRows(createRng(seed));
+  const rng = createRng(seed + 10);
+  const lines = ['segment,period,obligors,defaults,default_definition'];
+  for (const s of FENMOOR_SEGMENTS) {
+    const own = rows.filter((r) => r.segment === s.name);
+    for (const r of own) {
+      const early = s.name === 'SME term loans' && r.period < s.firstYear + 2;
+      lines.push(`${r.segment},${r.period},${r.obligors},${r.defaults},${early ? EARLY_SME_DEFINITION : RESTATED_DEFINITION}`);
+    }
+    const last = own[own.length - 1];
+    const obligors = Math.max(1, Math.round(last.obligors * (1 + s.growth) * (0.95 + 0.1 * rng.uniform())));
+    const defaults = rng.binomial(obligors, conditionalPd(s.pd, s.rho, RESTATED_FACTOR));
+    lines.push(`${s.name},${RESTATED_YEAR},${obligors},${defaults},${RESTATED_DEFINITION}`);
+  }
+  return lines.join('\n') + '\n';
 }
 
 /** Vintage file: prime auto and unsecured personal loans, vintages 2015-01..2023-12 observed to 2024-12. */

@@ -6,7 +6,7 @@ import type { SessionUser } from '@/lib/auth/guard';
 import { storeAcceptedDataset, type UploadMeta } from '@/lib/dal/dataset-store';
 import { listSegments, updateSegment } from '@/lib/dal/segments';
 import { convertLoanTape, validateCohortOrVintage, type Validated } from '@/lib/ingest/upload';
-import { fenmoorCohortCsv, fenmoorLoanTapeChunks, fenmoorVintageCsv, LENDER_NAME } from '@/lib/demo';
+import { fenmoorCohortCsv, fenmoorLoanTapeChunks, fenmoorRestatedCohortCsv, fenmoorVintageCsv, LENDER_NAME, RESTATED_DEFINITION, RESTATED_YEAR } from '@/lib/demo';
 
 /**
  * Seeds the invented demo lender's data (lib/demo: generated from the Vasicek model with fixed
@@ -55,6 +55,7 @@ export async function seedDemoData(db: Db, analyst: SessionUser): Promise<{ coho
       description: 'Invented demo data generated from the Vasicek one-factor model (lib/demo/fenmoor.ts).',
       fileName: 'fenmoor-cohorts.csv',
       uploadedBy: analyst.id,
+      defaultDefinition: RESTATED_DEFINITION,
     },
     cohort,
     await validateCohortOrVintage('cohort', once(cohort), { maxBytes: max }),
@@ -98,4 +99,27 @@ export async function seedDemoData(db: Db, analyst: SessionUser): Promise<{ coho
   }
   console.log(`[seed] demo datasets stored in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
   return { cohortDatasetId };
+}
+
+/**
+ * The restated cohort file (lib/demo/index.ts fenmoorRestatedCohortCsv): it supersedes the first
+ * cohort dataset, states the definition of default on every row (the first two SME years at 120
+ * days past due: an upload warning) and adds the year 2025, an invented downturn. The values
+ * drawn from the first file are then flagged as resting on superseded data, with a new year.
+ */
+export async function seedRestatedCohorts(db: Db, analyst: SessionUser, supersedes: number): Promise<number> {
+  const bytes = Buffer.from(fenmoorRestatedCohortCsv(), 'utf8');
+  return store(
+    db,
+    {
+      kind: 'cohort',
+      name: `${LENDER_NAME}: annual cohorts by segment, restated with ${RESTATED_YEAR}`,
+      description: `Invented demo data: the first cohort file restated (the definition of default on every row) and extended by ${RESTATED_YEAR}, an invented downturn year.`,
+      fileName: 'fenmoor-cohorts-restated.csv',
+      uploadedBy: analyst.id,
+      supersedes,
+    },
+    bytes,
+    await validateCohortOrVintage('cohort', once(bytes), { maxBytes: Number.MAX_SAFE_INTEGER }),
+  );
 }

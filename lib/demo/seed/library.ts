@@ -16,16 +16,31 @@
  *      effective on the first of next month;
  *    - Credit cards: reviewed and sent back with changes requested two days ago.
  *
- * Effective dates are never before approval dates (the lifecycle refuses that); the datasets and
- * the fit carry the time the seed ran. The messages these transitions write to the outbox are sent
- * by the worker when it starts.
+ * 3. the governance around them:
+ *    - a consuming model, the economic capital model, registered by the analyst as using the auto
+ *      and SME values, with a webhook to the app's own local receiver (/api/webhook-receiver), so
+ *      that their publications reach it signed when the worker starts;
+ *    - validation findings: a medium one open on the mortgages version under review, a high one
+ *      on the credit-card draft (which blocks its approval until closed or accepted);
+ *    - a restated cohort file that supersedes the first (data.ts seedRestatedCohorts): the auto and
+ *      SME values are flagged, and their backtest on the new year runs here as the worker runs it.
+ *
+ * Effective dates are never before approval dates (the lifecycle refuses that); the datasets, the
+ * fit and the model carry the time the seed ran. The messages these transitions write to the
+ * outbox (and the webhook deliveries) are sent by the worker when it starts.
  */
 import { addDays, addMonths, todayIso } from '@/lib/assumptions/dates';
 import { conservativeValue, type Margins } from '@/lib/assumptions/margins';
 import type { SessionUser } from '@/lib/auth/guard';
 import { createDraft, runScheduledTransitions, transition } from '@/lib/dal/assumptions';
+import { queuedBacktestJobs } from '@/lib/dal/evidence-store';
+import { recordFinding } from '@/lib/dal/findings';
 import { createFit, getFit } from '@/lib/dal/fits';
+import { createModel, updateModel } from '@/lib/dal/models';
+import { appUrl } from '@/lib/env';
 import { FIT_JOB } from '@/lib/jobs/kinds/fit';
+import { MONITOR_BACKTEST_JOB } from '@/lib/jobs/kinds/monitor-backtest';
+import { seedRestatedCohorts } from './data';
 import type { Db } from '@/db/connection';
 
 /** Runs one queued job to completion in this process (workers/run-job-here.ts). */
@@ -101,6 +116,16 @@ export async function seedDemoLibrary(
     },
     at(addDays(autoEffective, -14), '09:10'),
   );
+  // The economic capital model uses the auto value (and, below, the SME one): it hears of their
+  // publications by e-mail and through its webhook to the app's local receiver.
+  const model = await createModel(analyst, {
+    name: 'Economic capital model',
+    ownerName: 'Capital modelling team',
+    contactEmail: 'capital-models@fenmoor.example',
+    intendedUse: 'Economic capital of the retail and SME books; reads the value in force at each month end.',
+    webhookUrl: appUrl('/api/webhook-receiver'),
+    assumptionIds: [auto.assumptionId],
+  });
   await transition(analyst, auto.id, { action: 'submit' }, at(addDays(autoEffective, -13), '10:05'));
   await transition(validator, auto.id, { action: 'start-review' }, at(addDays(autoEffective, -12), '09:30'));
   await transition(validator, auto.id, { action: 'approve', comment: 'Approved for economic capital and pricing.' }, at(addDays(autoEffective, -10), '14:20'));
@@ -131,6 +156,7 @@ export async function seedDemoLibrary(
     },
     at(addDays(smeEffective, -12), '08:45'),
   );
+  await updateModel(analyst, model.model.id, { assumptionIds: [auto.assumptionId, sme.assumptionId] });
   await transition(analyst, sme.id, { action: 'submit' }, at(addDays(smeEffective, -11), '16:30'));
   await transition(validator, sme.id, { action: 'start-review' }, at(addDays(smeEffective, -9), '09:15'));
   await transition(
@@ -162,6 +188,20 @@ export async function seedDemoLibrary(
     at(addDays(today, -3), '10:00'),
   );
   await transition(analyst, mortgages.id, { action: 'submit' }, at(addDays(today, -3), '11:20'));
+  await recordFinding(
+    validator,
+    {
+      targetType: 'version',
+      targetId: mortgages.id,
+      title: 'No house-price downturn in the window',
+      description:
+        'The fitted years include no full house-price downturn, so the interval says little about a stressed year. Justify the data margin against a downturn scenario, or extend the window with the 2008-2011 cohorts of the predecessor portfolio.',
+      severity: 'medium',
+      ownerId: analyst.id,
+      dueDate: addDays(today, 14),
+    },
+    at(addDays(today, -1), '15:10'),
+  );
 
   // Credit cards: sent back by the validator with changes requested.
   const cards = await createDraft(
@@ -195,5 +235,25 @@ export async function seedDemoLibrary(
     at(addDays(today, -2), '10:10'),
   );
 
-  console.log(`[seed] demo assumptions (fit ${fit.id}; four segments) in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
+  await recordFinding(
+    validator,
+    {
+      targetType: 'version',
+      targetId: cards.id,
+      title: 'General estimation-error margin of 0 not justified',
+      description: 'At fifteen annual cohorts the likelihood estimate is biased low (see the estimator audit); a margin of 0 for general estimation error is not acceptable. Add a margin with its rationale.',
+      severity: 'high',
+      ownerId: analyst.id,
+      dueDate: addDays(today, 10),
+    },
+    at(addDays(today, -2), '10:15'),
+  );
+
+  // The cohort file is restated with a new year: the auto and SME values rest on superseded data.
+  // The scheduler's sweep flags them and queues their backtests, which run here.
+  await seedRestatedCohorts(db, analyst, cohortDatasetId);
+  await runScheduledTransitions(now, db);
+  for (const jobId of await queuedBacktestJobs(db)) await runJob(db, jobId, MONITOR_BACKTEST_JOB);
+
+  console.log(`[seed] demo assumptions (fit ${fit.id}; four segments), a consuming model, findings and a restated dataset in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
 }

@@ -63,6 +63,12 @@ describe('the demo library', () => {
     // The viewer sees the two published segments only.
     expect(Object.keys(bySegment).sort()).toEqual(['Prime auto loans', 'SME term loans']);
     expect(bySegment['SME term loans'].health).toBe('ok');
+    // Their dataset has been restated with 2025: both are flagged, with the backtest on 2025 run.
+    for (const seg of ['SME term loans', 'Prime auto loans']) {
+      expect(bySegment[seg].evidence).toMatchObject({ superseded: true, newPeriods: ['2025'], flagged: true });
+      expect(bySegment[seg].evidence!.backtest).toMatchObject({ status: 'done', periods: ['2025'] });
+      expect(['consistent', 'watch', 'breach']).toContain(bySegment[seg].evidence!.backtest!.verdict);
+    }
     expect(bySegment['Prime auto loans'].health).toBe('expiring');
     expect(bySegment['Prime auto loans'].daysToReview).toBeGreaterThanOrEqual(17);
     expect(bySegment['Prime auto loans'].daysToReview).toBeLessThanOrEqual(23);
@@ -118,5 +124,38 @@ describe('the demo library', () => {
     expect(of('awaiting-review').map((x) => x.to)).toEqual(Array(4).fill('validator@fenmoor.example'));
     expect(of('changes-requested')).toEqual([expect.objectContaining({ to: 'analyst@fenmoor.example', subject: 'Changes requested: Credit cards v1' })]);
     expect(of('published').map((x) => x.to).sort()).toEqual(['analyst@fenmoor.example', 'analyst@fenmoor.example', 'validator@fenmoor.example', 'validator@fenmoor.example']);
+  });
+});
+
+describe('the demo governance', () => {
+  it('registers a consuming model of the auto and SME values with a webhook to the local receiver, and queued their publications for it', async () => {
+    const { consumingModels, webhookDeliveries } = m.schema;
+    const [model] = await m.db.getDb().select().from(consumingModels);
+    expect(model.name).toBe('Economic capital model');
+    expect(model.webhookUrl).toMatch(/\/api\/webhook-receiver$/);
+    const deliveries = await m.db.getDb().select().from(webhookDeliveries).where(m.orm.eq(webhookDeliveries.modelId, model.id));
+    expect(deliveries.filter((d) => d.event === 'assumption.published')).toHaveLength(2);
+  });
+
+  it('has a finding open on the version under review and a high one on the credit-card draft', async () => {
+    const findings = await import('@/lib/dal/findings');
+    const open = await findings.listFindings(await person('viewer@fenmoor.example'), { unresolved: true });
+    // The viewer sees no drafts: none of their findings.
+    expect(open).toEqual([]);
+    const all = await findings.listFindings(await person('validator@fenmoor.example'), { unresolved: true });
+    expect(all.map((f) => [f.target.label, f.severity])).toEqual([
+      ['Credit cards v1', 'high'],
+      ['Owner-occupied mortgages v1', 'medium'],
+    ]);
+  });
+
+  it('carries the definition of default: the restated file states it per row and warns of the change in the early SME years', async () => {
+    const { uploadReports } = m.schema;
+    const reports = await m.db.getDb().select().from(uploadReports).where(m.orm.eq(uploadReports.fileName, 'fenmoor-cohorts-restated.csv'));
+    const findings = reports[0].findings as { rule: string; message: string }[];
+    expect(findings.find((f) => f.rule === 'default-definition-change')?.message).toContain('120 days past due (2003-2004); 90 days past due or unlikely to pay (2005-2025)');
+    const viewer = await person('viewer@fenmoor.example');
+    const sme = (await m.dal.listLibrary(viewer)).find((e) => e.segment === 'SME term loans')!.current!;
+    expect(sme.defaultDefinitions?.map((d) => d.definition)).toEqual(['90 days past due or unlikely to pay']);
   });
 });

@@ -4,6 +4,7 @@ import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { z } from 'zod';
 import { FindingsSection } from '@/components/findings/findings-section';
+import { ReportLinks } from '@/components/reports/report-links';
 import { FitDefaultDefinitions } from '@/components/fits/fit-default-definitions';
 import { FitProgress } from '@/components/fits/fit-progress';
 import { FitProvenance, OldResultsNotice } from '@/components/fits/fit-provenance';
@@ -43,9 +44,12 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
           <FitProvenance fit={fit} />
         </div>
         {fit.status === 'succeeded' && fit.segments.length > 0 ? (
-          <Link className="btn btn-quiet" href={`/fits?segment=${encodeURIComponent(fit.segments[0])}`}>
-            Compare with other runs
-          </Link>
+          <div className="flex flex-wrap gap-2">
+            <ReportLinks page={`/fits/${fit.id}/report`} pdf={`/api/fits/${fit.id}/report.pdf`} />
+            <Link className="btn btn-quiet" href={`/fits?segment=${encodeURIComponent(fit.segments[0])}`}>
+              Compare with other runs
+            </Link>
+          </div>
         ) : null}
       </div>
 

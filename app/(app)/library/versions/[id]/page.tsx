@@ -8,6 +8,7 @@ import { EvidencePanel } from '@/components/assumptions/evidence-panel';
 import { VersionCautions } from '@/components/assumptions/version-cautions';
 import { FindingsSection } from '@/components/findings/findings-section';
 import { ModelsUsing } from '@/components/models/models-using';
+import { ReportLinks } from '@/components/reports/report-links';
 import { fmt, StatusBadge } from '@/components/assumptions/status-badge';
 import { TransitionPanel } from '@/components/assumptions/transition-panel';
 import { VersionEvidence } from '@/components/assumptions/version-evidence';
@@ -77,9 +78,12 @@ export default async function VersionPage({
         <p className="text-sm">
           <Link href="/library">Library</Link> / {v.segment}
         </p>
-        <h1 className="flex flex-wrap items-center gap-2">
-          {v.segment} · version {v.version} <StatusBadge status={v.status} />
-        </h1>
+        <div className="flex flex-wrap items-start justify-between gap-2">
+          <h1 className="flex flex-wrap items-center gap-2">
+            {v.segment} · version {v.version} <StatusBadge status={v.status} />
+          </h1>
+          <ReportLinks page={`/library/versions/${v.id}/report`} pdf={`/api/assumptions/${v.id}/report.pdf`} />
+        </div>
         <p className="mt-1 text-lg">
           Value <span className="num font-semibold" data-testid="final-value">{fmt(v.finalValue, 6)}</span>
           <span className="ml-3 text-sm text-[var(--color-muted)]">
