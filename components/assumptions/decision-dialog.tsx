@@ -1,6 +1,7 @@
 'use client';
 
 import { useEffect, useRef } from 'react';
+import { interval as intervalText, level, pd as pdText, rho as rhoText } from '@/lib/format';
 
 /** What a person confirms before approving or publishing: the value and everything it stands with. */
 export type DecisionFacts = {
@@ -16,8 +17,6 @@ export type DecisionFacts = {
   /** Findings on the version, its fit or its dataset that do not block approval (medium and low, not closed). */
   findings: { id: number; title: string; severity: string; status: string; dueDate: string }[];
 };
-
-const num = (x: number, d = 6) => Number(x.toFixed(d)).toString();
 
 /**
  * A modal confirmation (the native dialog element: focus stays inside, Escape cancels) that says
@@ -57,12 +56,12 @@ export function DecisionDialog({
       </h2>
       <dl className="grid grid-cols-[10rem_1fr] gap-x-3 gap-y-1 text-sm" data-testid="decision-facts">
         <dt>Value</dt>
-        <dd className="num font-semibold">{num(facts.value)}</dd>
+        <dd className="num font-semibold">{rhoText(facts.value)}</dd>
         <dt>With the PD</dt>
-        <dd className="num">{num(facts.pd)}</dd>
+        <dd className="num">{pdText(facts.pd)}</dd>
         <dt>Interval</dt>
         <dd className="num">
-          [{num(facts.interval.lower)}, {num(facts.interval.upper)}] {facts.interval.method}, {num(facts.interval.level * 100, 2)}%
+          {intervalText(facts.interval.lower, facts.interval.upper)} {facts.interval.method}, {level(facts.interval.level)}
         </dd>
         <dt>Effective date</dt>
         <dd className="num">{facts.effectiveDate}</dd>

@@ -1,5 +1,6 @@
 import Link from 'next/link';
 import type { EvidenceDto } from '@/lib/dal/evidence-store';
+import { pd as pdText, rho as rhoText } from '@/lib/format';
 
 const verdictTone = {
   consistent: 'bg-[var(--color-good-soft)] text-[var(--color-good)]',
@@ -46,7 +47,7 @@ export function EvidencePanel({ evidence }: { evidence: EvidenceDto }) {
             ))}
           </ul>
           <p className="text-xs text-[var(--color-muted)]">
-            Tested at the published value {b.result.rho} with the PD {b.result.p}; quantiles of an infinitely granular pool, probabilities under the binomial
+            Tested at the published value {rhoText(b.result.rho)} with the PD {pdText(b.result.p)}; quantiles of an infinitely granular pool, probabilities under the binomial
             mixture with each year&apos;s cohort; engine {b.engineVersion}. A backtest on a few years has little power: agreement is not proof that the value
             still holds.
           </p>

@@ -2,11 +2,11 @@ import Link from 'next/link';
 import type { FindingDto } from '@/lib/dal/findings';
 import { SeverityBadge } from './severity-badge';
 
-/** The Overview's findings: how many are unresolved and overdue, the overdue ones first, and mine. */
+/** The Overview's findings: how many are unresolved and overdue; the overdue ones first, then the high ones and mine. */
 export function FindingsOverview({ unresolved, meId }: { unresolved: FindingDto[]; meId: number }) {
   const overdue = unresolved.filter((f) => f.overdue);
-  const mine = unresolved.filter((f) => f.owner?.id === meId && !f.overdue);
-  const shown = [...overdue, ...mine].slice(0, 6);
+  const rest = unresolved.filter((f) => !f.overdue && (f.owner?.id === meId || f.severity === 'high'));
+  const shown = [...overdue, ...rest].slice(0, 6);
   return (
     <section className="panel p-5" aria-label="Findings">
       <div className="flex items-baseline justify-between">
@@ -43,7 +43,7 @@ export function FindingsOverview({ unresolved, meId }: { unresolved: FindingDto[
               <SeverityBadge severity={f.severity} />
               <Link href={`/findings/${f.id}`}>{f.title}</Link>
               <span className="text-[var(--color-muted)]">
-                on {f.target.label}; {f.overdue ? `${-f.daysToDue} days overdue` : `yours, due ${f.dueDate}`}
+                on {f.target.label}; {f.overdue ? `${-f.daysToDue} days overdue` : `${f.owner?.id === meId ? 'yours, ' : ''}due ${f.dueDate}`}
               </span>
             </li>
           ))}

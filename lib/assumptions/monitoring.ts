@@ -1,3 +1,4 @@
+import { integer, pct } from '@/lib/format';
 import type { BacktestResult } from '@/lib/stats/backtest';
 
 /**
@@ -9,7 +10,6 @@ export type BacktestVerdict = 'consistent' | 'watch' | 'breach';
 
 export type StoredBacktest = BacktestResult & { p: number; rho: number; periods: string[] };
 
-const pct = (x: number) => `${(100 * x).toFixed(x < 0.001 ? 3 : 2)}%`;
 const prob = (x: number) => (x < 0.0001 ? 'below 0.0001' : x.toFixed(4));
 
 export function backtestVerdict(r: BacktestResult): BacktestVerdict {
@@ -30,7 +30,7 @@ export function backtestSentences(r: StoredBacktest): { verdict: BacktestVerdict
         : `The new years challenge the published value: ${r.exceedances.above99} above its 99% quantile (${r.exceedances.expected99.toFixed(2)} expected), and the least likely year's count has probability ${prob(Math.min(...r.years.map((y) => y.tailProbability)))} or less. Review the value with the new data.`;
   const years = r.years.map(
     (y, i) =>
-      `${r.periods[i] ?? `year ${i + 1}`}: ${y.defaults} defaults of ${y.obligors} (${pct(y.rate)}) against the 95% and 99% quantiles ${pct(y.q95)} and ${pct(y.q99)}; P(at least ${y.defaults} defaults) = ${prob(y.tailProbability)}; log-likelihood ${y.logLik.toFixed(3)}.`,
+      `${r.periods[i] ?? `year ${i + 1}`}: ${integer(y.defaults)} defaults of ${integer(y.obligors)} (${pct(y.rate)}) against the 95% and 99% quantiles ${pct(y.q95)} and ${pct(y.q99)}; P(at least ${integer(y.defaults)} defaults) = ${prob(y.tailProbability)}; log-likelihood ${y.logLik.toFixed(3)}.`,
   );
   return { verdict, summary, years };
 }

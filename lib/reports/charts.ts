@@ -30,6 +30,7 @@ const line = (pts: [number, number][]) => pts.map(([x, y], i) => `${i ? 'L' : 'M
 const rect = (x0: number, y0: number, x1: number, y1: number) => `M${f(x0)} ${f(y0)} L${f(x1)} ${f(y0)} L${f(x1)} ${f(y1)} L${f(x0)} ${f(y1)} Z`;
 
 function pctLabel(v: number): string {
+  if (v === 0) return '0%';
   const p = v * 100;
   return `${p >= 10 ? p.toFixed(0) : p >= 1 ? p.toFixed(1) : p.toFixed(2)}%`;
 }
@@ -58,7 +59,7 @@ export function defaultRateChart(
   const chart: Chart = { title, width: W, height: H, paths: [], dots: [], texts: [], description: '' };
   const n = observed.length;
   const top = Math.max(...observed.map((o) => o.dr), bands?.q995 ?? 0, 1e-6) * 1.08;
-  const yTicks = niceTicks(0, top, 4);
+  const yTicks = niceTicks(0, top, 5);
   const yMax = Math.max(top, yTicks[yTicks.length - 1]);
   const yOf = (v: number) => H - M.bottom - (v / yMax) * (H - M.top - M.bottom);
   const xOf = (i: number) => M.left + (n <= 1 ? (W - M.left - M.right) / 2 : (i / (n - 1)) * (W - M.left - M.right - 8) + 4);
@@ -73,7 +74,8 @@ export function defaultRateChart(
     observed.forEach((o, i) => chart.dots.push({ x: xOf(i), y: yOf(o.dr), r: 2.2, fill: INK }));
     const every = Math.max(1, Math.ceil(n / 12));
     observed.forEach((o, i) => {
-      if (i % every === 0 || i === n - 1) chart.texts.push({ x: xOf(i), y: H - M.bottom + 14, text: o.period, anchor: 'middle', size: 8 });
+      // Every k-th year and the last one, without crowding the last label.
+      if ((i % every === 0 && n - 1 - i >= every) || i === n - 1) chart.texts.push({ x: xOf(i), y: H - M.bottom + 14, text: o.period, anchor: 'middle', size: 8 });
     });
   }
   chart.texts.push({ x: (M.left + W - M.right) / 2, y: H - 6, text: 'year', anchor: 'middle', size: 8 });
@@ -107,7 +109,9 @@ export function profileChart(
   if (interval) chart.paths.push({ d: rect(xOf(interval.lower), M.top, xOf(interval.upper), H - M.bottom), fill: BAND_OUTER });
   frame(chart, yTicks, yOf, (v) => v.toFixed(Math.abs(v) < 10 ? 1 : 0), 'log-likelihood − maximum');
   for (const t of xTicks) chart.texts.push({ x: xOf(t), y: H - M.bottom + 14, text: t.toFixed(2), anchor: 'middle', size: 8 });
-  chart.paths.push({ d: line(curve.map((c) => [xOf(c.rho), yOf(c.logLik - max)])), stroke: INK, width: 1.2 });
+  // Points below the lowest tick are left out rather than drawn flat along the axis.
+  const shown = curve.filter((c) => c.logLik - max >= yMin);
+  chart.paths.push({ d: line(shown.map((c) => [xOf(c.rho), yOf(c.logLik - max)])), stroke: INK, width: 1.2 });
   chart.paths.push({ d: line([[M.left, yOf(cutoff - max)], [W - M.right, yOf(cutoff - max)]]), stroke: '#9b2a22', width: 0.8, dash: [4, 2] });
   if (estimate !== null) chart.paths.push({ d: line([[xOf(estimate), M.top], [xOf(estimate), H - M.bottom]]), stroke: ACCENT, width: 0.8, dash: [2, 2] });
   chart.texts.push({ x: (M.left + W - M.right) / 2, y: H - 6, text: 'rho', anchor: 'middle', size: 8 });

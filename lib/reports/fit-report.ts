@@ -43,6 +43,14 @@ export function findingsBlocks(findings: readonly FindingDto[]): Block[] {
   ];
 }
 
+/** One definition for every segment is said once; otherwise each segment's, with their years. */
+function definitionText(spans: { segment: string; spans: Parameters<typeof describeSpans>[0] }[], uploadField: string | null): string {
+  if (!spans.length) return uploadField ?? 'not stated';
+  const texts = spans.map((s) => describeSpans(s.spans) ?? 'not stated');
+  if (new Set(texts).size === 1) return `${texts[0]}${spans.length > 1 ? ' (every segment)' : ''}`;
+  return spans.map((s, i) => `${s.segment}: ${texts[i]}`).join('; ');
+}
+
 export function dataBlocks(d: DatasetFacts, spans: { segment: string; spans: Parameters<typeof describeSpans>[0] }[]): Block[] {
   return [
     {
@@ -52,7 +60,7 @@ export function dataBlocks(d: DatasetFacts, spans: { segment: string; spans: Par
         ['SHA-256 of the file', d.sha256],
         ['Conventions', d.conventions ?? 'none recorded'],
         ['Censored vintage-years', d.censored ? `${d.censored}, left out of the annual cohorts` : 'none'],
-        ['Definition of default', spans.length ? spans.map((s) => `${s.segment}: ${describeSpans(s.spans) ?? 'not stated'}`).join('; ') : (d.defaultDefinition ?? 'not stated')],
+        ['Definition of default', definitionText(spans, d.defaultDefinition)],
         ['Superseded', d.supersededBy ? `yes, by dataset ${d.supersededBy.id} “${d.supersededBy.name}”` : 'no'],
       ],
     },

@@ -62,13 +62,18 @@ function keyValues(doc: Doc, rows: [string, string][]): void {
 function columnWidths(doc: Doc, columns: string[], rows: string[][]): number[] {
   const total = contentWidth(doc);
   const want = columns.map((c, i) => Math.max(doc.widthOfString(c), ...rows.map((r) => doc.widthOfString(r[i] ?? ''))) + 8);
-  const min = 40;
+  // No column narrower than the longest word of its header (headers are not broken inside a word).
+  doc.font(BOLD);
+  const min = columns.map((c) => Math.max(...c.split(/\s+/).map((w) => doc.widthOfString(w))) + 8);
+  doc.font(REGULAR);
   const sum = want.reduce((s, w) => s + w, 0);
   if (sum <= total) return want.map((w) => (w * total) / sum);
-  // Too wide: give each column its share, never below the minimum, long columns wrap.
-  const capped = want.map((w) => Math.max(min, Math.min(w, total * 0.45)));
-  const cs = capped.reduce((s, w) => s + w, 0);
-  return capped.map((w) => (w * total) / cs);
+  // Too wide: long columns are capped and wrap; the share of each never falls below its minimum.
+  const capped = want.map((w, i) => Math.max(min[i], Math.min(w, total * 0.45)));
+  const fixedW = capped.reduce((s, w, i) => s + (w === min[i] ? w : 0), 0);
+  const flexible = capped.reduce((s, w, i) => s + (w === min[i] ? 0 : w), 0);
+  const room = Math.max(0, total - fixedW);
+  return capped.map((w, i) => (w === min[i] || flexible === 0 ? w : (w * room) / flexible));
 }
 
 function table(doc: Doc, b: Extract<Block, { kind: 'table' }>): void {

@@ -114,7 +114,7 @@ describe('a superseded dataset flags every value drawn from it, through to the A
     const stored = (await getVersionPage(analyst, v.id)).evidence.backtest!;
     expect(stored.status).toBe('done');
     expect(stored.result).toMatchObject({ p: v.pd, rho: v.finalValue, periods: ['2020', '2021'] });
-    expect(stored.years[1]).toMatch(/^2021: 400 defaults of 4000 \(10\.00%\)/);
+    expect(stored.years[1]).toMatch(/^2021: 400 defaults of 4,000 \(10\.00%\)/);
   });
 
   it('a newer dataset with later years of the segment flags it too, without supersession', async () => {

@@ -65,8 +65,8 @@ export default async function ModelPage({ params }: { params: Promise<{ id: stri
           <h2>Webhook</h2>
           {m.webhookUrl ? (
             <>
-              <p className="text-sm break-all">
-                POST to <code>{m.webhookUrl}</code>, signed with HMAC-SHA256 over the body (header <code>X-Rhobook-Signature: sha256=…</code>), with the
+              <p className="text-sm">
+                POST to <code className="break-all">{m.webhookUrl}</code>, signed with HMAC-SHA256 over the body (header <code>X-Rhobook-Signature: sha256=…</code>), with the
                 delivery id in <code>X-Rhobook-Delivery</code> (the same on every retry) and the event in <code>X-Rhobook-Event</code>. Failed deliveries
                 are retried with backoff, eight times at most.
               </p>
