@@ -2,7 +2,7 @@
  * The fit of one segment's panel: the five estimators, the intervals of binomialMle, the
  * diagnostics, what the estimate implies, and (optionally) the parametric bootstrap and the
  * estimator audit (lib/stats/audit.ts). Its result,
- * {@link SegmentFit}, is the per-segment JSON of the engine CLI (issue 3) minus `timing`, plus the
+ * {@link SegmentFit}, is the per-segment JSON of the engine CLI minus `timing`, plus the
  * fields the review screens need (profileCurve, diagnostics, implications, observed).
  *
  * Pure and single-threaded. For large bootstraps and audits, lib/engine's fitPanelParallel runs the
@@ -14,7 +14,7 @@ import { binomialMleWithProfile, RHO_SEARCH_LIMIT, type ProfileLikelihood } from
 import { jointDefault } from './estimators/joint-default';
 import { momentVariance } from './estimators/moment-variance';
 import { momentVarianceCorrected } from './estimators/moment-variance-corrected';
-import type { Estimate, EstimateStatus } from './estimators/types';
+import type { Estimate } from './estimators/types';
 import { vasicekMle } from './estimators/vasicek-mle';
 import { capitalImplications, type CapitalConvention, type Implications } from './capital-implications';
 import { panelDiagnostics, type Diagnostics } from './diagnostics';
@@ -35,17 +35,8 @@ import type { AssetClass } from './irb';
 // The result shape (shared with the review screens: keep the names)
 // ---------------------------------------------------------------------------------------------
 
-/** An estimate of one of the five estimators: `{ rho, pd, status, reason? }`. */
-export interface EstimateDto {
-  rho: number | null;
-  pd: number | null;
-  status: EstimateStatus;
-  /** A sentence whenever status is not `ok`. */
-  reason?: string;
-}
-
-/** binomialMle with its log-likelihood and three intervals (issue 3's CLI JSON). */
-export interface BinomialMleDto extends EstimateDto {
+/** binomialMle with its log-likelihood and three intervals (the CLI's per-segment JSON). */
+export interface BinomialMleDto extends Estimate {
   /** Log-likelihood at the estimate, binomial coefficients included; null when undefined. */
   logLik: number | null;
   /** The maximum is at rho = 0 exactly. */
@@ -70,12 +61,12 @@ export interface ObservedPeriod {
 }
 
 /**
- * The fit of one segment (issue 3's per-segment CLI JSON without `timing`, plus review fields).
+ * The fit of one segment (the CLI's per-segment JSON without `timing`, plus review fields).
  *
  * ```
  * { segment, T, periods: string[],
  *   estimates: { binomialMle: BinomialMleDto, vasicekMle, momentVariance,
- *                momentVarianceCorrected, jointDefault: EstimateDto },
+ *                momentVarianceCorrected, jointDefault: Estimate },
  *   warnings: [{ code, message }],
  *   level,                       // the interval level asked for
  *   profileCurve: [{ rho, logLik }],   // ~40 points of l*(rho), [] without an MLE
@@ -92,10 +83,10 @@ export interface SegmentFit {
   periods: string[];
   estimates: {
     binomialMle: BinomialMleDto;
-    vasicekMle: EstimateDto;
-    momentVariance: EstimateDto;
-    momentVarianceCorrected: EstimateDto;
-    jointDefault: EstimateDto;
+    vasicekMle: Estimate;
+    momentVariance: Estimate;
+    momentVarianceCorrected: Estimate;
+    jointDefault: Estimate;
   };
   warnings: FitWarning[];
   /** Level of every interval in this fit. */
@@ -252,7 +243,8 @@ function assertOptions(options: FitPanelOptions): void {
   }
 }
 
-function dto(e: Estimate): EstimateDto {
+/** The fields of an estimate that the result carries (an estimator's extra fields, such as binomialMle's logLik, left out). */
+function dto(e: Estimate): Estimate {
   return e.reason === undefined ? { rho: e.rho, pd: e.pd, status: e.status } : { rho: e.rho, pd: e.pd, status: e.status, reason: e.reason };
 }
 
