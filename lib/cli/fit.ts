@@ -1,7 +1,7 @@
 /**
  * `rhobook fit FILE.csv [--json] [--segment NAME] [--from PERIOD] [--to PERIOD] [--level 0.95]
  * [--bootstrap B] [--seed N] [--threads N] [--asset-class CLASS] [--turnover S]`: fits every segment of a cohort
- * CSV (DESIGN.md, `segment,period,obligors,defaults`) and prints issue 3's JSON document or a
+ * CSV (DESIGN.md, `segment,period,obligors,defaults`) and prints the engine's JSON document or a
  * readable table. The file is validated by lib/ingest's validateCohortText, the same rules as an
  * upload; any error stops the run with exit code 2 and the file's line, column and problem.
  */

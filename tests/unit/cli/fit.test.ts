@@ -31,7 +31,7 @@ function tempCsv(text: string): string {
 }
 
 describe('cli fit --json (spawned)', () => {
-  it('prints the issue 3 document for a two-segment file, with panel A and B values', async () => {
+  it('prints the JSON document for a two-segment file, with panel A and B values', async () => {
     const { code, stdout } = await run('npm', ['run', '--silent', 'cli', '--', 'fit', CSV, '--json'], { cwd: ROOT, maxBuffer: 1 << 26 }).then(
       (r) => ({ code: 0, ...r }),
     );
@@ -44,7 +44,7 @@ describe('cli fit --json (spawned)', () => {
     for (const key of ['segment', 'T', 'periods', 'estimates', 'warnings', 'timing']) expect(a).toHaveProperty(key);
     expect(a.timing.ms).toBeGreaterThan(0);
     const m = a.estimates.binomialMle;
-    // issue 3, computed with SciPy 1.17
+    // engine specification, computed with SciPy 1.17
     expect(Math.abs(m.rho! - 0.037091)).toBeLessThan(1e-5);
     expect(Math.abs(m.pd! - 0.013307)).toBeLessThan(1e-5);
     expect(Math.abs(m.logLik! - -33.785195)).toBeLessThan(1e-5);
@@ -55,7 +55,7 @@ describe('cli fit --json (spawned)', () => {
     expect(m.intervals.bootstrap).toBeNull();
     expect(Math.abs(a.estimates.momentVariance.rho! - 0.05111)).toBeLessThan(1e-6);
     expect(Math.abs(a.estimates.jointDefault.rho! - 0.037745)).toBeLessThan(1e-6);
-    // issue 3, computed with SciPy 1.17
+    // engine specification, computed with SciPy 1.17
     expect(b.estimates.vasicekMle).toMatchObject({ rho: null, pd: null, status: 'undefined' });
     expect(typeof b.estimates.vasicekMle.reason).toBe('string');
     expect(Math.abs(b.estimates.binomialMle.rho! - 0.06262)).toBeLessThan(1e-5);

@@ -17,7 +17,7 @@ describe('estimator audit', () => {
   });
 
   it('replication r is the estimate on the panel simulated from deriveSeed(seed, r)', () => {
-    // definition (issue 3: simulate at the fitted (p, rho) with the same n_t, seeded)
+    // definition (DESIGN.md estimator audit: simulate at the fitted (p, rho) with the same n_t, seeded)
     const [rep] = auditRange(spec, 5, 6);
     const sim = simulatePanel({ pd: spec.pd, rho: spec.rho, obligors: spec.obligors.slice() }, createRng(deriveSeed(spec.seed, 5)));
     expect(rep.index).toBe(5);

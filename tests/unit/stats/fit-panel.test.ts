@@ -16,11 +16,11 @@ const input = (name: Name): PanelInput => {
   return { segment: `Panel ${name}`, periods: years(p.obligors.length), obligors: p.obligors, defaults: p.defaults };
 };
 
-describe('fitPanel: the worked panels of issue 3', () => {
+describe('fitPanel: the worked panels of the engine specification', () => {
   it('panel A', () => {
     const f = fitPanel(input('A'));
     const m = f.estimates.binomialMle;
-    // issue 3, computed with SciPy 1.17 (tolerances as stated there)
+    // engine specification, computed with SciPy 1.17 (tolerances as stated there)
     expect(Math.abs(m.rho! - 0.037091)).toBeLessThan(1e-5);
     expect(Math.abs(m.pd! - 0.013307)).toBeLessThan(1e-5);
     expect(Math.abs(m.logLik! - -33.785195)).toBeLessThan(1e-5);
@@ -35,7 +35,7 @@ describe('fitPanel: the worked panels of issue 3', () => {
   it('panel B', () => {
     const f = fitPanel(input('B'));
     const m = f.estimates.binomialMle;
-    // issue 3, computed with SciPy 1.17
+    // engine specification, computed with SciPy 1.17
     expect(f.estimates.vasicekMle).toMatchObject({ rho: null, pd: null, status: 'undefined' });
     expect(f.estimates.vasicekMle.reason).toMatch(/default rate of 0/);
     expect(Math.abs(m.rho! - 0.06262)).toBeLessThan(1e-5);
@@ -61,7 +61,7 @@ describe('fitPanel against the SciPy fixtures', () => {
     expect(Math.abs(m.intervals.profile!.lower - e.binomialMle.profile95[0])).toBeLessThan(1e-5);
     expect(Math.abs(m.intervals.profile!.upper - e.binomialMle.profile95[1])).toBeLessThan(1e-5);
     if ('se' in e.binomialMle) expect(Math.abs(m.intervals.wald!.se / (e.binomialMle as { se: number }).se - 1)).toBeLessThan(1e-2);
-    else expect(m.intervals.wald).toBeNull(); // issue 3: no Wald interval at the boundary
+    else expect(m.intervals.wald).toBeNull(); // DESIGN.md: no Wald interval at the boundary
     for (const key of ['momentVariance', 'momentVarianceCorrected', 'jointDefault'] as const) {
       const want = e[key].rho;
       if (want === null) expect(f.estimates[key].rho).toBeNull();
@@ -83,7 +83,7 @@ describe('fitPanel against the SciPy fixtures', () => {
 describe('the SegmentFit shape', () => {
   const f = fitPanel(input('A'));
 
-  it('carries the issue fields, the observed series and the engine keys', () => {
+  it('carries the per-segment fields of the CLI, the observed series and the engine keys', () => {
     expect(Object.keys(f.estimates)).toEqual([...ESTIMATOR_KEYS]);
     expect(f).toMatchObject({ segment: 'Panel A', T: 10, periods: years(10), level: 0.95 });
     expect(f.observed[2]).toEqual({ period: '2003', obligors: 1100, defaults: 25, dr: 25 / 1100 });
@@ -172,7 +172,7 @@ describe('bootstrap and audit in fitPanel', () => {
     const b = whole.estimates.binomialMle.intervals.bootstrap!;
     expect(b).toMatchObject({ level: 0.95, replications: 12, seed: 42, failed: 0 });
     expect(b.lower).toBeLessThanOrEqual(b.upper);
-    // the audit simulates at the fitted values with the segment's own n_t (issue 3)
+    // the audit simulates at the fitted values with the segment's own n_t (DESIGN.md estimator audit)
     expect(whole.estimatorAudit).toMatchObject({ replications: 6, seed: 43, periods: 10 });
     expect(whole.estimatorAudit!.truth).toEqual({ pd: whole.estimates.binomialMle.pd, rho: whole.estimates.binomialMle.rho });
     expect(() => completeSegmentFit(prepared, { bootstrap: reps })).toThrow(/audit replications are missing/);
