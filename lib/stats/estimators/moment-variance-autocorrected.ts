@@ -1,6 +1,6 @@
 import type { Panel } from '../panel';
-import { solveMomentEquation } from './moment-equation';
-import { momentTarget } from './moment-target';
+import { momentEstimate } from './moment-estimate';
+import { CONSTANT_RATE } from './moment-variance';
 import { undefinedEstimate, type Estimate } from './types';
 
 /**
@@ -34,20 +34,11 @@ import { undefinedEstimate, type Estimate } from './types';
  * variance of a stationary series); Gordy (2000), Journal of Banking & Finance 24:119-149.
  */
 export function momentVarianceAutocorrected(panel: Panel): Estimate {
-  const m = momentTarget('momentVarianceAutocorrected', panel);
-  if (m.kind === 'undefined') return undefinedEstimate(m.reason);
-  const { p, target } = m;
-  if (!(target > 0)) {
-    return undefinedEstimate('The default rate is the same in every period: the variance target is 0, which the equation cannot use.');
-  }
-  const solution = solveMomentEquation(p, target);
-  if (solution.kind === 'too-large') {
-    return undefinedEstimate(
-      `The autocorrelation-corrected variance ${target.toPrecision(4)} is at least the largest the model allows at this PD (${solution.maximum.toPrecision(4)}).`,
-    );
-  }
-  if (!solution.converged) {
-    return { rho: solution.rho, pd: p, status: 'not-converged', reason: 'The root finder did not meet its tolerance.' };
-  }
-  return { rho: solution.rho, pd: p, status: 'ok' };
+  return momentEstimate('momentVarianceAutocorrected', panel, {
+    atOrBelowZero: () => undefinedEstimate(CONSTANT_RATE),
+    tooLarge: (_p, target, maximum) =>
+      undefinedEstimate(
+        `The autocorrelation-corrected variance ${target.toPrecision(4)} is at least the largest the model allows at this PD (${maximum.toPrecision(4)}).`,
+      ),
+  });
 }
