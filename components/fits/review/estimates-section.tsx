@@ -35,6 +35,7 @@ export function EstimatesSection({ seg, bootstrapRequested }: ReviewContext) {
             <tbody>
               {ESTIMATOR_ORDER.map((k) => {
                 const e = seg.estimates[k];
+                if (!e) return null;
                 return (
                   <tr key={k} className={k === seg.chosen ? 'bg-[var(--color-accent-soft)]' : undefined}>
                     <td>{estimatorLabel(k)}</td>

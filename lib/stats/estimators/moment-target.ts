@@ -45,8 +45,13 @@ export interface AutocorrelationCorrection {
   factor: number;
 }
 
-/** Sample variance with divisor T - 1 (two-pass). */
+/**
+ * Sample variance with divisor T - 1 (two-pass). Equal values give 0 exactly: their computed mean
+ * can differ from them by a rounding (ten rates of 0.01 average to 0.009999999999999998), which
+ * would leave a variance of ~1e-36 and turn "no variation" into a tiny correlation.
+ */
 export function sampleVariance(values: readonly number[]): number {
+  if (values.every((v) => v === values[0])) return 0;
   const m = mean(values);
   let s = 0;
   for (const v of values) s += (v - m) * (v - m);

@@ -155,4 +155,12 @@ describe('estimator boundaries reported as such', () => {
     expect(e).toMatchObject({ rho: null, pd: null, status: 'undefined' });
     expect(e.reason).toMatch(/single period/);
   });
+
+  it('momentVariance: a default rate the same in every period is undefined, not rho = 0 from a rounding', () => {
+    // ten rates of 10/1000 = 0.01 average to 0.009999999999999998 in floating point (common
+    // practice), which left a sample variance of ~3e-36 and an "ok" rho of 0
+    const flat = { obligors: new Array(10).fill(1000), defaults: new Array(10).fill(10) };
+    expect(sampleVariance(flat.defaults.map((d, t) => d / flat.obligors[t]))).toBe(0);
+    expect(momentVariance(flat)).toMatchObject({ rho: null, status: 'undefined', reason: expect.stringMatching(/same in every period/) });
+  });
 });
