@@ -12,6 +12,7 @@
  */
 import { auditRange, MAX_AUDIT_REPLICATIONS, mergeAudit, type AuditReplication, type AuditSpec } from './audit';
 import { capitalImplications, type CapitalConvention } from './capital-implications';
+import { cohortTooLarge } from './cohort-limit';
 import { panelDiagnostics } from './diagnostics';
 import { binomialMleWithProfile, RHO_SEARCH_LIMIT, type ProfileLikelihood } from './estimators/binomial-mle';
 import { jointDefault } from './estimators/joint-default';
@@ -109,13 +110,7 @@ export interface FitPanelOptions {
   clock?: () => number;
 }
 
-/**
- * Largest cohort the engine fits: 10^9 obligors in one period. Up to there the likelihood is
- * checked against a 40-digit integral (tests/fixtures/engine/make_large_cohorts.py); beyond it
- * the n-sized terms of the log-integrand lose more than 1e-7 to rounding and the fit slows down,
- * so a larger count (the upload accepts whole numbers up to 2^53) is refused with a sentence.
- */
-export const MAX_OBLIGORS_PER_PERIOD = 1e9;
+export { MAX_OBLIGORS_PER_PERIOD } from './cohort-limit';
 
 /** Checks a segment's panel and throws RangeError naming the segment, period and problem. */
 export function assertPanelInput(input: PanelInput): void {
@@ -143,11 +138,8 @@ export function assertPanelInput(input: PanelInput): void {
     if (!Number.isSafeInteger(n) || n < 1) {
       throw new RangeError(`fitPanel: segment "${name}", period ${label}: obligors = ${n}; it must be a positive whole number.`);
     }
-    if (n > MAX_OBLIGORS_PER_PERIOD) {
-      throw new RangeError(
-        `fitPanel: segment "${name}", period ${label}: ${n} obligors is more than the engine handles (${MAX_OBLIGORS_PER_PERIOD.toExponential(0)} per period, where its likelihood is checked against a 40-digit integral); no loan book has a cohort this large, so check the file (a sum of balances in the obligors column?).`,
-      );
-    }
+    const tooLarge = cohortTooLarge(n);
+    if (tooLarge !== null) throw new RangeError(`fitPanel: segment "${name}", period ${label}: ${tooLarge}`);
     if (!Number.isSafeInteger(d) || d < 0 || d > n) {
       throw new RangeError(
         `fitPanel: segment "${name}", period ${label}: defaults = ${d} with obligors = ${n}; defaults must be a whole number from 0 to obligors.`,
