@@ -186,7 +186,7 @@ export function DraftForm(
             ) : (
               <span className="text-[var(--color-bad)]">not computed by this fit for this estimator</span>
             )}
-            {model ? <>; model: {FIT_MODEL_LABELS[model].toLowerCase()}</> : null}
+            {model ? <>; model: {FIT_MODEL_LABELS[model]}</> : null}
           </p>
         </fieldset>
       ) : (

@@ -124,7 +124,7 @@ export function ForestChart({ seg, supervisory }: { seg: FitSegmentResult; super
               : own ? (
                   <g>
                     <line x1={x(own.lower)} x2={x(own.upper)} y1={y} y2={y} stroke="var(--color-ink)" strokeWidth={1.5} />
-                    <text x={x(own.upper) + 4} y={y - 5} fontSize={9.5} fill="var(--color-muted)">
+                    <text x={x(own.lower)} y={y - 5} fontSize={9.5} fill="var(--color-muted)">
                       {own.label}
                     </text>
                   </g>

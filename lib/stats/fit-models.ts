@@ -19,10 +19,10 @@ import type { EstimatorKey } from './estimators/types';
 export const FIT_MODELS = ['independent', 'ar1'] as const;
 export type FitModel = (typeof FIT_MODELS)[number];
 
-/** Plain names of the models. */
+/** Plain names of the models, as they read inside a sentence. */
 export const FIT_MODEL_LABELS: Readonly<Record<FitModel, string>> = {
-  independent: 'Independent years',
-  ar1: 'Persistent factor (AR(1))',
+  independent: 'independent years',
+  ar1: 'a persistent factor (AR(1))',
 };
 
 /** The factor model each estimator assumes. */

@@ -32,7 +32,7 @@ export interface BreakTestPlan {
 
 /** The sentence of a break test without a bootstrap. */
 export const NO_BREAK_P_VALUE =
-  'No p-value: the largest likelihood-ratio statistic over the split years is not chi-square distributed (Andrews 1993), so its p-value needs a parametric bootstrap; ask for one (the CLI\'s --bootstrap B, or the break test\'s replications of the fit request).';
+  'No p-value: the largest likelihood-ratio statistic over the split years is not chi-square distributed (Andrews 1993), so its p-value needs a parametric bootstrap; ask for one (in the new-fit form, the p-value of the break test; on the command line, --bootstrap B).';
 
 /**
  * Stage 1 of the stability block: the jackknife, the rolling window and the break test's

@@ -1,5 +1,5 @@
 import { ScrollBox } from '@/components/layout/scroll-box';
-import { count, level, pct, pd, rho, signed } from '@/lib/format';
+import { count, fixed, level, pct, pd, rho, signed } from '@/lib/format';
 import type { FitSegmentResult } from '@/lib/fits/results';
 import { estimatorLabel, INDEPENDENT_ESTIMATOR_KEYS } from '@/lib/stats/estimators/types';
 import type { ReviewContext } from './types';
@@ -55,7 +55,9 @@ export function SimulationSection({ seg }: ReviewContext) {
     <div className="space-y-3">
       <p className="text-sm">
         {count(audit.replications, 'panel')} simulated with this segment&apos;s own cohort sizes and {count(audit.periods, 'period')} at the
-        fitted values (ρ = {rho(audit.truth.rho)}, PD {pd(audit.truth.pd)}; seed {audit.seed}), every estimator run on each.{' '}
+        fitted values (ρ = {rho(audit.truth.rho)}, PD {pd(audit.truth.pd)}
+        {audit.truth.phi !== undefined ? `, a persistent factor with φ = ${fixed(audit.truth.phi, 2)}, the AR(1) model's fit` : ''}; seed {audit.seed}), every
+        estimator run on each.{' '}
         {mleAudit && mleAudit.bias !== null && mleAudit.rmse !== null ? (
           <>
             The likelihood estimate misses the value it was simulated from by {rho(mleAudit.rmse)} (RMSE), with a bias of {signed(mleAudit.bias)}

@@ -83,7 +83,7 @@ export default async function VersionPage({
               [{fmt(v.intervalLower, 6)}, {fmt(v.intervalUpper, 6)}] {v.intervalMethod}, {fmt(v.intervalLevel * 100, 2)}%
             </dd>
             <dt>Model</dt>
-            <dd data-testid="factor-model">Gaussian one-factor, {FIT_MODEL_LABELS[v.factorModel].toLowerCase()}</dd>
+            <dd data-testid="factor-model">Gaussian one-factor, {FIT_MODEL_LABELS[v.factorModel]}</dd>
             <dt>Data window</dt>
             <dd>
               {v.windowFrom} to {v.windowTo}
