@@ -137,6 +137,13 @@ export type Job = typeof jobs.$inferSelect;
 // their versions under maker-checker review, the append-only audit trail, API tokens and mail
 // ---------------------------------------------------------------------------------------------
 
+/**
+ * The factor model an assumption's value was estimated under (lib/stats/fit-models.ts, FIT_MODELS:
+ * the same list, checked by a unit test): years independent, or a persistent AR(1) factor.
+ */
+export const factorModels = ['independent', 'ar1'] as const;
+export type FactorModel = (typeof factorModels)[number];
+
 /** DESIGN.md "Assumption lifecycle"; the transitions are in lib/assumptions/lifecycle.ts. */
 export const assumptionStatuses = [
   'draft',
@@ -187,6 +194,8 @@ export const assumptionVersions = mysqlTable(
     engineVersion: varchar('engine_version', { length: 60 }).notNull(),
     seeds: json('seeds').notNull(),
     estimator: varchar('estimator', { length: 40 }).notNull(),
+    /** The factor model of the estimator (independent years or an AR(1) factor); versions drafted before it was kept are of the independent model. */
+    factorModel: mysqlEnum('factor_model', factorModels).notNull().default('independent'),
     estimate: double('estimate').notNull(),
     intervalMethod: varchar('interval_method', { length: 20 }).notNull(),
     intervalLevel: double('interval_level').notNull(),

@@ -6,6 +6,16 @@ import { useRouter } from 'next/navigation';
 import { useState, type FormEvent } from 'react';
 import { AppError } from '@/lib/errors';
 import { apiSend } from '@/lib/client/api';
+import { estimatorLabel, type EstimatorKey } from '@/lib/stats/estimators/types';
+import { ESTIMATOR_MODEL, FIT_MODEL_LABELS } from '@/lib/stats/fit-models';
+
+/** The interval methods of the engine's results, in the order offered, with their names. */
+const INTERVAL_LABELS: readonly (readonly [string, string])[] = [
+  ['profile', 'profile likelihood'],
+  ['wald', 'Wald (logit scale)'],
+  ['bootstrap', 'parametric bootstrap'],
+  ['chiSquare', 'chi-square (closed form, large-pool approximation)'],
+];
 
 export type FitOption = {
   fitId: number;
@@ -74,7 +84,11 @@ export function DraftForm(
   const option = props.mode === 'create' ? props.options.find((o) => `${o.fitId}|${o.segment}` === fitKey) : undefined;
   const est = option?.estimates[estimator];
   const estimate = props.mode === 'edit' ? props.estimate : (est?.rho ?? null);
-  const interval = est?.intervals?.[intervalMethod];
+  // The interval asked for when this estimator has it, else the first it has: each estimator has its own (profile, chi-square, bootstrap)
+  const methods = INTERVAL_LABELS.filter(([k]) => est?.intervals?.[k]);
+  const method = est?.intervals?.[intervalMethod] ? intervalMethod : (methods[0]?.[0] ?? intervalMethod);
+  const interval = est?.intervals?.[method];
+  const model = ESTIMATOR_MODEL[estimator as EstimatorKey];
   const sum = estimate === null ? null : estimate + Number(margins.data.value || 0) + Number(margins.practice.value || 0) + Number(margins.general.value || 0);
   const conservative = sum !== null && Number.isFinite(sum) ? round(sum) : null;
 
@@ -97,7 +111,7 @@ export function DraftForm(
         return props.versionId;
       }
       if (!option) throw new AppError('invalid:fit', 'Choose a fit and segment to draft from.');
-      const r = await apiSend<{ id: number }>('POST', '/api/assumptions', { ...body, fitId: option.fitId, segment: option.segment, estimator, intervalMethod });
+      const r = await apiSend<{ id: number }>('POST', '/api/assumptions', { ...body, fitId: option.fitId, segment: option.segment, estimator, intervalMethod: method });
       return r.id;
     },
     onSuccess: (id) => {
@@ -136,7 +150,7 @@ export function DraftForm(
                 const usable = e.rho !== null && Object.keys(e.intervals).length > 0;
                 return (
                   <option key={k} value={k} disabled={!usable}>
-                    {k}
+                    {estimatorLabel(k)}
                     {e.rho === null ? ' (no value on this segment)' : !usable ? ' (no interval: cannot be drafted)' : ''}
                   </option>
                 );
@@ -145,19 +159,16 @@ export function DraftForm(
           </div>
           <div>
             <label className="label" htmlFor="interval-method">Interval</label>
-            <select id="interval-method" className="field" value={intervalMethod} onChange={(e) => setIntervalMethod(e.target.value)}>
-              {(
-                [
-                  ['profile', 'profile likelihood'],
-                  ['wald', 'Wald'],
-                  ['bootstrap', 'bootstrap'],
-                ] as const
-              ).map(([k, label]) => (
-                <option key={k} value={k} disabled={!!est && !est.intervals[k]}>
-                  {label}
-                  {est && !est.intervals[k] ? ' (not computed by this fit)' : ''}
-                </option>
-              ))}
+            <select id="interval-method" className="field" value={method} onChange={(e) => setIntervalMethod(e.target.value)}>
+              {methods.length > 0 ? (
+                methods.map(([k, label]) => (
+                  <option key={k} value={k}>
+                    {label}
+                  </option>
+                ))
+              ) : (
+                <option value={method}>none computed by this fit</option>
+              )}
             </select>
           </div>
           {option && props.open?.[option.segment] ? (
@@ -175,6 +186,7 @@ export function DraftForm(
             ) : (
               <span className="text-[var(--color-bad)]">not computed by this fit for this estimator</span>
             )}
+            {model ? <>; model: {FIT_MODEL_LABELS[model]}</> : null}
           </p>
         </fieldset>
       ) : (

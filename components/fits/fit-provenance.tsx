@@ -1,15 +1,20 @@
 import Link from 'next/link';
 import type { FitDto } from '@/lib/dal/fits';
 import { level, when } from '@/lib/format';
+import { FIT_MODEL_LABELS, type FitModel } from '@/lib/stats/fit-models';
 
-/** Where a fit's numbers come from: dataset and its hash, window, level, seeds, engine, who and when. */
+/** Where a fit's numbers come from: dataset and its hash, window, level, models, seeds, engine, who and when. */
 export function FitProvenance({ fit }: { fit: Pick<FitDto, 'datasetId' | 'datasetName' | 'datasetSha256' | 'request' | 'engineVersion' | 'createdBy' | 'createdAt'> }) {
   const r = fit.request;
+  // requests stored before the models were chosen ran the independent model alone
+  const models = (r.models as FitModel[] | undefined) ?? ['independent'];
   return (
     <p className="mt-1 text-sm text-[var(--color-muted)]" data-testid="fit-provenance">
       Dataset <Link href={`/data/${fit.datasetId}`}>#{fit.datasetId} {fit.datasetName}</Link> · SHA-256{' '}
       <code className="text-xs">{fit.datasetSha256.slice(0, 12)}…</code> · window{' '}
-      {r.from === undefined && r.to === undefined ? 'all periods' : `${r.from ?? 'first'}–${r.to ?? 'last'}`} · level {level(r.level)} · bootstrap{' '}
+      {r.from === undefined && r.to === undefined ? 'all periods' : `${r.from ?? 'first'}–${r.to ?? 'last'}`} · level {level(r.level)} · models{' '}
+      {models.map((m) => FIT_MODEL_LABELS[m]).join(' and ')}
+      {r.breakTest ? ` · break test B ${r.breakTest.replications}, seed ${r.breakTest.seed}` : ''} · bootstrap{' '}
       {r.bootstrap ? `B ${r.bootstrap.replications}, seed ${r.bootstrap.seed}` : 'none'} · simulation study{' '}
       {r.audit ? `R ${r.audit.replications}, seed ${r.audit.seed}` : 'none'} · engine {fit.engineVersion} · started by {fit.createdBy}{' '}
       {when(fit.createdAt)}

@@ -19,7 +19,7 @@ function intOrNaN(s: string): number {
   return /^\s*\d+\s*$/.test(s) ? Number(s) : Number.NaN;
 }
 
-/** The New fit form: dataset, segments, window, level, optional bootstrap and audit. */
+/** The New fit form: dataset, segments, window, level, the factor models, optional bootstraps (the break test's too) and audit. */
 export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
   const id = useId();
   const router = useRouter();
@@ -38,6 +38,12 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
   const [boot, setBoot] = useState(true);
   const [bootB, setBootB] = useState('200');
   const [bootSeed, setBootSeed] = useState('20260101');
+  const [independent, setIndependent] = useState(true);
+  const [ar1, setAr1] = useState(true);
+  const [rolling, setRolling] = useState('10');
+  const [breakBoot, setBreakBoot] = useState(false);
+  const [breakB, setBreakB] = useState('200');
+  const [breakSeed, setBreakSeed] = useState('20260103');
   const [audit, setAudit] = useState(false);
   const [auditR, setAuditR] = useState('50');
   const [auditSeed, setAuditSeed] = useState('20260102');
@@ -65,6 +71,21 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
     const body: Record<string, unknown> = { datasetId: dataset.id, segments: [...chosen], level: Number(level) };
     if (from) body.from = Number(from);
     if (to) body.to = Number(to);
+    const models = [...(independent ? ['independent'] : []), ...(ar1 ? ['ar1'] : [])];
+    if (models.length === 0) return setLocalError('Models: choose at least one.');
+    body.models = models;
+    if (independent) {
+      const w = intOrNaN(rolling);
+      if (!(w >= 3 && w <= 50)) return setLocalError('Rolling window: give a whole number of years from 3 to 50.');
+      body.rollingWindow = w;
+      if (breakBoot) {
+        const b = intOrNaN(breakB);
+        const s = intOrNaN(breakSeed);
+        if (!(b >= 20 && b <= 2000)) return setLocalError('Break test replications: give a whole number from 20 to 2,000.');
+        if (!Number.isFinite(s)) return setLocalError('Break test seed: give a whole number.');
+        body.breakTest = { replications: b, seed: s };
+      }
+    }
     if (boot) {
       const b = intOrNaN(bootB);
       const s = intOrNaN(bootSeed);
@@ -140,8 +161,37 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
         </div>
       </div>
       <fieldset className="space-y-2">
+        <legend className="label">Models</legend>
+        <label className="flex items-center gap-2 text-sm">
+          <input type="checkbox" checked={independent} onChange={(e) => setIndependent(e.target.checked)} /> Independent years: the five
+          estimators with their intervals, and the stability of ρ across the window
+        </label>
+        {independent ? (
+          <div className="grid gap-3 pl-6 sm:grid-cols-3">
+            <div>
+              <label className="label" htmlFor={`${id}-rolling`}>
+                Rolling window (years)
+              </label>
+              <input id={`${id}-rolling`} className="field num" inputMode="numeric" value={rolling} onChange={(e) => setRolling(e.target.value)} />
+            </div>
+            <label className="flex items-center gap-2 text-sm sm:col-span-2 sm:self-end sm:pb-2">
+              <input type="checkbox" checked={breakBoot} onChange={(e) => setBreakBoot(e.target.checked)} /> p-value of the break test (a
+              parametric bootstrap)
+            </label>
+          </div>
+        ) : null}
+        {independent && breakBoot ? (
+          <ReplicationFields id={`${id}-bt`} what="Break test" count={breakB} seed={breakSeed} onCount={setBreakB} onSeed={setBreakSeed} />
+        ) : null}
+        <label className="flex items-center gap-2 text-sm">
+          <input type="checkbox" checked={ar1} onChange={(e) => setAr1(e.target.checked)} /> A persistent factor (AR(1)): maximum likelihood
+          with φ, the test of independent years, and the autocorrelation-corrected moments
+        </label>
+      </fieldset>
+      <fieldset className="space-y-2">
         <label className="flex items-center gap-2 text-sm font-medium">
           <input type="checkbox" checked={boot} onChange={(e) => setBoot(e.target.checked)} /> Parametric bootstrap of the likelihood estimate
+          and of each moment estimator
         </label>
         {boot ? (
           <ReplicationFields id={`${id}-b`} what="Bootstrap" count={bootB} seed={bootSeed} onCount={setBootB} onSeed={setBootSeed} />
@@ -153,8 +203,9 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
           <ReplicationFields id={`${id}-a`} what="Audit" count={auditR} seed={auditSeed} onCount={setAuditR} onSeed={setAuditSeed} />
         ) : null}
         <p className="text-xs text-[var(--color-muted)]">
-          The bootstrap and the audit take a few seconds per hundred replications and segment. Seeds are stored with the run, so
-          the numbers can be reproduced exactly.
+          The bootstraps and the audit take a few seconds per hundred replications and segment; the break test&apos;s bootstrap
+          refits every split year, about twenty times a bootstrap replication, and the audit with the AR(1) model fits it on every
+          panel. Seeds are stored with the run, so the numbers can be reproduced exactly.
         </p>
       </fieldset>
       <PortfolioFields id={id} state={portfolio} onChange={setPortfolio} />

@@ -43,7 +43,7 @@ export function SegmentsOverview({ fitId, results, mayDraft }: { fitId: number; 
               );
             }
             const s = item.fit;
-            const chosen = s.estimates[s.chosen];
+            const chosen = s.estimates[s.chosen] ?? s.estimates.binomialMle;
             const profile = s.estimates.binomialMle.intervals.profile;
             const { cautions, notes } = splitWarnings(s);
             return (

@@ -1,5 +1,5 @@
 import { rho } from '@/lib/format';
-import { ESTIMATOR_ORDER, type FitSegmentResult } from '@/lib/fits/results';
+import { ESTIMATOR_ORDER, type EstimatorKey, type FitSegmentResult } from '@/lib/fits/results';
 import { estimatorLabel } from '@/lib/stats/estimators/types';
 
 /** Linear scale helper. */
@@ -26,17 +26,35 @@ function niceMax(v: number): number {
   return steps.find((s) => s >= v) ?? 1;
 }
 
+/** The interval an estimator other than binomialMle carries, with its name: chi-square, bootstrap or AR(1) profile. */
+function ownInterval(seg: FitSegmentResult, k: EstimatorKey): { label: string; lower: number; upper: number } | null {
+  const e = seg.estimates[k];
+  if (!e || k === 'binomialMle' || !('intervals' in e) || !e.intervals) return null;
+  const ivs = e.intervals as Record<string, { lower: number; upper: number } | null | undefined>;
+  for (const [key, label] of [
+    ['chiSquare', 'chi-square'],
+    ['bootstrap', 'bootstrap'],
+    ['profile', 'profile'],
+  ] as const) {
+    const iv = ivs[key];
+    if (iv) return { label, lower: iv.lower, upper: iv.upper };
+  }
+  return null;
+}
+
 /**
- * Forest chart: each estimator's rho; for the likelihood estimate its three intervals stacked
- * (profile, Wald on the logit scale, bootstrap percentile when run), the chosen estimator
- * highlighted, the supervisory correlation as a dashed reference line.
+ * Forest chart: each estimator's rho (those of the models the fit ran) with its interval: for the
+ * likelihood estimate its three intervals stacked (profile, Wald on the logit scale, bootstrap
+ * percentile when run), for the others the one each has (vasicekMle's chi-square, the moment
+ * estimators' bootstrap when run, ar1Mle's profile); the chosen estimator highlighted, the
+ * supervisory correlation as a dashed reference line.
  */
 export function ForestChart({ seg, supervisory }: { seg: FitSegmentResult; supervisory: number | null }) {
-  const keys = ESTIMATOR_ORDER;
+  const keys = ESTIMATOR_ORDER.filter((k) => seg.estimates[k] !== undefined);
   const mle = seg.estimates.binomialMle;
   const iv = mle.intervals;
   const values = [
-    ...keys.map((k) => seg.estimates[k].rho ?? 0),
+    ...keys.map((k) => Math.max(seg.estimates[k]!.rho ?? 0, ownInterval(seg, k)?.upper ?? 0)),
     iv.profile?.upper ?? 0,
     iv.wald?.upper ?? 0,
     iv.bootstrap?.upper ?? 0,
@@ -79,7 +97,8 @@ export function ForestChart({ seg, supervisory }: { seg: FitSegmentResult; super
         </g>
       ) : null}
       {keys.map((k, i) => {
-        const e = seg.estimates[k];
+        const e = seg.estimates[k]!;
+        const own = ownInterval(seg, k);
         const isMle = k === 'binomialMle';
         const h = isMle ? mleH : rowH;
         // The likelihood row has the name on its own line and its intervals stacked below it.
@@ -102,7 +121,14 @@ export function ForestChart({ seg, supervisory }: { seg: FitSegmentResult; super
                     </text>
                   </g>
                 ))
-              : null}
+              : own ? (
+                  <g>
+                    <line x1={x(own.lower)} x2={x(own.upper)} y1={y} y2={y} stroke="var(--color-ink)" strokeWidth={1.5} />
+                    <text x={x(own.lower)} y={y - 5} fontSize={9.5} fill="var(--color-muted)">
+                      {own.label}
+                    </text>
+                  </g>
+                ) : null}
             {e.rho !== null ? (
               <>
                 <circle cx={x(e.rho)} cy={y} r={chosen ? 5.5 : 4} fill={chosen ? 'var(--color-accent)' : 'white'} stroke="var(--color-accent)" strokeWidth={1.5} />

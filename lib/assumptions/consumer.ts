@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { assumptionStatuses, overduePolicyKinds } from '@/db/schema';
+import { FIT_MODELS } from '@/lib/stats/fit-models';
 import type { CsvValue } from '@/lib/csv';
 import { describeSpans, isMixed, mixedDefinitionCaution } from '@/lib/ingest/default-definition';
 import { assumptionCautions } from './cautions';
@@ -28,6 +29,14 @@ export const consumerVersionSchema = z.object({
   value: z.number().describe('The final value to use: the estimate plus the margins of conservatism, or above.'),
   pd: z.number().describe('The PD the correlation was fitted with; the value is valid only with it.'),
   estimator: z.string(),
+  model: z
+    .object({
+      copula: z.literal('gaussian').describe('The dependence model: the Vasicek one-factor (Gaussian copula) model.'),
+      factor: z
+        .enum(FIT_MODELS)
+        .describe('The systematic factor over time: "independent" (drawn afresh each year) or "ar1" (a persistent factor, Z_t = phi Z_(t-1) + sqrt(1 - phi^2) e_t).'),
+    })
+    .describe('The model the value was estimated under; versions drafted before the model was recorded are gaussian/independent.'),
   estimate: z.number(),
   interval,
   margins: z.object({ data: margin, practice: margin, general: margin }),
@@ -140,6 +149,7 @@ export function toConsumerVersion(v: VersionLike): ConsumerVersion {
     value: v.finalValue,
     pd: v.pd,
     estimator: v.estimator,
+    model: { copula: 'gaussian', factor: v.factorModel },
     estimate: v.estimate,
     interval: { method: v.intervalMethod, level: v.intervalLevel, lower: v.intervalLower, upper: v.intervalUpper },
     margins: {
@@ -231,6 +241,8 @@ export const exportColumns = [
   'value',
   'pd',
   'estimator',
+  'copula',
+  'factor_model',
   'estimate',
   'interval_method',
   'interval_level',
@@ -262,6 +274,8 @@ export function exportRow(c: ConsumerVersion): CsvValue[] {
     c.value,
     c.pd,
     c.estimator,
+    c.model.copula,
+    c.model.factor,
     c.estimate,
     c.interval.method,
     c.interval.level,

@@ -1,5 +1,7 @@
 import { createHash } from 'node:crypto';
 import { z } from 'zod';
+import type { FactorModel } from '@/db/schema';
+import { ESTIMATOR_KEYS } from '@/lib/stats/estimators/types';
 import { isIsoDate, reviewByProblem } from './dates';
 import type { DefinitionSpan } from '@/lib/ingest/default-definition';
 import { marginProblems } from './margins';
@@ -16,6 +18,11 @@ export type Evidence = {
   engineVersion: string;
   seeds: unknown;
   estimator: string;
+  /**
+   * The factor model the estimator assumes (ESTIMATOR_MODEL of lib/stats/fit-models.ts). Not in the
+   * content hash: it follows from the estimator, which is, so hashes taken before it was kept stay valid.
+   */
+  factorModel: FactorModel;
   estimate: number;
   intervalMethod: string;
   intervalLevel: number;
@@ -163,8 +170,10 @@ export const judgementSchema = z.object({
   reviewBy: isoDate('review-by date').optional(),
 });
 
-export const estimatorKeys = ['binomialMle', 'vasicekMle', 'momentVariance', 'momentVarianceCorrected', 'jointDefault'] as const;
-export const intervalMethods = ['profile', 'wald', 'bootstrap'] as const;
+/** Every estimator with an interval can be drafted: the five of DESIGN.md and the persistent-factor ones. */
+export const estimatorKeys = ESTIMATOR_KEYS;
+/** The interval keys of the engine's results: binomialMle's profile, Wald and bootstrap, vasicekMle's chi-square, the moment estimators' bootstrap, ar1Mle's profile. */
+export const intervalMethods = ['profile', 'wald', 'bootstrap', 'chiSquare'] as const;
 
 export const draftInputSchema = judgementSchema.extend({
   fitId: z.number({ message: 'Give the fit run (fitId) the assumption is drawn from.' }).int().positive(),

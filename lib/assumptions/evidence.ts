@@ -1,16 +1,22 @@
+import type { FactorModel } from '@/db/schema';
 import { AppError } from '@/lib/errors';
+import type { EstimatorKey } from '@/lib/stats/estimators/types';
+import { ESTIMATOR_MODEL } from '@/lib/stats/fit-models';
 
 /**
  * Picks the evidence of one segment and estimator out of a fit run's results (the JSON the engine
- * writes: segments[].estimates.<estimator> { rho, pd, intervals: { profile|wald|bootstrap:
- * { level, lower, upper } } }). A missing segment, an undefined estimate or a missing interval
- * is refused with a sentence: an assumption is never drafted on evidence that is not there.
+ * writes: segments[].estimates.<estimator> { rho, pd, intervals: { <method>: { level, lower, upper } } },
+ * the methods binomialMle's profile, wald and bootstrap, vasicekMle's chiSquare, the moment
+ * estimators' bootstrap and ar1Mle's profile), with the factor model the estimator assumes. A
+ * missing segment, an undefined estimate or a missing interval is refused with a sentence: an
+ * assumption is never drafted on evidence that is not there.
  */
 type Interval = { level: number; lower: number; upper: number };
 type Estimate = { rho: number | null; pd: number | null; status?: string; reason?: string; intervals?: Record<string, Interval | null> };
 type SegmentResult = { segment: string; periods?: string[]; estimates: Record<string, Estimate | undefined> };
 
 export type PickedEvidence = {
+  factorModel: FactorModel;
   estimate: number;
   pd: number;
   intervalLevel: number;
@@ -19,6 +25,14 @@ export type PickedEvidence = {
   windowFrom: string;
   windowTo: string;
 };
+
+/** The intervals an estimate has, for the sentence that refuses another. */
+function computed(est: Estimate): string {
+  const have = Object.entries(est.intervals ?? {})
+    .filter(([, iv]) => iv && typeof iv.lower === 'number')
+    .map(([k]) => k);
+  return have.length ? ` (for this estimator: ${have.join(', ')})` : ' (this estimator has none in this fit)';
+}
 
 export function pickEvidence(
   results: unknown,
@@ -41,12 +55,13 @@ export function pickEvidence(
   if (!iv || typeof iv.lower !== 'number' || typeof iv.upper !== 'number') {
     throw new AppError(
       'invalid:interval',
-      `The fit has no ${intervalMethod} interval for ${estimator} on ${segment}. Choose an interval the fit computed (the maximum-likelihood fit has profile and Wald intervals).`,
+      `The fit has no ${intervalMethod} interval for ${estimator} on ${segment}. Choose an interval the fit computed${computed(est)}.`,
       { field: 'intervalMethod' },
     );
   }
   const periods = seg.periods ?? [];
   return {
+    factorModel: ESTIMATOR_MODEL[estimator as EstimatorKey] ?? 'independent',
     estimate: est.rho,
     pd: est.pd,
     intervalLevel: iv.level,

@@ -1,7 +1,7 @@
 /**
  * Coverage study of the persistent-factor model (`npm run bench:ar1-coverage`): R panels simulated
- * with an AR(1) factor at p = 1%, rho = 0.12, n = 1000, T = 20, phi = 0.6 (the design of issue 10's
- * goal), each fitted by ar1Mle with its profile interval of rho and by the independent-factor
+ * with an AR(1) factor at p = 1%, rho = 0.12, n = 1000, T = 20, phi = 0.6 (the design of the persistent
+ * model's coverage goal), each fitted by ar1Mle with its profile interval of rho and by the independent-factor
  * model (binomialMle with its profile and Wald intervals), through the estimator audit
  * (lib/stats/audit.ts, `persistent`) on lib/engine's worker threads. Prints the coverage of each
  * interval with its Monte Carlo standard error, the mean widths, the bias of each estimator and

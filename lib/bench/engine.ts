@@ -16,8 +16,14 @@
  * 6. the models over time: ar1Mle with its profile interval of rho (target < 300 ms), the
  *    interval and profile of phi, the chi-square interval of vasicekMle, the moment estimators'
  *    bootstraps (B = 1000 each, this thread), the jackknife of all estimators (target < 500 ms) and
- *    the structural-break test with B = 200 in this thread (target < 10 s on the worker threads,
- *    which the engine adds; the single-thread figure is printed now).
+ *    the structural-break test with B = 200 on the worker threads (target < 10 s) and, for
+ *    comparison, in this thread;
+ * 7. a fit of the demo cohort dataset (lib/demo: 5 segments, 15-25 years) through the engine
+ *    (lib/engine's fitPanelParallel on a started pool, as the fit job runs it) with every model,
+ *    the bootstraps at B = 1000 and the estimator audit at R = 50 (the new-fit form's default),
+ *    the break statistic without its bootstrap (the form's default), target < 30 s; then the
+ *    same with the break test's bootstrap at B = 200 (the form's default when asked for). The
+ *    slowest stages are printed.
  *
  * The coverage study of the AR(1) model's interval is a separate script (lib/bench/ar1-coverage.ts).
  *
@@ -48,7 +54,12 @@ import { ar1PhiInterval, ar1PhiProfileCurve, ar1ProfileInterval } from '@/lib/st
 import { vasicekChiSquareInterval } from '@/lib/stats/intervals/chi-square';
 import { momentBootstrap } from '@/lib/stats/intervals/moment-bootstrap';
 import { MOMENT_ESTIMATOR_KEYS } from '@/lib/stats/estimators/moment-target';
-import { breakTest } from '@/lib/stats/stability/break-test';
+import { breakTest, breakTestNullModel, summariseBreakTest, supLrStatistic } from '@/lib/stats/stability/break-test';
+import { fitPanelParallel } from '@/lib/engine';
+import { panelsFromRows } from '@/lib/cli/fit';
+import { fenmoorCohortCsv } from '@/lib/demo';
+import { validateCohortText } from '@/lib/ingest';
+import type { FitModel } from '@/lib/stats/fit-models';
 import { jackknife } from '@/lib/stats/stability/jackknife';
 import { rollingWindow } from '@/lib/stats/stability/rolling-window';
 
@@ -206,7 +217,52 @@ async function main(): Promise<void> {
   row('jackknife of all estimators', await time(() => jackknife(labelled), RUNS, 1), `${panel.obligors.length} x 5 leave-one-out fits; target < 500 ms`);
   row('rolling window (10 years) with profile intervals', await time(() => rollingWindow(labelled), RUNS, 1));
   let breakResult: ReturnType<typeof breakTest> | null = null;
-  row('break test B = 200, this thread', await time(() => (breakResult = breakTest(labelled, { replications: 200, seed: 9 })), 1, 0), 'target < 10 s on the worker threads (engine, second round)');
+  // The break test's bootstrap on the worker threads, as the engine runs it (tasks of 25 replications).
+  const breakPool = new EnginePool(THREADS);
+  await breakPool.start();
+  const nullModel = breakTestNullModel(labelled);
+  if ('status' in nullModel) throw new Error(`the break test has no null model on panel E: ${nullModel.reason}`);
+  const breakSpec = { obligors: panel.obligors, pd: nullModel.pd, rho: nullModel.rho, seed: 9 };
+  const breakTasks: EngineTask[] = splitRange(200, 25).map(({ from, to }) => ({ kind: 'break-test', spec: breakSpec, from, to }));
+  let threadedBreak: ReturnType<typeof summariseBreakTest> | null = null;
+  row(`break test B = 200, ${THREADS} worker threads`, await time(async () => {
+    const results = await breakPool.run(breakTasks);
+    const reps = results.flatMap((r) => (r.kind === 'break-test' ? r.replications : []));
+    threadedBreak = summariseBreakTest(labelled, supLrStatistic(panel), reps);
+  }, RUNS, 0), 'lib/engine pool (started beforehand), the observed statistic included; target < 10 s');
+  await breakPool.close();
+  row('break test B = 200, this thread', await time(() => (breakResult = breakTest(labelled, { replications: 200, seed: 9 })), 1, 0), 'for comparison');
+  const breakSame = JSON.stringify(threadedBreak) === JSON.stringify(breakResult);
+
+  // 7. The demo cohort dataset through the engine, every model, as a fit job runs it.
+  const demo = panelsFromRows(validateCohortText(fenmoorCohortCsv()).rows, {});
+  const demoLabel = `demo cohort dataset (${demo.length} segments, T ${Math.min(...demo.map((d) => d.periods.length))}-${Math.max(...demo.map((d) => d.periods.length))}), every model`;
+  const stageTotals: Record<string, number> = {};
+  for (const breakReplications of [0, 200]) {
+    const demoOptions = {
+      models: ['independent', 'ar1'] as FitModel[],
+      bootstrap: { replications: 1000, seed: 20260101 },
+      stability: { rollingWindow: 10, breakTest: breakReplications > 0 ? { replications: breakReplications, seed: 20260103 } : null },
+      audit: { replications: 50, seed: 20260102 },
+    };
+    const demoPool = new EnginePool(THREADS);
+    await demoPool.start();
+    const demoTiming = await time(async () => {
+      for (const k of Object.keys(stageTotals)) delete stageTotals[k];
+      for (const p of demo) {
+        const fit = await fitPanelParallel(p, demoOptions, { pool: demoPool });
+        for (const [k, ms] of Object.entries(fit.timing.stages)) stageTotals[k] = (stageTotals[k] ?? 0) + ms;
+      }
+    }, 1, 0);
+    await demoPool.close();
+    row(
+      breakReplications > 0 ? `  + the break test's bootstrap B = ${breakReplications}` : demoLabel,
+      demoTiming,
+      breakReplications > 0
+        ? 'the same fit with the break test\'s p-value'
+        : `bootstraps B = 1000, audit R = 50 at the fitted phi, break statistic; ${THREADS} worker threads; target < 30 s`,
+    );
+  }
 
   let scipyLine = 'SciPy reference skipped (--no-scipy)';
   let agreement = '';
@@ -257,7 +313,9 @@ async function main(): Promise<void> {
       (phiInterval ? `; phi 95% [${(phiInterval as { lower: number }).lower.toFixed(4)}, ${(phiInterval as { upper: number }).upper.toFixed(4)}]` : ''),
   );
   const bt = breakResult as ReturnType<typeof breakTest> | null;
-  if (bt && bt.status === 'ok') console.log(`break test: sup LR ${bt.statistic.toFixed(3)} at ${bt.splitYear}, p = ${bt.pValue.toFixed(4)} (B = ${bt.replications})`);
+  if (bt && bt.status === 'ok') console.log(`break test: sup LR ${bt.statistic.toFixed(3)} at ${bt.splitYear}, p = ${bt.pValue.toFixed(4)} (B = ${bt.replications}); threads and this thread give the same result: ${breakSame}`);
+  const slowest = Object.entries(stageTotals).sort((a, b) => b[1] - a[1]).slice(0, 8);
+  console.log(`demo dataset with the break test's bootstrap, slowest stages summed over the segments: ${slowest.map(([k, ms]) => `${k} ${fmt(ms)}`).join(', ')}`);
   console.log(scipyLine);
   if (agreement) console.log(agreement);
   console.log(`load average at the end: ${os.loadavg().map((x) => x.toFixed(2)).join(' ')}`);

@@ -1,7 +1,8 @@
 /**
- * `rhobook fit FILE.csv [--json] [--segment NAME] [--from PERIOD] [--to PERIOD] [--level 0.95]
- * [--bootstrap B] [--seed N] [--threads N] [--asset-class CLASS] [--turnover S]`: fits every segment of a cohort
- * CSV (DESIGN.md, `segment,period,obligors,defaults`) and prints issue 3's JSON document or a
+ * `rhobook fit FILE.csv [--json] [--models independent,ar1] [--segment NAME] [--from PERIOD]
+ * [--to PERIOD] [--level 0.95] [--bootstrap B] [--seed N] [--audit R] [--audit-seed N]
+ * [--rolling-window N] [--threads N] [--asset-class CLASS] [--turnover S]`: fits every segment of a cohort
+ * CSV (DESIGN.md, `segment,period,obligors,defaults`) and prints the engine's JSON document or a
  * readable table. The file is validated by lib/ingest's validateCohortText, the same rules as an
  * upload; any error stops the run with exit code 2 and the file's line, column and problem.
  */
@@ -10,6 +11,7 @@ import { parseArgs } from 'node:util';
 import { validateCohortText, type CohortRow, type Finding } from '../ingest';
 import { EnginePool, fitPanelParallel } from '../engine';
 import { segmentFailure, type PanelInput, type SegmentFailure, type TimedSegmentFit } from '../stats/fit-panel';
+import { FIT_MODELS, type FitModel } from '../stats/fit-models';
 import { ASSET_CLASSES, type AssetClass } from '../stats/irb';
 import { ENGINE_VERSION } from '../stats/version';
 import { formatTable } from './format';
@@ -48,20 +50,28 @@ export class CliInputError extends Error {
   }
 }
 
-export const FIT_USAGE = `Usage: npm run --silent cli -- fit FILE.csv [--json] [--segment NAME] [--from PERIOD] [--to PERIOD]
-                              [--level 0.95] [--bootstrap B] [--seed N] [--audit R] [--audit-seed N] [--threads N]
+export const FIT_USAGE = `Usage: npm run --silent cli -- fit FILE.csv [--json] [--models independent,ar1] [--segment NAME]
+                              [--from PERIOD] [--to PERIOD] [--level 0.95] [--bootstrap B] [--seed N]
+                              [--audit R] [--audit-seed N] [--rolling-window N] [--threads N]
                               [--asset-class CLASS] [--turnover S] [--group "A,B,C"] [--common-window] [--pairs]
                               [--prior flat|supervisory:S|beta:A,B] [--prudent RHO,CONFIDENCE]
 
 Fits the asset correlation of every segment of a cohort CSV (columns segment,period,obligors,defaults).
   --json            print one JSON document (engine version, one entry per segment) instead of a table
+  --models M        the factor models to run, comma-separated: independent (years independent: the five
+                    estimators of the design and the stability across the window), ar1 (a persistent
+                    factor: ar1Mle and the autocorrelation-corrected moments); default both.
+                    binomialMle is always fitted: the diagnostics check it and the AR(1) model nests it
   --segment NAME    fit only this segment
   --from, --to      first and last period to use (years, inclusive)
   --level L         level of every interval, between 0 and 1 (default 0.95)
-  --bootstrap B     add a parametric bootstrap interval with B replications (2 to 100000)
-  --seed N          seed of the bootstrap, 0 to 4294967295 (default 1)
-  --audit R         add the estimator audit: R panels simulated at the fit (2 to 100000)
+  --bootstrap B     run every parametric bootstrap with B replications (2 to 100000): binomialMle's and
+                    the moment estimators' intervals and the break test's p-value
+  --seed N          seed of the bootstraps, 0 to 4294967295 (default 1)
+  --audit R         add the estimator audit: R panels simulated at the fit (2 to 100000); with the AR(1)
+                    model, at its fitted persistence
   --audit-seed N    seed of the estimator audit, 0 to 4294967295 (default 2)
+  --rolling-window N  length of the rolling window of the stability block, in periods (2 to 1000; default 10)
   --threads N       worker threads for the bootstrap and the audit (default: available cores; 0 = this thread)
   --asset-class C   compare with the Basel IRB supervisory correlation of ${ASSET_CLASSES.join(', ')}
   --turnover S      annual turnover in EUR millions, for the SME size adjustment of sme-corporate
@@ -78,6 +88,18 @@ function parseNumber(name: string, raw: string | undefined, check: (v: number) =
   return v;
 }
 
+/** `--models independent,ar1`: the factor models, each once; default every one. */
+function parseModels(raw: string | undefined): FitModel[] {
+  if (raw === undefined) return [...FIT_MODELS];
+  const names = raw.split(',').map((m) => m.trim());
+  const unknown = names.filter((m) => !(FIT_MODELS as readonly string[]).includes(m));
+  if (names.length === 0 || unknown.length > 0) {
+    throw new CliInputError(`--models takes a comma-separated list of ${FIT_MODELS.join(', ')}; got "${raw}".`);
+  }
+  if (new Set(names).size !== names.length) throw new CliInputError(`--models names a model twice: "${raw}".`);
+  return FIT_MODELS.filter((m) => names.includes(m));
+}
+
 function parseYear(name: string, raw: string | undefined): number | undefined {
   if (raw === undefined) return undefined;
   if (!/^\d{4}$/.test(raw.trim())) throw new CliInputError(`--${name} must be a year written YYYY (the cohort file's periods), for example 2010; got "${raw}".`);
@@ -87,6 +109,10 @@ function parseYear(name: string, raw: string | undefined): number | undefined {
 export interface FitArgs {
   file: string;
   json: boolean;
+  /** The factor models to run (default every one). */
+  models: FitModel[];
+  /** Length of the rolling window (default 10). */
+  rollingWindow: number;
   segment?: string;
   from?: number;
   to?: number;
@@ -113,6 +139,8 @@ export function parseFitArgs(argv: string[]): FitArgs {
       strict: true,
       options: {
         json: { type: 'boolean' },
+        models: { type: 'string' },
+        'rolling-window': { type: 'string' },
         segment: { type: 'string' },
         from: { type: 'string' },
         to: { type: 'string' },
@@ -142,6 +170,12 @@ export function parseFitArgs(argv: string[]): FitArgs {
   if (values['audit-seed'] !== undefined && audit === undefined) {
     throw new CliInputError('--audit-seed is the seed of the estimator audit; give --audit R as well (or leave --audit-seed out).');
   }
+  const models = parseModels(values.models);
+  const rollingWindow =
+    parseNumber('rolling-window', values['rolling-window'], (v) => Number.isInteger(v) && v >= 2 && v <= 1000, 'a whole number of periods from 2 to 1000') ?? 10;
+  if (values['rolling-window'] !== undefined && !models.includes('independent')) {
+    throw new CliInputError('--rolling-window is part of the stability block, which belongs to the independent model; add independent to --models (or leave --rolling-window out).');
+  }
   const threads = parseNumber('threads', values.threads, (v) => Number.isInteger(v) && v >= 0 && v <= 64, 'a whole number from 0 to 64');
   const from = parseYear('from', values.from);
   const to = parseYear('to', values.to);
@@ -158,11 +192,13 @@ export function parseFitArgs(argv: string[]): FitArgs {
     throw new CliInputError('--turnover applies only to --asset-class sme-corporate (the SME size adjustment).');
   }
   if (values.seed !== undefined && bootstrap === undefined) {
-    throw new CliInputError('--seed is the seed of the bootstrap; give --bootstrap B as well (or leave --seed out).');
+    throw new CliInputError('--seed is the seed of the bootstraps; give --bootstrap B as well (or leave --seed out).');
   }
   return {
     file: positionals[0],
     json: values.json ?? false,
+    models,
+    rollingWindow,
     ...(values.segment !== undefined ? { segment: values.segment } : {}),
     ...(from !== undefined ? { from } : {}),
     ...(to !== undefined ? { to } : {}),
@@ -257,7 +293,10 @@ export async function runFit(argv: string[], io: CliIo): Promise<number> {
             panel,
             {
               level: args.level,
+              models: args.models,
               bootstrap: anyBootstrap ? { replications: args.bootstrap!, seed: args.seed } : null,
+              // --bootstrap B sets every parametric bootstrap, the break test's included (DESIGN.md)
+              stability: { rollingWindow: args.rollingWindow, breakTest: anyBootstrap ? { replications: args.bootstrap!, seed: args.seed } : null },
               audit: args.audit !== undefined ? { replications: args.audit, seed: args.auditSeed } : null,
               assetClass: args.assetClass ?? null,
               turnoverMillions: args.turnoverMillions ?? null,

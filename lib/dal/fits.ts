@@ -40,7 +40,8 @@ export type FitDto = FitSummaryDto & {
   error: string | null;
   datasetSha256: string;
   engineVersion: string;
-  seeds: { bootstrap: number | null; audit: number | null };
+  /** breakTest is absent in runs stored before the break test's bootstrap. */
+  seeds: { bootstrap: number | null; audit: number | null; breakTest?: number | null };
   jobId: number | null;
   mayCancel: boolean;
   /** Each segment's definitions of default over the fitted years (from the dataset's rows). */
@@ -112,7 +113,7 @@ export async function createFit(actor: SessionUser, input: FitRequestInput | unk
       datasetSha256: dataset.sha256,
       request,
       engineVersion: ENGINE_VERSION,
-      seeds: { bootstrap: request.bootstrap?.seed ?? null, audit: request.audit?.seed ?? null },
+      seeds: { bootstrap: request.bootstrap?.seed ?? null, audit: request.audit?.seed ?? null, breakTest: request.breakTest?.seed ?? null },
       createdBy: actor.id,
     });
     const id = Number(res.insertId);

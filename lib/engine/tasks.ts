@@ -1,6 +1,8 @@
 /**
- * The units of work the engine's worker threads run: a slice [from, to) of a bootstrap's or an
- * estimator audit's replications, or of the pairs of a factor-correlation matrix. A task is plain data (structured-clone safe) and runTask is the only code that
+ * The units of work the engine's worker threads run: a slice [from, to) of the replications of a
+ * parametric bootstrap (binomialMle's or a moment estimator's), of the break test's bootstrap or of
+ * an estimator audit (a segment's or a grade model's), or of the pairs of a factor-correlation
+ * matrix. A task is plain data (structured-clone safe) and runTask is the only code that
  * executes it, in a worker thread or in the calling thread alike, so every split of the index
  * range gives the same numbers.
  */
@@ -8,6 +10,9 @@ import { auditRange, type AuditReplication, type AuditSpec } from '../stats/audi
 import { factorCorrelation, type FactorCorrelation, type PairSegmentInput } from '../stats/factor-correlation';
 import { gradeAuditRange, type GradeAuditReplication, type GradeAuditSpec } from '../stats/grade-audit';
 import { bootstrapRange, type BootstrapReplication, type BootstrapSpec } from '../stats/intervals/bootstrap';
+import { momentBootstrapRange, type MomentBootstrapReplication, type MomentBootstrapSpec } from '../stats/intervals/moment-bootstrap';
+import type { SimulationModel } from '../stats/simulation-spec';
+import { breakTestRange, type BreakReplication } from '../stats/stability/break-test';
 
 /** Bootstrap replications from .. to - 1 of one spec. */
 export interface BootstrapTask {
@@ -36,6 +41,14 @@ export interface PairsTask {
   to: number;
 }
 
+/** Moment-bootstrap replications from .. to - 1 of one spec (lib/stats/intervals/moment-bootstrap.ts). */
+export interface MomentBootstrapTask {
+  kind: 'moment-bootstrap';
+  spec: MomentBootstrapSpec;
+  from: number;
+  to: number;
+}
+
 /** Grade-model audit replications from .. to - 1 (lib/stats/grade-audit.ts). */
 export interface GradeAuditTask {
   kind: 'grade-audit';
@@ -44,7 +57,15 @@ export interface GradeAuditTask {
   to: number;
 }
 
-export type EngineTask = BootstrapTask | AuditTask | PairsTask | GradeAuditTask;
+/** Break-test bootstrap replications from .. to - 1 under the no-break model (lib/stats/stability/break-test.ts). */
+export interface BreakTestTask {
+  kind: 'break-test';
+  spec: SimulationModel;
+  from: number;
+  to: number;
+}
+
+export type EngineTask = BootstrapTask | AuditTask | PairsTask | GradeAuditTask | MomentBootstrapTask | BreakTestTask;
 
 export interface BootstrapTaskResult {
   kind: 'bootstrap';
@@ -66,7 +87,23 @@ export interface GradeAuditTaskResult {
   replications: GradeAuditReplication[];
 }
 
-export type EngineTaskResult = BootstrapTaskResult | AuditTaskResult | PairsTaskResult | GradeAuditTaskResult;
+export interface MomentBootstrapTaskResult {
+  kind: 'moment-bootstrap';
+  replications: MomentBootstrapReplication[];
+}
+
+export interface BreakTestTaskResult {
+  kind: 'break-test';
+  replications: BreakReplication[];
+}
+
+export type EngineTaskResult =
+  | BootstrapTaskResult
+  | AuditTaskResult
+  | PairsTaskResult
+  | GradeAuditTaskResult
+  | MomentBootstrapTaskResult
+  | BreakTestTaskResult;
 
 /** Number of replications (progress units) in a task. */
 export function taskSize(task: EngineTask): number {
@@ -91,6 +128,10 @@ export function runTask(task: EngineTask, onItem?: () => void): EngineTaskResult
     }
     case 'grade-audit':
       return { kind: 'grade-audit', replications: gradeAuditRange(task.spec, task.from, task.to, onItem && (() => onItem())) };
+    case 'moment-bootstrap':
+      return { kind: 'moment-bootstrap', replications: momentBootstrapRange(task.spec, task.from, task.to, onItem && (() => onItem())) };
+    case 'break-test':
+      return { kind: 'break-test', replications: breakTestRange(task.spec, task.from, task.to, onItem && (() => onItem())) };
     default: {
       const unknown: never = task;
       throw new RangeError(`runTask: unknown task kind ${String((unknown as { kind: unknown }).kind)}.`);

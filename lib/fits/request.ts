@@ -1,8 +1,11 @@
 import { z } from 'zod';
+import { FIT_MODELS } from '@/lib/stats/fit-models';
 
 /**
  * The body of POST /api/fits (and the New fit form): which dataset, which segments (all when
- * omitted), which window of periods, the interval level and the optional bootstrap and audit.
+ * omitted), which window of periods, the interval level, the factor models, the rolling window's
+ * length, and the optional bootstraps (binomialMle's and the moment estimators', the break test's)
+ * and audit. Requests stored before the models existed parse with the defaults.
  * Stored as fit_runs.request after validation, so that a run can be repeated exactly.
  */
 const seed = z
@@ -17,6 +20,13 @@ const period = z.coerce
   .min(1900, 'A period must be a year from 1900 to 2200.')
   .max(2200, 'A period must be a year from 1900 to 2200.');
 
+const replications = (what: string, min: number, max: number) =>
+  z
+    .number({ message: `${what} replications must be a whole number.` })
+    .int(`${what} replications must be a whole number.`)
+    .min(min, `${what} needs at least ${min} replications.`)
+    .max(max, `At most ${max.toLocaleString('en')} ${what.toLowerCase()} replications.`);
+
 export const fitRequestSchema = z
   .object({
     datasetId: z.number({ message: 'Choose a dataset.' }).int().positive('Choose a dataset.'),
@@ -24,6 +34,21 @@ export const fitRequestSchema = z
     from: period.optional(),
     to: period.optional(),
     level: z.number().min(0.5, 'The interval level must be between 0.5 and 0.999.').max(0.999, 'The interval level must be between 0.5 and 0.999.').default(0.95),
+    /** The factor models to run (lib/stats/fit-models.ts); default every one. */
+    models: z
+      .array(z.enum(FIT_MODELS, { message: `A model is one of ${FIT_MODELS.join(', ')}.` }))
+      .min(1, 'Choose at least one model.')
+      .refine((m) => new Set(m).size === m.length, 'Name each model once.')
+      .default([...FIT_MODELS]),
+    /** Length of the rolling window of the stability block, in years. */
+    rollingWindow: z
+      .number({ message: 'The rolling window must be a whole number of years.' })
+      .int('The rolling window must be a whole number of years.')
+      .min(3, 'The rolling window needs at least 3 years.')
+      .max(50, 'The rolling window can be at most 50 years.')
+      .default(10),
+    /** Bootstrap of the break test's p-value; null: the statistic without a p-value. */
+    breakTest: z.object({ replications: replications('The break test', 20, 2000), seed }).nullish(),
     bootstrap: z
       .object({
         replications: z.number().int().min(20, 'A bootstrap needs at least 20 replications.').max(2000, 'At most 2,000 bootstrap replications.'),

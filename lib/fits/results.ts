@@ -2,26 +2,37 @@
  * The results of a fit run, as stored in fit_runs.results and answered by GET /api/fits/:id.
  *
  * `{ engine: { version }, segments: [...] }` is the JSON document of the engine CLI (`fit --json`,
- * lib/cli/fit.ts): each segment is the engine's own TimedSegmentFit (lib/stats/fit-panel.ts:
- * estimates of the five estimators with the profile, Wald and bootstrap intervals of binomialMle,
- * warnings, level, profileCurve, profileCutoff, diagnostics, implications, observed, timing,
- * estimatorAudit), untouched, so a run's numbers can be compared field by field with the CLI's and
- * fitPanel's. The fit run adds a few fields of its own beside them, under plain names: the
- * segment's asset class as set in the dataset, the estimator the review leads with and the window
- * comparison.
+ * lib/cli/fit.ts): each segment is the engine's own TimedSegmentFit (lib/stats/fit-result.ts: the
+ * estimates of the models run with their intervals, warnings, level, profileCurve, profileCutoff,
+ * diagnostics, implications, stability, observed, timing, estimatorAudit), untouched, so a run's
+ * numbers can be compared field by field with the CLI's and fitPanel's. The fit run adds a few
+ * fields of its own beside them, under plain names: the segment's asset class as set in the
+ * dataset, the estimator the review leads with and the window comparison.
+ *
+ * Runs stored by engines before 3.0 lack `models` (they ran the independent model only),
+ * `stability`, the persistent-factor estimates, the intervals of the other estimators,
+ * `diagnostics.lrTestPhi0` and `timing.stages`: the type marks those optional and the screens show
+ * what is there.
  */
 import type { AssetClass } from '@/db/schema';
 import { ESTIMATOR_KEYS, type Estimate, type EstimatorKey } from '@/lib/stats/estimators/types';
 import type { FactorCorrelationMatrix } from '@/lib/stats/factor-correlation-matrix';
-import type { SegmentFailure, TimedSegmentFit } from '@/lib/stats/fit-panel';
+import type { FitModel } from '@/lib/stats/fit-models';
+import type { SegmentFailure, Stability, TimedSegmentFit } from '@/lib/stats/fit-panel';
 import type { GradeFit } from '@/lib/stats/grade-fit';
 import type { GradeAuditSummary } from '@/lib/stats/grade-audit';
 import type { PosteriorBlock, PrudentPdBlock } from '@/lib/stats/low-default';
+import type { StageTimes } from '@/lib/stats/stage-timer';
 
-export type { EstimatorKey };
+export type { EstimatorKey } from '@/lib/stats/estimators/types';
 
-/** The estimators in the order the screens list them (DESIGN.md's order). */
+/** Every estimator in display order (a run has those of its models). */
 export const ESTIMATOR_ORDER: readonly EstimatorKey[] = ESTIMATOR_KEYS;
+
+/** The models a stored segment ran (older runs: the independent model alone). */
+export function modelsOf(seg: Pick<FitSegmentResult, 'models'>): FitModel[] {
+  return seg.models ?? ['independent'];
+}
 
 /** A warning of the fit run itself (not of the engine), same shape as the engine's. */
 export type RunWarning = { code: 'sme-turnover-missing'; message: string };
@@ -44,8 +55,14 @@ export type WindowResult = {
 };
 
 /** One segment of a fit run: the engine's TimedSegmentFit plus the run's own fields. */
-export type FitSegmentResult = Omit<TimedSegmentFit, 'warnings'> & {
+export type FitSegmentResult = Omit<TimedSegmentFit, 'warnings' | 'models' | 'stability' | 'timing'> & {
   warnings: (TimedSegmentFit['warnings'][number] | RunWarning)[];
+  /** Absent in runs stored before the AR(1) model: the independent model alone. */
+  models?: FitModel[];
+  /** Absent in runs stored before the stability block. */
+  stability?: Stability | null;
+  /** `stages` is absent in runs stored before the time of each stage was kept. */
+  timing: { ms: number; stages?: StageTimes };
   /** The segment's asset class as set on the dataset ('none': no supervisory benchmark). */
   assetClass: AssetClass;
   /** The estimator the review leads with: binomialMle unless it gives no value. */

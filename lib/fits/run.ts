@@ -1,8 +1,8 @@
 /**
  * Computes the results of a fit run from its panels: for each segment the engine's
- * fitPanelParallel (lib/engine: every estimator, interval and diagnostic of lib/stats/fit-panel.ts,
- * the bootstrap and the estimator audit on worker threads), then the window comparison
- * (windows.ts). Writes nothing; the fit job stores the result in its completion transaction.
+ * fitPanelParallel (lib/engine: the chosen models' estimators with their intervals, the
+ * diagnostics and stability of lib/stats/fit-panel.ts, the bootstraps, the break test and the
+ * estimator audit on worker threads), then the window comparison (windows.ts). Writes nothing; the fit job stores the result in its completion transaction.
  *
  * Deterministic: the numbers depend only on the panels, the request (level, seeds, replications)
  * and ENGINE_VERSION, not on the thread count or on which worker runs the job.
@@ -13,7 +13,7 @@ import { segmentFailure, type SegmentFailure } from '@/lib/stats/fit-panel';
 import type { AssetClass as StatsAssetClass } from '@/lib/stats/irb';
 import { ENGINE_VERSION } from '@/lib/stats/version';
 import type { FitRequest } from './request';
-import { ESTIMATOR_ORDER, type FitResults, type FitSegmentResult, type RunWarning } from './results';
+import { ESTIMATOR_ORDER, type EstimatorKey, type FitResults, type FitSegmentResult, type RunWarning } from './results';
 import { compareWindows } from './windows';
 
 /** One segment's panel as read from a dataset, with the settings the fit needs. */
@@ -55,9 +55,19 @@ export function benchmarkOf(input: SegmentInput): { assetClass: StatsAssetClass 
   };
 }
 
-/** Relative cost of the parts of a segment, for the progress bar (an audit replication is about three bootstrap ones). */
+/**
+ * Relative cost of the parts of a segment, for the progress bar, in units of about 500 binomialMle
+ * fits: the estimates (the AR(1) model with its intervals about 60 fits' worth), the replications
+ * (lib/engine's replicationWeight: a break-test replication about 23 fits on 20 years, an audit
+ * replication 2, or 14 with the AR(1) model) and the window comparison.
+ */
 function weights(request: FitRequest) {
-  return { base: 2, replications: ((request.bootstrap?.replications ?? 0) + 3 * (request.audit?.replications ?? 0)) / 2, windows: 2 };
+  const ar1 = request.models.includes('ar1');
+  const fits =
+    (request.bootstrap?.replications ?? 0) +
+    (request.models.includes('independent') ? 23 * (request.breakTest?.replications ?? 0) : 0) +
+    (ar1 ? 14 : 2) * (request.audit?.replications ?? 0);
+  return { base: ar1 ? 1 : 0.5, replications: fits / 500, windows: 0.2 };
 }
 
 export async function computeFitRun(panels: readonly SegmentInput[], request: FitRequest, options: FitRunOptions): Promise<FitResults> {
@@ -65,13 +75,13 @@ export async function computeFitRun(panels: readonly SegmentInput[], request: Fi
   const w = weights(request);
   const perSegment = w.base + w.replications + w.windows;
   const total = perSegment * panels.length;
-  const pool = (request.bootstrap || request.audit || request.pairs) && options.threads > 0 ? new EnginePool(options.threads) : null;
+  const pool = (request.bootstrap || request.audit || request.breakTest || request.pairs) && options.threads > 0 ? new EnginePool(options.threads) : null;
   const segments: FitSegmentResult[] = [];
   const failures: SegmentFailure[] = [];
   try {
     if (pool) {
       // Thread start-up (loading the engine in each thread) takes a second or two: say so rather than sit at "done".
-      await report(0, `Starting ${options.threads} worker thread${options.threads === 1 ? '' : 's'} for the bootstrap and audit`);
+      await report(0, `Starting ${options.threads} worker thread${options.threads === 1 ? '' : 's'} for the bootstraps and the audit`);
       await pool.start();
     }
     for (let i = 0; i < panels.length; i++) {
@@ -87,8 +97,10 @@ export async function computeFitRun(panels: readonly SegmentInput[], request: Fi
         input,
         {
           level: request.level,
+          models: request.models,
           bootstrap: request.bootstrap ?? null,
           audit: request.audit ?? null,
+          stability: { rollingWindow: request.rollingWindow, breakTest: request.breakTest ?? null },
           assetClass: benchmark.assetClass,
           turnoverMillions: benchmark.turnoverMillions,
         },
@@ -114,10 +126,13 @@ export async function computeFitRun(panels: readonly SegmentInput[], request: Fi
         await report(at(perSegment), `${name}: failed (${failures.at(-1)!.reason})`);
         continue;
       }
-      const mle = fit.estimates.binomialMle;
       await report(at(w.base + w.replications), `${name}: Window comparison`);
       const windows = compareWindows(input, fit, request.level);
-      const chosen = mle.rho !== null && mle.status !== 'not-converged' ? 'binomialMle' : (ESTIMATOR_ORDER.find((k) => fit.estimates[k].rho !== null && fit.estimates[k].status !== 'not-converged') ?? 'binomialMle');
+      const hasValue = (k: EstimatorKey) => {
+        const e = fit.estimates[k];
+        return e !== undefined && e.rho !== null && e.status !== 'not-converged';
+      };
+      const chosen = hasValue('binomialMle') ? 'binomialMle' : (ESTIMATOR_ORDER.find(hasValue) ?? 'binomialMle');
       segments.push({
         ...fit,
         warnings: benchmark.warning ? [...fit.warnings, benchmark.warning] : fit.warnings,

@@ -16,6 +16,8 @@ const WARNING_LABELS: Readonly<Record<string, string>> = {
   'mle-not-converged': 'likelihood did not converge',
   autocorrelation: 'autocorrelated factor',
   'pit-autocorrelation': 'serially dependent years',
+  'persistent-factor': 'persistent factor',
+  'structural-break': 'break in the window',
   'integration-tolerance': 'integrals above tolerance',
   'bootstrap-failures': 'bootstrap replications failed',
   'bootstrap-unavailable': 'no bootstrap',

@@ -38,15 +38,16 @@ function summarise(label: string, fit: SegmentFit): WindowResult {
       status: mle.status,
       profile: mle.intervals.profile ? { lower: mle.intervals.profile.lower, upper: mle.intervals.profile.upper } : null,
     },
-    momentVarianceCorrected: fit.estimates.momentVarianceCorrected.rho,
-    jointDefault: fit.estimates.jointDefault.rho,
+    momentVarianceCorrected: fit.estimates.momentVarianceCorrected?.rho ?? null,
+    jointDefault: fit.estimates.jointDefault?.rho ?? null,
     warnings: fit.warnings.map((w) => w.code),
   };
 }
 
 /**
  * The window comparison of one segment. `whole` is the segment's own fit over the full window
- * (reused, not recomputed); the other windows are fitted with fitPanel at the same level.
+ * (reused, not recomputed); the other windows are fitted with fitPanel at the same level, the
+ * independent model alone.
  */
 export function compareWindows(input: PanelInput, whole: SegmentFit, level: number): WindowResult[] {
   const rates = input.defaults.map((d, i) => d / input.obligors[i]);
@@ -58,6 +59,7 @@ export function compareWindows(input: PanelInput, whole: SegmentFit, level: numb
       obligors: idx.map((i) => input.obligors[i]),
       defaults: idx.map((i) => input.defaults[i]),
     };
-    return summarise(label, fitPanel(sub, { level }));
+    // the independent model's figures only: no AR(1) model and no stability block per window
+    return summarise(label, fitPanel(sub, { level, models: ['independent'], stability: null }));
   });
 }

@@ -16,6 +16,7 @@
  *   model). A row with an empty grade stays in the segment itself.
  */
 import { z } from 'zod';
+import { cohortTooLarge } from '@/lib/stats/cohort-limit';
 import { FindingCollector, type Finding, type FindingSummary } from './findings';
 import { readCsvStream, readCsvText, type ByteSource, type ReadInfo, type ReadOptions } from './csv-reader';
 import { KindSink } from './kind-sink';
@@ -107,6 +108,8 @@ class CohortSink extends KindSink<'segment' | 'period' | 'obligors' | 'defaults'
     const period = checkPeriod(fields[c.period], line, f);
     const obligors = countOrReport(fields[c.obligors], 'obligors', 'obligors', line, this.delimiter, f);
     const defaults = countOrReport(fields[c.defaults], 'defaults', 'defaults', line, this.delimiter, f);
+    const tooLarge = obligors === null ? null : cohortTooLarge(obligors);
+    if (tooLarge !== null) f.error('cohort-too-large', line, 'obligors', String(obligors), tooLarge);
     if (obligors === 0) {
       f.error('obligors-not-positive', line, 'obligors', '0', 'Obligors is 0. A cohort needs at least one obligor performing at the start of the period; remove the row or correct the count.');
     }

@@ -16,6 +16,7 @@
  * vintage is never listed for years long after its last row.
  */
 import { z } from 'zod';
+import { cohortTooLarge } from '@/lib/stats/cohort-limit';
 import { FindingCollector, type Finding, type FindingSummary } from './findings';
 import { readCsvStream, readCsvText, type ByteSource, type ReadInfo, type ReadOptions } from './csv-reader';
 import { KindSink } from './kind-sink';
@@ -172,6 +173,8 @@ class VintageSink extends KindSink<'segment' | 'vintage' | 'months_on_book' | 'a
     }
     const active = countOrReport(fields[c.active], 'active loans', 'active', line, this.delimiter, f);
     const defaults = countOrReport(fields[c.defaults], 'defaults', 'defaults', line, this.delimiter, f);
+    const tooLarge = active === null ? null : cohortTooLarge(active, 'active');
+    if (tooLarge !== null) f.error('cohort-too-large', line, 'active', String(active), tooLarge);
     if (active !== null && defaults !== null && defaults > active) {
       f.error(
         'defaults-exceed-active',

@@ -5,8 +5,9 @@
  * (p, rho) with the same cohort sizes n_t (hence the same T), every estimator of DESIGN.md is run
  * on each, and the audit reports per estimator the bias, standard deviation and root mean square
  * error of rho-hat around the simulated truth, how often the estimator gave no value (by status),
- * and the coverage of the profile-likelihood and logit-Wald intervals of binomialMle. This tells a
- * validator how far to trust an estimate from these data, which no textbook table does.
+ * and the coverage of the profile-likelihood and logit-Wald intervals of binomialMle and of the
+ * chi-square interval of vasicekMle. This tells a validator how far to trust an estimate from
+ * these data, which no textbook table does.
  *
  * With `phi` the panels are simulated with a persistent factor (an AR(1) with that coefficient,
  * simulate.ts), so the validator sees how the estimators and intervals behave under the
@@ -29,11 +30,12 @@ import { binomialMleWithProfile } from './estimators/binomial-mle';
 import { jointDefault } from './estimators/joint-default';
 import { momentVariance } from './estimators/moment-variance';
 import { momentVarianceCorrected } from './estimators/moment-variance-corrected';
-import { ESTIMATOR_KEYS, type EstimateStatus, type EstimatorKey } from './estimators/types';
+import { INDEPENDENT_ESTIMATOR_KEYS, type EstimateStatus, type IndependentEstimatorKey } from './estimators/types';
 import { vasicekMle } from './estimators/vasicek-mle';
 import { ar1Mle } from './estimators/ar1-mle';
 import { momentVarianceAutocorrected } from './estimators/moment-variance-autocorrected';
 import { ar1Fit } from './intervals/ar1-intervals';
+import { vasicekChiSquareInterval } from './intervals/chi-square';
 import { profileInterval } from './intervals/profile';
 import { waldInterval } from './intervals/wald';
 import type { Panel } from './mixture-likelihood';
@@ -72,11 +74,13 @@ export interface AuditEstimate {
 export interface AuditReplication {
   /** Replication index r in [0, R); its stream is createRng(deriveSeed(seed, r)). */
   index: number;
-  estimates: Record<EstimatorKey, AuditEstimate>;
+  estimates: Record<IndependentEstimatorKey, AuditEstimate>;
   /** binomialMle's profile interval, null when the estimate is undefined. */
   profile: { lower: number; upper: number } | null;
   /** binomialMle's logit-Wald interval, null when there is none (estimate at rho = 0 or undefined). */
   wald: { lower: number; upper: number } | null;
+  /** vasicekMle's chi-square interval, null when there is none (a default rate of 0 or 1). */
+  chiSquare: { lower: number; upper: number } | null;
   /** The persistent-factor estimators (when the spec asks for them). */
   persistent?: {
     ar1Mle: AuditEstimate;
@@ -140,8 +144,8 @@ export interface AuditSummary {
   replications: number;
   seed: number;
   periods: number;
-  estimators: Record<EstimatorKey, EstimatorAudit>;
-  coverage: { profile: CoverageAudit; wald: CoverageAudit };
+  estimators: Record<IndependentEstimatorKey, EstimatorAudit>;
+  coverage: { profile: CoverageAudit; wald: CoverageAudit; chiSquare: CoverageAudit };
   /** The persistent-factor estimators; present only when the spec asks for them. */
   persistent?: PersistentAudit;
   /** What was not audited and why. */
@@ -203,14 +207,16 @@ function auditPanel(panel: Panel, level: number, persistent: boolean): Omit<Audi
     }
     return result;
   });
-  const estimates: Record<EstimatorKey, AuditEstimate> = {
+  const chi = vasicekChiSquareInterval(panel, level);
+  const chiSquare = chi.status === 'ok' ? { lower: chi.lower, upper: chi.upper } : null;
+  const estimates: Record<IndependentEstimatorKey, AuditEstimate> = {
     binomialMle: mle,
     vasicekMle: statusOf(() => vasicekMle(panel)),
     momentVariance: statusOf(() => momentVariance(panel)),
     momentVarianceCorrected: statusOf(() => momentVarianceCorrected(panel)),
     jointDefault: statusOf(() => jointDefault(panel)),
   };
-  return persistent ? { estimates, profile, wald, persistent: auditPersistent(panel, level) } : { estimates, profile, wald };
+  return persistent ? { estimates, profile, wald, chiSquare, persistent: auditPersistent(panel, level) } : { estimates, profile, wald, chiSquare };
 }
 
 /**
@@ -218,7 +224,7 @@ function auditPanel(panel: Panel, level: number, persistent: boolean): Omit<Audi
  *
  * Replication r: rng = createRng(deriveSeed(seed, r)); a panel d_t ~ simulatePanel at (pd, rho)
  * (and phi) with the cohort sizes n_t; every estimator on (n_t, d_t); binomialMle's profile and
- * logit-Wald intervals at `level`; with `persistent`, ar1Mle with its profile interval of rho and
+ * logit-Wald intervals and vasicekMle's chi-square interval at `level`; with `persistent`, ar1Mle with its profile interval of rho and
  * momentVarianceAutocorrected.
  *
  * Special cases: from = to gives []; a range that is not 0 <= from <= to (whole numbers), a PD
@@ -326,8 +332,8 @@ export function mergeAudit(parts: readonly (readonly AuditReplication[])[], spec
     }
   });
   const level = spec.level ?? 0.95;
-  const estimators = {} as Record<EstimatorKey, EstimatorAudit>;
-  for (const key of ESTIMATOR_KEYS) estimators[key] = summariseEstimator(all.map((r) => r.estimates[key]), spec.rho);
+  const estimators = {} as Record<IndependentEstimatorKey, EstimatorAudit>;
+  for (const key of INDEPENDENT_ESTIMATOR_KEYS) estimators[key] = summariseEstimator(all.map((r) => r.estimates[key]), spec.rho);
   let persistent: PersistentAudit | undefined;
   if (spec.persistent) {
     const parts = all.map((r) => {
@@ -352,11 +358,12 @@ export function mergeAudit(parts: readonly (readonly AuditReplication[])[], spec
     coverage: {
       profile: summariseCoverage(all.map((r) => r.profile), spec.rho, level),
       wald: summariseCoverage(all.map((r) => r.wald), spec.rho, level),
+      chiSquare: summariseCoverage(all.map((r) => r.chiSquare), spec.rho, level),
     },
     ...(persistent ? { persistent } : {}),
     omitted: [
       {
-        item: 'bootstrap interval coverage',
+        item: 'bootstrap interval coverage (binomialMle and the moment estimators)',
         reason:
           'It needs a bootstrap of B panels inside each of the R replications (R x B fits, 200,000 for R = 200 and B = 1000), far beyond an interactive run.',
       },

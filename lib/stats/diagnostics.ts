@@ -29,6 +29,17 @@ export interface FittedMle {
   atBoundary: boolean;
 }
 
+/**
+ * The AR(1) model's likelihood-ratio test of phi = 0 (intervals/ar1-intervals.ts), a check of
+ * serial dependence that works with zero-default years, or why it did not run.
+ */
+export type PersistenceCheck =
+  | { status: 'ok'; phi: number | null; statistic: number; pValue: number }
+  | { status: 'not-run'; reason: string };
+
+/** Level below which the LR test of phi = 0 raises the `persistent-factor` warning. */
+export const PERSISTENCE_TEST_LEVEL = 0.05;
+
 /** Inputs of {@link panelDiagnostics}. */
 export interface DiagnosticsInput {
   obligors: readonly number[];
@@ -42,6 +53,8 @@ export interface DiagnosticsInput {
   interval: { lower: number; upper: number } | null;
   /** Capital convention; see {@link CapitalConvention}. */
   capital?: Partial<CapitalConvention>;
+  /** The AR(1) model's test of phi = 0; absent: not run. */
+  persistence?: PersistenceCheck;
 }
 
 /** The diagnostics block of a segment fit. */
@@ -73,6 +86,13 @@ export interface Diagnostics {
   pitSerialTest: PitSerialTest | null;
   /** Why pitSerialTest is null, in a sentence. */
   pitSerialNote: string | null;
+  /**
+   * The AR(1) model's likelihood-ratio test of phi = 0 against independent years, with the fitted
+   * phi (null at rho = 0, where it is not identified); null when it did not run (lrTestPhi0Note says why).
+   */
+  lrTestPhi0: { phi: number | null; statistic: number; pValue: number } | null;
+  /** Why lrTestPhi0 is null, in a sentence. */
+  lrTestPhi0Note: string | null;
   /** Fitted 95% and 99% default-rate quantiles and how many periods exceed each; null as pit. */
   exceedances: { q95: number; q99: number; above95: number; above99: number } | null;
   /** Fitted default-rate quantiles at 0.5%, 2.5%, 25%, 50%, 75%, 97.5%, 99.5% (the bands drawn behind the observed rates); null as pit. */
@@ -97,13 +117,16 @@ export type BandKey = keyof typeof BAND_LEVELS;
  * - PIT u_t = P(D_t < d_t) + P(D_t = d_t) / 2 under the fitted binomial mixture with the year's
  *   own n_t (count-pit.ts, the mid-PIT for a discrete variable), and pitSerialTest on it, which
  *   runs with zero-default years; the fitted 95% and 99% quantiles of the infinitely granular
- *   Vasicek distribution and the counts of DR_t strictly above them.
+ *   Vasicek distribution and the counts of DR_t strictly above them;
+ * - the AR(1) model's LR test of phi = 0 when given (`persistence`): a third serial-dependence
+ *   check, which needs no finite implied factor.
  *
  * Warnings (codes in WARNING_CODES): rho not identified when no period has a default, every
  * obligor defaulted, T < 5, or the profile is flat (l*(0) and l*(RHO_SEARCH_LIMIT) both within the
  * 95% drop 1.9207 of the maximum, so the data reject no value of rho); short series (5 <= T < 10);
  * zero-default and all-default periods; the maximum at rho = 0 or at the search limit; a
- * non-converged maximisation; material autocorrelation of the implied factor or of the PIT.
+ * non-converged maximisation; material autocorrelation of the implied factor or of the PIT; the LR
+ * test of phi = 0 rejecting at 5% (`persistent-factor`).
  *
  * Method: direct evaluation with lib/stats/vasicek.ts; the PIT by count-pit.ts.
  *
@@ -265,6 +288,24 @@ export function panelDiagnostics(input: DiagnosticsInput): { diagnostics: Diagno
     }
   }
 
+  let lrTestPhi0: Diagnostics['lrTestPhi0'] = null;
+  let lrTestPhi0Note: string | null = null;
+  const persistence = input.persistence ?? { status: 'not-run', reason: 'Not run: the AR(1) model was not among the models of this fit.' };
+  if (persistence.status === 'not-run') lrTestPhi0Note = persistence.reason;
+  else {
+    lrTestPhi0 = { phi: persistence.phi, statistic: persistence.statistic, pValue: persistence.pValue };
+    if (persistence.pValue < PERSISTENCE_TEST_LEVEL && persistence.phi !== null) {
+      const p = persistence.pValue < 1e-4 ? persistence.pValue.toExponential(1) : persistence.pValue.toFixed(4);
+      warnings.push({
+        code: 'persistent-factor',
+        message:
+          persistence.phi > 0
+            ? `The AR(1) model finds a persistent factor (phi = ${persistence.phi.toFixed(2)}; the likelihood-ratio test of independent years gives p = ${p}): consecutive years move together, so the independent model's intervals are too narrow and its rho tends to be low. Read the AR(1) model's interval beside them.`
+            : `The AR(1) model finds an alternating factor (phi = ${persistence.phi.toFixed(2)}; the likelihood-ratio test of independent years gives p = ${p}): the years are not independent as the standard model assumes. Read the AR(1) model's interval beside the independent one.`,
+      });
+    }
+  }
+
   return {
     diagnostics: {
       zeroDefaultPeriods,
@@ -279,6 +320,8 @@ export function panelDiagnostics(input: DiagnosticsInput): { diagnostics: Diagno
       pitMethod: pit === null ? null : PIT_METHOD,
       pitSerialTest: pitSerial,
       pitSerialNote,
+      lrTestPhi0,
+      lrTestPhi0Note,
       exceedances,
       bands,
       fittedNote,

@@ -23,6 +23,8 @@ export const WARNING_CODES = [
   'mle-not-converged',
   'autocorrelation',
   'pit-autocorrelation',
+  'persistent-factor',
+  'structural-break',
   'integration-tolerance',
   'bootstrap-failures',
   'bootstrap-unavailable',

@@ -11,12 +11,15 @@ let counter = 0;
  */
 export const PANEL_A_FIT = { rho: 0.037091, pd: 0.013307, profile: { level: 0.95, lower: 0.01177, upper: 0.1147 } };
 
-/** Inserts a dataset and a finished fit run whose results hold one segment (the engine's shape). */
+/**
+ * Inserts a dataset and a finished fit run whose results hold one segment (the engine's shape), or
+ * the segments given (`opts.segments`, such as fitPanel's results).
+ */
 export async function makeFitRun(
   userId: number,
   segment: string,
   fit: { rho: number; pd: number; profile: { level: number; lower: number; upper: number } } = PANEL_A_FIT,
-  opts: { status?: 'succeeded' | 'running'; dataset?: { id: number; sha256: string }; periods?: string[] } = {},
+  opts: { status?: 'succeeded' | 'running'; dataset?: { id: number; sha256: string }; periods?: string[]; segments?: unknown[] } = {},
 ): Promise<{ fitId: number; datasetId: number; sha256: string }> {
   counter += 1;
   const tag = `${Date.now().toString(36)}-${counter}`;
@@ -46,7 +49,8 @@ export async function makeFitRun(
   const periods = opts.periods ?? Array.from({ length: 10 }, (_, i) => String(2010 + i));
   const results = {
     engine: { version: 'test-engine-1' },
-    segments: [
+    // the engine's own results when given (fitPanel's SegmentFit), else the hand-made segment below
+    segments: opts.segments ?? [
       {
         segment,
         T: periods.length,

@@ -5,7 +5,29 @@ import { estimatorLabel } from '@/lib/stats/estimators/types';
 import { ForestChart } from '../svg-charts';
 import type { ReviewContext } from './types';
 
-/** Every estimator's value and status, and the three intervals of the likelihood estimate. */
+/** The interval an estimator carries in the table (binomialMle's three are in their own table), with its method, or why it has none. */
+function ownInterval(e: { intervals?: Record<string, { lower: number; upper: number } | null | undefined>; intervalNotes?: Record<string, string | undefined> }) {
+  const ivs = e.intervals ?? {};
+  for (const [k, name] of [
+    ['chiSquare', 'chi-square'],
+    ['profile', 'profile'],
+    ['bootstrap', 'bootstrap'],
+  ] as const) {
+    const iv = ivs[k];
+    if (iv) {
+      return (
+        <>
+          {interval(iv.lower, iv.upper)}
+          <span className="block font-sans text-xs text-[var(--color-muted)]">{name}</span>
+        </>
+      );
+    }
+  }
+  const note = Object.values(e.intervalNotes ?? {}).find(Boolean);
+  return note ? <span className="font-sans text-xs text-[var(--color-muted)]" title={note}>none: {note}</span> : '—';
+}
+
+/** Every estimator's value, interval and status, and the three intervals of the likelihood estimate. */
 export function EstimatesSection({ seg, bootstrapRequested }: ReviewContext) {
   const mle = seg.estimates.binomialMle;
   const iv = mle.intervals;
@@ -16,9 +38,9 @@ export function EstimatesSection({ seg, bootstrapRequested }: ReviewContext) {
       <div className="max-w-3xl">
         <ForestChart seg={seg} supervisory={seg.implications?.supervisory?.rho ?? null} />
         <p className="mt-1 text-xs text-[var(--color-muted)]">
-          Intervals at {lv} for the likelihood estimate: profile likelihood, Wald (built on the logit scale of ρ), and the parametric
-          bootstrap when it was run. The moment and closed-form estimators have no interval here; their spread at this sample size is what
-          the small-sample simulation study shows.
+          Intervals at {lv}. The likelihood estimate: profile likelihood, Wald (built on the logit scale of ρ), and the parametric
+          bootstrap when it was run. The closed form: the chi-square interval of its large-pool approximation. The moment estimators: a
+          parametric bootstrap at each one&apos;s own estimate, when it was run. The persistent-factor model: its profile interval.
         </p>
       </div>
       <div className="grid gap-4 xl:grid-cols-2">
@@ -29,17 +51,20 @@ export function EstimatesSection({ seg, bootstrapRequested }: ReviewContext) {
                 <th>Estimator</th>
                 <th className="text-right">ρ</th>
                 <th className="text-right">PD</th>
+                <th className="text-right">Interval</th>
                 <th>Status</th>
               </tr>
             </thead>
             <tbody>
               {ESTIMATOR_ORDER.map((k) => {
                 const e = seg.estimates[k];
+                if (!e) return null;
                 return (
                   <tr key={k} className={k === seg.chosen ? 'bg-[var(--color-accent-soft)]' : undefined}>
                     <td>{estimatorLabel(k)}</td>
                     <td className="num text-right">{rho(e.rho)}</td>
                     <td className="num text-right">{pd(e.pd)}</td>
+                    <td className="num text-right whitespace-nowrap">{ownInterval(e)}</td>
                     <td className="text-xs">{e.status === 'ok' ? 'ok' : `${e.status}${e.reason ? `: ${e.reason}` : ''}`}</td>
                   </tr>
                 );

@@ -1,4 +1,4 @@
-import { count, fixed } from '@/lib/format';
+import { count, fixed, pValue } from '@/lib/format';
 import type { FitSegmentResult } from '@/lib/fits/results';
 import { FactorChart } from '../svg-charts';
 import type { ReviewContext } from './types';
@@ -20,6 +20,26 @@ function SerialTest({ d }: { d: FitSegmentResult['diagnostics'] }) {
         <span>{d.pitSerialNote}</span>
       )}{' '}
       {d.pitMethod ? <span className="text-xs text-[var(--color-muted)]">Method: {d.pitMethod}.</span> : null}
+    </p>
+  );
+}
+
+/** The AR(1) model's likelihood-ratio test of phi = 0: the third serial-dependence check, or why it could not run. */
+function PersistenceTest({ d }: { d: FitSegmentResult['diagnostics'] }) {
+  // Results stored before the AR(1) model have neither field.
+  if (d.lrTestPhi0 === undefined && d.lrTestPhi0Note === undefined) return null;
+  return (
+    <p className="text-sm" data-testid="lr-test-phi0">
+      Persistence of the factor (the AR(1) model&apos;s likelihood-ratio test of φ = 0, every year included):{' '}
+      {d.lrTestPhi0 ? (
+        <>
+          φ̂ = <span className="num">{d.lrTestPhi0.phi === null ? 'not identified' : fixed(d.lrTestPhi0.phi, 2)}</span>, statistic{' '}
+          <span className="num">{fixed(d.lrTestPhi0.statistic, 2)}</span>, p-value <span className="num">{pValue(d.lrTestPhi0.pValue)}</span>.{' '}
+          {d.lrTestPhi0.pValue < 0.05 ? 'Material: consecutive years are not independent.' : 'Not significant at 5%.'}
+        </>
+      ) : (
+        <span>{d.lrTestPhi0Note}</span>
+      )}
     </p>
   );
 }
@@ -60,6 +80,7 @@ export function FactorSection({ seg }: ReviewContext) {
           </p>
         ) : null}
         <SerialTest d={d} />
+        <PersistenceTest d={d} />
         <p className="text-xs text-[var(--color-muted)]">
           {count(d.zeroDefaultPeriods, 'period')} without a default, {d.allDefaultPeriods} with every obligor in default.
         </p>

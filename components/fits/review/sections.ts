@@ -3,9 +3,11 @@ import { DataSection } from './data-section';
 import { EstimatesSection } from './estimates-section';
 import { FactorSection } from './factor-section';
 import { ImplicationsSection } from './implications-section';
+import { ModelsSection } from './models-section';
 import { isLowDefault, PosteriorReviewSection } from './posterior-section';
 import { ProfileSection } from './profile-section';
 import { SimulationSection } from './simulation-section';
+import { StabilitySection } from './stability-section';
 import type { ReviewSection } from './types';
 import { WindowsSection } from './windows-section';
 
@@ -23,6 +25,8 @@ export const REVIEW_SECTIONS: readonly ReviewSection[] = [
     applies: (seg) => (seg.posterior !== undefined || seg.prudentPd !== undefined) && isLowDefault(seg),
   },
   { id: 'estimates', title: 'Estimates and intervals', Component: EstimatesSection },
+  { id: 'models', title: 'Independent years and a persistent factor', Component: ModelsSection, applies: (seg) => seg.estimates.ar1Mle !== undefined },
+  { id: 'stability', title: 'Stability across the window', Component: StabilitySection, applies: (seg) => !!seg.stability },
   { id: 'bands', title: 'Default rates against the fitted model', Component: BandsSection },
   { id: 'profile', title: 'Profile log-likelihood of ρ', Component: ProfileSection },
   { id: 'factor', title: 'Implied factor and probability integral transform', Component: FactorSection },

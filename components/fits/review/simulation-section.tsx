@@ -1,8 +1,37 @@
 import { ScrollBox } from '@/components/layout/scroll-box';
-import { count, level, pct, pd, rho, signed } from '@/lib/format';
-import { ESTIMATOR_ORDER } from '@/lib/fits/results';
-import { estimatorLabel } from '@/lib/stats/estimators/types';
+import { count, fixed, level, pct, pd, rho, signed } from '@/lib/format';
+import type { FitSegmentResult } from '@/lib/fits/results';
+import { estimatorLabel, INDEPENDENT_ESTIMATOR_KEYS } from '@/lib/stats/estimators/types';
 import type { ReviewContext } from './types';
+
+type Audit = NonNullable<FitSegmentResult['estimatorAudit']>;
+type EstimatorRow = Audit['estimators']['binomialMle'];
+type CoverageRow = Audit['coverage']['profile'];
+
+/** The study's estimator rows: the five of the independent model, then the persistent-factor ones and phi when studied. */
+function auditRows(audit: Audit): [string, string, EstimatorRow][] {
+  const rows: [string, string, EstimatorRow][] = INDEPENDENT_ESTIMATOR_KEYS.map((k) => [k, estimatorLabel(k), audit.estimators[k]]);
+  const p = audit.persistent;
+  if (p) {
+    rows.push(['momentVarianceAutocorrected', estimatorLabel('momentVarianceAutocorrected'), p.momentVarianceAutocorrected]);
+    rows.push(['ar1Mle', estimatorLabel('ar1Mle'), p.ar1Mle]);
+    rows.push(['phi', 'φ of the AR(1) model (bias around the simulated φ)', p.phi]);
+  }
+  return rows;
+}
+
+/** The study's interval rows: binomialMle's two, vasicekMle's chi-square (studied since engine 3.0) and ar1Mle's profile when studied. */
+function coverageRows(audit: Audit): [string, string, CoverageRow][] {
+  const rows: [string, string, CoverageRow][] = [
+    ['profile', 'Profile likelihood', audit.coverage.profile],
+    ['wald', 'Wald (logit scale)', audit.coverage.wald],
+  ];
+  // absent in studies stored before engine 3.0
+  const chi = audit.coverage.chiSquare as CoverageRow | undefined;
+  if (chi) rows.push(['chiSquare', 'Chi-square (closed form)', chi]);
+  if (audit.persistent) rows.push(['ar1Profile', 'AR(1) model, profile likelihood', audit.persistent.ar1Profile]);
+  return rows;
+}
 
 /**
  * The small-sample simulation study (the engine's estimatorAudit): panels simulated with the
@@ -26,7 +55,9 @@ export function SimulationSection({ seg }: ReviewContext) {
     <div className="space-y-3">
       <p className="text-sm">
         {count(audit.replications, 'panel')} simulated with this segment&apos;s own cohort sizes and {count(audit.periods, 'period')} at the
-        fitted values (ρ = {rho(audit.truth.rho)}, PD {pd(audit.truth.pd)}; seed {audit.seed}), every estimator run on each.{' '}
+        fitted values (ρ = {rho(audit.truth.rho)}, PD {pd(audit.truth.pd)}
+        {audit.truth.phi !== undefined ? `, a persistent factor with φ = ${fixed(audit.truth.phi, 2)}, the AR(1) model's fit` : ''}; seed {audit.seed}), every
+        estimator run on each.{' '}
         {mleAudit && mleAudit.bias !== null && mleAudit.rmse !== null ? (
           <>
             The likelihood estimate misses the value it was simulated from by {rho(mleAudit.rmse)} (RMSE), with a bias of {signed(mleAudit.bias)}
@@ -51,11 +82,10 @@ export function SimulationSection({ seg }: ReviewContext) {
               </tr>
             </thead>
             <tbody>
-              {ESTIMATOR_ORDER.map((k) => {
-                const r = audit.estimators[k];
+              {auditRows(audit).map(([k, label, r]) => {
                 return (
                   <tr key={k}>
-                    <td>{estimatorLabel(k)}</td>
+                    <td>{label}</td>
                     <td className="num text-right whitespace-nowrap">
                       {r.defined} / {audit.replications}
                     </td>
@@ -75,19 +105,18 @@ export function SimulationSection({ seg }: ReviewContext) {
           <table className="table text-sm" data-testid="audit-coverage">
             <thead>
               <tr>
-                <th>Interval of the likelihood estimate</th>
+                <th>Interval</th>
                 <th className="text-right">Available</th>
                 <th className="text-right">Covered the truth (± MC s.e.)</th>
                 <th className="text-right">Mean width</th>
               </tr>
             </thead>
             <tbody>
-              {(['profile', 'wald'] as const).map((m) => {
-                const c = audit.coverage[m];
+              {coverageRows(audit).map(([m, label, c]) => {
                 return (
                   <tr key={m}>
                     <td>
-                      {m === 'profile' ? 'Profile likelihood' : 'Wald (logit scale)'} at {level(c.level)}
+                      {label} at {level(c.level)}
                     </td>
                     <td className="num text-right whitespace-nowrap">
                       {c.available} / {audit.replications}

@@ -21,7 +21,7 @@ export function splitWarnings(seg: FitSegmentResult) {
  * the window and asset class, and the segment's cautions right beside the value.
  */
 export function SegmentSummary({ seg }: { seg: FitSegmentResult }) {
-  const chosen = seg.estimates[seg.chosen];
+  const chosen = seg.estimates[seg.chosen] ?? seg.estimates.binomialMle;
   const iv = seg.estimates.binomialMle.intervals;
   const { cautions, notes } = splitWarnings(seg);
   return (

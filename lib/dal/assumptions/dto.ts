@@ -100,6 +100,7 @@ export function contentOf(v: AssumptionVersion, segment: string): VersionContent
     engineVersion: v.engineVersion,
     seeds: v.seeds,
     estimator: v.estimator,
+    factorModel: v.factorModel,
     estimate: v.estimate,
     intervalMethod: v.intervalMethod,
     intervalLevel: v.intervalLevel,

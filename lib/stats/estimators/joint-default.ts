@@ -1,6 +1,5 @@
-import type { Panel } from '../mixture-likelihood';
-import { solveMomentEquation } from './moment-equation';
-import { momentTarget } from './moment-target';
+import type { Panel } from '../panel';
+import { momentEstimate } from './moment-estimate';
 import { undefinedEstimate, type Estimate } from './types';
 
 /**
@@ -12,7 +11,7 @@ import { undefinedEstimate, type Estimate } from './types';
  * (DESIGN.md key `jointDefault`). Sampling pairs without replacement removes the binomial noise
  * that biases the plain variance estimator.
  *
- * Method: solveMomentEquation (Brent's root finder on the cancellation-free excess).
+ * Method: momentEstimate (Brent's root finder on the cancellation-free excess).
  *
  * Special cases (status `undefined`, null values and a reason; T = 1 is allowed): a period
  * with fewer than 2 obligors (no pairs); p = 0 or 1; p2 <= p^2 (a target at or below zero: the
@@ -28,25 +27,16 @@ import { undefinedEstimate, type Estimate } from './types';
  * probability estimator.
  */
 export function jointDefault(panel: Panel): Estimate {
-  const m = momentTarget('jointDefault', panel);
-  if (m.kind === 'undefined') return undefinedEstimate(m.reason);
-  const { p, target, statistic: p2 } = m;
-  if (!(target > 0)) {
-    return undefinedEstimate(
-      'The observed joint default frequency is at or below the square of the mean default rate: the data show no positive default dependence, which rho >= 0 cannot fit.',
-    );
-  }
-  const solution = solveMomentEquation(p, target);
-  if (solution.kind === 'too-large') {
-    return {
+  return momentEstimate('jointDefault', panel, {
+    atOrBelowZero: () =>
+      undefinedEstimate(
+        'The observed joint default frequency is at or below the square of the mean default rate: the data show no positive default dependence, which rho >= 0 cannot fit.',
+      ),
+    tooLarge: (p, _target, _maximum, p2) => ({
       rho: 1,
       pd: p,
       status: 'clipped',
       reason: `The joint default frequency ${p2.toPrecision(4)} equals the PD (every year has no default or only defaults, or nearly): the largest the model allows, reached at the boundary rho = 1. The data show all-or-nothing years, not a correlation estimate.`,
-    };
-  }
-  if (!solution.converged) {
-    return { rho: solution.rho, pd: p, status: 'not-converged', reason: 'The root finder did not meet its tolerance.' };
-  }
-  return { rho: solution.rho, pd: p, status: 'ok' };
+    }),
+  });
 }

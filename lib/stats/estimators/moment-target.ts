@@ -5,16 +5,19 @@
  * from an estimator without a value).
  */
 import { assertPanel, type Panel } from '../panel';
+import { sampleVarianceBiasFactor } from '../variance-bias';
 import { defaultRates, mean } from './moment-equation';
 
 /** The estimators that solve the moment equation. */
 export const MOMENT_ESTIMATOR_KEYS = ['momentVariance', 'momentVarianceCorrected', 'jointDefault', 'momentVarianceAutocorrected'] as const;
 
 /**
- * Lags of the default-rate autocorrelation used by momentVarianceAutocorrected (the first-order
- * correction; sample autocorrelations of higher lags from 10-25 years are mostly noise).
+ * Largest |r_1| momentVarianceAutocorrected uses: the lag-1 sample autocorrelation of the default
+ * rates is clipped to [-0.9, 0.9]. The correction 1 / c grows without bound as r_1 nears 1 (at 0.9
+ * it is 2.1 for T = 20 and 4.7 for T = 6), and a sample r_1 beyond 0.9 from 10-25 years is within
+ * its noise of a random walk, which the stationary formula does not describe.
  */
-export const AUTOCORRELATION_LAGS = 1;
+export const AUTOCORRELATION_CLIP = 0.9;
 export type MomentEstimatorKey = (typeof MOMENT_ESTIMATOR_KEYS)[number];
 
 /** A moment target, or the reason there is none. */
@@ -25,13 +28,30 @@ export type MomentTarget =
       p: number;
       /** What Phi2(k, k; rho) - p^2 must equal; may be 0 or negative (the estimator then decides). */
       target: number;
-      /** The statistic the target is made of, for messages: s2, V or p2 (momentVarianceAutocorrected: the factor c). */
+      /** The statistic the target is made of, for messages: s2, V or p2 (momentVarianceAutocorrected: s2). */
       statistic: number;
+      /** momentVarianceAutocorrected only: the correction applied to s2. */
+      correction?: AutocorrelationCorrection;
     }
   | { kind: 'undefined'; reason: string };
 
-/** Sample variance with divisor T - 1 (two-pass). */
+/** The autocorrelation correction of momentVarianceAutocorrected's target. */
+export interface AutocorrelationCorrection {
+  /** r_1, the lag-1 sample autocorrelation of the default rates. */
+  lag1: number;
+  /** r_1 clipped to [-AUTOCORRELATION_CLIP, AUTOCORRELATION_CLIP]: the value the correction uses. */
+  lag1Used: number;
+  /** c = E[s2] / Var(DR) for an AR(1) with coefficient lag1Used (sampleVarianceBiasFactor); target = s2 / c. */
+  factor: number;
+}
+
+/**
+ * Sample variance with divisor T - 1 (two-pass). Equal values give 0 exactly: their computed mean
+ * can differ from them by a rounding (ten rates of 0.01 average to 0.009999999999999998), which
+ * would leave a variance of ~1e-36 and turn "no variation" into a tiny correlation.
+ */
 export function sampleVariance(values: readonly number[]): number {
+  if (values.every((v) => v === values[0])) return 0;
   const m = mean(values);
   let s = 0;
   for (const v of values) s += (v - m) * (v - m);
@@ -69,11 +89,14 @@ export function sampleAutocorrelation(values: readonly number[], h: number): num
  * - `momentVarianceCorrected`: target = V = (s2 - p (1 - p) h) / (1 - h), h = mean(1 / n_t)
  *   (before the clip at 0, which the estimator applies);
  * - `jointDefault`: target = p2 - p^2, p2 = mean(d_t (d_t - 1) / (n_t (n_t - 1)));
- * - `momentVarianceAutocorrected`: target = s2 / c with c = 1 - (2 / (T (T - 1))) sum_(h=1..L) (T - h) r_h,
- *   r_h the sample autocorrelations of DR_t and L = AUTOCORRELATION_LAGS (1): for a stationary
- *   series with autocorrelations rho_h, E[s2] = Var(DR) (1 - (2 / (T (T - 1))) sum_(h=1..T-1) (T - h) rho_h)
- *   (Anderson 1971, section 8.2; Frei & Wunsch 2018 use this correction for default rates), so
- *   s2 / c corrects the sample variance for the autocorrelation it can see.
+ * - `momentVarianceAutocorrected`: target = s2 / c with
+ *   c = 1 - (2 / (T - 1)) sum_(h=1..T-1) (1 - h / T) r^h (sampleVarianceBiasFactor), r the lag-1
+ *   sample autocorrelation r_1 of DR_t clipped to [-0.9, 0.9] (AUTOCORRELATION_CLIP): for a
+ *   stationary series with autocorrelations rho_h, E[s2] = Var(DR) (1 - (2 / (T - 1)) sum_h
+ *   (1 - h / T) rho_h) (Anderson 1971, section 8.2), and rho_h = r^h takes the default rates to
+ *   follow an AR(1) with coefficient r_1, so s2 / c estimates Var(DR) without the downward bias of
+ *   a persistent series. This follows the idea of Frei & Wunsch (2018), correcting the moments for
+ *   the autocorrelation of the default rates; it is not their estimator.
  *
  * Method: two-pass sums in period order (the same arithmetic as the estimators always used).
  *
@@ -90,7 +113,8 @@ export function sampleAutocorrelation(values: readonly number[], h: number): num
  * correlation: empirical evidence", Standard & Poor's working paper; Frei, C. & Wunsch, M. (2018),
  * "Moment estimators for autocorrelated time series and their application to default
  * correlations", Journal of Credit Risk 14(1); Anderson, T. W. (1971), The Statistical Analysis
- * of Time Series, Wiley, section 8.2.
+ * of Time Series, Wiley, section 8.2; Bayley, G. V. & Hammersley, J. M. (1946), Supplement to the
+ * Journal of the Royal Statistical Society 8:184-197.
  */
 export function momentTarget(key: MomentEstimatorKey, panel: Panel): MomentTarget {
   assertPanel(panel, key);
@@ -117,12 +141,12 @@ export function momentTarget(key: MomentEstimatorKey, panel: Panel): MomentTarge
   }
   if (key === 'momentVarianceAutocorrected') {
     const s2 = sampleVariance(dr);
-    if (!(s2 > 0)) return { kind: 'target', p, target: 0, statistic: 1 };
-    let sum = 0;
-    for (let h = 1; h <= Math.min(AUTOCORRELATION_LAGS, T - 1); h++) sum += (T - h) * sampleAutocorrelation(dr, h);
-    // With one lag c = 1 - 2 r_1 / T, inside (1 - 2/T, 1 + 2/T): positive for T >= 3.
-    const c = 1 - (2 / (T * (T - 1))) * sum;
-    return { kind: 'target', p, target: s2 / c, statistic: c };
+    if (!(s2 > 0)) return { kind: 'target', p, target: 0, statistic: s2 };
+    const lag1 = sampleAutocorrelation(dr, 1);
+    const lag1Used = Math.min(AUTOCORRELATION_CLIP, Math.max(-AUTOCORRELATION_CLIP, lag1));
+    // positive for |r| < 1 (the mean of a variance)
+    const factor = sampleVarianceBiasFactor(T, lag1Used);
+    return { kind: 'target', p, target: s2 / factor, statistic: s2, correction: { lag1, lag1Used, factor } };
   }
   if (key === 'momentVarianceCorrected') {
     const h = mean(panel.obligors.map((n) => 1 / n));

@@ -1,6 +1,5 @@
-import type { Panel } from '../mixture-likelihood';
-import { solveMomentEquation } from './moment-equation';
-import { momentTarget } from './moment-target';
+import type { Panel } from '../panel';
+import { momentEstimate } from './moment-estimate';
 import { undefinedEstimate, type Estimate } from './types';
 
 /**
@@ -12,7 +11,7 @@ import { undefinedEstimate, type Estimate } from './types';
  * (DESIGN.md key `momentVarianceCorrected`). The correction follows from
  * Var(DR_t) = Var(P) + (E[P(1 - P)]) / n_t with E[P(1 - P)] = p(1 - p) - Var(P).
  *
- * Method: as momentVariance (solveMomentEquation).
+ * Method: as momentVariance (momentEstimate).
  *
  * Special cases: V <= 0 (all the observed variance is binomial noise) gives rho = 0 with status
  * `clipped`, as the definition clips; status `undefined` (null values and a reason) for fewer than
@@ -26,25 +25,14 @@ import { undefinedEstimate, type Estimate } from './types';
  * Standard & Poor's working paper.
  */
 export function momentVarianceCorrected(panel: Panel): Estimate {
-  const m = momentTarget('momentVarianceCorrected', panel);
-  if (m.kind === 'undefined') return undefinedEstimate(m.reason);
-  const { p, target: v } = m;
-  if (!(v > 0)) {
-    return {
+  return momentEstimate('momentVarianceCorrected', panel, {
+    atOrBelowZero: (p) => ({
       rho: 0,
       pd: p,
       status: 'clipped',
       reason: 'Binomial noise of the cohort sizes explains all the observed variance of the default rate; the corrected target is clipped at 0.',
-    };
-  }
-  const solution = solveMomentEquation(p, v);
-  if (solution.kind === 'too-large') {
-    return undefinedEstimate(
-      `The corrected variance ${v.toPrecision(4)} is at least the largest the model allows at this PD (${solution.maximum.toPrecision(4)}).`,
-    );
-  }
-  if (!solution.converged) {
-    return { rho: solution.rho, pd: p, status: 'not-converged', reason: 'The root finder did not meet its tolerance.' };
-  }
-  return { rho: solution.rho, pd: p, status: 'ok' };
+    }),
+    tooLarge: (_p, v, maximum) =>
+      undefinedEstimate(`The corrected variance ${v.toPrecision(4)} is at least the largest the model allows at this PD (${maximum.toPrecision(4)}).`),
+  });
 }

@@ -1,9 +1,11 @@
-import type { Panel } from '../mixture-likelihood';
-import { solveMomentEquation } from './moment-equation';
-import { momentTarget } from './moment-target';
+import type { Panel } from '../panel';
+import { momentEstimate } from './moment-estimate';
 import { undefinedEstimate, type Estimate } from './types';
 
 export { sampleVariance } from './moment-target';
+
+/** The sentence of a variance target of 0 (momentVariance and momentVarianceAutocorrected). */
+export const CONSTANT_RATE = 'The default rate is the same in every period: the variance target is 0, which the equation cannot use.';
 
 /**
  * Method-of-moments estimate of the asset correlation from the variance of the default rate.
@@ -12,7 +14,7 @@ export { sampleVariance } from './moment-target';
  * with k = Phi^-1(p) (DESIGN.md key `momentVariance`). Ignores the binomial noise of finite
  * cohorts, so it is biased upwards for small cohorts (see momentVarianceCorrected).
  *
- * Method: solveMomentEquation (Brent's root finder on the cancellation-free excess
+ * Method: momentEstimate: solveMomentEquation (Brent's root finder on the cancellation-free excess
  * Phi2 - Phi^2); the moment equation holds to ~1e-14 relative at the returned rho.
  *
  * Special cases (status `undefined`, rho and pd null, with a reason): fewer than 2 periods; no
@@ -27,20 +29,9 @@ export { sampleVariance } from './moment-target';
  * Risk 15(12):160-162.
  */
 export function momentVariance(panel: Panel): Estimate {
-  const m = momentTarget('momentVariance', panel);
-  if (m.kind === 'undefined') return undefinedEstimate(m.reason);
-  const { p, target: s2 } = m;
-  if (!(s2 > 0)) {
-    return undefinedEstimate('The default rate is the same in every period: the variance target is 0, which the equation cannot use.');
-  }
-  const solution = solveMomentEquation(p, s2);
-  if (solution.kind === 'too-large') {
-    return undefinedEstimate(
-      `The default-rate variance ${s2.toPrecision(4)} is at least the largest the model allows at this PD (${solution.maximum.toPrecision(4)}).`,
-    );
-  }
-  if (!solution.converged) {
-    return { rho: solution.rho, pd: p, status: 'not-converged', reason: 'The root finder did not meet its tolerance.' };
-  }
-  return { rho: solution.rho, pd: p, status: 'ok' };
+  return momentEstimate('momentVariance', panel, {
+    atOrBelowZero: () => undefinedEstimate(CONSTANT_RATE),
+    tooLarge: (_p, s2, maximum) =>
+      undefinedEstimate(`The default-rate variance ${s2.toPrecision(4)} is at least the largest the model allows at this PD (${maximum.toPrecision(4)}).`),
+  });
 }

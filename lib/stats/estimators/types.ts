@@ -23,13 +23,32 @@ export interface Estimate {
   reason?: string;
 }
 
-/** The estimator keys of DESIGN.md, in display order. */
-export const ESTIMATOR_KEYS = [
+/** The five estimators of DESIGN.md (the independent-factor model), in DESIGN.md's order. */
+export const INDEPENDENT_ESTIMATOR_KEYS = [
   'binomialMle',
   'vasicekMle',
   'momentVariance',
   'momentVarianceCorrected',
   'jointDefault',
+] as const;
+export type IndependentEstimatorKey = (typeof INDEPENDENT_ESTIMATOR_KEYS)[number];
+
+/** The estimators that allow for a persistent factor (the AR(1) model). */
+export const PERSISTENT_ESTIMATOR_KEYS = ['momentVarianceAutocorrected', 'ar1Mle'] as const;
+export type PersistentEstimatorKey = (typeof PERSISTENT_ESTIMATOR_KEYS)[number];
+
+/**
+ * Every estimator key, in display order: the autocorrelation-corrected variance moments beside the
+ * plain ones, the AR(1)-factor likelihood last.
+ */
+export const ESTIMATOR_KEYS = [
+  'binomialMle',
+  'vasicekMle',
+  'momentVariance',
+  'momentVarianceCorrected',
+  'momentVarianceAutocorrected',
+  'jointDefault',
+  'ar1Mle',
 ] as const;
 export type EstimatorKey = (typeof ESTIMATOR_KEYS)[number];
 
@@ -42,7 +61,9 @@ export const ESTIMATOR_LABELS: Readonly<Record<EstimatorKey, string>> = {
   vasicekMle: 'Vasicek closed-form maximum likelihood',
   momentVariance: 'Moments of the default-rate variance',
   momentVarianceCorrected: 'Moments, finite-cohort corrected',
+  momentVarianceAutocorrected: 'Moments, autocorrelation corrected',
   jointDefault: 'Joint-default-probability moments',
+  ar1Mle: 'Maximum likelihood with a persistent (AR(1)) factor',
 };
 
 /** The readable name of an estimator key as stored anywhere (a key without a label is shown as it is). */

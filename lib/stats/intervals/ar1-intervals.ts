@@ -9,6 +9,7 @@ import { RHO_SEARCH_LIMIT } from '../estimators/binomial-mle';
 import type { Panel } from '../panel';
 import { normalCdf } from '../normal';
 import { HigherMaximumError, likelihoodRatioEnds, type LikelihoodRatioEnds } from './likelihood-ratio';
+import { StageTimer } from '../stage-timer';
 import { chiSquare1Quantile } from './profile';
 
 /** A likelihood-ratio interval; an end that reached the parameter's bound is reported as the bound (0 or 1 for rho, -1 or 1 for phi). */
@@ -54,6 +55,8 @@ export interface Ar1FitOptions extends Ar1MleOptions {
   phiProfilePoints?: number;
   /** Compute the interval of phi (default true; the estimator audit needs only rho's). */
   phiInterval?: boolean;
+  /** Times the parts (stages `ar1Mle`, `ar1Mle.profile`, `ar1Mle.phiInterval`, `ar1Mle.phiProfile`); none by default. */
+  timer?: StageTimer;
 }
 
 /**
@@ -218,16 +221,18 @@ export function ar1PhiProfileCurve(profile: Ar1Profile, mle: Ar1MleResult, point
 export function ar1Fit(panel: Panel, options: Ar1FitOptions = {}): Ar1Fit {
   const level = options.level ?? 0.95;
   if (!(level > 0 && level < 1)) throw new RangeError(`ar1Fit: the level must be strictly between 0 and 1; got ${level}.`);
+  const timer = options.timer ?? new StageTimer();
+  const { timer: _timer, ...mleOptions } = options;
   let start = options.start;
   for (let restarts = 0; ; restarts++) {
-    const { result, profile } = ar1Mle(panel, { ...options, start });
+    const { result, profile } = timer.time('ar1Mle', () => ar1Mle(panel, { ...mleOptions, start }));
     if (profile === null || result.rho === null || result.logLik === null || result.status === 'not-converged') {
       return { result, profile: null, phiInterval: null, phiProfile: [], cutoff: null, lrTestPhi0: null, restarts };
     }
     try {
-      const rhoInterval = ar1ProfileInterval(profile, result, level);
-      const phiInterval = options.phiInterval === false ? null : ar1PhiInterval(profile, result, level);
-      const phiProfile = ar1PhiProfileCurve(profile, result, options.phiProfilePoints ?? 20);
+      const rhoInterval = timer.time('ar1Mle.profile', () => ar1ProfileInterval(profile, result, level));
+      const phiInterval = options.phiInterval === false ? null : timer.time('ar1Mle.phiInterval', () => ar1PhiInterval(profile, result, level));
+      const phiProfile = timer.time('ar1Mle.phiProfile', () => ar1PhiProfileCurve(profile, result, options.phiProfilePoints ?? 20));
       return {
         result,
         profile: rhoInterval,

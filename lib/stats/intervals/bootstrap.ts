@@ -41,7 +41,7 @@ export interface BootstrapReplication {
   reason?: string;
 }
 
-/** Summary of a parametric bootstrap (DTO of the issue's `intervals.bootstrap`). */
+/** Summary of a parametric bootstrap (the result's `estimates.binomialMle.intervals.bootstrap`). */
 export interface BootstrapInterval {
   level: number;
   /** Percentile interval: the (1 - level)/2 and (1 + level)/2 quantiles of the successful rho*. */

@@ -19,7 +19,7 @@ export interface WaldInterval {
  * (delta method; exact for the observed information at a maximum, where the gradient vanishes).
  * The variance of rho does not depend on how p is parameterised, so (k, eta) gives the same se as
  * (p, rho). Built on the logit scale because the plain interval clipped to [0, 1] under-covers
- * badly at T = 20 (issue 3).
+ * badly at T = 20 (the engine's design study: 95% intervals on T = 20 panels).
  *
  * Method: the observed information is the negative Hessian of l in (k, rho), whose entries come
  * from one evaluation of the integrated likelihood with its exact derivatives (posterior moments

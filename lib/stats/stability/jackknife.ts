@@ -3,7 +3,7 @@
  * `stability.jackknife`: `{ estimators: { KEY: { leaveOneOut: [ { period, rho } ], bias, se } },
  * mostInfluential: { period, estimator, change } }`).
  */
-import { ESTIMATORS } from '../estimators';
+import { INDEPENDENT_ESTIMATORS } from '../estimators';
 import type { Estimate } from '../estimators/types';
 import { assertPanel, type Panel } from '../panel';
 
@@ -94,7 +94,8 @@ export function assertLabelledPanel(panel: LabelledPanel, fn: string): void {
  * which it has a value (first in period order on ties), change signed (negative: rho falls
  * without that period).
  *
- * Method: the estimators as defined (no warm starts), T + 1 runs each; a `clipped` value counts
+ * Method: the estimators as defined (no warm starts), T + 1 runs each (by default the five of the
+ * independent-factor model, whose stability this is: DESIGN.md); a `clipped` value counts
  * as a value, `undefined` and `not-converged` as none.
  *
  * Special cases: when the full estimate or any leave-one-out value is missing, bias and se are
@@ -109,7 +110,7 @@ export function assertLabelledPanel(panel: LabelledPanel, fn: string): void {
  */
 export function jackknife(
   panel: LabelledPanel,
-  estimators: Readonly<Record<string, (panel: Panel) => Estimate>> = ESTIMATORS,
+  estimators: Readonly<Record<string, (panel: Panel) => Estimate>> = INDEPENDENT_ESTIMATORS,
 ): Jackknife {
   assertLabelledPanel(panel, 'jackknife');
   const T = panel.obligors.length;

@@ -75,6 +75,8 @@ describe('the version in force at a date', () => {
     expect(a.value).toBe(0.067091);
     expect(a.pd).toBe(0.013307);
     expect(a.interval).toEqual({ method: 'profile', level: 0.95, lower: 0.01177, upper: 0.1147 });
+    // drafted from binomialMle: the Gaussian one-factor model with independent years
+    expect(a.model).toEqual({ copula: 'gaussian', factor: 'independent' });
     expect(a.lineage.datasetSha256).toMatch(/^[0-9a-f]{64}$/);
     expect(a.lineage.fitUrl).toBe(`/fits/${a.lineage.fitRunId}`);
     expect(a.lineage.seeds).toEqual({ bootstrap: 7, audit: 11 });

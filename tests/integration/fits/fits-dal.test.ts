@@ -45,7 +45,7 @@ describe('requesting a fit', () => {
     const [row] = await getDb().select().from(fitRuns).where(eq(fitRuns.id, res.id));
     expect(row.datasetSha256).toBe(dataset.sha256);
     expect(row.engineVersion).toBe(ENGINE_VERSION);
-    expect(row.seeds).toEqual({ bootstrap: 11, audit: null });
+    expect(row.seeds).toEqual({ bootstrap: 11, audit: null, breakTest: null });
     expect(row.createdBy).toBe(analyst.id);
     const [job] = await getDb().select().from(jobs).where(eq(jobs.id, row.jobId!));
     expect(job.kind).toBe('fit');
@@ -54,6 +54,12 @@ describe('requesting a fit', () => {
     const dto = await getFit(viewer, res.id);
     expect(dto).toMatchObject({ id: res.id, status: 'queued', progress: 0, results: null, error: null });
     expect(dto.request.level).toBe(0.9);
+    // every model and a 10-year rolling window unless asked otherwise
+    expect(dto.request).toMatchObject({ models: ['independent', 'ar1'], rollingWindow: 10 });
+    const withBreak = await createFit(analyst, { datasetId: dataset.id, models: ['ar1', 'independent'], rollingWindow: 8, breakTest: { replications: 200, seed: 12 } });
+    const [second] = await getDb().select().from(fitRuns).where(eq(fitRuns.id, withBreak.id));
+    expect(second.seeds).toEqual({ bootstrap: null, audit: null, breakTest: 12 });
+    expect((await getFit(viewer, withBreak.id)).request).toMatchObject({ models: ['ar1', 'independent'], rollingWindow: 8, breakTest: { replications: 200, seed: 12 } });
   });
 
   it('a validator may run fits too', async () => {
@@ -89,6 +95,11 @@ describe('requesting a fit', () => {
       [{ datasetId: dataset.id, from: 2018 }, 'from', /has 2 periods from 2018 .* at least 3/],
       [{ datasetId: dataset.id, level: 1.5 }, 'level', /between 0.5 and 0.999/],
       [{ datasetId: dataset.id, bootstrap: { replications: 5, seed: 1 } }, 'bootstrap.replications', /at least 20/],
+      [{ datasetId: dataset.id, models: [] }, 'models', /at least one model/],
+      [{ datasetId: dataset.id, models: ['garch'] }, 'models.0', /A model is one of independent, ar1/],
+      [{ datasetId: dataset.id, models: ['ar1', 'ar1'] }, 'models', /each model once/],
+      [{ datasetId: dataset.id, rollingWindow: 2 }, 'rollingWindow', /at least 3 years/],
+      [{ datasetId: dataset.id, breakTest: { replications: 10, seed: 1 } }, 'breakTest.replications', /The break test needs at least 20 replications/],
       [{ datasetId: 'seven' }, 'datasetId', /^Choose a dataset/],
       [{ datasetId: dataset.id, extra: true }, null, /Unrecognized key/i],
     ];

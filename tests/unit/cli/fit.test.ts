@@ -31,7 +31,7 @@ function tempCsv(text: string): string {
 }
 
 describe('cli fit --json (spawned)', () => {
-  it('prints the issue 3 document for a two-segment file, with panel A and B values', async () => {
+  it('prints the JSON document for a two-segment file, with panel A and B values', async () => {
     const { code, stdout } = await run('npm', ['run', '--silent', 'cli', '--', 'fit', CSV, '--json'], { cwd: ROOT, maxBuffer: 1 << 26 }).then(
       (r) => ({ code: 0, ...r }),
     );
@@ -44,7 +44,7 @@ describe('cli fit --json (spawned)', () => {
     for (const key of ['segment', 'T', 'periods', 'estimates', 'warnings', 'timing']) expect(a).toHaveProperty(key);
     expect(a.timing.ms).toBeGreaterThan(0);
     const m = a.estimates.binomialMle;
-    // issue 3, computed with SciPy 1.17
+    // engine specification, computed with SciPy 1.17
     expect(Math.abs(m.rho! - 0.037091)).toBeLessThan(1e-5);
     expect(Math.abs(m.pd! - 0.013307)).toBeLessThan(1e-5);
     expect(Math.abs(m.logLik! - -33.785195)).toBeLessThan(1e-5);
@@ -53,16 +53,16 @@ describe('cli fit --json (spawned)', () => {
     expect(m.intervals.wald).toMatchObject({ level: 0.95 });
     expect(m.intervals.wald!.se).toBeGreaterThan(0);
     expect(m.intervals.bootstrap).toBeNull();
-    expect(Math.abs(a.estimates.momentVariance.rho! - 0.05111)).toBeLessThan(1e-6);
-    expect(Math.abs(a.estimates.jointDefault.rho! - 0.037745)).toBeLessThan(1e-6);
-    // issue 3, computed with SciPy 1.17
+    expect(Math.abs(a.estimates.momentVariance!.rho! - 0.05111)).toBeLessThan(1e-6);
+    expect(Math.abs(a.estimates.jointDefault!.rho! - 0.037745)).toBeLessThan(1e-6);
+    // engine specification, computed with SciPy 1.17
     expect(b.estimates.vasicekMle).toMatchObject({ rho: null, pd: null, status: 'undefined' });
-    expect(typeof b.estimates.vasicekMle.reason).toBe('string');
+    expect(typeof b.estimates.vasicekMle!.reason).toBe('string');
     expect(Math.abs(b.estimates.binomialMle.rho! - 0.06262)).toBeLessThan(1e-5);
     expect(Math.abs(b.estimates.binomialMle.pd! - 0.002561)).toBeLessThan(1e-6);
     expect(b.estimates.binomialMle.intervals.profile!.lower).toBe(0);
     expect(Math.abs(b.estimates.binomialMle.intervals.profile!.upper - 0.344)).toBeLessThan(2e-3);
-    expect(Math.abs(b.estimates.jointDefault.rho! - 0.050346)).toBeLessThan(1e-6);
+    expect(Math.abs(b.estimates.jointDefault!.rho! - 0.050346)).toBeLessThan(1e-6);
     expect(b.warnings.map((w) => w.code)).toContain('zero-default-periods');
   });
 
@@ -97,6 +97,47 @@ describe('cli fit --json (spawned)', () => {
     expect(stdout).toMatch(/Segment Panel B: T = 10 \(2001-2010\)/);
     expect(stdout).toMatch(/binomialMle .*0\.0626/);
     expect(stdout).toMatch(/vasicekMle .*undefined/);
+    // the models over time and the stability across the window, in words
+    expect(stdout).toMatch(/ar1Mle .*profile \[0, /);
+    expect(stdout).toMatch(/AR\(1\) factor: phi -?\d\.\d+ .*LR test of phi = 0: statistic/);
+    expect(stdout).toMatch(/break test: largest LR statistic .* from \d{4}; no p-value \(run with --bootstrap B\)/);
+    expect(stdout).toMatch(/rolling window of 10: 1 window, /);
+    expect(stdout).toMatch(/slowest stages: /);
+  });
+});
+
+describe('cli fit --models and the stability block (in process)', () => {
+  const fit = async (argv: string[]) => {
+    const out: string[] = [];
+    const err: string[] = [];
+    const code = await main(['fit', CSV, '--json', '--segment', 'Panel A', ...argv], { out: (t) => out.push(t), err: (t) => err.push(t) });
+    return { code, doc: code === 0 ? (JSON.parse(out.join('\n')) as FitDocument) : null, err: err.join('\n') };
+  };
+
+  it('runs every model by default and the AR(1) model alone with --models ar1 (no stability block: DESIGN.md)', async () => {
+    const all = (await fit([])).doc!.segments[0];
+    expect(all.models).toEqual(['independent', 'ar1']);
+    expect(Object.keys(all.estimates)).toContain('ar1Mle');
+    expect(all.stability!.rolling).toMatchObject({ status: 'ok', window: 10 });
+    const ar1 = (await fit(['--models', 'ar1'])).doc!.segments[0];
+    expect(Object.keys(ar1.estimates)).toEqual(['binomialMle', 'momentVarianceAutocorrected', 'ar1Mle']);
+    expect(ar1.stability).toBeNull();
+    // the same AR(1) numbers whichever models run beside it
+    expect(ar1.estimates.ar1Mle).toEqual(all.estimates.ar1Mle);
+  });
+
+  it('--bootstrap B runs every parametric bootstrap with B replications: the moment estimators\' and the break test\'s too (DESIGN.md)', async () => {
+    const { code, doc } = await fit(['--models', 'independent', '--bootstrap', '20', '--seed', '3', '--rolling-window', '6']);
+    expect(code).toBe(0);
+    const s = doc!.segments[0];
+    for (const key of ['momentVariance', 'momentVarianceCorrected', 'jointDefault'] as const) {
+      expect(s.estimates[key]!.intervals.bootstrap).toMatchObject({ replications: 20, seed: 3 });
+    }
+    expect(s.stability!.breakTest).toMatchObject({ status: 'ok', replications: 20, seed: 3 });
+    expect((s.stability!.breakTest as { pValue: number }).pValue).toBeGreaterThan(0);
+    expect(s.stability!.rolling).toMatchObject({ status: 'ok', window: 6 });
+    expect((s.stability!.rolling as { entries: unknown[] }).entries).toHaveLength(5);
+    expect(s.estimates.ar1Mle).toBeUndefined();
   });
 });
 
@@ -137,6 +178,10 @@ describe('cli main (in process): usage errors exit 2 with a sentence', () => {
     [['fit', CSV, '--turnover', '20'], /applies only to --asset-class sme-corporate/],
     [['fit', '/nonexistent/cohorts.csv'], /no such file/],
     [['estimate'], /Unknown command "estimate"/],
+    [['fit', CSV, '--models', 'garch'], /--models takes a comma-separated list of independent, ar1; got "garch"/],
+    [['fit', CSV, '--models', 'ar1,ar1'], /names a model twice/],
+    [['fit', CSV, '--rolling-window', '1'], /--rolling-window must be a whole number of periods from 2 to 1000/],
+    [['fit', CSV, '--models', 'ar1', '--rolling-window', '5'], /belongs to the independent model/],
   ])('%j', async (argv, message) => {
     const h = io();
     expect(await main(argv as string[], h.io)).toBe(2);

@@ -14,6 +14,7 @@ const panelA: PanelInput = {
 const options = { bootstrap: { replications: 16, seed: 7 } };
 const withoutTiming = ({ timing, ...rest }: TimedSegmentFit) => {
   expect(timing.ms).toBeGreaterThan(0);
+  for (const ms of Object.values(timing.stages)) expect(ms).toBeGreaterThanOrEqual(0);
   return rest;
 };
 
@@ -52,7 +53,45 @@ describe('fitPanelParallel', () => {
     const two = withoutTiming(await fitPanelParallel(panelA, both, { threads: 2, onProgress: (_, m) => void messages.push(m) }));
     expect(two).toEqual(fitPanel(panelA, both));
     expect(two.estimatorAudit!.replications).toBe(6);
-    expect(messages.at(-1)).toMatch(/Bootstrap and estimator audit: 100%/);
+    // one stage after the other, each named with its count
+    expect(messages).toContain('Bootstrap 8 of 8');
+    expect(messages).toContain('Bootstrap of jointDefault 8 of 8');
+    expect(messages.at(-1)).toBe('Estimator audit 6 of 6');
+  });
+
+  it('runs the moment bootstraps, the break test and the audit at the fitted persistence on the threads, as fitPanel does, and times each stage', async () => {
+    const E = engine.panels.E;
+    const panelE: PanelInput = { segment: 'Panel E', periods: E.obligors.map((_, t) => String(2001 + t)), obligors: E.obligors, defaults: E.defaults };
+    const all = { bootstrap: { replications: 6, seed: 7 }, audit: { replications: 2, seed: 9 }, stability: { breakTest: { replications: 4, seed: 5 } } };
+    const timed = await fitPanelParallel(panelE, all, { threads: 2 });
+    const { timing } = timed;
+    expect(withoutTiming(timed)).toEqual(fitPanel(panelE, all));
+    expect(timed.stability!.breakTest).toMatchObject({ status: 'ok', replications: 4, seed: 5 });
+    expect(timed.estimatorAudit!.truth.phi).toBe(timed.estimates.ar1Mle!.phi);
+    // each estimator, each interval method, the diagnostics, the stability and each replication stage
+    for (const stage of [
+      'binomialMle',
+      'binomialMle.profile',
+      'binomialMle.wald',
+      'binomialMle.bootstrap',
+      'vasicekMle.chiSquare',
+      'momentVariance.bootstrap',
+      'momentVarianceCorrected.bootstrap',
+      'momentVarianceAutocorrected.bootstrap',
+      'jointDefault.bootstrap',
+      'ar1Mle',
+      'ar1Mle.profile',
+      'diagnostics',
+      'stability.jackknife',
+      'stability.rolling',
+      'stability.breakTest',
+      'audit',
+    ]) {
+      expect(timing.stages[stage], stage).toBeGreaterThan(0);
+    }
+    // the stages run one after the other inside the segment's wall time
+    const replicationStages = ['binomialMle.bootstrap', 'audit'].map((s) => timing.stages[s]);
+    expect(replicationStages.reduce((a, b) => a + b)).toBeLessThan(timing.ms);
   });
 
   it('reuses a started pool across segments', async () => {

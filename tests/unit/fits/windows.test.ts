@@ -47,7 +47,7 @@ describe('compareWindows', () => {
     // The window's fit is the engine's fit of the sub-panel.
     const sub = fitPanel({ ...panelA, periods: panelA.periods.filter((_, i) => i !== 3), obligors: panelA.obligors.filter((_, i) => i !== 3), defaults: panelA.defaults.filter((_, i) => i !== 3) });
     expect(w[1].binomialMle.rho).toBe(sub.estimates.binomialMle.rho);
-    expect(w[1].jointDefault).toBe(sub.estimates.jointDefault.rho);
+    expect(w[1].jointDefault).toBe(sub.estimates.jointDefault!.rho);
   });
 });
 

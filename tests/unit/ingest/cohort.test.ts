@@ -4,6 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { validateCohortStream, validateCohortText } from '@/lib/ingest/cohort';
+import { fitPanel } from '@/lib/stats/fit-panel';
 import { chunked, expectFinding } from './helpers';
 
 const H = 'segment,period,obligors,defaults\n';
@@ -49,6 +50,22 @@ describe('cohort: bad files', () => {
     const r = validateCohortText(H + 'SME,2015,100,2\nSME,2016,10,11\nSME,2017,100,1\n');
     const f = expectFinding(r.findings, 'defaults-exceed-obligors', 'error', 3, 'defaults');
     expect(f.value).toBe('11');
+  });
+
+  it("a cohort above the engine's 10^9 obligors a period is refused on its row with the engine's own sentence", () => {
+    // line 2 at the limit (accepted), line 3 one above it; the engine refuses the same count with
+    // the same words (lib/stats/cohort-limit.ts), so the user meets one explanation
+    const r = validateCohortText(H + 'SME,2015,1000000000,5\nSME,2016,1000000001,5\nSME,2017,1000,5\n');
+    expect(r.findings.filter((x) => x.rule === 'cohort-too-large')).toHaveLength(1);
+    const f = expectFinding(r.findings, 'cohort-too-large', 'error', 3, 'obligors');
+    expect(f.value).toBe('1000000001');
+    expect(f.message).toBe(
+      '1000000001 obligors is more than the engine handles (1e+9 per period, where its likelihood is checked against a 40-digit integral); no loan book has a cohort this large, so check the file (a sum of balances in the obligors column?).',
+    );
+    expect(() =>
+      fitPanel({ segment: 'SME', periods: ['2015', '2016', '2017'], obligors: [1e9, 1000000001, 1000], defaults: [5, 5, 5] }),
+    ).toThrow(`fitPanel: segment "SME", period 2016: ${f.message}`);
+    expect(r.ok).toBe(false);
   });
 
   it('obligors = 0', () => {

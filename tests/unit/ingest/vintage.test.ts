@@ -47,6 +47,12 @@ describe('vintage: bad files', () => {
     expectFinding(r.findings, 'non-integer-count', 'error', 3, 'months_on_book');
   });
 
+  it("active loans above the engine's 10^9 a period are refused on their row, naming the active column", () => {
+    const r = validateVintageText(H + 'A,2016-03,1,2000000000,0\nA,2016-03,2,100,1\n');
+    const f = expectFinding(r.findings, 'cohort-too-large', 'error', 2, 'active');
+    expect(f.message).toMatch(/^2000000000 obligors is more than the engine handles \(1e\+9 per period.*in the active column\?\)\.$/);
+  });
+
   it('defaults > active', () => {
     const r = validateVintageText(H + 'A,2016-03,1,100,0\nA,2016-03,2,5,6\n');
     expectFinding(r.findings, 'defaults-exceed-active', 'error', 3, 'defaults');

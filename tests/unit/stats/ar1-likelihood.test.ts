@@ -34,7 +34,7 @@ describe('AR(1)-factor log-likelihood', () => {
     }
   });
 
-  it("with phi = 0 at binomialMle's estimate equals binomialMle's log-likelihood to 1e-6 (issue definition)", () => {
+  it("with phi = 0 at binomialMle's estimate equals binomialMle's log-likelihood to 1e-6 (the model's nesting: phi = 0 is the independent factor)", () => {
     for (const [name, panel] of Object.entries(enginePanels)) {
       const mle = binomialMle(panel);
       if (mle.rho === null || mle.pd === null) continue;
@@ -43,7 +43,7 @@ describe('AR(1)-factor log-likelihood', () => {
   });
 
   it('moves by less than 1e-9 when the node spacing is halved, at n = 500,000 (T = 20)', () => {
-    // The issue asks < 1e-6. Panels simulated with persistent, alternating and independent factors;
+    // The nesting is asked to hold to 1e-6. Panels simulated with persistent, alternating and independent factors;
     // spacing halved twice (nodesPerScale 2 -> 4 -> 8).
     for (const phi of [0.6, 0.95, -0.5, 0]) {
       const sim = simulatePanel({ pd: 0.01, rho: 0.12, obligors: new Array(20).fill(500_000), phi }, createRng(deriveSeed(500, Math.round(phi * 100) + 100)));

@@ -53,10 +53,10 @@ describe('estimator audit with a persistent factor', () => {
     },
   );
 
-  it("shows the independent model's profile interval covering less often under phi = 0.6 (issue 10: 83% against 94%)", () => {
-    // p = 1%, rho = 0.12, n = 1000, T = 20 as in issue 10's Monte Carlo study; R = 200 here, so
+  it("shows the independent model's profile interval covering less often under phi = 0.6 (the persistence study: 83% against 94%)", () => {
+    // p = 1%, rho = 0.12, n = 1000, T = 20 as in the Monte Carlo study behind the persistent model; R = 200 here, so
     // each coverage has a Monte Carlo sd of about 0.02-0.027: the drop must be at least 0.03 and
-    // the coverage under phi = 0.6 within 3 sd of the issue's 0.83.
+    // the coverage under phi = 0.6 within 3 sd of the persistence study's 0.83.
     const base = { obligors: new Array(20).fill(1000), pd: 0.01, rho: 0.12 };
     const independent = estimatorAudit({ ...base, seed: 31 }, 200).coverage.profile.coverage!;
     const persistent = estimatorAudit({ ...base, seed: 32, phi: 0.6 }, 200).coverage.profile.coverage!;

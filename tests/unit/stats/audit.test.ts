@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import fixtures from '@/tests/fixtures/audit/audit-fixtures.json';
 import { auditRange, estimatorAudit, mergeAudit, type AuditSpec } from '@/lib/stats/audit';
 import { binomialMle } from '@/lib/stats/estimators/binomial-mle';
+import { vasicekChiSquareInterval } from '@/lib/stats/intervals/chi-square';
 import { createRng, deriveSeed } from '@/lib/stats/random';
 import { simulatePanel } from '@/lib/stats/simulate';
 
@@ -17,11 +18,13 @@ describe('estimator audit', () => {
   });
 
   it('replication r is the estimate on the panel simulated from deriveSeed(seed, r)', () => {
-    // definition (issue 3: simulate at the fitted (p, rho) with the same n_t, seeded)
+    // definition (DESIGN.md estimator audit: simulate at the fitted (p, rho) with the same n_t, seeded)
     const [rep] = auditRange(spec, 5, 6);
     const sim = simulatePanel({ pd: spec.pd, rho: spec.rho, obligors: spec.obligors.slice() }, createRng(deriveSeed(spec.seed, 5)));
     expect(rep.index).toBe(5);
     expect(rep.estimates.binomialMle.rho).toBe(binomialMle({ obligors: sim.obligors, defaults: sim.defaults }).rho);
+    const chi = vasicekChiSquareInterval({ obligors: sim.obligors, defaults: sim.defaults }, 0.95);
+    expect(rep.chiSquare).toEqual(chi.status === 'ok' ? { lower: chi.lower, upper: chi.upper } : null);
   });
 
   it('summarises bias, RMSE, status counts and coverage by their definitions', () => {
@@ -41,7 +44,11 @@ describe('estimator audit', () => {
     const walds = reps.filter((r) => r.wald !== null).length;
     const atBoundary = reps.filter((r) => r.estimates.binomialMle.rho === 0).length;
     expect(walds + atBoundary).toBe(withProfile.length); // no Wald interval at rho = 0 (DESIGN.md)
-    expect(s.omitted.map((o) => o.item)).toContain('bootstrap interval coverage');
+    const chi = reps.filter((r) => r.chiSquare !== null);
+    // vasicekMle's chi-square interval, recounted; a panel without one is a miss (Morris et al. 2019)
+    expect(s.coverage.chiSquare).toMatchObject({ available: chi.length, missing: 40 - chi.length });
+    expect(s.coverage.chiSquare.covered).toBe(chi.filter((r) => r.chiSquare!.lower <= spec.rho && spec.rho <= r.chiSquare!.upper).length);
+    expect(s.omitted.map((o) => o.item).join(' ')).toMatch(/bootstrap interval coverage/);
   });
 
   it('counts panels without a Wald interval (estimate at rho = 0) as misses, never drops them', () => {

@@ -23,7 +23,7 @@ describe('bivariateNormalCdf', () => {
     }
   });
 
-  it('reproduces the values named in issue 3 (computed with SciPy 1.17)', () => {
+  it('reproduces the values named in the engine specification (computed with SciPy 1.17)', () => {
     expect(Math.abs(bivariateNormalCdf(1, 1, 0.5) - 0.7452035868467498)).toBeLessThan(1e-15);
     expect(Math.abs(bivariateNormalCdf(-2.5, -1, 0.3) - 0.0027099337788836)).toBeLessThan(1e-16);
   });

@@ -62,7 +62,7 @@ describe('summariseBootstrap', () => {
 describe('bootstrapRange', () => {
   it('replication i is binomialMle on the panel simulated from createRng(deriveSeed(seed, i))', () => {
     const [r] = bootstrapRange(specA, 3, 4);
-    // the definition of the replication (DESIGN.md, issue 3: seeded, same n_t, at the estimate)
+    // the definition of the replication (DESIGN.md: seeded, same n_t, at the estimate)
     const sim = simulatePanel({ pd: specA.pd, rho: specA.rho, obligors: A.obligors }, createRng(deriveSeed(7, 3)));
     expect(r).toEqual({ index: 3, rho: binomialMle(sim).rho, status: binomialMle(sim).status });
   });

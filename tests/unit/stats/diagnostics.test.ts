@@ -147,7 +147,7 @@ describe('warnings', () => {
       logLikAtLimit: -60,
       interval: { lower: 0, upper: 0.2 },
     });
-    expect(codes(seven)).toContain('short-series'); // DESIGN/issue 3: T < 10
+    expect(codes(seven)).toContain('short-series'); // DESIGN.md short-series caution: T < 10
     expect(codes(seven)).not.toContain('not-identified-short');
   });
 

@@ -4,6 +4,7 @@ import ref from '@/tests/fixtures/engine/diagnostics-fixtures.json';
 import { completeSegmentFit, fitPanel, prepareSegmentFit, type PanelInput } from '@/lib/stats/fit-panel';
 import { auditRange } from '@/lib/stats/audit';
 import { bootstrapRange } from '@/lib/stats/intervals/bootstrap';
+import { momentBootstrapRange } from '@/lib/stats/intervals/moment-bootstrap';
 import { ESTIMATOR_KEYS } from '@/lib/stats/estimators/types';
 import { ENGINE_VERSION } from '@/lib/stats/version';
 import pitRef from '@/tests/fixtures/engine/pit-fixtures.json';
@@ -16,18 +17,18 @@ const input = (name: Name): PanelInput => {
   return { segment: `Panel ${name}`, periods: years(p.obligors.length), obligors: p.obligors, defaults: p.defaults };
 };
 
-describe('fitPanel: the worked panels of issue 3', () => {
+describe('fitPanel: the worked panels of the engine specification', () => {
   it('panel A', () => {
     const f = fitPanel(input('A'));
     const m = f.estimates.binomialMle;
-    // issue 3, computed with SciPy 1.17 (tolerances as stated there)
+    // engine specification, computed with SciPy 1.17 (tolerances as stated there)
     expect(Math.abs(m.rho! - 0.037091)).toBeLessThan(1e-5);
     expect(Math.abs(m.pd! - 0.013307)).toBeLessThan(1e-5);
     expect(Math.abs(m.logLik! - -33.785195)).toBeLessThan(1e-5);
     expect(Math.abs(m.intervals.profile!.lower - 0.01177)).toBeLessThan(2e-3);
     expect(Math.abs(m.intervals.profile!.upper - 0.1147)).toBeLessThan(2e-3);
-    expect(Math.abs(f.estimates.momentVariance.rho! - 0.05111)).toBeLessThan(1e-6);
-    expect(Math.abs(f.estimates.jointDefault.rho! - 0.037745)).toBeLessThan(1e-6);
+    expect(Math.abs(f.estimates.momentVariance!.rho! - 0.05111)).toBeLessThan(1e-6);
+    expect(Math.abs(f.estimates.jointDefault!.rho! - 0.037745)).toBeLessThan(1e-6);
     expect(m.atBoundary).toBe(false);
     expect(m.intervals.bootstrap).toBeNull();
   });
@@ -35,14 +36,14 @@ describe('fitPanel: the worked panels of issue 3', () => {
   it('panel B', () => {
     const f = fitPanel(input('B'));
     const m = f.estimates.binomialMle;
-    // issue 3, computed with SciPy 1.17
+    // engine specification, computed with SciPy 1.17
     expect(f.estimates.vasicekMle).toMatchObject({ rho: null, pd: null, status: 'undefined' });
-    expect(f.estimates.vasicekMle.reason).toMatch(/default rate of 0/);
+    expect(f.estimates.vasicekMle!.reason).toMatch(/default rate of 0/);
     expect(Math.abs(m.rho! - 0.06262)).toBeLessThan(1e-5);
     expect(Math.abs(m.pd! - 0.002561)).toBeLessThan(1e-6);
     expect(m.intervals.profile!.lower).toBe(0);
     expect(Math.abs(m.intervals.profile!.upper - 0.344)).toBeLessThan(2e-3);
-    expect(Math.abs(f.estimates.jointDefault.rho! - 0.050346)).toBeLessThan(1e-6);
+    expect(Math.abs(f.estimates.jointDefault!.rho! - 0.050346)).toBeLessThan(1e-6);
     expect(f.warnings.map((w) => w.code)).toContain('zero-default-periods');
     expect(f.diagnostics.zeroDefaultPeriods).toBe(4);
     expect(f.diagnostics.lag1Autocorrelation).toBeNull(); // x_t infinite in zero-default years
@@ -61,14 +62,14 @@ describe('fitPanel against the SciPy fixtures', () => {
     expect(Math.abs(m.intervals.profile!.lower - e.binomialMle.profile95[0])).toBeLessThan(1e-5);
     expect(Math.abs(m.intervals.profile!.upper - e.binomialMle.profile95[1])).toBeLessThan(1e-5);
     if ('se' in e.binomialMle) expect(Math.abs(m.intervals.wald!.se / (e.binomialMle as { se: number }).se - 1)).toBeLessThan(1e-2);
-    else expect(m.intervals.wald).toBeNull(); // issue 3: no Wald interval at the boundary
+    else expect(m.intervals.wald).toBeNull(); // DESIGN.md: no Wald interval at the boundary
     for (const key of ['momentVariance', 'momentVarianceCorrected', 'jointDefault'] as const) {
       const want = e[key].rho;
-      if (want === null) expect(f.estimates[key].rho).toBeNull();
-      else expect(Math.abs(f.estimates[key].rho! - want)).toBeLessThan(1e-9);
+      if (want === null) expect(f.estimates[key]!.rho).toBeNull();
+      else expect(Math.abs(f.estimates[key]!.rho! - want)).toBeLessThan(1e-9);
     }
-    if (e.vasicekMle === null) expect(f.estimates.vasicekMle.status).toBe('undefined');
-    else expect(Math.abs(f.estimates.vasicekMle.rho! - e.vasicekMle.rho)).toBeLessThan(1e-12);
+    if (e.vasicekMle === null) expect(f.estimates.vasicekMle!.status).toBe('undefined');
+    else expect(Math.abs(f.estimates.vasicekMle!.rho! - e.vasicekMle.rho)).toBeLessThan(1e-12);
     const lr = f.diagnostics.lrTestRhoZero!;
     expect(Math.abs(lr.statistic - e.lrTest.statistic)).toBeLessThan(2e-5);
     const im = f.implications!;
@@ -83,8 +84,10 @@ describe('fitPanel against the SciPy fixtures', () => {
 describe('the SegmentFit shape', () => {
   const f = fitPanel(input('A'));
 
-  it('carries the issue fields, the observed series and the engine keys', () => {
+  it('carries the per-segment fields of the CLI, the observed series and the engine keys', () => {
+    // every model by default: every estimator, in display order
     expect(Object.keys(f.estimates)).toEqual([...ESTIMATOR_KEYS]);
+    expect(f.models).toEqual(['independent', 'ar1']);
     expect(f).toMatchObject({ segment: 'Panel A', T: 10, periods: years(10), level: 0.95 });
     expect(f.observed[2]).toEqual({ period: '2003', obligors: 1100, defaults: 25, dr: 25 / 1100 });
     expect(ENGINE_VERSION).toMatch(/^\d+\.\d+\.\d+$/);
@@ -162,20 +165,26 @@ describe('edge panels', () => {
 
 describe('bootstrap and audit in fitPanel', () => {
   it('equal prepare + any split of the replications + complete', () => {
-    const opts = { bootstrap: { replications: 12, seed: 42 }, audit: { replications: 6, seed: 43 } };
-    const whole = fitPanel(input('A'), opts);
-    const prepared = prepareSegmentFit(input('A'), opts);
+    const opts = { models: ['independent'] as const, bootstrap: { replications: 12, seed: 42 }, audit: { replications: 6, seed: 43 } };
+    const whole = fitPanel(input('A'), { ...opts, models: [...opts.models] });
+    const prepared = prepareSegmentFit(input('A'), { ...opts, models: [...opts.models] });
     const spec = prepared.bootstrap!.spec;
     const reps = [...bootstrapRange(spec, 7, 12), ...bootstrapRange(spec, 0, 7)];
     const audit = [...auditRange(prepared.audit!.spec, 4, 6), ...auditRange(prepared.audit!.spec, 0, 4)];
-    expect(completeSegmentFit(prepared, { bootstrap: reps, audit })).toEqual(whole);
+    // the moment estimators' bootstraps follow --bootstrap (each at its own estimate)
+    expect(prepared.momentBootstraps.map((m) => m.estimator)).toEqual(['momentVariance', 'momentVarianceCorrected', 'jointDefault']);
+    const momentBootstraps = Object.fromEntries(
+      prepared.momentBootstraps.map((m) => [m.estimator, [...momentBootstrapRange(m.spec, 5, 12), ...momentBootstrapRange(m.spec, 0, 5)]]),
+    );
+    expect(completeSegmentFit(prepared, { bootstrap: reps, audit, momentBootstraps })).toEqual(whole);
     const b = whole.estimates.binomialMle.intervals.bootstrap!;
     expect(b).toMatchObject({ level: 0.95, replications: 12, seed: 42, failed: 0 });
     expect(b.lower).toBeLessThanOrEqual(b.upper);
-    // the audit simulates at the fitted values with the segment's own n_t (issue 3)
+    // the audit simulates at the fitted values with the segment's own n_t (DESIGN.md estimator audit)
     expect(whole.estimatorAudit).toMatchObject({ replications: 6, seed: 43, periods: 10 });
     expect(whole.estimatorAudit!.truth).toEqual({ pd: whole.estimates.binomialMle.pd, rho: whole.estimates.binomialMle.rho });
-    expect(() => completeSegmentFit(prepared, { bootstrap: reps })).toThrow(/audit replications are missing/);
+    expect(() => completeSegmentFit(prepared, { bootstrap: reps, momentBootstraps })).toThrow(/audit replications are missing/);
+    expect(() => completeSegmentFit(prepared, { bootstrap: reps, audit })).toThrow(/momentVariance bootstrap replications are missing/);
     expect(() => completeSegmentFit(prepareSegmentFit(input('A')), { bootstrap: reps })).toThrow(/did not plan a bootstrap/);
   });
 

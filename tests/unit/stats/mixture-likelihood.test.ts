@@ -38,8 +38,8 @@ function bruteForce(n: number, d: number, p: number, rho: number): number {
 }
 
 describe('mixturePeriodLogLikelihood', () => {
-  it('matches the worked value of issue 3 (n = 200000, d = 2000, p = 0.01, rho = 0.12)', () => {
-    // computed with SciPy 1.17 (issue 3): -8.590523837 (1e-7); fixed Gauss-Hermite fails this
+  it('matches the worked value of the engine specification (n = 200000, d = 2000, p = 0.01, rho = 0.12)', () => {
+    // computed with SciPy 1.17 for the engine specification: -8.590523837 (1e-7); fixed Gauss-Hermite fails this
     expect(Math.abs(mixturePeriodLogLikelihood(200000, 2000, 0.01, 0.12) - -8.590523837)).toBeLessThan(1e-7);
   });
 

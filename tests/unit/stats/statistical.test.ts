@@ -1,5 +1,5 @@
 /**
- * Statistical behaviour of the estimators on panels simulated from known (p, rho) (issue 3):
+ * Statistical behaviour of the estimators on panels simulated from known (p, rho):
  * long panels recover the truth within their sampling error, and the profile-likelihood interval
  * covers the truth at close to its nominal rate. Every simulation is seeded, so each check is
  * deterministic; its tolerance is derived from the sampling error it allows for (stated beside it).

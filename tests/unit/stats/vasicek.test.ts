@@ -20,7 +20,7 @@ function rel(a: number, b: number): number {
   return b === 0 ? Math.abs(a) : Math.abs(a - b) / Math.abs(b);
 }
 
-describe('named values of issue 3 (computed with SciPy 1.17)', () => {
+describe('named values of the engine specification (computed with SciPy 1.17)', () => {
   it('p = 1%, rho = 0.12: variance 1.1709607969e-4, default correlation 0.01182789, 99.9% quantile 0.0903258313', () => {
     expect(Math.abs(vasicekVariance(0.01, 0.12) - 1.1709607969e-4)).toBeLessThan(1e-14);
     expect(Math.abs(defaultCorrelation(0.01, 0.01, 0.12) - 0.01182789)).toBeLessThan(1e-8);

@@ -100,7 +100,9 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
             {row('Level', (c) => `${Math.round(c.fit.request.level * 100)}%`)}
             {row('Engine', (c) => c.fit.engineVersion)}
             {row('Seeds (bootstrap, audit)', (c) => `${c.fit.seeds.bootstrap ?? '—'}, ${c.fit.seeds.audit ?? '—'}`)}
-            {ESTIMATOR_ORDER.map((k) => row(`ρ ${estimatorLabel(k)}`, (c) => fixed(c.seg.estimates[k].rho, 4)))}
+            {ESTIMATOR_ORDER.filter((k) => cols.some((c) => c.seg.estimates[k] !== undefined)).map((k) =>
+              row(`ρ ${estimatorLabel(k)}`, (c) => fixed(c.seg.estimates[k]?.rho, 4)),
+            )}
             {row('PD (likelihood)', (c) => pct(c.seg.estimates.binomialMle.pd))}
             {row('Profile interval', (c) => interval(c.seg.estimates.binomialMle.intervals.profile?.lower, c.seg.estimates.binomialMle.intervals.profile?.upper))}
             {row('Wald interval', (c) => interval(c.seg.estimates.binomialMle.intervals.wald?.lower, c.seg.estimates.binomialMle.intervals.wald?.upper))}

@@ -14,26 +14,26 @@ const B = { obligors: [500, 520, 540, 510, 530, 560, 580, 600, 590, 610], defaul
 type PanelName = keyof typeof fixtures.panels;
 const names = Object.keys(fixtures.panels) as PanelName[];
 
-describe('worked values of issue 3 (computed with SciPy 1.17 on invented panels)', () => {
+describe('worked values of the engine specification (computed with SciPy 1.17 on invented panels)', () => {
   it('panel A', () => {
     const mle = binomialMle(A);
     expect(mle.status).toBe('ok');
-    expect(Math.abs(mle.rho! - 0.037091)).toBeLessThan(1e-5); // issue 3, SciPy 1.17
-    expect(Math.abs(mle.pd! - 0.013307)).toBeLessThan(1e-5); // issue 3, SciPy 1.17
-    expect(Math.abs(mle.logLik! - -33.785195)).toBeLessThan(1e-5); // issue 3, SciPy 1.17
-    expect(Math.abs(momentVariance(A).rho! - 0.05111)).toBeLessThan(1e-6); // issue 3, SciPy 1.17
-    expect(Math.abs(jointDefault(A).rho! - 0.037745)).toBeLessThan(1e-6); // issue 3, SciPy 1.17
+    expect(Math.abs(mle.rho! - 0.037091)).toBeLessThan(1e-5); // engine specification, computed with SciPy 1.17
+    expect(Math.abs(mle.pd! - 0.013307)).toBeLessThan(1e-5); // engine specification, computed with SciPy 1.17
+    expect(Math.abs(mle.logLik! - -33.785195)).toBeLessThan(1e-5); // engine specification, computed with SciPy 1.17
+    expect(Math.abs(momentVariance(A).rho! - 0.05111)).toBeLessThan(1e-6); // engine specification, computed with SciPy 1.17
+    expect(Math.abs(jointDefault(A).rho! - 0.037745)).toBeLessThan(1e-6); // engine specification, computed with SciPy 1.17
   });
 
   it('panel B', () => {
     const closed = vasicekMle(B);
-    expect(closed.status).toBe('undefined'); // issue 3: zero-default years
+    expect(closed.status).toBe('undefined'); // DESIGN.md: undefined with zero-default years
     expect(closed.rho).toBeNull();
     expect(closed.reason).toMatch(/Period 1/);
     const mle = binomialMle(B);
-    expect(Math.abs(mle.rho! - 0.06262)).toBeLessThan(1e-5); // issue 3, SciPy 1.17
-    expect(Math.abs(mle.pd! - 0.002561)).toBeLessThan(1e-6); // issue 3, SciPy 1.17
-    expect(Math.abs(jointDefault(B).rho! - 0.050346)).toBeLessThan(1e-6); // issue 3, SciPy 1.17
+    expect(Math.abs(mle.rho! - 0.06262)).toBeLessThan(1e-5); // engine specification, computed with SciPy 1.17
+    expect(Math.abs(mle.pd! - 0.002561)).toBeLessThan(1e-6); // engine specification, computed with SciPy 1.17
+    expect(Math.abs(jointDefault(B).rho! - 0.050346)).toBeLessThan(1e-6); // engine specification, computed with SciPy 1.17
   });
 });
 
@@ -154,5 +154,13 @@ describe('estimator boundaries reported as such', () => {
     const e = vasicekMle({ obligors: [1000], defaults: [12] });
     expect(e).toMatchObject({ rho: null, pd: null, status: 'undefined' });
     expect(e.reason).toMatch(/single period/);
+  });
+
+  it('momentVariance: a default rate the same in every period is undefined, not rho = 0 from a rounding', () => {
+    // ten rates of 10/1000 = 0.01 average to 0.009999999999999998 in floating point (common
+    // practice), which left a sample variance of ~3e-36 and an "ok" rho of 0
+    const flat = { obligors: new Array(10).fill(1000), defaults: new Array(10).fill(10) };
+    expect(sampleVariance(flat.defaults.map((d, t) => d / flat.obligors[t]))).toBe(0);
+    expect(momentVariance(flat)).toMatchObject({ rho: null, status: 'undefined', reason: expect.stringMatching(/same in every period/) });
   });
 });

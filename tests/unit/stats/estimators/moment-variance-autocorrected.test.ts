@@ -11,7 +11,7 @@ type EnginePanel = { obligors: number[]; defaults: number[]; momentVariance: { r
 const panels = engine.panels as unknown as Record<string, EnginePanel>;
 
 describe('momentVarianceAutocorrected', () => {
-  it('solves the moment equation at the plain variance divided by 1 - 2 r_1 / T', () => {
+  it('solves the moment equation at the plain variance divided by the AR(1) bias factor at the clipped r_1', () => {
     for (const [name, panel] of Object.entries(panels)) {
       const e = momentVarianceAutocorrected(panel);
       const plain = momentVariance(panel);
@@ -26,8 +26,16 @@ describe('momentVarianceAutocorrected', () => {
       // r_1 as in the diagnostics (Box & Jenkins 1976, eq. 2.1.12), computed there independently
       const r1 = lag1Autocorrelation(dr);
       expect(Math.abs(sampleAutocorrelation(dr, 1) - r1)).toBeLessThan(1e-14);
-      const target = s2 / (1 - (2 * r1) / T); // Anderson (1971) 8.2 with one lag; Frei & Wunsch (2018)
-      expect((momentTarget('momentVarianceAutocorrected', panel) as { target: number }).target).toBeCloseTo(target, 16);
+      const r = Math.min(0.9, Math.max(-0.9, r1));
+      // E[s2] / Var for an AR(1) with coefficient r, as tr(M Sigma) / (T - 1) (Anderson 1971, 8.2):
+      // the centring matrix M = I - 11'/T against Sigma_ij = r^|i-j|, summed entry by entry here
+      let trace = 0;
+      for (let i = 0; i < T; i++) for (let j = 0; j < T; j++) trace += ((i === j ? 1 : 0) - 1 / T) * r ** Math.abs(i - j);
+      const target = s2 / (trace / (T - 1));
+      const m = momentTarget('momentVarianceAutocorrected', panel) as { target: number; correction: { lag1: number; lag1Used: number; factor: number } };
+      expect(Math.abs(m.target / target - 1)).toBeLessThan(1e-13);
+      expect(m.correction.lag1).toBe(sampleAutocorrelation(dr, 1));
+      expect(m.correction.lag1Used).toBe(r);
       // the equation holds at the estimate (Vasicek 2002: Var of the large-pool default rate)
       expect(e.status, name).toBe('ok');
       const k = normalQuantile(p);
@@ -46,6 +54,17 @@ describe('momentVarianceAutocorrected', () => {
     const dr = [0.03, 0.02, 0.01, 0.02];
     expect(Math.abs(sampleAutocorrelation(dr, 1))).toBeLessThan(1e-14);
     expect(momentVarianceAutocorrected(panel).rho).toBeCloseTo(momentVariance(panel).rho!, 14);
+  });
+
+  it('uses r_1 clipped to 0.9 for a near random walk and says so in the target', () => {
+    // default rates rising steadily: the lag-1 sample autocorrelation of a linear trend of T points
+    // is about 1 - 3 / T (from memory), 0.95 at T = 60, beyond the clip
+    const T = 60;
+    const panel = { obligors: new Array(T).fill(10000), defaults: Array.from({ length: T }, (_, t) => 10 + 5 * t + (t % 2)) };
+    const m = momentTarget('momentVarianceAutocorrected', panel) as { correction: { lag1: number; lag1Used: number; factor: number } };
+    expect(m.correction.lag1).toBeGreaterThan(0.9);
+    expect(m.correction.lag1Used).toBe(0.9);
+    expect(momentVarianceAutocorrected(panel).status).not.toBe('not-converged');
   });
 
   it('gives a status and a sentence where it has no value', () => {

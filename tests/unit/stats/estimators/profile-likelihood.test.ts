@@ -63,7 +63,7 @@ describe('binomialMle search', () => {
     const mleEvaluations = profile!.likelihood.evaluations;
     profileInterval(profile!, result);
     waldInterval(profile!, result);
-    // design budget (issue 3 speed target): 8 grid points, 2 bracket ends, a few Newton steps,
+    // design budget (the engine's speed target): 8 grid points, 2 bracket ends, a few Newton steps,
     // and about 5 per interval end; the previous value grid with Brent's search used ~110 + ~45
     expect(mleEvaluations).toBeLessThanOrEqual(30);
     expect(profile!.likelihood.evaluations).toBeLessThanOrEqual(50);

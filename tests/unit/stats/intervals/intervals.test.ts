@@ -18,15 +18,15 @@ describe('chiSquare1Quantile', () => {
 });
 
 describe('profile interval', () => {
-  it('matches the worked values of issue 3', () => {
+  it('matches the worked values of the engine specification', () => {
     const a = binomialMleWithProfile(A);
     const ia = profileInterval(a.profile!, a.result);
-    expect(Math.abs(ia.lower - 0.01177)).toBeLessThan(2e-3); // issue 3, SciPy 1.17
-    expect(Math.abs(ia.upper - 0.1147)).toBeLessThan(2e-3); // issue 3, SciPy 1.17
+    expect(Math.abs(ia.lower - 0.01177)).toBeLessThan(2e-3); // engine specification, computed with SciPy 1.17
+    expect(Math.abs(ia.upper - 0.1147)).toBeLessThan(2e-3); // engine specification, computed with SciPy 1.17
     const b = binomialMleWithProfile(B);
     const ib = profileInterval(b.profile!, b.result);
-    expect(ib.lower).toBe(0); // issue 3: lower end 0
-    expect(Math.abs(ib.upper - 0.344)).toBeLessThan(2e-3); // issue 3, SciPy 1.17
+    expect(ib.lower).toBe(0); // DESIGN.md: the lower end may be 0
+    expect(Math.abs(ib.upper - 0.344)).toBeLessThan(2e-3); // engine specification, computed with SciPy 1.17
   });
 
   it.each(names)('panel %s matches SciPy at levels 0.95 and 0.90', (name) => {
@@ -48,7 +48,7 @@ describe('Wald interval on the logit scale', () => {
     const { result, profile } = binomialMleWithProfile(f);
     const w = waldInterval(profile!, result);
     if (!('se' in f.binomialMle)) {
-      expect(w).toBeNull(); // at the boundary: no Wald interval (issue 3)
+      expect(w).toBeNull(); // at the boundary: no Wald interval (DESIGN.md intervals)
       return;
     }
     const ref = f.binomialMle as { se: number; seStepSensitivity: number };

@@ -23,6 +23,7 @@ import { getFitSegment } from '@/lib/dal/fits';
 import { findingsPanel } from '@/lib/dal/findings';
 import { modelsUsing } from '@/lib/dal/models';
 import { AppError } from '@/lib/errors';
+import { FIT_MODEL_LABELS } from '@/lib/stats/fit-models';
 
 export const metadata: Metadata = { title: 'Assumption' };
 
@@ -107,6 +108,8 @@ export default async function VersionPage({
             <dd className="num">
               [{fmt(v.intervalLower, 6)}, {fmt(v.intervalUpper, 6)}] {v.intervalMethod}, {fmt(v.intervalLevel * 100, 2)}%
             </dd>
+            <dt>Model</dt>
+            <dd data-testid="factor-model">Gaussian one-factor, {FIT_MODEL_LABELS[v.factorModel]}</dd>
             <dt>Data window</dt>
             <dd>
               {v.windowFrom} to {v.windowTo}

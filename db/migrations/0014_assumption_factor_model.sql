@@ -1,0 +1,1 @@
+ALTER TABLE `assumption_versions` ADD `factor_model` enum('independent','ar1') DEFAULT 'independent' NOT NULL;
