@@ -43,6 +43,8 @@ const envSchema = z.object({
   UPLOAD_MAX_LINE_CHARS: z.coerce.number().int().min(1024).default(64 * 1024),
   /** Most columns in an uploaded file's header. */
   UPLOAD_MAX_COLUMNS: z.coerce.number().int().min(10).default(1000),
+  /** Largest JSON request body (lib/auth/same-origin.ts readJsonBody); larger ones are answered 413. */
+  JSON_BODY_MAX_BYTES: z.coerce.number().int().min(1024).default(1024 * 1024),
   SMTP_URL: z.string().optional(),
   MAIL_FROM: z.string().default('Rhobook <rhobook@fenmoor.example>'),
 });
