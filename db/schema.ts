@@ -44,6 +44,11 @@ export const users = mysqlTable(
     active: boolean('active').notNull().default(true),
     /** Set when an admin created the account with an invitation instead of a password. */
     mustChangePassword: boolean('must_change_password').notNull().default(false),
+    /**
+     * Raised when the person signs out or their password changes: a session cookie carries the
+     * version it was issued under and lib/auth/session.ts refuses it once the row moved on.
+     */
+    sessionVersion: int('session_version').notNull().default(0),
     createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
     updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
   },
