@@ -552,3 +552,26 @@ export const fitRuns = mysqlTable(
   (t) => [index('fit_runs_dataset_idx').on(t.datasetId), index('fit_runs_created_idx').on(t.createdAt), index('fit_runs_job_idx').on(t.jobId)],
 );
 export type FitRun = typeof fitRuns.$inferSelect;
+
+/**
+ * The segments of a fit run, each computed by a 'fit' job of its own so that any number of workers
+ * share a run through the queue (lib/dal/fit-runs.ts). A segment's outcome (its result or why it
+ * failed) is written in its job's completion transaction; the job that finds every segment done,
+ * under the lock of the run's row, assembles the run's results, once.
+ */
+export const fitRunSegments = mysqlTable(
+  'fit_run_segments',
+  {
+    fitRunId: bigint('fit_run_id', { mode: 'number' })
+      .notNull()
+      .references(() => fitRuns.id, { onDelete: 'cascade' }),
+    /** Place among the run's segments (0-based), the order of the assembled results. */
+    position: int('position').notNull(),
+    segment: varchar('segment', { length: 200 }).notNull(),
+    jobId: bigint('job_id', { mode: 'number' }).references(() => jobs.id, { onDelete: 'set null' }),
+    /** { kind: 'fit', fit } or { kind: 'failed', failure } once the segment's job has finished. */
+    outcome: json('outcome'),
+    finishedAt: datetime('finished_at', { mode: 'date', fsp: 3 }),
+  },
+  (t) => [primaryKey({ columns: [t.fitRunId, t.position] }), index('fit_run_segments_job_idx').on(t.jobId)],
+);
