@@ -222,9 +222,3 @@ export async function createInitialUsers(
     return { created: rows, existing: 0 };
   });
 }
-
-/** Whether the signed-in user still has to replace a one-time password (shown on their account page). */
-export async function mustChangeOwnPassword(actor: SessionUser): Promise<boolean> {
-  const [row] = await getDb().select({ must: users.mustChangePassword }).from(users).where(eq(users.id, actor.id)).limit(1);
-  return row?.must ?? false;
-}
