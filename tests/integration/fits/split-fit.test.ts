@@ -154,4 +154,23 @@ describe('a fit split into one job per segment', () => {
     const segs = await getDb().select().from(fitRunSegments).where(eq(fitRunSegments.fitRunId, second.id));
     expect(segs.every((s) => s.outcome === null)).toBe(true);
   });
+
+  it('a run with blocks that need every segment together (pairs) is one job that computes it whole, with the pairs', async () => {
+    const dataset = await makeCohortDataset(analyst.id, PANELS.slice(0, 2));
+    const { id } = await createFit(analyst, { datasetId: dataset.id, pairs: true });
+    const { jobIds } = await getFit(analyst, id);
+    expect(jobIds).toHaveLength(1);
+    expect(await getDb().select().from(fitRunSegments).where(eq(fitRunSegments.fitRunId, id))).toEqual([]);
+    const [job] = await getDb().select().from(jobs).where(eq(jobs.id, jobIds[0]));
+    expect(job.payload).toEqual({ fitRunId: id, datasetId: dataset.id, datasetSha256: dataset.sha256 });
+    const w = await startWorker('whole-1');
+    const deadline = Date.now() + 180_000;
+    while ((await getFit(analyst, id)).status !== 'succeeded') {
+      if (Date.now() > deadline) throw new Error(`the fit did not finish: ${w.output()}`);
+      await new Promise((r) => setTimeout(r, 200));
+    }
+    const fit = await getFit(analyst, id);
+    expect(fit.results!.segments.map((s) => s.segment)).toEqual(dataset.segments);
+    expect(fit.results!.pairs).toBeDefined();
+  }, 240_000);
 });
