@@ -21,7 +21,13 @@ const nextConfig = {
           { key: 'X-Content-Type-Options', value: 'nosniff' },
           { key: 'Referrer-Policy', value: 'same-origin' },
           { key: 'X-Frame-Options', value: 'DENY' },
+          // Content-Security-Policy and Permissions-Policy come from proxy.ts (a nonce per page).
         ],
+      },
+      {
+        // Answers of the API are about one person's or one token's data: never kept by a browser or a proxy.
+        source: '/api/:path*',
+        headers: [{ key: 'Cache-Control', value: 'no-store' }],
       },
     ];
   },

@@ -1,4 +1,5 @@
 import type { Metadata } from 'next';
+import { headers } from 'next/headers';
 import type { ReactNode } from 'react';
 import { jbmono, plex } from './fonts';
 import './globals.css';
@@ -8,7 +9,10 @@ export const metadata: Metadata = {
   description: 'Estimate, review and publish asset-correlation assumptions for credit portfolios.',
 };
 
-export default function RootLayout({ children }: { children: ReactNode }) {
+export default async function RootLayout({ children }: { children: ReactNode }) {
+  // Reading the request makes every page render per request, so that each carries the nonce of its
+  // own Content-Security-Policy (proxy.ts); a page prerendered at build time would carry none.
+  await headers();
   return (
     <html lang="en-GB" className={`${plex.variable} ${jbmono.variable}`}>
       <body className="min-h-screen antialiased">{children}</body>

@@ -44,20 +44,21 @@ function which(cmd) {
 
 /** Installs the server and client from Debian's packages when mariadbd is missing. */
 export function ensureInstalled() {
-  if (which('mariadbd') && which('mariadb') && which('mariadb-install-db')) return;
+  // mariadb-dump (npm run db:backup) is in Debian's mariadb-client, not in mariadb-client-core.
+  if (which('mariadbd') && which('mariadb') && which('mariadb-install-db') && which('mariadb-dump')) return;
   if (!isRoot) {
     throw new Error(
       'MariaDB is not installed and this user cannot install it. Run as root, or install the Debian ' +
-        'packages mariadb-server-core and mariadb-client-core.',
+        'packages mariadb-server-core, mariadb-client-core and mariadb-client.',
     );
   }
-  log('installing mariadb-server-core and mariadb-client-core from Debian packages...');
+  log('installing mariadb-server-core, mariadb-client-core and mariadb-client from Debian packages...');
   const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
   const update = spawnSync('apt-get', ['update', '-qq'], { stdio: 'inherit', env });
   if (update.status !== 0) throw new Error('apt-get update failed; see the output above.');
   const install = spawnSync(
     'apt-get',
-    ['install', '-y', '-qq', '--no-install-recommends', 'mariadb-server-core', 'mariadb-client-core'],
+    ['install', '-y', '-qq', '--no-install-recommends', 'mariadb-server-core', 'mariadb-client-core', 'mariadb-client'],
     { stdio: 'inherit', env },
   );
   if (install.status !== 0) throw new Error('apt-get install of MariaDB failed; see the output above.');
@@ -202,6 +203,17 @@ export async function stop({ quiet = false } = {}) {
   } else if (!quiet) {
     log(`stopped (pid ${pid})`);
   }
+}
+
+/** Whether the mariadbd of this checkout is alive (by its pid file; cheap enough to poll). */
+export function isAlive() {
+  const pid = readPid();
+  return Boolean(pid && alive(pid));
+}
+
+/** The connection settings of this checkout's instance, for the backup and restore scripts. */
+export function connection() {
+  return { socket, port, osUser, client: which('mariadb'), dump: which('mariadb-dump') };
 }
 
 export function status() {

@@ -44,6 +44,11 @@ export const users = mysqlTable(
     active: boolean('active').notNull().default(true),
     /** Set when an admin created the account with an invitation instead of a password. */
     mustChangePassword: boolean('must_change_password').notNull().default(false),
+    /**
+     * Raised when the person signs out or their password changes: a session cookie carries the
+     * version it was issued under and lib/auth/session.ts refuses it once the row moved on.
+     */
+    sessionVersion: int('session_version').notNull().default(0),
     createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
     updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
   },
@@ -769,4 +774,27 @@ export const webhookCaptured = mysqlTable(
     receivedAt: datetime('received_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
   },
   (t) => [index('webhook_captured_delivery_idx').on(t.deliveryId)],
+);
+
+/**
+ * The segments of a fit run, each computed by a 'fit' job of its own so that any number of workers
+ * share a run through the queue (lib/dal/fit-runs.ts). A segment's outcome (its result or why it
+ * failed) is written in its job's completion transaction; the job that finds every segment done,
+ * under the lock of the run's row, assembles the run's results, once.
+ */
+export const fitRunSegments = mysqlTable(
+  'fit_run_segments',
+  {
+    fitRunId: bigint('fit_run_id', { mode: 'number' })
+      .notNull()
+      .references(() => fitRuns.id, { onDelete: 'cascade' }),
+    /** Place among the run's segments (0-based), the order of the assembled results. */
+    position: int('position').notNull(),
+    segment: varchar('segment', { length: 200 }).notNull(),
+    jobId: bigint('job_id', { mode: 'number' }).references(() => jobs.id, { onDelete: 'set null' }),
+    /** { kind: 'fit', fit } or { kind: 'failed', failure } once the segment's job has finished. */
+    outcome: json('outcome'),
+    finishedAt: datetime('finished_at', { mode: 'date', fsp: 3 }),
+  },
+  (t) => [primaryKey({ columns: [t.fitRunId, t.position] }), index('fit_run_segments_job_idx').on(t.jobId)],
 );

@@ -45,6 +45,8 @@ const envSchema = z.object({
   UPLOAD_MAX_COLUMNS: z.coerce.number().int().min(10).default(1000),
   /** How often the worker's scheduler publishes, expires and reminds (seconds). */
   SCHEDULER_INTERVAL_SECONDS: z.coerce.number().int().min(1).max(3600).default(60),
+  /** Largest JSON request body (lib/auth/same-origin.ts readJsonBody); larger ones are answered 413. */
+  JSON_BODY_MAX_BYTES: z.coerce.number().int().min(1024).default(1024 * 1024),
   SMTP_URL: z.string().optional(),
   MAIL_FROM: z.string().default('Rhobook <rhobook@fenmoor.example>'),
 });

@@ -4,6 +4,7 @@
  * structured data (for example the findings of a rejected upload).
  */
 import type { z } from 'zod';
+import { isConnectionError } from '@/db/errors';
 
 export type ErrorKind =
   | 'bad_request'
@@ -71,12 +72,31 @@ export class AppError extends Error {
   }
 }
 
+/** The sentence for a request that failed because the database did not answer (503). */
+export const DATABASE_UNAVAILABLE =
+  'Rhobook cannot reach its database just now, so nothing was read or changed. It usually comes back within seconds: try again shortly, and tell an administrator if it lasts.';
+
 /**
- * Turns any thrown value into a Response. AppErrors keep their status and sentence; anything else
- * is logged with detail and shown to the user as a plain sentence.
+ * The AppError for a failure that is not the request's fault and has a known cause: the database
+ * not answering (down, restarting, out of connections) is 503 `unavailable:database`. Null otherwise.
+ */
+export function knownFailure(err: unknown): AppError | null {
+  if (isConnectionError(err)) return new AppError('unavailable:database', DATABASE_UNAVAILABLE);
+  return null;
+}
+
+/**
+ * Turns any thrown value into a Response. AppErrors keep their status and sentence; a database that
+ * does not answer is 503 with a sentence (and Retry-After); anything else is logged with detail and
+ * shown to the user as a plain sentence.
  */
 export function errorResponse(err: unknown): Response {
   if (err instanceof AppError) return err.toResponse();
+  const known = knownFailure(err);
+  if (known) {
+    console.error(`[rhobook] ${known.code}: ${err instanceof Error ? err.message : String(err)}`);
+    return Response.json(known.toJSON(), { status: known.status, headers: { 'Retry-After': '5' } });
+  }
   console.error('[rhobook] unexpected error', err);
   return new AppError('internal:unexpected', 'Something went wrong on the server. The error has been logged.').toResponse();
 }
@@ -116,6 +136,8 @@ export function failureState(err: unknown): { ok: false; message: string; field:
     const fieldErrors = (err.details?.fieldErrors as Record<string, string> | undefined) ?? (field ? { [field]: err.message } : {});
     return { ok: false, message: err.message, field, fieldErrors };
   }
+  const known = knownFailure(err);
+  if (known) return { ok: false, message: known.message, field: null, fieldErrors: {} };
   console.error('[rhobook] unexpected error in a server action', err);
   return { ok: false, message: 'Something went wrong on the server. The error has been logged.', field: null, fieldErrors: {} };
 }

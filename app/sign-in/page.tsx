@@ -23,6 +23,11 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
       </div>
       <div className="panel p-6">
         <h1 className="mb-4">Sign in</h1>
+        {params.changed === '1' ? (
+          <p role="status" className="notice-good mb-4 text-sm">
+            Your password has been changed and every session of your account has ended. Sign in with the new password.
+          </p>
+        ) : null}
         <SignInForm callbackUrl={callbackUrl} />
       </div>
     </main>

@@ -68,9 +68,41 @@ function mediaType(req: Request): string {
   return (req.headers.get('content-type') ?? '').split(';')[0].trim().toLowerCase();
 }
 
+function tooLarge(limit: number): AppError {
+  return new AppError(
+    'too_large:json',
+    `The request body is larger than ${limit.toLocaleString('en-GB')} bytes, the most a JSON request may carry (JSON_BODY_MAX_BYTES). Send less, or upload data files through the upload form.`,
+  );
+}
+
+/**
+ * The body as text, refused with 413 as soon as it passes `limit` bytes: a declared Content-Length
+ * above it is refused before reading, and a body without one (chunked) is counted as it streams and
+ * cut off there, so a large body is never held in memory.
+ */
+async function readBodyText(req: Request, limit: number): Promise<string> {
+  const declared = Number(req.headers.get('content-length') ?? NaN);
+  if (Number.isFinite(declared) && declared > limit) throw tooLarge(limit);
+  if (!req.body) return '';
+  const reader = req.body.getReader();
+  const chunks: Uint8Array[] = [];
+  let size = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    size += value.byteLength;
+    if (size > limit) {
+      await reader.cancel().catch(() => undefined);
+      throw tooLarge(limit);
+    }
+    chunks.push(value);
+  }
+  return Buffer.concat(chunks).toString('utf8');
+}
+
 /**
  * For a state-changing JSON route: checks the origin, requires `application/json` (415 otherwise)
- * and parses the body (400 when it is not JSON). Returns the parsed value for the route's schema.
+ * and parses the body (400 when it is not JSON, 413 when it is larger than JSON_BODY_MAX_BYTES). Returns the parsed value for the route's schema.
  */
 export async function readJsonBody(req: Request): Promise<unknown> {
   assertSameOrigin(req);
@@ -80,7 +112,7 @@ export async function readJsonBody(req: Request): Promise<unknown> {
       `Send the request body as JSON with the header Content-Type: application/json (got ${mediaType(req) || 'no content type'}).`,
     );
   }
-  const text = await req.text();
+  const text = await readBodyText(req, env().JSON_BODY_MAX_BYTES);
   try {
     return JSON.parse(text) as unknown;
   } catch {

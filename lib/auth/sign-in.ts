@@ -12,7 +12,7 @@ export { signInWaitMessage } from './throttle';
 export const SIGN_IN_REFUSED = 'The e-mail or password is not right, or the account is not active.';
 
 export type SignInResult =
-  | { ok: true; user: { id: number; email: string; name: string; role: Role } }
+  | { ok: true; user: { id: number; email: string; name: string; role: Role; sessionVersion: number; mustChangePassword: boolean } }
   | { ok: false; reason: 'refused'; message: string }
   | { ok: false; reason: 'rate-limited'; message: string; waitSeconds: number };
 
@@ -79,5 +79,8 @@ export async function attemptSignIn(
     return { ok: false, reason: 'refused', message: SIGN_IN_REFUSED };
   }
   await db.delete(signInFailures).where(and(eq(signInFailures.email, email), eq(signInFailures.clientAddress, address)));
-  return { ok: true, user: { id: user.id, email: user.email, name: user.name, role: user.role } };
+  return {
+    ok: true,
+    user: { id: user.id, email: user.email, name: user.name, role: user.role, sessionVersion: user.sessionVersion, mustChangePassword: user.mustChangePassword },
+  };
 }

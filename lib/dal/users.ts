@@ -5,6 +5,7 @@ import { getDb } from '@/db/client';
 import type { Tx } from '@/db/connection';
 import { adminAudit, roles, users, type Role, type User } from '@/db/schema';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
+import { endSessions } from '@/lib/auth/session-version';
 import { generateTemporaryPassword, hashPassword, verifyPassword } from '@/lib/auth/password';
 import { normaliseEmail } from '@/lib/auth/sign-in';
 import { AppError, parseOrThrow } from '@/lib/errors';
@@ -182,6 +183,7 @@ export async function listAdminAudit(actor: SessionUser, limit = 100): Promise<A
 /**
  * The signed-in user changes their own password (required after an invitation). The current
  * password is asked for again, so that a session left open is not enough to take the account.
+ * Every session of the account ends with the change (the person signs in again with the new one).
  */
 export async function changeOwnPassword(actor: SessionUser, input: { currentPassword: string; newPassword: string }): Promise<void> {
   const { currentPassword, newPassword } = input;
@@ -193,10 +195,11 @@ export async function changeOwnPassword(actor: SessionUser, input: { currentPass
   if (newPassword.length < 10) throw new AppError('invalid:password', 'A password needs at least 10 characters.', { field: 'password' });
   if (newPassword === currentPassword) throw new AppError('invalid:password', 'Choose a new password that differs from the current one.', { field: 'password' });
   const passwordHash = await hashPassword(newPassword);
-  await getDb()
-    .update(users)
-    .set({ passwordHash, mustChangePassword: false, updatedAt: sql`CURRENT_TIMESTAMP(3)` })
-    .where(eq(users.id, actor.id));
+  await getDb().transaction(async (tx) => {
+    await tx.update(users).set({ passwordHash, mustChangePassword: false, updatedAt: sql`CURRENT_TIMESTAMP(3)` }).where(eq(users.id, actor.id));
+    // Every session of the account ends, this one too: whoever else held the old password is out.
+    await endSessions(tx, actor.id);
+  });
 }
 
 /**
@@ -218,10 +221,4 @@ export async function createInitialUsers(
     const rows = await tx.select({ id: users.id, email: users.email, name: users.name, role: users.role }).from(users).orderBy(asc(users.id));
     return { created: rows, existing: 0 };
   });
-}
-
-/** Whether the signed-in user still has to replace a one-time password (shown on their account page). */
-export async function mustChangeOwnPassword(actor: SessionUser): Promise<boolean> {
-  const [row] = await getDb().select({ must: users.mustChangePassword }).from(users).where(eq(users.id, actor.id)).limit(1);
-  return row?.must ?? false;
 }

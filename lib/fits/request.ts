@@ -109,3 +109,12 @@ export type FitRequest = z.output<typeof fitRequestSchema>;
 
 /** Fewest periods a segment must have inside the window to be fitted. */
 export const MIN_PERIODS = 3;
+
+/**
+ * Whether a run asks for blocks that need every segment together (grades under one factor, pairs,
+ * posteriors, the most prudent PD): such a run is computed whole by one job; any other is split
+ * into one job per segment (lib/dal/fits.ts createFit).
+ */
+export function needsWholeRun(request: FitRequest): boolean {
+  return Boolean(request.group || request.pairs || request.prior || request.prudent);
+}

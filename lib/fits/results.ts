@@ -23,6 +23,7 @@ import type { GradeFit } from '@/lib/stats/grade-fit';
 import type { GradeAuditSummary } from '@/lib/stats/grade-audit';
 import type { PosteriorBlock, PrudentPdBlock } from '@/lib/stats/low-default';
 import type { StageTimes } from '@/lib/stats/stage-timer';
+import { ENGINE_VERSION } from '@/lib/stats/version';
 
 export type { EstimatorKey } from '@/lib/stats/estimators/types';
 
@@ -144,4 +145,18 @@ export function findSegment(results: FitResults, name: string): { fit: FitSegmen
 /** The address of a segment's review page. */
 export function segmentHref(fitId: number, segment: string): string {
   return `/fits/${fitId}/segments/${encodeURIComponent(segment)}`;
+}
+
+/** What one segment of a run came to: its fit, or why it failed (reported in its place). */
+export type SegmentOutcome = { kind: 'fit'; fit: FitSegmentResult } | { kind: 'failed'; failure: SegmentFailure };
+
+/** A run's results from its segments' outcomes, in the run's order of segments. */
+export function assembleFitResults(outcomes: readonly SegmentOutcome[]): FitResults {
+  const segments: FitSegmentResult[] = [];
+  const failures: SegmentFailure[] = [];
+  for (const o of outcomes) {
+    if (o.kind === 'fit') segments.push(o.fit);
+    else failures.push(o.failure);
+  }
+  return { engine: { version: ENGINE_VERSION }, segments, failures };
 }

@@ -4,8 +4,11 @@
 //   2. MariaDB on 127.0.0.1:$DB_PORT (installed from Debian's packages when missing)
 //   3. migrations, then the demo organisation when the database is empty
 //   4. next build when the build is missing or stale
-//   5. the web app on 127.0.0.1:$PORT and the worker; Ctrl-C stops everything this started
+//   5. the web app on 127.0.0.1:$PORT and the worker, supervised with the database: each is started
+//      again when it dies (lib/ops/supervisor.mjs); Ctrl-C stops everything this started and leaves
+//      alone a database that was already running
 import { ensureDependencies, localSecret, say, startChild, tsx, ensureBuild, waitForHttp } from './common.mjs';
+import { Supervisor } from './supervisor.mjs';
 
 const port = Number(process.env.PORT ?? 3000);
 const host = process.env.HOST ?? '127.0.0.1';
@@ -26,33 +29,27 @@ async function main() {
   process.stdout.write(seed.stdout);
   ensureBuild();
 
-  const children = [];
+  // Web process and worker under supervision (lib/ops/supervisor.mjs): restarted with backoff when
+  // they die, the database too; Ctrl-C stops what this started.
+  const supervisor = new Supervisor({ log: say });
   let stopping = false;
-  const stopAll = async (code = 0) => {
+  const stopAll = async () => {
     if (stopping) return;
     stopping = true;
     say('stopping...');
-    for (const c of children) if (c.exitCode === null) c.kill('SIGTERM');
-    await Promise.all(children.map((c) => (c.exitCode === null ? new Promise((r) => c.once('exit', r)) : null)));
-    if (db.started) await mariadb.stop({ quiet: false });
-    process.exit(code);
+    await supervisor.stop();
+    process.exit(0);
   };
-  process.on('SIGINT', () => void stopAll(0));
-  process.on('SIGTERM', () => void stopAll(0));
+  process.on('SIGINT', () => void stopAll());
+  process.on('SIGTERM', () => void stopAll());
 
-  const web = startChild('web', process.execPath, ['lib/ops/web-server.mjs'], {
-    env: { ...env, NODE_ENV: 'production', HOST: host, PORT: String(port) },
-  });
-  const worker = startChild('worker', process.execPath, ['--conditions=react-server', '--import', 'tsx', 'workers/index.ts'], { env });
-  children.push(web, worker);
-  for (const c of children) {
-    c.on('exit', (code, signal) => {
-      if (!stopping) {
-        say(`a process exited unexpectedly (code ${code ?? signal}); stopping the rest`);
-        void stopAll(1);
-      }
-    });
-  }
+  supervisor.watchDatabase(mariadb, db);
+  supervisor.add('web', () =>
+    startChild('web', process.execPath, ['lib/ops/web-server.mjs'], {
+      env: { ...env, NODE_ENV: 'production', HOST: host, PORT: String(port) },
+    }),
+  );
+  supervisor.add('worker', () => startChild('worker', process.execPath, ['--conditions=react-server', '--import', 'tsx', 'workers/index.ts'], { env }));
   await waitForHttp(`${url}/api/health`);
   const password = process.env.DEMO_PASSWORD ?? 'rhobook-demo';
   process.stdout.write(`

@@ -10,6 +10,7 @@ import { spawn } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { dataDir, ensureBuild, ensureChromium, ensureDependencies, root, say, startChild, tsx, waitForHttp } from './common.mjs';
+import { exited, hasExited } from './supervisor.mjs';
 
 const ALL = ['typecheck', 'lint', 'unit', 'integration', 'build', 'e2e'];
 const wanted = process.argv.slice(2).filter((a) => ALL.includes(a));
@@ -126,8 +127,8 @@ async function e2eStep() {
     logFile: serverLog,
   });
   const stop = async () => {
-    for (const c of [web, worker]) if (c.exitCode === null) c.kill('SIGTERM');
-    await Promise.all([web, worker].map((c) => (c.exitCode === null ? new Promise((r) => c.once('exit', r)) : null)));
+    for (const c of [web, worker]) if (!hasExited(c)) c.kill('SIGTERM');
+    await Promise.all([web, worker].map(exited));
   };
   try {
     await waitForHttp(`http://127.0.0.1:${E2E_PORT}/api/health`, 90_000);

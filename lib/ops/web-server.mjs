@@ -2,14 +2,23 @@
 // The web process of `npm start` and of the end-to-end tests: Next's request handler (the same as
 // `next start`, from the build in .next or NEXT_DIST_DIR) behind node:http, so that each request
 // carries the socket address it came from (lib/ops/socket-stamp.mjs); the sign-in throttle reads it
-// (lib/auth/client-address.ts), believing X-Forwarded-For only from TRUSTED_PROXIES.
+// (lib/auth/client-address.ts), believing X-Forwarded-For only from TRUSTED_PROXIES. Before Next it
+// refuses methods the app does not serve (405) and, in production, the public development session
+// secret (lib/ops/http-guard.mjs).
 //
 //   NODE_ENV=production HOST=127.0.0.1 PORT=3000 node lib/ops/web-server.mjs
 import { randomBytes } from 'node:crypto';
 import http from 'node:http';
 import next from 'next';
 import { root } from './common.mjs';
+import { productionSecretProblem, refuseUnknownMethod } from './http-guard.mjs';
 import { stampSocket } from './socket-stamp.mjs';
+
+const secretProblem = productionSecretProblem(process.env);
+if (secretProblem) {
+  console.error(`[web] refusing to start: ${secretProblem}`);
+  process.exit(2);
+}
 
 const port = Number(process.env.PORT ?? 3000);
 const host = process.env.HOST ?? '127.0.0.1';
@@ -21,6 +30,7 @@ await app.prepare();
 const handle = app.getRequestHandler();
 
 const server = http.createServer((req, res) => {
+  if (refuseUnknownMethod(req, res)) return;
   stampSocket(req, token);
   void handle(req, res);
 });

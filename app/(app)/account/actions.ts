@@ -1,9 +1,10 @@
 'use server';
 
+import { redirect } from 'next/navigation';
 import { z } from 'zod';
 import type { FormState } from '@/components/form-state';
 import { assertSameOriginAction } from '@/lib/auth/same-origin';
-import { requireUser } from '@/lib/auth/session';
+import { requireSignedIn } from '@/lib/auth/session';
 import { changeOwnPassword } from '@/lib/dal/users';
 import { failureState, parseOrThrow } from '@/lib/errors';
 
@@ -18,11 +19,13 @@ const schema = z
 export async function changePasswordAction(_prev: FormState, form: FormData): Promise<FormState> {
   try {
     await assertSameOriginAction();
-    const actor = await requireUser();
+    // Allowed while a one-time password is still to be replaced: this is how it is replaced.
+    const actor = await requireSignedIn();
     const v = parseOrThrow(schema, { current: form.get('current'), password: form.get('password'), confirm: form.get('confirm') }, 'invalid:password', 'The password is not valid.');
     await changeOwnPassword(actor, { currentPassword: v.current, newPassword: v.password });
-    return { ok: true, message: 'Your password has been changed.' };
   } catch (err) {
     return failureState(err);
   }
+  // The change ended every session of the account, this one too: sign in again with the new password.
+  redirect('/sign-in?changed=1');
 }

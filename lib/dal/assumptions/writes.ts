@@ -2,6 +2,7 @@ import 'server-only';
 import { and, eq } from 'drizzle-orm';
 import { getDb } from '@/db/client';
 import type { DbOrTx, Tx } from '@/db/connection';
+import { transactionWithRetry } from '@/db/transaction';
 import { assumptionAudit, assumptionReviews, assumptions, assumptionVersions, type AssumptionStatus, type AssumptionVersion } from '@/db/schema';
 import {
   contentHash,
@@ -68,12 +69,14 @@ async function appendAudit(
  * Drafts a new version of the segment's assumption from a fit run. Only analysts draft. The
  * evidence (dataset hash, fit run, engine version, seeds, the estimator's value, interval and PD)
  * is copied from the fit run and frozen. A segment has at most one version on its way to
- * publication at a time.
+ * publication at a time: of drafts of one segment sent at once, one is stored and the others are
+ * refused with 409 naming it (the losers of the lock on the segment's row are run again and then
+ * see the winner's draft).
  */
 export async function createDraft(actor: SessionUser, input: DraftInput, now: Date = new Date()): Promise<VersionDto> {
   assertCan(actor, 'assumptions:draft', `Only analysts draft assumptions; your role is ${actor.role}.`);
   const d = parseOrThrow(draftInputSchema, input, 'invalid:assumption', 'The assumption is not valid.');
-  return getDb().transaction(async (tx) => {
+  return transactionWithRetry(getDb(), async (tx) => {
     const fit = await loadFitEvidence(tx, d.fitId);
     const picked = pickEvidence(fit.results, d.segment, d.estimator, d.intervalMethod);
     const definitions = fit.datasetId
@@ -98,10 +101,13 @@ export async function createDraft(actor: SessionUser, input: DraftInput, now: Da
 
     await tx.insert(assumptions).ignore().values({ segment: d.segment, createdBy: actor.id, createdAt: now });
     const [a] = await tx.select().from(assumptions).where(eq(assumptions.segment, d.segment)).for('update');
+    // A locking read: it sees what another draft committed while this one waited for the segment's
+    // row, where a plain read would see the snapshot taken before (REPEATABLE READ) and pick the same number.
     const existing = await tx
       .select({ version: assumptionVersions.version, status: assumptionVersions.status })
       .from(assumptionVersions)
-      .where(eq(assumptionVersions.assumptionId, a.id));
+      .where(eq(assumptionVersions.assumptionId, a.id))
+      .for('update');
     const open = existing.find((e) => openStatuses.includes(e.status));
     if (open) {
       throw new AppError(
@@ -162,7 +168,7 @@ export async function lockVersion(tx: Tx, id: number): Promise<{ v: AssumptionVe
  */
 export async function editDraft(actor: SessionUser, id: number, input: EditInput, now: Date = new Date()): Promise<VersionDto> {
   const e = parseOrThrow(editInputSchema, input, 'invalid:assumption', 'The assumption is not valid.');
-  return getDb().transaction(async (tx) => {
+  return transactionWithRetry(getDb(), async (tx) => {
     const { v, segment } = await lockVersion(tx, id);
     assertCan(actor, 'assumptions:read');
     const { from, to } = planEdit({ actor, status: v.status });
@@ -229,7 +235,7 @@ export async function transition(
   now: Date = new Date(),
 ): Promise<{ id: number; status: AssumptionStatus; previous: AssumptionStatus }> {
   assertCan(actor, 'assumptions:read');
-  return getDb().transaction(async (tx) => {
+  return transactionWithRetry(getDb(), async (tx) => {
     const { v, segment } = await lockVersion(tx, id);
     const today = todayIso(now);
     const makers = await makerIds(tx, v);

@@ -70,13 +70,13 @@ export async function seedDemoLibrary(
   const today = todayIso(now);
 
   const fit = await createFit(analyst, { datasetId: cohortDatasetId, segments: [...SEGMENTS], level: 0.95, bootstrap: { replications: 200, seed: 20260101 } });
-  const { jobId } = await getFit(analyst, fit.id);
-  if (jobId === null) throw new Error(`The demo fit ${fit.id} has no job.`);
-  // The bootstrap on this thread: the seed starts no worker threads.
+  const { jobIds } = await getFit(analyst, fit.id);
+  if (jobIds.length === 0) throw new Error(`The demo fit ${fit.id} has no job.`);
+  // The bootstrap on this thread: the seed starts no worker threads. One job per segment, in order.
   const threads = process.env.FIT_THREADS;
   process.env.FIT_THREADS = '0';
   try {
-    await runJob(db, jobId, FIT_JOB);
+    for (const jobId of jobIds) await runJob(db, jobId, FIT_JOB);
   } finally {
     if (threads === undefined) delete process.env.FIT_THREADS;
     else process.env.FIT_THREADS = threads;

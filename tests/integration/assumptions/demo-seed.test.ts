@@ -44,13 +44,15 @@ async function person(email: string) {
 }
 
 describe('the demo library', () => {
-  it('comes from one succeeded fit run recorded by the fit job, on the demo cohort dataset', async () => {
-    const { fitRuns, jobs, datasets } = m.schema;
+  it('comes from one succeeded fit run recorded by its fit jobs (one per segment), on the demo cohort dataset', async () => {
+    const { fitRuns, fitRunSegments, jobs, datasets } = m.schema;
     const runs = await m.db.getDb().select().from(fitRuns);
     expect(runs).toHaveLength(1);
     expect(runs[0].status).toBe('succeeded');
-    const [job] = await m.db.getDb().select().from(jobs).where(m.orm.eq(jobs.id, runs[0].jobId!));
-    expect(job.status).toBe('succeeded');
+    const segs = await m.db.getDb().select().from(fitRunSegments).where(m.orm.eq(fitRunSegments.fitRunId, runs[0].id));
+    expect(segs).toHaveLength(4);
+    const done = await m.db.getDb().select().from(jobs).where(m.orm.inArray(jobs.id, segs.map((s) => s.jobId!)));
+    expect(done.map((j) => j.status)).toEqual(['succeeded', 'succeeded', 'succeeded', 'succeeded']);
     const [ds] = await m.db.getDb().select().from(datasets).where(m.orm.eq(datasets.id, runs[0].datasetId));
     expect(ds.kind).toBe('cohort');
     expect(runs[0].datasetSha256).toBe(ds.sha256);

@@ -5,7 +5,7 @@ import path from 'node:path';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { eq, inArray } from 'drizzle-orm';
 import { closeDb, getDb } from '@/db/connection';
-import { fitRuns, jobs } from '@/db/schema';
+import { fitRunSegments, fitRuns, jobs } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
 import { cancelFit, createFit, getFit } from '@/lib/dal/fits';
 import { runFit } from '@/lib/cli/fit';
@@ -92,16 +92,24 @@ function withoutTiming(results: FitResults) {
   return JSON.parse(JSON.stringify(results, (k, v) => (k === 'timing' ? undefined : v)));
 }
 
+/** The run and its first segment's job (the only one for a run of one segment). */
 async function jobOf(fitId: number) {
   const [run] = await getDb().select().from(fitRuns).where(eq(fitRuns.id, fitId));
-  const [job] = await getDb().select().from(jobs).where(eq(jobs.id, run.jobId!));
+  const [seg] = await getDb().select().from(fitRunSegments).where(eq(fitRunSegments.fitRunId, fitId)).orderBy(fitRunSegments.position).limit(1);
+  const [job] = await getDb().select().from(jobs).where(eq(jobs.id, seg.jobId!));
   return { run, job };
+}
+
+/** Every segment's job of a run. */
+async function jobIdsOf(fitId: number): Promise<number[]> {
+  const rows = await getDb().select({ jobId: fitRunSegments.jobId }).from(fitRunSegments).where(eq(fitRunSegments.fitRunId, fitId)).orderBy(fitRunSegments.position);
+  return rows.map((r) => r.jobId!);
 }
 
 describe('fit jobs', () => {
   it('a fit job writes per-segment results that reproduce the SciPy reference and the request', async () => {
     const { id } = await createFit(analyst, { datasetId: dataset.id, bootstrap: { replications: 30, seed: 5 } });
-    await drain([(await jobOf(id)).job.id]);
+    await drain(await jobIdsOf(id));
     const fit = await getFit(analyst, id);
     expect(fit.status).toBe('succeeded');
     expect(fit.progress).toBe(100);
@@ -139,7 +147,7 @@ describe('fit jobs', () => {
       breakTest: { replications: 40, seed: 5 },
       audit: { replications: 12, seed: 3 },
     });
-    await drain([(await jobOf(id)).job.id]);
+    await drain(await jobIdsOf(id));
     const fit = await getFit(analyst, id);
     expect(fit.status).toBe('succeeded');
     const dir = await mkdtemp(path.join(os.tmpdir(), 'rhobook-f5-'));
@@ -217,7 +225,7 @@ describe('fit jobs', () => {
     const request = { datasetId: dataset.id, segments: [dataset.segments[0]], audit: { replications: 12, seed: 3 } };
     const first = await createFit(analyst, request);
     const second = await createFit(analyst, { ...request, audit: { replications: 12, seed: 4 } });
-    await drain([(await jobOf(first.id)).job.id, (await jobOf(second.id)).job.id]);
+    await drain([...(await jobIdsOf(first.id)), ...(await jobIdsOf(second.id))]);
     const a = (await getFit(analyst, first.id)).results!.segments[0];
     const b = (await getFit(analyst, second.id)).results!.segments[0];
     const audit = a.estimatorAudit!;
@@ -242,7 +250,7 @@ describe('fit jobs', () => {
     const request = { datasetId: dataset.id, level: 0.9, bootstrap: { replications: 25, seed: 42 }, audit: { replications: 10, seed: 43 } };
     const first = await createFit(analyst, request);
     const second = await createFit(analyst, request);
-    await drain([(await jobOf(first.id)).job.id, (await jobOf(second.id)).job.id]);
+    await drain([...(await jobIdsOf(first.id)), ...(await jobIdsOf(second.id))]);
     const [a, b] = [await getFit(analyst, first.id), await getFit(analyst, second.id)];
     expect(a.status).toBe('succeeded');
     expect(a.datasetSha256).toBe(b.datasetSha256);
@@ -250,7 +258,7 @@ describe('fit jobs', () => {
     expect(withoutTiming(a.results!)).toEqual(withoutTiming(b.results!));
     // A different seed must change the bootstrap: the comparison above can fail.
     const third = await createFit(analyst, { ...request, bootstrap: { replications: 25, seed: 7 } });
-    await drain([(await jobOf(third.id)).job.id]);
+    await drain(await jobIdsOf(third.id));
     const c = await getFit(analyst, third.id);
     expect(c.results!.segments[0].estimates.binomialMle.intervals.bootstrap!.lower).not.toBe(
       a.results!.segments[0].estimates.binomialMle.intervals.bootstrap!.lower,
@@ -296,9 +304,8 @@ describe('fit jobs', () => {
 
   it('a job whose payload points at a missing dataset fails at once with a clear error, not retried', async () => {
     const { id } = await createFit(analyst, { datasetId: dataset.id });
-    const { job } = await jobOf(id);
-    // The queued job is cancelled so that only the forged one runs.
-    await getDb().update(jobs).set({ status: 'cancelled' }).where(eq(jobs.id, job.id));
+    // The queued jobs are cancelled so that only the forged one runs.
+    await getDb().update(jobs).set({ status: 'cancelled' }).where(inArray(jobs.id, await jobIdsOf(id)));
     const forged = await enqueueJob(getDb(), { kind: FIT_JOB, payload: { fitRunId: id, datasetId: 987654321, datasetSha256: dataset.sha256 } });
     await drain([forged]);
     const [row] = await getDb().select().from(jobs).where(eq(jobs.id, forged));
@@ -311,8 +318,7 @@ describe('fit jobs', () => {
 
   it('a job whose dataset changed since the request (other hash) fails with a clear error', async () => {
     const { id } = await createFit(analyst, { datasetId: dataset.id });
-    const { job } = await jobOf(id);
-    await getDb().update(jobs).set({ status: 'cancelled' }).where(eq(jobs.id, job.id));
+    await getDb().update(jobs).set({ status: 'cancelled' }).where(inArray(jobs.id, await jobIdsOf(id)));
     const forged = await enqueueJob(getDb(), { kind: FIT_JOB, payload: { fitRunId: id, datasetId: dataset.id, datasetSha256: 'f'.repeat(64) } });
     await drain([forged]);
     const [row] = await getDb().select().from(jobs).where(eq(jobs.id, forged));

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { count, eq } from 'drizzle-orm';
+import { count, eq, inArray } from 'drizzle-orm';
 import { closeDb, getDb } from '@/db/connection';
 import { fitRuns, jobs } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
@@ -39,7 +39,7 @@ async function fitRunCount() {
 }
 
 describe('requesting a fit', () => {
-  it('an analyst gets { id, status: queued } and the run records hash, engine version, seeds and its job', async () => {
+  it('an analyst gets { id, status: queued } and the run records hash, engine version, seeds and one job per segment', async () => {
     const res = await createFit(analyst, { datasetId: dataset.id, level: 0.9, bootstrap: { replications: 50, seed: 11 } });
     expect(res.status).toBe('queued');
     const [row] = await getDb().select().from(fitRuns).where(eq(fitRuns.id, res.id));
@@ -47,11 +47,14 @@ describe('requesting a fit', () => {
     expect(row.engineVersion).toBe(ENGINE_VERSION);
     expect(row.seeds).toEqual({ bootstrap: 11, audit: null, breakTest: null });
     expect(row.createdBy).toBe(analyst.id);
-    const [job] = await getDb().select().from(jobs).where(eq(jobs.id, row.jobId!));
-    expect(job.kind).toBe('fit');
-    expect(job.status).toBe('queued');
-    expect(job.payload).toEqual({ fitRunId: res.id, datasetId: dataset.id, datasetSha256: dataset.sha256 });
+    // One job per segment, in the order of the dataset's segments.
     const dto = await getFit(viewer, res.id);
+    expect(dto.jobIds).toHaveLength(dataset.segments.length);
+    const queued = await getDb().select().from(jobs).where(inArray(jobs.id, dto.jobIds)).orderBy(jobs.id);
+    expect(queued.map((j) => [j.kind, j.status])).toEqual(dataset.segments.map(() => ['fit', 'queued']));
+    expect(queued.map((j) => j.payload)).toEqual(
+      dataset.segments.map((name, position) => ({ fitRunId: res.id, datasetId: dataset.id, datasetSha256: dataset.sha256, segment: { position, name } })),
+    );
     expect(dto).toMatchObject({ id: res.id, status: 'queued', progress: 0, results: null, error: null });
     expect(dto.request.level).toBe(0.9);
     // every model and a 10-year rolling window unless asked otherwise
