@@ -7,6 +7,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
+import { assumptionCautions } from '../assumptions/cautions';
 import { validateCohortText, type CohortRow, type Finding } from '../ingest';
 import { EnginePool, fitPanelParallel } from '../engine';
 import { segmentFailure, type PanelInput, type SegmentFailure, type TimedSegmentFit } from '../stats/fit-panel';
@@ -35,6 +36,8 @@ export interface FitDocument {
   pairs?: FactorCorrelationMatrix;
   /** Segments whose fit failed, with the reason and their position among all segments (exit code 3). */
   failures: SegmentFailure[];
+  /** The cautions that travel with every correlation (lib/assumptions/cautions.ts). */
+  cautions: readonly string[];
 }
 
 /** Exit code when some segments (one or more) failed and the others were fitted. */
@@ -297,6 +300,7 @@ export async function runFit(argv: string[], io: CliIo): Promise<number> {
     ...(blocks?.group ? { group: blocks.group } : {}),
     ...(blocks?.pairs ? { pairs: blocks.pairs } : {}),
     failures,
+    cautions: assumptionCautions,
   };
   io.out(args.json ? JSON.stringify(doc, null, 2) : formatTable(doc));
   return failures.length > 0 ? EXIT_SOME_SEGMENTS_FAILED : 0;

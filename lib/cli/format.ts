@@ -1,6 +1,6 @@
 /**
  * The readable (non-JSON) output of `fit`: one block per segment with the five estimators, the
- * intervals of binomialMle, the main diagnostics and the warnings.
+ * intervals of binomialMle, the main diagnostics and the warnings, then the cautions.
  */
 import { ESTIMATOR_KEYS } from '../stats/estimators/types';
 import { ESTIMATOR_LABELS } from '../stats/estimators';
@@ -105,5 +105,7 @@ export function formatTable(doc: FitDocument): string {
     }
     lines.push(`  ${m.nearestNote}`);
   }
+  lines.push('', 'Cautions:');
+  for (const c of doc.cautions) lines.push(`  - ${c}`);
   return lines.join('\n');
 }

@@ -1,6 +1,7 @@
 import { ScrollBox } from '@/components/layout/scroll-box';
 import { PairExplorer } from '@/components/pairs/pair-explorer';
 import { assetClassNames } from '@/lib/asset-classes';
+import { capitalCaution } from '@/lib/assumptions/cautions';
 import { interval, pct, pd, rho } from '@/lib/format';
 import type { ReviewContext } from './types';
 
@@ -67,8 +68,7 @@ export function ImplicationsSection({ seg }: ReviewContext) {
         </table>
       </ScrollBox>
       <p className="notice-caution text-xs" data-testid="capital-caution">
-        K is an illustration ({lgdAndMaturity}), not regulatory capital; an estimated correlation does not replace the supervisory correlation
-        in Pillar 1 own-funds requirements. {imp.convention}
+        {capitalCaution(imp.lgd, imp.maturityYears)} {imp.convention}
       </p>
       <details>
         <summary className="cursor-pointer text-sm text-[var(--color-accent)]">Explore two obligors at this estimate</summary>

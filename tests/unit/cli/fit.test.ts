@@ -64,6 +64,10 @@ describe('cli fit --json (spawned)', () => {
     expect(Math.abs(b.estimates.binomialMle.intervals.profile!.upper - 0.344)).toBeLessThan(2e-3);
     expect(Math.abs(b.estimates.jointDefault.rho! - 0.050346)).toBeLessThan(1e-6);
     expect(b.warnings.map((w) => w.code)).toContain('zero-default-periods');
+    // The cautions travel with the numbers: both missing ones and the deferral (DESIGN.md, "Cautions").
+    expect(doc.cautions.join(' ')).toMatch(/does not replace the supervisory correlation in Pillar 1 own-funds requirements/);
+    expect(doc.cautions.join(' ')).toMatch(/Capital K .* illustration at the LGD and maturity stated with it, not regulatory capital/);
+    expect(doc.cautions.join(' ')).toMatch(/does not replace independent validation, the institution's model-risk policy, supervisory requirements or qualified professional judgement/);
   });
 
   it('filters by segment and period window and bootstraps identically on 1 and 2 threads', async () => {
@@ -97,6 +101,8 @@ describe('cli fit --json (spawned)', () => {
     expect(stdout).toMatch(/Segment Panel B: T = 10 \(2001-2010\)/);
     expect(stdout).toMatch(/binomialMle .*0\.0626/);
     expect(stdout).toMatch(/vasicekMle .*undefined/);
+    expect(stdout).toMatch(/\nCautions:\n  - The Gaussian one-factor model has no tail dependence/);
+    expect(stdout).toMatch(/  - An estimated correlation does not replace the supervisory correlation in Pillar 1 own-funds requirements/);
   });
 });
 

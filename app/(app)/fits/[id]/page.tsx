@@ -3,9 +3,9 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { z } from 'zod';
+import { Cautions } from '@/components/assumptions/cautions';
 import { FitProgress } from '@/components/fits/fit-progress';
 import { FitProvenance, OldResultsNotice } from '@/components/fits/fit-provenance';
-import { ModelCautions } from '@/components/fits/model-cautions';
 import { SegmentsOverview } from '@/components/fits/segments-overview';
 import { Breadcrumbs } from '@/components/layout/breadcrumbs';
 import { GroupResults, PairMatrix } from '@/components/fits/portfolio-review';
@@ -77,7 +77,7 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
           </section>
           {fit.results.group ? <GroupResults group={fit.results.group} /> : null}
           {fit.results.pairs ? <PairMatrix pairs={fit.results.pairs} fitId={fit.id} /> : null}
-          <ModelCautions />
+          <Cautions title="These numbers support a judgement: read them with care." />
         </>
       ) : null}
     </div>
