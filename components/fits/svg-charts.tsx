@@ -195,7 +195,7 @@ export function FactorChart({ periods, factor, pit }: { periods: string[]; facto
   const py = scale(0, 1, pitTop + pitH, pitTop);
   const cx = (i: number) => m.l + i * bw + bw / 2;
   return (
-    <svg viewBox={`0 0 ${W} ${H}`} width="100%" role="img" aria-label="Implied systematic factor by period and PIT values" data-testid="factor-chart">
+    <svg viewBox={`0 0 ${W} ${H}`} width="100%" role="img" aria-label="Implied systematic factor by period and the probability integral transform of each year's default count" data-testid="factor-chart">
       <text x={m.l} y={12} fontSize={10.5} fill="var(--color-ink)">
         Implied factor xₜ (below 0: a worse year than average)
       </text>
@@ -220,7 +220,7 @@ export function FactorChart({ periods, factor, pit }: { periods: string[]; facto
       {pit ? (
         <g>
           <text x={m.l} y={pitTop - 8} fontSize={10.5} fill="var(--color-ink)">
-            PIT value of each year&apos;s default rate (should spread evenly over 0–1)
+            Probability integral transform (PIT) of each year&apos;s default count (spreads evenly over 0–1 when the model fits)
           </text>
           <rect x={m.l} y={pitTop} width={W - m.l - m.r} height={pitH} fill="white" stroke="var(--color-line)" />
           <rect x={m.l} y={py(1)} width={W - m.l - m.r} height={py(0.9) - py(1)} fill="var(--color-caution-soft)" />

@@ -63,8 +63,8 @@ Fits the asset correlation of every segment of a cohort CSV (columns segment,per
   --level L         level of every interval, between 0 and 1 (default 0.95)
   --bootstrap B     add a parametric bootstrap interval with B replications (2 to 100000)
   --seed N          seed of the bootstrap, 0 to 4294967295 (default 1)
-  --audit R         add the estimator audit: R panels simulated at the fit (2 to 100000)
-  --audit-seed N    seed of the estimator audit, 0 to 4294967295 (default 2)
+  --audit R         add the small-sample simulation study: R panels simulated at the fit (2 to 100000)
+  --audit-seed N    seed of the simulation study, 0 to 4294967295 (default 2)
   --threads N       worker threads for the bootstrap and the audit (default: available cores; 0 = this thread)
   --asset-class C   compare with the Basel IRB supervisory correlation of ${ASSET_CLASSES.join(', ')}
   --turnover S      annual turnover in EUR millions, for the SME size adjustment of sme-corporate

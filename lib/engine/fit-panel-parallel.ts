@@ -56,9 +56,9 @@ function describe(tasks: readonly EngineTask[], weightedDone: number, total: num
     const kind = tasks[0].kind;
     const n = tasks.reduce((s, t) => s + t.to - t.from, 0);
     const done = Math.round(weightedDone / weight(tasks[0]));
-    return `${kind === 'bootstrap' ? 'Bootstrap' : 'Estimator audit'} ${done} of ${n}`;
+    return `${kind === 'bootstrap' ? 'Bootstrap' : 'Simulation study'} ${done} of ${n}`;
   }
-  return `Bootstrap and estimator audit: ${Math.floor((100 * weightedDone) / total)}% of the replications`;
+  return `Bootstrap and simulation study: ${Math.floor((100 * weightedDone) / total)}% of the replications`;
 }
 
 /**

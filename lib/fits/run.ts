@@ -71,7 +71,7 @@ export async function computeFitRun(panels: readonly SegmentInput[], request: Fi
   try {
     if (pool) {
       // Thread start-up (loading the engine in each thread) takes a second or two: say so rather than sit at "done".
-      await report(0, `Starting ${options.threads} worker thread${options.threads === 1 ? '' : 's'} for the bootstrap and audit`);
+      await report(0, `Starting ${options.threads} worker thread${options.threads === 1 ? '' : 's'} for the bootstrap and the simulation study`);
       await pool.start();
     }
     for (let i = 0; i < panels.length; i++) {

@@ -58,7 +58,7 @@ test('draft, request changes, fix, approve, publish; a viewer sees the published
   const validator = await validatorCtx.newPage();
   await signIn(validator, 'validator@fenmoor.example');
   await validator.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Queue', exact: true }).click();
-  await validator.getByRole('table', { name: 'Awaiting me' }).getByRole('link', { name: segment }).first().click();
+  await validator.getByRole('table', { name: 'Queue' }).getByRole('link', { name: segment }).first().click();
   await expect(validator).toHaveURL(versionUrl, { timeout: 60_000 });
   // The version page carries the frozen review of its segment: the validator need not leave it.
   const evidence = validator.getByTestId('version-evidence');
@@ -75,7 +75,7 @@ test('draft, request changes, fix, approve, publish; a viewer sees the published
 
   // The analyst sees the request in the queue, fixes the margin and resubmits.
   await analyst.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Queue', exact: true }).click();
-  await expect(analyst.getByRole('table', { name: 'Awaiting me' })).toContainText('Justify the general estimation error margin');
+  await expect(analyst.getByRole('table', { name: 'Queue' })).toContainText('Justify the general estimation error margin');
   await analyst.goto(versionUrl);
   await analyst.getByRole('link', { name: /^Edit/ }).click();
   const edit = analyst.getByRole('form', { name: 'Edit the draft' });

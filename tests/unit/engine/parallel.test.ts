@@ -52,7 +52,7 @@ describe('fitPanelParallel', () => {
     const two = withoutTiming(await fitPanelParallel(panelA, both, { threads: 2, onProgress: (_, m) => void messages.push(m) }));
     expect(two).toEqual(fitPanel(panelA, both));
     expect(two.estimatorAudit!.replications).toBe(6);
-    expect(messages.at(-1)).toMatch(/Bootstrap and estimator audit: 100%/);
+    expect(messages.at(-1)).toMatch(/Bootstrap and simulation study: 100%/);
   });
 
   it('reuses a started pool across segments', async () => {
