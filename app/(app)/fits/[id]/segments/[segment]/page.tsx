@@ -80,7 +80,7 @@ export default async function SegmentReviewPage({ params }: Params) {
       </div>
       <SegmentPager fitId={fit.id} results={fit.results} current={name} />
       {'fit' in found ? (
-        <SegmentEvidence seg={found.fit} idPrefix="review" bootstrapRequested={!!fit.request.bootstrap} />
+        <SegmentEvidence seg={found.fit} idPrefix="review" bootstrapRequested={!!fit.request.bootstrap} fitId={fit.id} />
       ) : (
         <section className="panel notice-caution p-4" data-testid="segment-failed">
           <p className="text-sm">This segment was not fitted: {found.failure.reason} The other segments of this run were fitted as usual.</p>
