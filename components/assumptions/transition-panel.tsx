@@ -2,9 +2,14 @@
 
 import { useMutation } from '@tanstack/react-query';
 import { useRouter } from 'next/navigation';
-import { useState } from 'react';
+import { useMemo, useState } from 'react';
+import { FormField, FormMessage } from '@/components/forms/form-field';
+import { useFieldErrors } from '@/components/forms/use-field-errors';
 import { actionLabels, transitionRules, type UserAction } from '@/lib/assumptions/lifecycle';
 import { apiSend } from '@/lib/client/api';
+import { problemOf, type FormFieldRef } from '@/lib/forms/place-errors';
+
+const FIELDS: readonly FormFieldRef[] = [['comment', 'transition-comment']];
 
 const confirmText = {
   retire: 'Retire this published version? Consumers will no longer receive it, and it cannot be published again.',
@@ -25,16 +30,19 @@ export function TransitionPanel({ versionId, actions }: { versionId: number; act
       router.refresh();
     },
   });
+  const problem = useMemo(() => problemOf(m.error), [m.error]);
+  const { error, formMessage } = useFieldErrors(problem, FIELDS);
   if (!actions.length) return <p className="text-sm text-[var(--color-muted)]">Nothing for you to do on this version now.</p>;
   const needsComment = actions.some((a) => transitionRules[a].commentRequired);
   return (
     <div className="space-y-3">
-      <div>
-        <label className="label" htmlFor="transition-comment">
-          Comment{needsComment ? ' (required to request changes or reject)' : ' (optional)'}
-        </label>
-        <textarea id="transition-comment" className="field" rows={3} value={comment} onChange={(e) => setComment(e.target.value)} />
-      </div>
+      <FormField
+        id="transition-comment"
+        label={`Comment${needsComment ? ' (required to request changes or reject)' : ' (optional)'}`}
+        error={error('transition-comment')}
+      >
+        {(a) => <textarea {...a} className="field" rows={3} value={comment} onChange={(e) => setComment(e.target.value)} />}
+      </FormField>
       <div className="flex flex-wrap gap-2">
         {actions.map((a) => (
           <button
@@ -53,11 +61,7 @@ export function TransitionPanel({ versionId, actions }: { versionId: number; act
           </button>
         ))}
       </div>
-      {m.error ? (
-        <p className="notice-bad text-sm" role="alert">
-          {m.error.message}
-        </p>
-      ) : null}
+      <FormMessage message={formMessage} />
       {done ? (
         <p className="notice-good text-sm" role="status">
           {done}

@@ -127,7 +127,7 @@ export function planTransition(action: UserAction, ctx: TransitionContext): { fr
     );
   }
   if (rule.commentRequired && !ctx.comment?.trim()) {
-    throw new AppError('invalid:comment', `Say why when you ${action === 'reject' ? 'reject a version' : 'request changes'}: a comment is required.`);
+    throw new AppError('invalid:comment', `Say why when you ${action === 'reject' ? 'reject a version' : 'request changes'}: a comment is required.`, { field: 'comment' });
   }
   if (action === 'approve') {
     const problem = backDatingProblem(ctx.effectiveDate, ctx.today, 'approve');
