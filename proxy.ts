@@ -5,7 +5,7 @@ import { NextResponse, type NextRequest } from 'next/server';
  * Sends anonymous visitors to the sign-in page (API callers get 401 JSON). This is a convenience,
  * not the security boundary: the data access layer checks the user and role on every read and write.
  */
-const PUBLIC_PREFIXES = ['/sign-in', '/api/auth', '/api/health', '/api/v1', '/api/openapi', '/samples', '/_next', '/favicon'];
+const PUBLIC_PREFIXES = ['/sign-in', '/api/auth', '/api/health', '/api/v1', '/api/openapi', '/samples', '/_next', '/favicon', '/icon'];
 
 export async function proxy(req: NextRequest) {
   const { pathname, search } = req.nextUrl;

@@ -1,6 +1,6 @@
 import type { Metadata } from 'next';
 import type { ReactNode } from 'react';
-import { jbmono, plex } from './fonts';
+import { mono, sans } from './fonts';
 import './globals.css';
 
 export const metadata: Metadata = {
@@ -10,7 +10,7 @@ export const metadata: Metadata = {
 
 export default function RootLayout({ children }: { children: ReactNode }) {
   return (
-    <html lang="en-GB" className={`${plex.variable} ${jbmono.variable}`}>
+    <html lang="en-GB" className={`${sans.variable} ${mono.variable}`}>
       <body className="min-h-screen antialiased">{children}</body>
     </html>
   );
