@@ -69,7 +69,11 @@ test('draft, request changes, fix, approve, publish; a viewer sees the published
   await keepScreenshot(validator, testInfo, 'version-with-evidence');
   await act(validator, 'Start review', 'in review');
   await validator.getByRole('button', { name: 'Request changes', exact: true }).click();
-  await expect(validator.getByRole('alert').filter({ hasText: 'a comment is required' })).toBeVisible();
+  // The refusal is said at the comment field, which is marked and takes the focus.
+  const commentField = validator.getByLabel(/^Comment/);
+  await expect(commentField).toHaveAttribute('aria-invalid', 'true');
+  await expect(commentField).toBeFocused();
+  await expect(validator.locator('#transition-comment-error')).toHaveText('Say why when you request changes: a comment is required.');
   await validator.getByLabel(/^Comment/).fill('Justify the general estimation error margin: the estimate is biased low at this T.');
   await act(validator, 'Request changes', 'draft');
 
@@ -100,7 +104,8 @@ test('draft, request changes, fix, approve, publish; a viewer sees the published
   await signIn(viewer, 'viewer@fenmoor.example');
   await viewer.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Library', exact: true }).click();
   const row = viewer.getByTestId(`library-row-${segment}`);
-  await expect(row.getByTestId('library-value')).toHaveText(String(Number(Number(published).toFixed(4))));
+  await expect(row.getByTestId('library-value')).toHaveText(published);
+  expect(published).toMatch(/^0\.\d{4}$/);
   await expect(row).toContainText('published');
   await row.getByRole('link', { name: segment }).click();
   await expect(viewer.getByTestId('final-value')).toHaveText(published);
