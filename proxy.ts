@@ -16,7 +16,7 @@ import { contentSecurityPolicy, newNonce, PERMISSIONS_POLICY } from '@/lib/http/
  * This is a convenience, not the security boundary: the data access layer checks the user, the
  * session version and the role on every read and write (lib/auth/session.ts).
  */
-const PUBLIC_PREFIXES = ['/sign-in', '/api/auth', '/api/health', '/api/v1', '/api/openapi', '/api/webhook-receiver', '/samples', '/_next', '/favicon'];
+const PUBLIC_PREFIXES = ['/sign-in', '/api/auth', '/api/health', '/api/v1', '/api/openapi', '/api/webhook-receiver', '/samples', '/_next', '/favicon', '/icon'];
 // Pages a person with a one-time password may still open: where it is changed, and signing in or out.
 const PASSWORD_CHANGE_PATHS = ['/account', '/sign-in', '/api/auth'];
 

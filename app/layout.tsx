@@ -1,7 +1,7 @@
 import type { Metadata } from 'next';
 import { headers } from 'next/headers';
 import type { ReactNode } from 'react';
-import { jbmono, plex } from './fonts';
+import { mono, sans } from './fonts';
 import './globals.css';
 
 export const metadata: Metadata = {
@@ -14,7 +14,7 @@ export default async function RootLayout({ children }: { children: ReactNode }) 
   // own Content-Security-Policy (proxy.ts); a page prerendered at build time would carry none.
   await headers();
   return (
-    <html lang="en-GB" className={`${plex.variable} ${jbmono.variable}`}>
+    <html lang="en-GB" className={`${sans.variable} ${mono.variable}`}>
       <body className="min-h-screen antialiased">{children}</body>
     </html>
   );

@@ -3,7 +3,15 @@
 import { signIn } from 'next-auth/react';
 import { useRouter } from 'next/navigation';
 import { useState, type FormEvent } from 'react';
+import { FormField, FormMessage } from '@/components/forms/form-field';
+import { useFieldErrors } from '@/components/forms/use-field-errors';
 import { signInWaitMessage } from '@/lib/auth/throttle';
+import type { FormFieldRef, FormProblem } from '@/lib/forms/place-errors';
+
+const FIELDS: readonly FormFieldRef[] = [
+  ['email', 'email'],
+  ['password', 'password'],
+];
 
 const refused = 'The e-mail or password is not right, or the account is not active.';
 
@@ -14,24 +22,32 @@ function errorMessage(code: string | undefined): string {
   return signInWaitMessage(Number(wait[1]));
 }
 
+/**
+ * Sign-in: an empty field is named at the field; a refusal is said at the form (which of e-mail or
+ * password was wrong is not told, on purpose).
+ */
 export function SignInForm({ callbackUrl }: { callbackUrl: string }) {
   const router = useRouter();
-  const [error, setError] = useState<string | null>(null);
+  const [problem, setProblem] = useState<FormProblem>(null);
   const [pending, setPending] = useState(false);
+  const { error, formMessage } = useFieldErrors(problem, FIELDS);
 
   async function onSubmit(e: FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const form = new FormData(e.currentTarget);
+    const email = String(form.get('email') ?? '').trim();
+    const password = String(form.get('password') ?? '');
+    const missing: Record<string, string> = {};
+    if (!email) missing.email = 'Type the e-mail address of your account.';
+    if (!password) missing.password = 'Type your password.';
+    const first = Object.keys(missing)[0];
+    if (first) return setProblem({ message: missing[first], field: first, fieldErrors: missing });
     setPending(true);
-    setError(null);
-    const res = await signIn('credentials', {
-      email: String(form.get('email') ?? ''),
-      password: String(form.get('password') ?? ''),
-      redirect: false,
-    });
+    setProblem(null);
+    const res = await signIn('credentials', { email, password, redirect: false });
     setPending(false);
     if (!res || res.error) {
-      setError(errorMessage(res?.error ?? undefined));
+      setProblem({ message: errorMessage(res?.error ?? undefined) });
       return;
     }
     router.replace(callbackUrl);
@@ -39,24 +55,14 @@ export function SignInForm({ callbackUrl }: { callbackUrl: string }) {
   }
 
   return (
-    <form onSubmit={onSubmit} className="space-y-4" noValidate>
-      <div>
-        <label className="label" htmlFor="email">
-          E-mail
-        </label>
-        <input id="email" name="email" type="email" autoComplete="username" required className="field" />
-      </div>
-      <div>
-        <label className="label" htmlFor="password">
-          Password
-        </label>
-        <input id="password" name="password" type="password" autoComplete="current-password" required className="field" />
-      </div>
-      {error ? (
-        <p role="alert" className="notice-bad text-sm">
-          {error}
-        </p>
-      ) : null}
+    <form onSubmit={onSubmit} className="space-y-4" noValidate aria-label="Sign in">
+      <FormField id="email" label="E-mail" error={error('email')}>
+        {(a) => <input {...a} name="email" type="email" autoComplete="username" className="field" />}
+      </FormField>
+      <FormField id="password" label="Password" error={error('password')}>
+        {(a) => <input {...a} name="password" type="password" autoComplete="current-password" className="field" />}
+      </FormField>
+      <FormMessage message={formMessage} />
       <button type="submit" className="btn w-full justify-center" disabled={pending}>
         {pending ? 'Signing in…' : 'Sign in'}
       </button>

@@ -4,6 +4,7 @@ import type { ReactNode } from 'react';
 import { AppNav } from '@/components/app-nav';
 import { Providers } from '@/components/providers';
 import { SignOutButton } from '@/components/sign-out-button';
+import { DEFERRAL } from '@/lib/assumptions/cautions';
 import { roleLabels } from '@/lib/auth/permissions';
 import { getCurrentUser } from '@/lib/auth/session';
 import { mailIsCaptured } from '@/lib/dal/outbox';
@@ -31,8 +32,7 @@ export default async function AppLayout({ children }: { children: ReactNode }) {
       </header>
       <main className="mx-auto max-w-7xl px-5 py-6">{children}</main>
       <footer className="mx-auto max-w-7xl px-5 pb-8 text-xs text-[var(--color-muted)]">
-        Rhobook supports the estimation and governance of correlation assumptions. It does not replace independent model
-        validation, local regulation or licensed professional judgement.
+        Rhobook supports the estimation and governance of correlation assumptions. {DEFERRAL}
       </footer>
     </Providers>
   );

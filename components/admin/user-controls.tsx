@@ -35,7 +35,14 @@ export function UserControls({
           <form action={roleAction} className="flex items-center gap-1">
             <input type="hidden" name="userId" value={userId} />
             <label className="sr-only" htmlFor={`role-${userId}`}>Role</label>
-            <select id={`role-${userId}`} name="role" defaultValue={role} className="field w-auto py-1 text-sm">
+            <select
+              id={`role-${userId}`}
+              name="role"
+              defaultValue={role}
+              className="field w-auto py-1 text-sm"
+              aria-invalid={roleState.message && !roleState.ok ? true : undefined}
+              aria-describedby={roleState.message ? `role-${userId}-message` : undefined}
+            >
               <option value="viewer">Viewer</option>
               <option value="analyst">Analyst</option>
               <option value="validator">Validator</option>
@@ -54,7 +61,11 @@ export function UserControls({
           </button>
         </form>
       </div>
-      {message ? <p className={`text-xs ${ok ? 'text-[var(--color-good)]' : 'text-[var(--color-bad)]'}`} role="status">{message}</p> : null}
+      {message ? (
+        <p id={`role-${userId}-message`} className={`text-xs ${ok ? 'text-[var(--color-good)]' : 'field-error'}`} role="status">
+          {message}
+        </p>
+      ) : null}
     </div>
   );
 }

@@ -1,12 +1,16 @@
-import { assumptionCautions } from '@/lib/assumptions/cautions';
+import { CAUTIONS } from '@/lib/assumptions/cautions';
 
-export function Cautions() {
+/**
+ * The cautions of every correlation (lib/assumptions/cautions.ts), as a list beside the value they
+ * qualify. `compact` in smaller type, `columns` in two columns on wide screens.
+ */
+export function Cautions({ compact = false, columns = false, title = 'Read these values with care.' }: { compact?: boolean; columns?: boolean; title?: string }) {
   return (
-    <section className="notice-caution text-sm" aria-label="Cautions">
-      <strong>Read these values with care.</strong>
-      <ul className="mt-1 list-disc pl-5">
-        {assumptionCautions.map((c) => (
-          <li key={c}>{c}</li>
+    <section className={`notice-caution ${compact ? 'text-xs' : 'text-sm'}`} aria-label="Cautions" data-testid="cautions-list">
+      <strong>{title}</strong>
+      <ul className={`mt-1 list-disc space-y-0.5 pl-5 ${columns ? 'lg:columns-2 lg:gap-10' : ''}`}>
+        {CAUTIONS.map((c) => (
+          <li key={c.id}>{c.text}</li>
         ))}
       </ul>
     </section>

@@ -3,19 +3,17 @@
 import { useMutation } from '@tanstack/react-query';
 import Link from 'next/link';
 import { useRouter } from 'next/navigation';
-import { useState, type FormEvent } from 'react';
-import { AppError } from '@/lib/errors';
+import { useMemo, useState, type FormEvent } from 'react';
+import { FormField, FormMessage } from '@/components/forms/form-field';
+import { useFieldErrors } from '@/components/forms/use-field-errors';
+import { intervalMethodLabel, intervalMethods } from '@/lib/assumptions/content';
 import { apiSend } from '@/lib/client/api';
+import { AppError } from '@/lib/errors';
+import { pd, rho } from '@/lib/format';
+import { problemOf, type FormFieldRef } from '@/lib/forms/place-errors';
 import { estimatorLabel, type EstimatorKey } from '@/lib/stats/estimators/types';
 import { ESTIMATOR_MODEL, FIT_MODEL_LABELS } from '@/lib/stats/fit-models';
-
-/** The interval methods of the engine's results, in the order offered, with their names. */
-const INTERVAL_LABELS: readonly (readonly [string, string])[] = [
-  ['profile', 'profile likelihood'],
-  ['wald', 'Wald (logit scale)'],
-  ['bootstrap', 'parametric bootstrap'],
-  ['chiSquare', 'chi-square (closed form, large-pool approximation)'],
-];
+import { Cautions } from './cautions';
 
 export type FitOption = {
   fitId: number;
@@ -39,10 +37,22 @@ const marginParts = [
   ['general', 'General estimation error'],
 ] as const;
 
-/** Six decimals for reading (the stored evidence keeps full precision). */
-function six(x: number | null | undefined): string {
-  return x === null || x === undefined || !Number.isFinite(x) ? '—' : String(Number(x.toFixed(6)));
-}
+/** The request path of each field and the id of its element, in the order of the form (the first with an error takes the focus). */
+const FIELDS: readonly FormFieldRef[] = [
+  ['fitId', 'fit-segment'],
+  ['segment', 'fit-segment'],
+  ['estimator', 'estimator'],
+  ['intervalMethod', 'interval-method'],
+  ...marginParts.flatMap(([k]) => [
+    [`margins.${k}.value`, `margin-${k}`] as const,
+    [`margins.${k}.rationale`, `rationale-${k}`] as const,
+  ]),
+  ['finalValue', 'final-value'],
+  ['intendedUses', 'intended-uses'],
+  ['limitations', 'limitations'],
+  ['effectiveDate', 'effective-date'],
+  ['reviewBy', 'review-by'],
+];
 
 function round(x: number) {
   return Math.round(x * 1e10) / 1e10;
@@ -85,8 +95,8 @@ export function DraftForm(
   const est = option?.estimates[estimator];
   const estimate = props.mode === 'edit' ? props.estimate : (est?.rho ?? null);
   // The interval asked for when this estimator has it, else the first it has: each estimator has its own (profile, chi-square, bootstrap)
-  const methods = INTERVAL_LABELS.filter(([k]) => est?.intervals?.[k]);
-  const method = est?.intervals?.[intervalMethod] ? intervalMethod : (methods[0]?.[0] ?? intervalMethod);
+  const methods = intervalMethods.filter((k) => est?.intervals?.[k]);
+  const method = est?.intervals?.[intervalMethod] ? intervalMethod : (methods[0] ?? intervalMethod);
   const interval = est?.intervals?.[method];
   const model = ESTIMATOR_MODEL[estimator as EstimatorKey];
   const sum = estimate === null ? null : estimate + Number(margins.data.value || 0) + Number(margins.practice.value || 0) + Number(margins.general.value || 0);
@@ -119,8 +129,8 @@ export function DraftForm(
       router.refresh();
     },
   });
-  const err = m.error instanceof AppError ? m.error : m.error ? new AppError('internal:client', m.error.message) : null;
-  const errField = (err?.details?.field as string | undefined) ?? null;
+  const problem = useMemo(() => problemOf(m.error), [m.error]);
+  const { error, formMessage } = useFieldErrors(problem, FIELDS);
 
   const onSubmit = (e: FormEvent) => {
     e.preventDefault();
@@ -128,49 +138,49 @@ export function DraftForm(
   };
 
   return (
-    <form onSubmit={onSubmit} aria-label={props.mode === 'create' ? 'Draft an assumption' : 'Edit the draft'} className="space-y-5">
+    <form onSubmit={onSubmit} aria-label={props.mode === 'create' ? 'Draft an assumption' : 'Edit the draft'} className="space-y-5" noValidate>
       {props.mode === 'create' ? (
         <fieldset className="grid gap-3 md:grid-cols-3">
           <legend className="mb-2 font-semibold">Evidence (copied from the fit and frozen)</legend>
-          <div>
-            <label className="label" htmlFor="fit-segment">Fit and segment</label>
-            <select id="fit-segment" className="field" value={fitKey} onChange={(e) => setFitKey(e.target.value)}>
-              {props.options.map((o) => (
-                <option key={`${o.fitId}|${o.segment}`} value={`${o.fitId}|${o.segment}`}>
-                  {o.label}
-                </option>
-              ))}
-            </select>
-          </div>
-          <div>
-            <label className="label" htmlFor="estimator">Estimator</label>
-            <select id="estimator" className="field" value={estimator} onChange={(e) => setEstimator(e.target.value)}>
-              {Object.entries(option?.estimates ?? {}).map(([k, e]) => {
-                // An assumption carries an interval: only estimators with a value and an interval can be drafted.
-                const usable = e.rho !== null && Object.keys(e.intervals).length > 0;
-                return (
-                  <option key={k} value={k} disabled={!usable}>
-                    {estimatorLabel(k)}
-                    {e.rho === null ? ' (no value on this segment)' : !usable ? ' (no interval: cannot be drafted)' : ''}
+          <FormField id="fit-segment" label="Fit and segment" error={error('fit-segment')}>
+            {(a) => (
+              <select {...a} className="field" value={fitKey} onChange={(e) => setFitKey(e.target.value)}>
+                {props.options.map((o) => (
+                  <option key={`${o.fitId}|${o.segment}`} value={`${o.fitId}|${o.segment}`}>
+                    {o.label}
                   </option>
-                );
-              })}
-            </select>
-          </div>
-          <div>
-            <label className="label" htmlFor="interval-method">Interval</label>
-            <select id="interval-method" className="field" value={method} onChange={(e) => setIntervalMethod(e.target.value)}>
-              {methods.length > 0 ? (
-                methods.map(([k, label]) => (
-                  <option key={k} value={k}>
-                    {label}
+                ))}
+              </select>
+            )}
+          </FormField>
+          <FormField id="estimator" label="Estimator" error={error('estimator')}>
+            {(a) => (
+              <select {...a} className="field" value={estimator} onChange={(e) => setEstimator(e.target.value)}>
+                {Object.entries(option?.estimates ?? {}).map(([k, e]) => {
+                  // An assumption carries an interval: only estimators with a value and an interval can be drafted.
+                  const usable = e.rho !== null && Object.keys(e.intervals).length > 0;
+                  return (
+                    <option key={k} value={k} disabled={!usable}>
+                      {estimatorLabel(k)}
+                      {e.rho === null ? ' (no value on this segment)' : !usable ? ' (no interval in this fit: cannot be drafted)' : ''}
+                    </option>
+                  );
+                })}
+              </select>
+            )}
+          </FormField>
+          <FormField id="interval-method" label="Interval" error={error('interval-method')}>
+            {(a) => (
+              <select {...a} className="field" value={method} onChange={(e) => setIntervalMethod(e.target.value)}>
+                {intervalMethods.map((k) => (
+                  <option key={k} value={k} disabled={!!est && !est.intervals[k]}>
+                    {intervalMethodLabel(k)}
+                    {est && !est.intervals[k] ? ' (not computed by this fit)' : ''}
                   </option>
-                ))
-              ) : (
-                <option value={method}>none computed by this fit</option>
-              )}
-            </select>
-          </div>
+                ))}
+              </select>
+            )}
+          </FormField>
           {option && props.open?.[option.segment] ? (
             <p className="notice-caution text-sm md:col-span-3" role="note">
               Version {props.open[option.segment].version} of {option.segment} is still {props.open[option.segment].status.replace('_', ' ')}:
@@ -178,20 +188,24 @@ export function DraftForm(
             </p>
           ) : null}
           <p className="text-sm md:col-span-3" data-testid="evidence-summary">
-            Estimate <span className="num">{six(estimate)}</span>, PD <span className="num">{six(est?.pd)}</span>, interval{' '}
+            Estimate <span className="num">{rho(estimate)}</span> by {estimatorLabel(estimator).toLowerCase()}, PD <span className="num">{pd(est?.pd)}</span>,
+            interval{' '}
             {interval ? (
               <span className="num">
-                [{six(interval.lower)}, {six(interval.upper)}] at {six(interval.level * 100)}%
+                [{rho(interval.lower)}, {rho(interval.upper)}] at {Math.round(interval.level * 1000) / 10}%
               </span>
             ) : (
               <span className="text-[var(--color-bad)]">not computed by this fit for this estimator</span>
             )}
             {model ? <>; model: {FIT_MODEL_LABELS[model]}</> : null}
           </p>
+          <div className="md:col-span-3">
+            <Cautions compact title="The value you draft carries these cautions wherever it is used." />
+          </div>
         </fieldset>
       ) : (
         <p className="text-sm">
-          Estimate <span className="num">{six(props.estimate)}</span> (the evidence is frozen; draft a new version to use another fit).
+          Estimate <span className="num">{rho(props.estimate)}</span> (the evidence is frozen; draft a new version to use another fit).
         </p>
       )}
 
@@ -199,30 +213,30 @@ export function DraftForm(
         <legend className="mb-1 font-semibold">Margins of conservatism (added to the estimate, on the correlation scale)</legend>
         {marginParts.map(([k, label]) => (
           <div key={k} className="grid gap-2 md:grid-cols-[12rem_1fr]">
-            <div>
-              <label className="label" htmlFor={`margin-${k}`}>{`Margin: ${label}`}</label>
-              <input
-                id={`margin-${k}`}
-                className="field num"
-                type="number"
-                step="any"
-                min="0"
-                value={margins[k].value}
-                aria-invalid={errField === `margins.${k}.value` || undefined}
-                onChange={(e) => setMargins({ ...margins, [k]: { ...margins[k], value: e.target.value } })}
-              />
-            </div>
-            <div>
-              <label className="label" htmlFor={`rationale-${k}`}>{`Rationale: ${label}`}</label>
-              <textarea
-                id={`rationale-${k}`}
-                className="field"
-                rows={2}
-                value={margins[k].rationale}
-                aria-invalid={errField === `margins.${k}.rationale` || undefined}
-                onChange={(e) => setMargins({ ...margins, [k]: { ...margins[k], rationale: e.target.value } })}
-              />
-            </div>
+            <FormField id={`margin-${k}`} label={`Margin: ${label}`} error={error(`margin-${k}`)}>
+              {(a) => (
+                <input
+                  {...a}
+                  className="field num"
+                  type="number"
+                  step="any"
+                  min="0"
+                  value={margins[k].value}
+                  onChange={(e) => setMargins({ ...margins, [k]: { ...margins[k], value: e.target.value } })}
+                />
+              )}
+            </FormField>
+            <FormField id={`rationale-${k}`} label={`Rationale: ${label}`} error={error(`rationale-${k}`)}>
+              {(a) => (
+                <textarea
+                  {...a}
+                  className="field"
+                  rows={2}
+                  value={margins[k].rationale}
+                  onChange={(e) => setMargins({ ...margins, [k]: { ...margins[k], rationale: e.target.value } })}
+                />
+              )}
+            </FormField>
           </div>
         ))}
         <div className="grid gap-3 md:grid-cols-3">
@@ -230,38 +244,40 @@ export function DraftForm(
             <span className="label">Estimate plus margins</span>
             <p className="num py-1.5" data-testid="conservative-value">{conservative ?? '—'}</p>
           </div>
-          <div>
-            <label className="label" htmlFor="final-value">Final value (empty: estimate plus margins)</label>
-            <input id="final-value" className="field num" type="number" step="any" min="0" max="0.999" value={finalValue} placeholder={conservative !== null ? String(conservative) : ''} onChange={(e) => setFinalValue(e.target.value)} aria-invalid={errField === 'finalValue' || undefined} />
-          </div>
+          <FormField id="final-value" label="Final value (empty: estimate plus margins)" error={error('final-value')}>
+            {(a) => (
+              <input
+                {...a}
+                className="field num"
+                type="number"
+                step="any"
+                min="0"
+                max="0.999"
+                value={finalValue}
+                placeholder={conservative !== null ? String(conservative) : ''}
+                onChange={(e) => setFinalValue(e.target.value)}
+              />
+            )}
+          </FormField>
         </div>
       </fieldset>
 
       <div className="grid gap-3 md:grid-cols-2">
-        <div>
-          <label className="label" htmlFor="intended-uses">Intended uses</label>
-          <textarea id="intended-uses" className="field" rows={3} value={intendedUses} onChange={(e) => setIntendedUses(e.target.value)} aria-invalid={errField === 'intendedUses' || undefined} />
-        </div>
-        <div>
-          <label className="label" htmlFor="limitations">Limitations</label>
-          <textarea id="limitations" className="field" rows={3} value={limitations} onChange={(e) => setLimitations(e.target.value)} aria-invalid={errField === 'limitations' || undefined} />
-        </div>
-        <div>
-          <label className="label" htmlFor="effective-date">Effective date</label>
-          <input id="effective-date" className="field" type="date" value={effectiveDate} onChange={(e) => setEffectiveDate(e.target.value)} />
-        </div>
-        <div>
-          <label className="label" htmlFor="review-by">Review by (empty: 12 months after the effective date, the maximum)</label>
-          <input id="review-by" className="field" type="date" value={reviewBy} onChange={(e) => setReviewBy(e.target.value)} aria-invalid={errField === 'reviewBy' || undefined} />
-        </div>
+        <FormField id="intended-uses" label="Intended uses" error={error('intended-uses')}>
+          {(a) => <textarea {...a} className="field" rows={3} value={intendedUses} onChange={(e) => setIntendedUses(e.target.value)} />}
+        </FormField>
+        <FormField id="limitations" label="Limitations" error={error('limitations')}>
+          {(a) => <textarea {...a} className="field" rows={3} value={limitations} onChange={(e) => setLimitations(e.target.value)} />}
+        </FormField>
+        <FormField id="effective-date" label="Effective date" error={error('effective-date')}>
+          {(a) => <input {...a} className="field" type="date" value={effectiveDate} onChange={(e) => setEffectiveDate(e.target.value)} />}
+        </FormField>
+        <FormField id="review-by" label="Review by (empty: 12 months after the effective date, the maximum)" error={error('review-by')}>
+          {(a) => <input {...a} className="field" type="date" value={reviewBy} onChange={(e) => setReviewBy(e.target.value)} />}
+        </FormField>
       </div>
 
-      {err ? (
-        <p className="notice-bad text-sm" role="alert">
-          {err.message}
-          {errField ? <span className="ml-1 text-xs">(field: {errField})</span> : null}
-        </p>
-      ) : null}
+      <FormMessage message={formMessage} />
       <div className="flex gap-2">
         <button type="submit" className="btn" disabled={m.isPending}>
           {props.mode === 'create' ? 'Save draft' : 'Save changes'}

@@ -34,8 +34,3 @@ export function HealthBadge({ health, days }: { health: 'ok' | 'expiring' | 'ove
   if (health === 'ok') return <span className="badge bg-[var(--color-good-soft)] text-[var(--color-good)]">current</span>;
   return <span className="badge">not published</span>;
 }
-
-export function fmt(x: number | null | undefined, digits = 4): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
-  return Number(x.toFixed(digits)).toString();
-}

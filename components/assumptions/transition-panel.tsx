@@ -2,11 +2,15 @@
 
 import { useMutation } from '@tanstack/react-query';
 import { useRouter } from 'next/navigation';
-import { useState } from 'react';
+import { useMemo, useState } from 'react';
+import { FormField, FormMessage } from '@/components/forms/form-field';
+import { useFieldErrors } from '@/components/forms/use-field-errors';
 import { actionLabels, transitionRules, type UserAction } from '@/lib/assumptions/lifecycle';
 import { apiSend } from '@/lib/client/api';
-import { AppError } from '@/lib/errors';
+import { problemOf, type FormFieldRef } from '@/lib/forms/place-errors';
 import { DecisionDialog, type DecisionFacts } from './decision-dialog';
+
+const FIELDS: readonly FormFieldRef[] = [['comment', 'transition-comment']];
 
 const confirmText = {
   retire: 'Retire this published version? Consumers will no longer receive it, and it cannot be published again.',
@@ -31,26 +35,20 @@ export function TransitionPanel({ versionId, actions, facts }: { versionId: numb
       router.refresh();
     },
   });
-  const commentRefused = m.error instanceof AppError && m.error.code === 'invalid:comment';
+  const problem = useMemo(() => problemOf(m.error), [m.error]);
+  const { error, formMessage } = useFieldErrors(problem, FIELDS);
   if (!actions.length) return <p className="text-sm text-[var(--color-muted)]">Nothing for you to do on this version now.</p>;
   const needsComment = actions.some((a) => transitionRules[a].commentRequired);
   const commentFor = actions.filter((a) => transitionRules[a].commentRequired).map((a) => actionLabels[a].toLowerCase());
   return (
     <div className="space-y-3">
-      <div>
-        <label className="label" htmlFor="transition-comment">
-          Comment{needsComment ? ` (required to ${commentFor.join(', ').replace(/, ([^,]*)$/, ' or $1')})` : ' (optional)'}
-        </label>
-        <textarea
-          id="transition-comment"
-          className="field"
-          rows={3}
-          value={comment}
-          onChange={(e) => setComment(e.target.value)}
-          aria-invalid={commentRefused || undefined}
-          aria-describedby={commentRefused ? 'transition-error' : undefined}
-        />
-      </div>
+      <FormField
+        id="transition-comment"
+        label={`Comment${needsComment ? ` (required to ${commentFor.join(', ').replace(/, ([^,]*)$/, ' or $1')})` : ' (optional)'}`}
+        error={error('transition-comment')}
+      >
+        {(a) => <textarea {...a} className="field" rows={3} value={comment} onChange={(e) => setComment(e.target.value)} />}
+      </FormField>
       <div className="flex flex-wrap gap-2">
         {actions.map((a) => (
           <button
@@ -86,11 +84,7 @@ export function TransitionPanel({ versionId, actions, facts }: { versionId: numb
           }}
         />
       ) : null}
-      {m.error ? (
-        <p className="notice-bad text-sm" role="alert" id="transition-error">
-          {m.error.message}
-        </p>
-      ) : null}
+      <FormMessage message={formMessage} />
       {done ? (
         <p className="notice-good text-sm" role="status">
           {done}

@@ -29,7 +29,7 @@ export function VersionEvidence({
           )}
         </p>
       </div>
-      {evidence ? <SegmentEvidence seg={evidence.segment} idPrefix="evidence" bootstrapRequested={evidence.bootstrapRequested} /> : null}
+      {evidence ? <SegmentEvidence seg={evidence.segment} idPrefix="evidence" bootstrapRequested={evidence.bootstrapRequested} fitId={evidence.fitId} /> : null}
     </section>
   );
 }

@@ -4,7 +4,7 @@ import type { FindingSummary } from '@/lib/ingest/findings';
 const plural = (n: number, one: string, many = `${one}s`) => `${n.toLocaleString('en-GB')} ${n === 1 ? one : many}`;
 
 /**
- * The validation report, errors first, then warnings, each group with its count and a line per
+ * The data check report, errors first, then warnings, each group with its count and a line per
  * rule; then every finding with its line, column, rule, the offending value and how to fix it.
  * Values from the file are shown as text (React escapes them). `summary`, when given, has the
  * true counts (findings beyond 1,000 per rule are counted but not stored).
@@ -59,10 +59,20 @@ export function ReportTable({
                 </li>
               ))}
             </ul>
-            <div className="max-h-[28rem] overflow-auto rounded border border-[var(--color-line)]">
+            {g.items.length > 10 ? (
+              <p className="text-xs text-[var(--color-muted)]">
+                All {plural(g.items.length, 'listed finding')} are in the box below, which scrolls; the CSV has them for a spreadsheet.
+              </p>
+            ) : null}
+            <div
+              className="scroll-box relative max-h-[28rem] overflow-auto rounded border border-[var(--color-line)]"
+              role="region"
+              tabIndex={0}
+              aria-label={`${caption ?? 'Data check report'}: ${isError ? 'errors' : 'warnings'} (the box scrolls)`}
+            >
               <table className="table">
                 <caption className="sr-only">
-                  {caption ?? 'Validation report'}: {isError ? 'errors' : 'warnings'}
+                  {caption ?? 'Data check report'}: {isError ? 'errors' : 'warnings'}
                 </caption>
                 <thead className="sticky top-0 bg-white">
                   <tr>

@@ -2,12 +2,16 @@
 
 import { useQuery } from '@tanstack/react-query';
 import Link from 'next/link';
-import { useRef, useState, type DragEvent } from 'react';
-import type { UploadIssue } from '@/lib/ingest/findings';
-import type { FindingSummary } from '@/lib/ingest/findings';
+import { useRouter } from 'next/navigation';
+import { useEffect, useMemo, useState, type DragEvent } from 'react';
+import { FieldError, FormField, FormMessage } from '@/components/forms/form-field';
+import { useFieldErrors } from '@/components/forms/use-field-errors';
+import { uploadDatasetFile, uploadReportQuery } from '@/lib/client/datasets';
+import { count } from '@/lib/format';
+import { problemOf, type FormFieldRef, type FormProblem } from '@/lib/forms/place-errors';
+import type { FindingSummary, UploadIssue } from '@/lib/ingest/findings';
 import { formatSize } from './format';
 import { ProgressBar } from './progress-bar';
-import { uploadDatasetFile, uploadReportQuery } from '@/lib/client/datasets';
 import { ReportTable } from './report-table';
 
 type Kind = 'cohort' | 'vintage' | 'loans';
@@ -19,31 +23,49 @@ const kinds: { value: Kind; label: string; columns: string; sample: string }[] =
 ];
 
 type Outcome =
-  | { type: 'accepted'; id: number; rows: number; segments: string[]; warnings: UploadIssue[] }
+  | { type: 'accepted'; id: number }
   | { type: 'queued'; id: number; reportId: number }
   | { type: 'rejected'; message: string; issues: UploadIssue[]; reportId: number | null; summary?: FindingSummary }
   | { type: 'duplicate'; message: string; datasetId: number }
-  | { type: 'error'; message: string };
+  | { type: 'error'; problem: FormProblem };
 
 function toOutcome(status: number, body: Record<string, unknown>): Outcome {
-  if (status === 201) return { type: 'accepted', id: body.id as number, rows: body.rows as number, segments: body.segments as string[], warnings: body.warnings as UploadIssue[] };
+  if (status === 201) return { type: 'accepted', id: body.id as number };
   if (status === 202) return { type: 'queued', id: body.id as number, reportId: body.reportId as number };
   const message = typeof body.message === 'string' ? body.message : `The server answered ${status}.`;
   if (status === 422 && body.code === 'invalid:upload') {
     return { type: 'rejected', message, issues: body.issues as UploadIssue[], reportId: (body.reportId as number) ?? null, summary: body.summary as FindingSummary | undefined };
   }
-  if (status === 0) return { type: 'error', message };
   if (status === 409 && typeof body.datasetId === 'number') return { type: 'duplicate', message, datasetId: body.datasetId };
-  return { type: 'error', message };
+  return { type: 'error', problem: problemOf({ ...body, message }) };
 }
 
+/** The request path of each field of the upload and the id of its element. */
+const FIELDS: readonly FormFieldRef[] = [
+  ['kind', 'kind-cohort'],
+  ['file', 'upload-file'],
+  ['name', 'upload-name'],
+  ['supersedes', 'upload-supersedes'],
+  ['description', 'upload-description'],
+  ['asOf', 'upload-asof'],
+  ['referenceMonthDay', 'upload-ref'],
+  ['exitConvention', 'upload-exits'],
+];
+
+/**
+ * The upload of a cohort, vintage or loan-tape file. An accepted cohort or vintage file opens its
+ * dataset page with the data check report; a loan tape is followed here while the worker converts
+ * it (a tape refused by the conversion leaves only its report, shown here), then opens its page.
+ */
 export function UploadForm({ supersedable }: { supersedable: { id: number; name: string }[] }) {
+  const router = useRouter();
   const [kind, setKind] = useState<Kind>('cohort');
   const [file, setFile] = useState<File | null>(null);
   const [dragging, setDragging] = useState(false);
   const [progress, setProgress] = useState<number | null>(null);
   const [outcome, setOutcome] = useState<Outcome | null>(null);
-  const inputRef = useRef<HTMLInputElement>(null);
+  const problem = useMemo(() => (outcome?.type === 'error' ? outcome.problem : null), [outcome]);
+  const { error, formMessage } = useFieldErrors(problem, FIELDS);
 
   function onDrop(e: DragEvent) {
     e.preventDefault();
@@ -55,7 +77,7 @@ export function UploadForm({ supersedable }: { supersedable: { id: number; name:
   async function onSubmit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     if (!file) {
-      setOutcome({ type: 'error', message: 'Choose or drop a CSV file first.' });
+      setOutcome({ type: 'error', problem: { message: 'Choose or drop a CSV file first.', field: 'file' } });
       return;
     }
     const data = new FormData(e.currentTarget);
@@ -66,18 +88,16 @@ export function UploadForm({ supersedable }: { supersedable: { id: number; name:
     setProgress(0);
     const { status, body } = await uploadDatasetFile(data, setProgress);
     setProgress(null);
-    setOutcome(toOutcome(status, body));
-    if (status === 201 || status === 202) {
-      // A new dataset: clear the chosen file so that the same bytes are not sent twice by mistake.
-      setFile(null);
-      if (inputRef.current) inputRef.current.value = '';
-    }
+    const next = toOutcome(status, body);
+    // An accepted file goes on to its dataset page, its data check report shown first.
+    if (next.type === 'accepted') router.push(`/data/${next.id}?uploaded=1`);
+    setOutcome(next);
   }
 
   return (
     <div className="space-y-5">
-      <form onSubmit={onSubmit} className="panel space-y-4 p-5" aria-label="Upload a dataset">
-        <fieldset>
+      <form onSubmit={onSubmit} className="panel space-y-4 p-5" aria-label="Upload a dataset" noValidate>
+        <fieldset aria-describedby={error('kind-cohort') ? 'kind-cohort-error' : undefined}>
           <legend className="label">Kind of file</legend>
           <div className="grid gap-2 md:grid-cols-3">
             {kinds.map((k) => (
@@ -86,7 +106,7 @@ export function UploadForm({ supersedable }: { supersedable: { id: number; name:
                 className={`block cursor-pointer rounded border p-3 text-sm ${kind === k.value ? 'border-[var(--color-accent)] bg-[var(--color-accent-soft)]' : 'border-[var(--color-line)]'}`}
               >
                 <span className="flex items-center gap-2 font-medium">
-                  <input type="radio" name="kind" value={k.value} checked={kind === k.value} onChange={() => setKind(k.value)} />
+                  <input id={`kind-${k.value}`} type="radio" name="kind" value={k.value} checked={kind === k.value} onChange={() => setKind(k.value)} />
                   {k.label}
                 </span>
                 <span className="mt-1 block text-xs text-[var(--color-muted)]">{k.columns}</span>
@@ -96,6 +116,7 @@ export function UploadForm({ supersedable }: { supersedable: { id: number; name:
               </label>
             ))}
           </div>
+          <FieldError id="kind-cohort" error={error('kind-cohort')} />
         </fieldset>
 
         <div
@@ -113,72 +134,64 @@ export function UploadForm({ supersedable }: { supersedable: { id: number; name:
             Choose a file
           </label>
           <input
-            ref={inputRef}
             id="upload-file"
             name="file"
             type="file"
             accept=".csv,text/csv"
             className="sr-only"
+            aria-invalid={error('upload-file') ? true : undefined}
+            aria-describedby={error('upload-file') ? 'upload-file-error' : undefined}
             onChange={(e) => setFile(e.target.files?.[0] ?? null)}
           />
           <p className="mt-2 text-sm" aria-live="polite" data-testid="chosen-file">
             {file ? `${file.name} (${formatSize(file.size)})` : 'No file chosen.'}
           </p>
+          <FieldError id="upload-file" error={error('upload-file')} />
         </div>
 
         <div className="grid gap-3 md:grid-cols-2">
-          <div>
-            <label className="label" htmlFor="upload-name">Name (default: the file name)</label>
-            <input id="upload-name" name="name" maxLength={160} className="field" />
-          </div>
-          <div>
-            <label className="label" htmlFor="upload-supersedes">Replaces (supersedes) an earlier dataset</label>
-            <select id="upload-supersedes" name="supersedes" className="field" defaultValue="">
-              <option value="">None</option>
-              {supersedable.map((d) => (
-                <option key={d.id} value={d.id}>
-                  No. {d.id}: {d.name}
-                </option>
-              ))}
-            </select>
-          </div>
-          <div className="md:col-span-2">
-            <label className="label" htmlFor="upload-default-definition">
-              Definition of default{kind === 'cohort' ? ' (for rows without a default_definition value)' : ''}
-            </label>
-            <input
-              id="upload-default-definition"
-              name="defaultDefinition"
-              maxLength={500}
-              className="field"
-              placeholder="for example: 90 days past due or unlikely to pay"
-              aria-describedby="upload-default-definition-hint"
-            />
-            <p id="upload-default-definition-hint" className="mt-1 text-xs text-[var(--color-muted)]">
-              A correlation is valid only with the definition of default it was fitted on: it travels with the data to the fit, the assumption and the API.
-            </p>
-          </div>
-          <div className="md:col-span-2">
-            <label className="label" htmlFor="upload-description">Description (source, anything a reviewer should know)</label>
-            <textarea id="upload-description" name="description" maxLength={2000} rows={2} className="field" />
-          </div>
+          <FormField id="upload-name" label="Name (default: the file name)" error={error('upload-name')}>
+            {(a) => <input {...a} name="name" maxLength={160} className="field" />}
+          </FormField>
+          <FormField id="upload-supersedes" label="Replaces (supersedes) an earlier dataset" error={error('upload-supersedes')}>
+            {(a) => (
+              <select {...a} name="supersedes" className="field" defaultValue="">
+                <option value="">None</option>
+                {supersedable.map((d) => (
+                  <option key={d.id} value={d.id}>
+                    No. {d.id}: {d.name}
+                  </option>
+                ))}
+              </select>
+            )}
+          </FormField>
+          <FormField id="upload-default-definition" className="md:col-span-2" label={`Definition of default${kind === 'cohort' ? ' (for rows without a default_definition value)' : ''}`} hint="A correlation is valid only with the definition of default it was fitted on: it travels with the data to the fit, the assumption and the API." error={error('upload-default-definition')}>
+            {(a) => <input {...a} name="defaultDefinition" maxLength={500} className="field" placeholder="for example: 90 days past due or unlikely to pay" />}
+          </FormField>
+          <FormField
+            id="upload-description"
+            className="md:col-span-2"
+            label="Description (source, anything a reviewer should know)"
+            error={error('upload-description')}
+          >
+            {(a) => <textarea {...a} name="description" maxLength={2000} rows={2} className="field" />}
+          </FormField>
           {kind === 'loans' ? (
             <>
-              <div>
-                <label className="label" htmlFor="upload-asof">As-of date (default: the latest date in the file)</label>
-                <input id="upload-asof" name="asOf" type="date" className="field" />
-              </div>
-              <div>
-                <label className="label" htmlFor="upload-ref">Reference date of each year (MM-DD)</label>
-                <input id="upload-ref" name="referenceMonthDay" placeholder="01-01" pattern="\d{2}-\d{2}" className="field" />
-              </div>
-              <div className="md:col-span-2">
-                <label className="label" htmlFor="upload-exits">Loans that exit without default during a year</label>
-                <select id="upload-exits" name="exitConvention" className="field" defaultValue="exits-stay">
-                  <option value="exits-stay">stay in that year&apos;s cohort (declared default)</option>
-                  <option value="exits-removed">are removed from that year&apos;s cohort</option>
-                </select>
-              </div>
+              <FormField id="upload-asof" label="As-of date (default: the latest date in the file)" error={error('upload-asof')}>
+                {(a) => <input {...a} name="asOf" type="date" className="field" />}
+              </FormField>
+              <FormField id="upload-ref" label="Reference date of each year (MM-DD)" error={error('upload-ref')}>
+                {(a) => <input {...a} name="referenceMonthDay" placeholder="01-01" className="field" />}
+              </FormField>
+              <FormField id="upload-exits" className="md:col-span-2" label="Loans that exit without default during a year" error={error('upload-exits')}>
+                {(a) => (
+                  <select {...a} name="exitConvention" className="field" defaultValue="exits-stay">
+                    <option value="exits-stay">stay in that year&apos;s cohort (usual choice)</option>
+                    <option value="exits-removed">are removed from that year&apos;s cohort</option>
+                  </select>
+                )}
+              </FormField>
             </>
           ) : null}
         </div>
@@ -208,25 +221,21 @@ export function UploadForm({ supersedable }: { supersedable: { id: number; name:
           The same file uploaded twice is recognised by its SHA-256 and refused, naming the dataset it already is. A dataset is
           never edited: to correct one, upload the corrected file and choose the dataset it replaces.
         </p>
+        <FormMessage message={formMessage} />
       </form>
 
-      {outcome ? <OutcomeView outcome={outcome} /> : null}
+      {outcome && outcome.type !== 'error' ? <OutcomeView outcome={outcome} /> : null}
     </div>
   );
 }
 
-function OutcomeView({ outcome }: { outcome: Outcome }) {
+function OutcomeView({ outcome }: { outcome: Exclude<Outcome, { type: 'error' }> }) {
   switch (outcome.type) {
     case 'accepted':
       return (
-        <section className="space-y-3" aria-label="Upload result">
-          <p className="notice-good" role="status">
-            Accepted: {outcome.rows} cohort rows in {outcome.segments.length} segment{outcome.segments.length === 1 ? '' : 's'}.{' '}
-            <Link className="font-medium underline" href={`/data/${outcome.id}`}>Open the dataset</Link>
-            {outcome.warnings.length > 0 ? ' to review or waive its warnings.' : '.'}
-          </p>
-          {outcome.warnings.length > 0 ? <ReportTable issues={outcome.warnings} caption="Warnings of the accepted file" /> : null}
-        </section>
+        <p className="notice-good" role="status">
+          Accepted: opening <Link href={`/data/${outcome.id}?uploaded=1`}>the dataset and its data check report</Link>…
+        </p>
       );
     case 'queued':
       return <QueuedView id={outcome.id} reportId={outcome.reportId} />;
@@ -238,31 +247,25 @@ function OutcomeView({ outcome }: { outcome: Outcome }) {
           {outcome.message} <Link href={`/data/${outcome.datasetId}`}>Open dataset no. {outcome.datasetId}</Link>.
         </p>
       );
-    default:
-      return (
-        <p className="notice-bad" role="alert">
-          {outcome.message}
-        </p>
-      );
   }
 }
 
 function RejectedView({ message, issues, reportId, summary }: { message: string; issues: UploadIssue[]; reportId: number | null; summary?: FindingSummary }) {
   return (
-    <section className="space-y-3" aria-label="Validation report">
+    <section className="space-y-3" aria-label="Data check report">
       <p className="notice-bad" role="alert">
         {message}
       </p>
       <div className="panel space-y-3 p-5">
-        <div className="flex items-center justify-between">
-          <h2>Validation report</h2>
+        <div className="flex flex-wrap items-center justify-between gap-2">
+          <h2>Data check report</h2>
           {reportId !== null ? (
             <a className="btn btn-quiet text-sm" href={`/api/datasets/reports/${reportId}/report.csv`} download>
               Download the report (CSV)
             </a>
           ) : null}
         </div>
-        <ReportTable issues={issues} caption="Validation report" summary={summary} />
+        <ReportTable issues={issues} caption="Data check report" summary={summary} />
       </div>
     </section>
   );
@@ -274,7 +277,7 @@ function QueuedView({ id, reportId }: { id: number; reportId: number }) {
     const n = report.errorCount;
     return (
       <RejectedView
-        message={`The loan tape was not accepted: ${n.toLocaleString('en-GB')} error${n === 1 ? '' : 's'}. Nothing was stored except this report; fix the rows listed below and upload the file again.`}
+        message={`The loan tape was not accepted: ${count(n, 'error')}. Nothing was stored except this report; fix the rows listed below and upload the file again.`}
         issues={report.issues}
         reportId={reportId}
         summary={report.summary}
@@ -282,15 +285,7 @@ function QueuedView({ id, reportId }: { id: number; reportId: number }) {
     );
   }
   if (report?.status === 'accepted') {
-    return (
-      <p className="notice-good" role="status">
-        Converted: the loan tape is now a dataset of annual cohorts{report.warningCount > 0 ? ` with ${report.warningCount} warning${report.warningCount === 1 ? '' : 's'}` : ''}.{' '}
-        <Link className="font-medium underline" href={`/data/${id}`}>
-          Open the dataset
-        </Link>
-        .
-      </p>
-    );
+    return <Converted id={id} warnings={report.warningCount} />;
   }
   if (report?.status === 'failed') {
     return (
@@ -313,5 +308,22 @@ function QueuedView({ id, reportId }: { id: number; reportId: number }) {
       </div>
       <p className="text-sm text-[var(--color-muted)]">{waiting ? 'Waiting for a worker…' : job.message ?? ''}</p>
     </div>
+  );
+}
+
+/** A converted loan tape: goes on to its dataset page with the data check report shown first. */
+function Converted({ id, warnings }: { id: number; warnings: number }) {
+  const router = useRouter();
+  useEffect(() => {
+    router.push(`/data/${id}?uploaded=1`);
+  }, [id, router]);
+  return (
+    <p className="notice-good" role="status">
+      Converted: the loan tape is now a dataset of annual cohorts with {count(warnings, 'warning')}.{' '}
+      <Link className="font-medium underline" href={`/data/${id}?uploaded=1`}>
+        Open the dataset
+      </Link>
+      .
+    </p>
   );
 }

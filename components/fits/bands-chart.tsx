@@ -1,7 +1,7 @@
 'use client';
 
 import { ResponsiveLine, type LineCustomSvgLayerProps } from '@nivo/line';
-import { pct } from '@/lib/fits/format';
+import { pct } from '@/lib/format';
 
 type Bands = { q005: number; q025: number; q25: number; q50: number; q75: number; q975: number; q995: number };
 type Series = { id: string; data: { x: string; y: number }[] };
@@ -61,14 +61,15 @@ export function BandsChart({ periods, rates, bands, q95, q99 }: { periods: strin
   }
 
   return (
+    <figure className="m-0">
     <div style={{ height: 280 }} role="img" aria-label="Observed default rates by period against the fitted 50%, 95% and 99% bands">
       <ResponsiveLine<Series>
         data={data}
-        margin={{ top: 14, right: 16, bottom: 40, left: 58 }}
+        margin={{ top: 14, right: 16, bottom: 52, left: 58 }}
         xScale={{ type: 'point' }}
         yScale={{ type: 'linear', min: 0, max: maxY }}
         axisLeft={{ format: (v) => pct(Number(v), 2), tickValues: 5, legend: 'default rate', legendOffset: -52, legendPosition: 'middle' }}
-        axisBottom={{ tickRotation: periods.length > 14 ? -45 : 0 }}
+        axisBottom={{ tickRotation: periods.length > 14 ? -45 : 0, legend: 'year', legendOffset: periods.length > 14 ? 42 : 32, legendPosition: 'middle' }}
         colors={['var(--color-ink)']}
         lineWidth={1.5}
         enablePoints={false}
@@ -83,5 +84,33 @@ export function BandsChart({ periods, rates, bands, q95, q99 }: { periods: strin
         theme={{ text: { fontFamily: 'inherit', fontSize: 11 }, axis: { legend: { text: { fontSize: 11 } } } }}
       />
     </div>
+    <figcaption className="mt-1 flex flex-wrap gap-x-4 gap-y-1 text-xs text-[var(--color-muted)]" data-testid="bands-legend">
+      <span>
+        <LegendDot colour="var(--color-ink)" /> observed default rate
+      </span>
+      <span>
+        <LegendDot colour="var(--color-caution)" /> above the fitted 95% quantile
+      </span>
+      <span>
+        <LegendDot colour="var(--color-bad)" big /> above the fitted 99% quantile (an outlier)
+      </span>
+      <span>
+        <span className="inline-block h-2.5 w-4 align-middle" style={{ background: 'var(--color-accent)', opacity: 0.35 }} /> central 50%, 95%, 99% of the
+        fitted distribution
+      </span>
+      <span>
+        <span className="inline-block w-4 border-t-2 border-dashed align-middle" style={{ borderColor: 'var(--color-accent)' }} /> fitted median
+      </span>
+    </figcaption>
+    </figure>
+  );
+}
+
+function LegendDot({ colour, big = false }: { colour: string; big?: boolean }) {
+  const r = big ? 5 : 3.5;
+  return (
+    <svg width={12} height={12} viewBox="0 0 12 12" className="inline-block align-middle" aria-hidden="true">
+      <circle cx={6} cy={6} r={r} fill={colour} stroke="white" strokeWidth={1} />
+    </svg>
   );
 }

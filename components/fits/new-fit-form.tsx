@@ -3,9 +3,12 @@
 import { useMutation } from '@tanstack/react-query';
 import { useRouter } from 'next/navigation';
 import { useId, useMemo, useState, type FormEvent } from 'react';
-import type { AppError } from '@/lib/errors';
+import { FieldError, FormField, FormMessage } from '@/components/forms/form-field';
+import { useFieldErrors } from '@/components/forms/use-field-errors';
 import { requestFit } from '@/lib/client/fits';
 import { INITIAL_PORTFOLIO, PortfolioFields, portfolioRequest, type PortfolioState } from './portfolio-fields';
+import { count } from '@/lib/format';
+import { problemOf, type FormFieldRef, type FormProblem } from '@/lib/forms/place-errors';
 
 export type DatasetOption = {
   id: number;
@@ -19,13 +22,18 @@ function intOrNaN(s: string): number {
   return /^\s*\d+\s*$/.test(s) ? Number(s) : Number.NaN;
 }
 
-/** The New fit form: dataset, segments, window, level, the factor models, optional bootstraps (the break test's too) and audit. */
-export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
+/**
+ * The New fit form: dataset (the one given, when started from a dataset page), segments, window,
+ * level, the factor models, the optional bootstraps (the break test's too) and small-sample
+ * simulation study. Every error is shown beside its field, whether found here or by the server.
+ */
+export function NewFitForm({ datasets, initialDatasetId }: { datasets: DatasetOption[]; initialDatasetId?: number }) {
   const id = useId();
   const router = useRouter();
-  const [datasetId, setDatasetId] = useState<number | null>(datasets[0]?.id ?? null);
+  const first = datasets.find((d) => d.id === initialDatasetId) ?? datasets[0] ?? null;
+  const [datasetId, setDatasetId] = useState<number | null>(first?.id ?? null);
   const dataset = datasets.find((d) => d.id === datasetId) ?? null;
-  const [chosen, setChosen] = useState<Set<string>>(() => new Set(datasets[0]?.segments.map((s) => s.name) ?? []));
+  const [chosen, setChosen] = useState<Set<string>>(() => new Set(first?.segments.map((s) => s.name) ?? []));
   const years = useMemo(() => {
     if (!dataset || dataset.segments.length === 0) return [];
     const lo = Math.min(...dataset.segments.map((s) => s.from));
@@ -48,12 +56,32 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
   const [auditR, setAuditR] = useState('50');
   const [auditSeed, setAuditSeed] = useState('20260102');
   const [portfolio, setPortfolio] = useState<PortfolioState>(INITIAL_PORTFOLIO);
-  const [localError, setLocalError] = useState<string | null>(null);
+  const [localProblem, setLocalProblem] = useState<FormProblem>(null);
 
   const submit = useMutation({
     mutationFn: requestFit,
     onSuccess: (res) => router.push(`/fits/${res.id}`),
   });
+  const fields: readonly FormFieldRef[] = useMemo(
+    () => [
+      ['datasetId', `${id}-ds`],
+      ['segments', `${id}-seg-0`],
+      ['from', `${id}-from`],
+      ['to', `${id}-to`],
+      ['level', `${id}-level`],
+      ['bootstrap.replications', `${id}-b-count`],
+      ['bootstrap.seed', `${id}-b-seed`],
+      ['audit.replications', `${id}-a-count`],
+      ['audit.seed', `${id}-a-seed`],
+      ['models', `${id}-models`],
+      ['rollingWindow', `${id}-rolling`],
+      ['breakTest.replications', `${id}-bt-count`],
+      ['breakTest.seed', `${id}-bt-seed`],
+    ],
+    [id],
+  );
+  const serverProblem = useMemo(() => problemOf(submit.error), [submit.error]);
+  const { error, formMessage } = useFieldErrors(localProblem ?? serverProblem, fields);
 
   function onDataset(v: string) {
     const next = datasets.find((d) => d.id === Number(v)) ?? null;
@@ -65,70 +93,76 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
 
   function onSubmit(e: FormEvent) {
     e.preventDefault();
-    setLocalError(null);
-    if (!dataset) return setLocalError('Choose a dataset.');
-    if (chosen.size === 0) return setLocalError('Choose at least one segment.');
-    const body: Record<string, unknown> = { datasetId: dataset.id, segments: [...chosen], level: Number(level) };
+    submit.reset();
+    // Checked here first so that every field's problem shows at once; the server checks again.
+    const problems: Record<string, string> = {};
+    if (!dataset) problems.datasetId = 'Choose a dataset.';
+    if (chosen.size === 0) problems.segments = 'Choose at least one segment.';
+    if (from && to && Number(from) > Number(to)) problems.to = `The window ends (${to}) before it starts (${from}).`;
+    const body: Record<string, unknown> = { datasetId: dataset?.id, segments: [...chosen], level: Number(level) };
     if (from) body.from = Number(from);
     if (to) body.to = Number(to);
     const models = [...(independent ? ['independent'] : []), ...(ar1 ? ['ar1'] : [])];
-    if (models.length === 0) return setLocalError('Models: choose at least one.');
+    if (models.length === 0) problems.models = 'Choose at least one model.';
     body.models = models;
     if (independent) {
       const w = intOrNaN(rolling);
-      if (!(w >= 3 && w <= 50)) return setLocalError('Rolling window: give a whole number of years from 3 to 50.');
+      if (!(w >= 3 && w <= 50)) problems.rollingWindow = 'Give a whole number of years from 3 to 50 for the rolling window.';
       body.rollingWindow = w;
       if (breakBoot) {
         const b = intOrNaN(breakB);
         const s = intOrNaN(breakSeed);
-        if (!(b >= 20 && b <= 2000)) return setLocalError('Break test replications: give a whole number from 20 to 2,000.');
-        if (!Number.isFinite(s)) return setLocalError('Break test seed: give a whole number.');
+        if (!(b >= 20 && b <= 2000)) problems['breakTest.replications'] = 'Give a whole number of break-test replications from 20 to 2,000.';
+        if (!Number.isFinite(s)) problems['breakTest.seed'] = 'The break-test seed must be a whole number of 0 or more.';
         body.breakTest = { replications: b, seed: s };
       }
     }
     if (boot) {
       const b = intOrNaN(bootB);
       const s = intOrNaN(bootSeed);
-      if (!(b >= 20 && b <= 2000)) return setLocalError('Bootstrap replications: give a whole number from 20 to 2,000.');
-      if (!Number.isFinite(s)) return setLocalError('Bootstrap seed: give a whole number.');
+      if (!(b >= 20 && b <= 2000)) problems['bootstrap.replications'] = 'Give a whole number of bootstrap replications from 20 to 2,000.';
+      if (!Number.isFinite(s)) problems['bootstrap.seed'] = 'The bootstrap seed must be a whole number of 0 or more.';
       body.bootstrap = { replications: b, seed: s };
     }
     if (audit) {
       const r = intOrNaN(auditR);
       const s = intOrNaN(auditSeed);
-      if (!(r >= 10 && r <= 500)) return setLocalError('Audit replications: give a whole number from 10 to 500.');
-      if (!Number.isFinite(s)) return setLocalError('Audit seed: give a whole number.');
+      if (!(r >= 10 && r <= 500)) problems['audit.replications'] = 'Give a whole number of simulated panels from 10 to 500.';
+      if (!Number.isFinite(s)) problems['audit.seed'] = 'The simulation seed must be a whole number of 0 or more.';
       body.audit = { replications: r, seed: s };
     }
-    const extra = portfolioRequest(portfolio, dataset.segments.map((s) => s.name).filter((n) => chosen.has(n)));
-    if ('error' in extra) return setLocalError(extra.error);
+    const keys = Object.keys(problems);
+    if (keys.length > 0) return setLocalProblem({ message: problems[keys[0]], field: keys[0], fieldErrors: problems });
+    const extra = portfolioRequest(portfolio, dataset!.segments.map((s) => s.name).filter((n) => chosen.has(n)));
+    if ('error' in extra) return setLocalProblem({ message: extra.error });
+    setLocalProblem(null);
     submit.mutate({ ...body, ...extra.body });
   }
 
   if (datasets.length === 0) {
     return <p className="notice-caution text-sm">There is no ready dataset yet. Upload cohort data on the Data screen first.</p>;
   }
-  const serverError = submit.error as AppError | null;
   return (
-    <form onSubmit={onSubmit} className="space-y-5" noValidate>
-      <div>
-        <label className="label" htmlFor={`${id}-ds`}>
-          Dataset
-        </label>
-        <select id={`${id}-ds`} className="field" value={datasetId ?? ''} onChange={(e) => onDataset(e.target.value)}>
-          {datasets.map((d) => (
-            <option key={d.id} value={d.id}>
-              #{d.id} {d.name} ({d.kind}, {d.segments.length} segment{d.segments.length === 1 ? '' : 's'}){d.superseded ? ' — superseded' : ''}
-            </option>
-          ))}
-        </select>
-      </div>
-      <fieldset>
+    <form onSubmit={onSubmit} className="space-y-5" noValidate aria-label="New fit">
+      <FormField id={`${id}-ds`} label="Dataset" error={error(`${id}-ds`)}>
+        {(a) => (
+          <select {...a} className="field" value={datasetId ?? ''} onChange={(e) => onDataset(e.target.value)}>
+            {datasets.map((d) => (
+              <option key={d.id} value={d.id}>
+                #{d.id} {d.name} ({d.kind}, {count(d.segments.length, 'segment')}){d.superseded ? ' — superseded' : ''}
+              </option>
+            ))}
+          </select>
+        )}
+      </FormField>
+      <fieldset aria-describedby={error(`${id}-seg-0`) ? `${id}-seg-0-error` : undefined}>
         <legend className="label">Segments</legend>
         <div className="grid gap-1 sm:grid-cols-2">
-          {dataset?.segments.map((s) => (
+          {dataset?.segments.map((s, i) => (
             <label key={s.name} className="flex items-center gap-2 text-sm">
               <input
+                id={i === 0 ? `${id}-seg-0` : undefined}
+                aria-invalid={error(`${id}-seg-0`) ? true : undefined}
                 type="checkbox"
                 checked={chosen.has(s.name)}
                 onChange={(e) => {
@@ -140,40 +174,45 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
               />
               {s.name}{' '}
               <span className="text-xs text-[var(--color-muted)]">
-                {s.from}–{s.to}, {s.periods} periods
+                {s.from}–{s.to}, {count(s.periods, 'period')}
               </span>
             </label>
           ))}
         </div>
+        <FieldError id={`${id}-seg-0`} error={error(`${id}-seg-0`)} />
       </fieldset>
       <div className="grid gap-3 sm:grid-cols-3">
-        <YearSelect id={`${id}-from`} label="Window from" empty="first period" years={years} value={from} onChange={setFrom} />
-        <YearSelect id={`${id}-to`} label="Window to" empty="last period" years={years} value={to} onChange={setTo} />
-        <div>
-          <label className="label" htmlFor={`${id}-level`}>
-            Interval level
-          </label>
-          <select id={`${id}-level`} className="field" value={level} onChange={(e) => setLevel(e.target.value)}>
-            <option value="0.9">90%</option>
-            <option value="0.95">95%</option>
-            <option value="0.99">99%</option>
-          </select>
-        </div>
+        <YearSelect id={`${id}-from`} label="Window from" empty="first period" years={years} value={from} onChange={setFrom} error={error(`${id}-from`)} />
+        <YearSelect id={`${id}-to`} label="Window to" empty="last period" years={years} value={to} onChange={setTo} error={error(`${id}-to`)} />
+        <FormField id={`${id}-level`} label="Interval level" error={error(`${id}-level`)}>
+          {(a) => (
+            <select {...a} className="field" value={level} onChange={(e) => setLevel(e.target.value)}>
+              <option value="0.9">90%</option>
+              <option value="0.95">95%</option>
+              <option value="0.99">99%</option>
+            </select>
+          )}
+        </FormField>
       </div>
       <fieldset className="space-y-2">
         <legend className="label">Models</legend>
         <label className="flex items-center gap-2 text-sm">
-          <input type="checkbox" checked={independent} onChange={(e) => setIndependent(e.target.checked)} /> Independent years: the five
+          <input
+            id={`${id}-models`}
+            type="checkbox"
+            checked={independent}
+            onChange={(e) => setIndependent(e.target.checked)}
+            aria-invalid={error(`${id}-models`) ? true : undefined}
+            aria-describedby={error(`${id}-models`) ? `${id}-models-error` : undefined}
+          />{' '}
+          Independent years: the five
           estimators with their intervals, and the stability of ρ across the window
         </label>
         {independent ? (
           <div className="grid gap-3 pl-6 sm:grid-cols-3">
-            <div>
-              <label className="label" htmlFor={`${id}-rolling`}>
-                Rolling window (years)
-              </label>
-              <input id={`${id}-rolling`} className="field num" inputMode="numeric" value={rolling} onChange={(e) => setRolling(e.target.value)} />
-            </div>
+            <FormField id={`${id}-rolling`} label="Rolling window (years)" error={error(`${id}-rolling`)}>
+              {(a) => <input {...a} className="field num" inputMode="numeric" value={rolling} onChange={(e) => setRolling(e.target.value)} />}
+            </FormField>
             <label className="flex items-center gap-2 text-sm sm:col-span-2 sm:self-end sm:pb-2">
               <input type="checkbox" checked={breakBoot} onChange={(e) => setBreakBoot(e.target.checked)} /> p-value of the break test (a
               parametric bootstrap)
@@ -181,12 +220,22 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
           </div>
         ) : null}
         {independent && breakBoot ? (
-          <ReplicationFields id={`${id}-bt`} what="Break test" count={breakB} seed={breakSeed} onCount={setBreakB} onSeed={setBreakSeed} />
+          <ReplicationFields
+            id={`${id}-bt`}
+            countLabel="Break test replications"
+            seedLabel="Break test seed"
+            count={breakB}
+            seed={breakSeed}
+            onCount={setBreakB}
+            onSeed={setBreakSeed}
+            error={error}
+          />
         ) : null}
         <label className="flex items-center gap-2 text-sm">
           <input type="checkbox" checked={ar1} onChange={(e) => setAr1(e.target.checked)} /> A persistent factor (AR(1)): maximum likelihood
           with φ, the test of independent years, and the autocorrelation-corrected moments
         </label>
+        <FieldError id={`${id}-models`} error={error(`${id}-models`)} />
       </fieldset>
       <fieldset className="space-y-2">
         <label className="flex items-center gap-2 text-sm font-medium">
@@ -194,26 +243,41 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
           and of each moment estimator
         </label>
         {boot ? (
-          <ReplicationFields id={`${id}-b`} what="Bootstrap" count={bootB} seed={bootSeed} onCount={setBootB} onSeed={setBootSeed} />
+          <ReplicationFields
+            id={`${id}-b`}
+            countLabel="Bootstrap replications"
+            seedLabel="Bootstrap seed"
+            count={bootB}
+            seed={bootSeed}
+            onCount={setBootB}
+            onSeed={setBootSeed}
+            error={error}
+          />
         ) : null}
         <label className="flex items-center gap-2 text-sm font-medium">
-          <input type="checkbox" checked={audit} onChange={(e) => setAudit(e.target.checked)} /> Estimator audit at this sample size
+          <input type="checkbox" checked={audit} onChange={(e) => setAudit(e.target.checked)} /> Small-sample simulation study (how the
+          estimators behave at this sample size)
         </label>
         {audit ? (
-          <ReplicationFields id={`${id}-a`} what="Audit" count={auditR} seed={auditSeed} onCount={setAuditR} onSeed={setAuditSeed} />
+          <ReplicationFields
+            id={`${id}-a`}
+            countLabel="Simulated panels"
+            seedLabel="Simulation seed"
+            count={auditR}
+            seed={auditSeed}
+            onCount={setAuditR}
+            onSeed={setAuditSeed}
+            error={error}
+          />
         ) : null}
         <p className="text-xs text-[var(--color-muted)]">
-          The bootstraps and the audit take a few seconds per hundred replications and segment; the break test&apos;s bootstrap
-          refits every split year, about twenty times a bootstrap replication, and the audit with the AR(1) model fits it on every
-          panel. Seeds are stored with the run, so the numbers can be reproduced exactly.
+          The bootstraps and the simulation study take a few seconds per hundred replications and segment; the break test&apos;s
+          bootstrap refits every split year, about twenty times a bootstrap replication, and the simulation study with the AR(1)
+          model fits it on every panel. Seeds are stored with the run, so the numbers can be reproduced exactly.
         </p>
       </fieldset>
       <PortfolioFields id={id} state={portfolio} onChange={setPortfolio} />
-      {localError || serverError ? (
-        <p className="notice-bad text-sm" role="alert">
-          {localError ?? serverError?.message}
-        </p>
-      ) : null}
+      <FormMessage message={formMessage} />
       <button type="submit" className="btn" disabled={submit.isPending || submit.isSuccess}>
         {submit.isPending || submit.isSuccess ? 'Starting…' : 'Start the fit'}
       </button>
@@ -221,29 +285,25 @@ export function NewFitForm({ datasets }: { datasets: DatasetOption[] }) {
   );
 }
 
-/** Replications and seed of the bootstrap or the audit. */
+/** Replications and seed of the bootstrap or the simulation study. */
 function ReplicationFields(props: {
   id: string;
-  what: string;
+  countLabel: string;
+  seedLabel: string;
   count: string;
   seed: string;
   onCount: (v: string) => void;
   onSeed: (v: string) => void;
+  error: (id: string) => string | undefined;
 }) {
   return (
     <div className="grid gap-3 pl-6 sm:grid-cols-3">
-      <div>
-        <label className="label" htmlFor={`${props.id}-count`}>
-          {props.what} replications
-        </label>
-        <input id={`${props.id}-count`} className="field num" inputMode="numeric" value={props.count} onChange={(e) => props.onCount(e.target.value)} />
-      </div>
-      <div>
-        <label className="label" htmlFor={`${props.id}-seed`}>
-          {props.what} seed
-        </label>
-        <input id={`${props.id}-seed`} className="field num" inputMode="numeric" value={props.seed} onChange={(e) => props.onSeed(e.target.value)} />
-      </div>
+      <FormField id={`${props.id}-count`} label={props.countLabel} error={props.error(`${props.id}-count`)}>
+        {(a) => <input {...a} className="field num" inputMode="numeric" value={props.count} onChange={(e) => props.onCount(e.target.value)} />}
+      </FormField>
+      <FormField id={`${props.id}-seed`} label={props.seedLabel} error={props.error(`${props.id}-seed`)}>
+        {(a) => <input {...a} className="field num" inputMode="numeric" value={props.seed} onChange={(e) => props.onSeed(e.target.value)} />}
+      </FormField>
     </div>
   );
 }
@@ -256,20 +316,20 @@ function YearSelect(props: {
   years: readonly (string | number)[];
   value: string;
   onChange: (v: string) => void;
+  error?: string;
 }) {
   return (
-    <div>
-      <label className="label" htmlFor={props.id}>
-        {props.label}
-      </label>
-      <select id={props.id} className="field" value={props.value} onChange={(e) => props.onChange(e.target.value)}>
-        <option value="">{props.empty}</option>
-        {props.years.map((y) => (
-          <option key={y} value={y}>
-            {y}
-          </option>
-        ))}
-      </select>
-    </div>
+    <FormField id={props.id} label={props.label} error={props.error}>
+      {(a) => (
+        <select {...a} className="field" value={props.value} onChange={(e) => props.onChange(e.target.value)}>
+          <option value="">{props.empty}</option>
+          {props.years.map((y) => (
+            <option key={y} value={y}>
+              {y}
+            </option>
+          ))}
+        </select>
+      )}
+    </FormField>
   );
 }

@@ -208,11 +208,11 @@ export function ProfileChart({ curve, cutoff, estimate, logLik, interval }: {
  * probability-integral-transform value of each period's default rate (dots on 0-1).
  */
 export function FactorChart({ periods, factor, pit }: { periods: string[]; factor: (number | null)[]; pit: number[] | null }) {
-  const W = 460;
-  const m = { l: 40, r: 10, t: 22, b: 24 };
+  const W = 480;
+  const m = { l: 58, r: 10, t: 22, b: 38 };
   const barH = 140;
-  const gap = 30;
-  const pitH = pit ? 50 : 0;
+  const gap = 34;
+  const pitH = pit ? 56 : 0;
   const H = m.t + barH + (pit ? gap + pitH : 0) + m.b;
   const lim = Math.max(3, ...factor.map((f) => Math.abs(f ?? 0)));
   const bw = (W - m.l - m.r) / periods.length;
@@ -220,12 +220,24 @@ export function FactorChart({ periods, factor, pit }: { periods: string[]; facto
   const pitTop = m.t + barH + gap;
   const py = scale(0, 1, pitTop + pitH, pitTop);
   const cx = (i: number) => m.l + i * bw + bw / 2;
+  const yLabel = (x: number, yMid: number, text: string) => (
+    <text x={x} y={yMid} fontSize={10} textAnchor="middle" fill="var(--color-muted)" transform={`rotate(-90 ${x} ${yMid})`}>
+      {text}
+    </text>
+  );
   return (
-    <svg viewBox={`0 0 ${W} ${H}`} width="100%" role="img" aria-label="Implied systematic factor by period and PIT values" data-testid="factor-chart">
+    <svg
+      viewBox={`0 0 ${W} ${H}`}
+      width="100%"
+      role="img"
+      aria-label="Implied systematic factor by year (standard deviations; below 0 a worse year than average) and the probability integral transform of each year's default count (0 to 1)"
+      data-testid="factor-chart"
+    >
       <text x={m.l} y={12} fontSize={10.5} fill="var(--color-ink)">
-        Implied factor xₜ (below 0: a worse year than average)
+        Implied factor xₜ by year (red: a worse year than average)
       </text>
       <rect x={m.l} y={m.t} width={W - m.l - m.r} height={barH} fill="white" stroke="var(--color-line)" />
+      {yLabel(14, m.t + barH / 2, 'xₜ (standard deviations)')}
       {[-2, 0, 2].map((t) => (
         <g key={t}>
           <line x1={m.l} x2={W - m.r} y1={y(t)} y2={y(t)} stroke={t === 0 ? 'var(--color-muted)' : '#efefea'} />
@@ -246,11 +258,12 @@ export function FactorChart({ periods, factor, pit }: { periods: string[]; facto
       {pit ? (
         <g>
           <text x={m.l} y={pitTop - 8} fontSize={10.5} fill="var(--color-ink)">
-            PIT value of each year&apos;s default rate (should spread evenly over 0–1)
+            Probability integral transform (PIT) by year; shaded: the outer tenths
           </text>
           <rect x={m.l} y={pitTop} width={W - m.l - m.r} height={pitH} fill="white" stroke="var(--color-line)" />
           <rect x={m.l} y={py(1)} width={W - m.l - m.r} height={py(0.9) - py(1)} fill="var(--color-caution-soft)" />
           <rect x={m.l} y={py(0.1)} width={W - m.l - m.r} height={py(0) - py(0.1)} fill="var(--color-caution-soft)" />
+          {yLabel(14, pitTop + pitH / 2, 'PIT (0–1)')}
           {[0, 0.5, 1].map((t) => (
             <text key={t} x={m.l - 4} y={py(t) + 3} fontSize={10} textAnchor="end" fill="var(--color-muted)">
               {t}
@@ -263,11 +276,14 @@ export function FactorChart({ periods, factor, pit }: { periods: string[]; facto
       ) : null}
       {periods.map((p, i) =>
         i % Math.ceil(periods.length / 12) === 0 ? (
-          <text key={p} x={cx(i)} y={H - 8} fontSize={9.5} textAnchor="middle" fill="var(--color-muted)">
+          <text key={p} x={cx(i)} y={H - 22} fontSize={9.5} textAnchor="middle" fill="var(--color-muted)">
             {p}
           </text>
         ) : null,
       )}
+      <text x={(m.l + W - m.r) / 2} y={H - 6} fontSize={10} textAnchor="middle" fill="var(--color-muted)">
+        year
+      </text>
     </svg>
   );
 }

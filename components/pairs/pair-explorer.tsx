@@ -1,23 +1,25 @@
 'use client';
 
 import { useId, useMemo, useState } from 'react';
-import { pairInputProblem, pairMetrics, PAIR_LIMITS } from '@/lib/fits/pair';
-import { fixed, pct } from '@/lib/fits/format';
+import { FormField } from '@/components/forms/form-field';
+import { fixed, pct, rho as rhoText4 } from '@/lib/format';
+import { pairMetrics, PAIR_LIMITS, readPairInputs } from '@/lib/fits/pair';
 import { PairDensity } from './pair-density';
 
 const REFERENCE_RHOS = [0, 0.04, 0.12, 0.15, 0.24, 0.3, 0.5] as const;
 
-function parsePercent(text: string): number {
-  const t = text.trim().replace(',', '.').replace(/%$/, '');
-  if (t === '') return Number.NaN;
-  return Number(t) / 100;
+/** A PD as the percentage typed into the field: 0.0125 -> "1.25". */
+function percentText(p: number): string {
+  return (p * 100).toPrecision(3).replace(/\.?0+$/, '');
 }
 
 /**
  * Two obligors' PDs and an asset correlation in; out the normal deviates, the joint default
  * probability under the Gaussian copula, the independent product, the default correlation and the
- * density picture. Everything is computed in the browser and follows the slider at once.
- * Used as the Pair explorer screen and as a panel of the fit review (seeded with the fitted PD and rho).
+ * density picture. Everything is computed in the browser and follows the slider at once. While a
+ * field is invalid its error is shown beside it (marked for screen readers) and no result is shown:
+ * the numbers on screen always belong to the inputs on screen. Used as the Pair explorer screen and
+ * inside a segment's review (started from the fitted PD and rho).
  */
 export function PairExplorer({
   initialPdA = 0.05,
@@ -31,63 +33,31 @@ export function PairExplorer({
   heading?: string;
 }) {
   const id = useId();
-  const [pdA, setPdA] = useState(() => (initialPdA * 100).toPrecision(3).replace(/\.?0+$/, ''));
-  const [pdB, setPdB] = useState(() => (initialPdB * 100).toPrecision(3).replace(/\.?0+$/, ''));
-  const [rho, setRho] = useState(() => Math.min(PAIR_LIMITS.rhoMax, Math.max(0, initialRho)));
-  const [rhoText, setRhoText] = useState(() => fixed(initialRho, 3));
-
-  const p1 = parsePercent(pdA);
-  const p2 = parsePercent(pdB);
-  const problem = pairInputProblem(p1, p2, rho);
-  const m = useMemo(() => (problem ? null : pairMetrics(p1, p2, rho)), [problem, p1, p2, rho]);
-  const references = useMemo(
-    () => (problem ? [] : REFERENCE_RHOS.map((r) => ({ r, m: pairMetrics(p1, p2, r) }))),
-    [problem, p1, p2],
-  );
-
-  function onRhoText(text: string) {
-    setRhoText(text);
-    const v = Number(text.trim().replace(',', '.'));
-    if (text.trim() !== '' && Number.isFinite(v) && v >= 0 && v <= PAIR_LIMITS.rhoMax) setRho(v);
-  }
-
-  const rhoTextProblem = (() => {
-    const v = Number(rhoText.trim().replace(',', '.'));
-    if (rhoText.trim() === '' || !Number.isFinite(v)) return 'Give the asset correlation as a number such as 0.12.';
-    if (v < 0 || v > PAIR_LIMITS.rhoMax) return 'The asset correlation must lie between 0 and 0.999.';
-    return null;
-  })();
+  const [text, setText] = useState(() => ({
+    pdA: percentText(initialPdA),
+    pdB: percentText(initialPdB),
+    rho: fixed(Math.min(PAIR_LIMITS.rhoMax, Math.max(0, initialRho)), 4).replace(/0+$/, '').replace(/\.$/, '.0'),
+  }));
+  const { problems, values } = useMemo(() => readPairInputs(text), [text]);
+  const m = useMemo(() => (values ? pairMetrics(values.p1, values.p2, values.rho) : null), [values]);
+  const references = useMemo(() => (values ? REFERENCE_RHOS.map((r) => ({ r, m: pairMetrics(values.p1, values.p2, r) })) : []), [values]);
+  const rho = values?.rho ?? null;
+  const invalid = Object.keys(problems).length;
 
   return (
     <div className="grid gap-5 lg:grid-cols-[minmax(0,1fr)_minmax(0,360px)]" data-testid="pair-explorer">
-      <div className="space-y-4">
+      <div className="min-w-0 space-y-4">
         <h2>{heading}</h2>
         <div className="grid gap-3 sm:grid-cols-3">
-          <div>
-            <label className="label" htmlFor={`${id}-pa`}>
-              PD of obligor A (%)
-            </label>
-            <input id={`${id}-pa`} className="field num" inputMode="decimal" value={pdA} onChange={(e) => setPdA(e.target.value)} />
-          </div>
-          <div>
-            <label className="label" htmlFor={`${id}-pb`}>
-              PD of obligor B (%)
-            </label>
-            <input id={`${id}-pb`} className="field num" inputMode="decimal" value={pdB} onChange={(e) => setPdB(e.target.value)} />
-          </div>
-          <div>
-            <label className="label" htmlFor={`${id}-rt`}>
-              Asset correlation ρ
-            </label>
-            <input
-              id={`${id}-rt`}
-              className="field num"
-              inputMode="decimal"
-              value={rhoText}
-              onChange={(e) => onRhoText(e.target.value)}
-              aria-invalid={rhoTextProblem ? true : undefined}
-            />
-          </div>
+          <FormField id={`${id}-pa`} label="PD of obligor A (%)" error={problems.pdA}>
+            {(a) => <input {...a} className="field num" inputMode="decimal" value={text.pdA} onChange={(e) => setText({ ...text, pdA: e.target.value })} />}
+          </FormField>
+          <FormField id={`${id}-pb`} label="PD of obligor B (%)" error={problems.pdB}>
+            {(a) => <input {...a} className="field num" inputMode="decimal" value={text.pdB} onChange={(e) => setText({ ...text, pdB: e.target.value })} />}
+          </FormField>
+          <FormField id={`${id}-rt`} label="Asset correlation ρ" error={problems.rho}>
+            {(a) => <input {...a} className="field num" inputMode="decimal" value={text.rho} onChange={(e) => setText({ ...text, rho: e.target.value })} />}
+          </FormField>
         </div>
         <div>
           <label className="label" htmlFor={`${id}-rs`}>
@@ -99,19 +69,15 @@ export function PairExplorer({
             min={0}
             max={0.99}
             step={0.005}
-            value={Math.min(rho, 0.99)}
-            onChange={(e) => {
-              const v = Number(e.target.value);
-              setRho(v);
-              setRhoText(fixed(v, 3));
-            }}
+            value={Math.min(rho ?? 0, 0.99)}
+            onChange={(e) => setText({ ...text, rho: String(Number(e.target.value)) })}
             className="w-full accent-[var(--color-accent)]"
-            aria-valuetext={`correlation ${fixed(rho, 3)}`}
+            aria-valuetext={rho === null ? 'correlation not set' : `correlation ${fixed(rho, 3)}`}
           />
         </div>
-        {problem || rhoTextProblem ? (
-          <p className="notice-bad text-sm" role="alert">
-            {problem ?? rhoTextProblem}
+        {invalid > 0 ? (
+          <p className="notice-bad text-sm" role="alert" data-testid="pair-invalid">
+            {invalid === 1 ? 'One field needs a change' : `${invalid} fields need a change`}: no result is shown until every field holds a usable number.
           </p>
         ) : null}
         {m ? (
@@ -151,13 +117,14 @@ export function PairExplorer({
               </div>
             </dl>
             <p className="text-sm" data-testid="pair-sentence">
-              At an asset correlation of {fixed(rho, 3)}, the two obligors default together with probability about{' '}
+              At an asset correlation of {rhoText4(rho)}, the two obligors default together with probability about{' '}
               <strong>{pct(m.joint, 3)}</strong>, {m.independent > 0 ? `${(m.joint / m.independent).toFixed(2)} times` : ''} the{' '}
               {pct(m.independent, 3)} they would have if they were independent.
             </p>
             <details>
               <summary className="cursor-pointer text-sm text-[var(--color-accent)]">The same pair at other correlations</summary>
-              <table className="table mt-2">
+              <div className="scroll-box relative mt-2 overflow-x-auto" role="region" aria-label="The same pair at other correlations" tabIndex={0}>
+              <table className="table">
                 <thead>
                   <tr>
                     <th>ρ</th>
@@ -189,6 +156,7 @@ export function PairExplorer({
                   ))}
                 </tbody>
               </table>
+              </div>
               <p className="mt-1 text-xs text-[var(--color-muted)]">
                 Supervisory correlations are policy settings, not estimates (BCBS 2006, paras 272–273, 328–330).
               </p>
@@ -200,7 +168,7 @@ export function PairExplorer({
           extreme events can be higher in reality than this model says.
         </p>
       </div>
-      <div>{m ? <PairDensity rho={rho} k1={m.k1} k2={m.k2} jointLabel={pct(m.joint, 3)} /> : null}</div>
+      <div>{m && rho !== null ? <PairDensity rho={rho} k1={m.k1} k2={m.k2} jointLabel={pct(m.joint, 3)} /> : null}</div>
     </div>
   );
 }

@@ -1,9 +1,11 @@
 import { z } from 'zod';
 import { assumptionStatuses, overduePolicyKinds } from '@/db/schema';
 import { FIT_MODELS } from '@/lib/stats/fit-models';
-import type { CsvValue } from '@/lib/csv';
+import { toCsv, type CsvValue } from '@/lib/csv';
 import { describeSpans, isMixed, mixedDefinitionCaution } from '@/lib/ingest/default-definition';
+import { estimatorLabel } from '@/lib/stats/estimators/types';
 import { assumptionCautions } from './cautions';
+import { intervalMethodLabel } from './content';
 import { overdueCaution } from './overdue-policy';
 import type { VersionContent } from './content';
 
@@ -14,6 +16,7 @@ import type { VersionContent } from './content';
  */
 const interval = z.object({
   method: z.string(),
+  methodName: z.string().describe('The readable name of the interval method.'),
   level: z.number(),
   lower: z.number(),
   upper: z.number(),
@@ -28,7 +31,8 @@ export const consumerVersionSchema = z.object({
   status: z.enum(assumptionStatuses),
   value: z.number().describe('The final value to use: the estimate plus the margins of conservatism, or above.'),
   pd: z.number().describe('The PD the correlation was fitted with; the value is valid only with it.'),
-  estimator: z.string(),
+  estimator: z.string().describe('The estimator key (binomialMle, vasicekMle, ...).'),
+  estimatorName: z.string().describe('The readable name of the estimator, as the screens show it.'),
   model: z
     .object({
       copula: z.literal('gaussian').describe('The dependence model: the Vasicek one-factor (Gaussian copula) model.'),
@@ -149,9 +153,10 @@ export function toConsumerVersion(v: VersionLike): ConsumerVersion {
     value: v.finalValue,
     pd: v.pd,
     estimator: v.estimator,
+    estimatorName: estimatorLabel(v.estimator),
     model: { copula: 'gaussian', factor: v.factorModel },
     estimate: v.estimate,
-    interval: { method: v.intervalMethod, level: v.intervalLevel, lower: v.intervalLower, upper: v.intervalUpper },
+    interval: { method: v.intervalMethod, methodName: intervalMethodLabel(v.intervalMethod), level: v.intervalLevel, lower: v.intervalLower, upper: v.intervalUpper },
     margins: {
       data: { value: v.marginData, rationale: v.marginDataRationale },
       practice: { value: v.marginPractice, rationale: v.marginPracticeRationale },
@@ -299,4 +304,14 @@ export function exportRow(c: ConsumerVersion): CsvValue[] {
     c.evidence.newerDatasetId,
     c.review.overdue,
   ];
+}
+
+/**
+ * The published library as CSV (both exports: the signed-in one and the consumer API's): the
+ * cautions as `# ` lines above the header unless `withCautions` is false (`?comments=0`), then one
+ * row per version under `exportColumns` (code names, as the API).
+ */
+export function libraryCsv(versions: readonly ConsumerVersion[], withCautions: boolean): string {
+  const comments = withCautions ? ['Rhobook correlation library. Read these values with care:', ...assumptionCautions.map((c, i) => `${i + 1}. ${c}`)] : [];
+  return toCsv(exportColumns, versions.map(exportRow), { bom: true, comments });
 }

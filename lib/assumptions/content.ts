@@ -175,6 +175,19 @@ export const estimatorKeys = ESTIMATOR_KEYS;
 /** The interval keys of the engine's results: binomialMle's profile, Wald and bootstrap, vasicekMle's chi-square, the moment estimators' bootstrap, ar1Mle's profile. */
 export const intervalMethods = ['profile', 'wald', 'bootstrap', 'chiSquare'] as const;
 
+/** The readable name of each interval method, beside the keys (screens, API answers). */
+export const INTERVAL_METHOD_LABELS: Readonly<Record<string, string>> = {
+  profile: 'profile likelihood',
+  wald: 'Wald',
+  bootstrap: 'parametric bootstrap',
+  chiSquare: 'chi-square (large pool)',
+};
+
+/** The readable name of an interval method key (a key without a label is shown as it is). */
+export function intervalMethodLabel(key: string): string {
+  return INTERVAL_METHOD_LABELS[key] ?? key;
+}
+
 export const draftInputSchema = judgementSchema.extend({
   fitId: z.number({ message: 'Give the fit run (fitId) the assumption is drawn from.' }).int().positive(),
   segment: z.string().trim().min(1, 'Give the segment.').max(120),

@@ -8,6 +8,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
+import { assumptionCautions } from '../assumptions/cautions';
 import { validateCohortText, type CohortRow, type Finding } from '../ingest';
 import { EnginePool, fitPanelParallel } from '../engine';
 import { segmentFailure, type PanelInput, type SegmentFailure, type TimedSegmentFit } from '../stats/fit-panel';
@@ -37,6 +38,8 @@ export interface FitDocument {
   pairs?: FactorCorrelationMatrix;
   /** Segments whose fit failed, with the reason and their position among all segments (exit code 3). */
   failures: SegmentFailure[];
+  /** The cautions that travel with every correlation (lib/assumptions/cautions.ts). */
+  cautions: readonly string[];
 }
 
 /** Exit code when some segments (one or more) failed and the others were fitted. */
@@ -68,9 +71,9 @@ Fits the asset correlation of every segment of a cohort CSV (columns segment,per
   --bootstrap B     run every parametric bootstrap with B replications (2 to 100000): binomialMle's and
                     the moment estimators' intervals and the break test's p-value
   --seed N          seed of the bootstraps, 0 to 4294967295 (default 1)
-  --audit R         add the estimator audit: R panels simulated at the fit (2 to 100000); with the AR(1)
+  --audit R         add the small-sample simulation study: R panels simulated at the fit (2 to 100000); with the AR(1)
                     model, at its fitted persistence
-  --audit-seed N    seed of the estimator audit, 0 to 4294967295 (default 2)
+  --audit-seed N    seed of the simulation study, 0 to 4294967295 (default 2)
   --rolling-window N  length of the rolling window of the stability block, in periods (2 to 1000; default 10)
   --threads N       worker threads for the bootstrap and the audit (default: available cores; 0 = this thread)
   --asset-class C   compare with the Basel IRB supervisory correlation of ${ASSET_CLASSES.join(', ')}
@@ -336,6 +339,7 @@ export async function runFit(argv: string[], io: CliIo): Promise<number> {
     ...(blocks?.group ? { group: blocks.group } : {}),
     ...(blocks?.pairs ? { pairs: blocks.pairs } : {}),
     failures,
+    cautions: assumptionCautions,
   };
   io.out(args.json ? JSON.stringify(doc, null, 2) : formatTable(doc));
   return failures.length > 0 ? EXIT_SOME_SEGMENTS_FAILED : 0;

@@ -1,7 +1,7 @@
 /**
  * The readable (non-JSON) output of `fit`: one block per segment with the estimators of the models
  * run and each one's interval, the intervals of binomialMle, the AR(1) model's phi and its test,
- * the stability across the window, the main diagnostics, the warnings and the slowest stages.
+ * the stability across the window, the main diagnostics, the warnings and the slowest stages, then the cautions.
  */
 import { ESTIMATOR_KEYS } from '../stats/estimators/types';
 import { ESTIMATOR_LABELS } from '../stats/estimators';
@@ -174,5 +174,7 @@ export function formatTable(doc: FitDocument): string {
     }
     lines.push(`  ${m.nearestNote}`);
   }
+  lines.push('', 'Cautions:');
+  for (const c of doc.cautions) lines.push(`  - ${c}`);
   return lines.join('\n');
 }

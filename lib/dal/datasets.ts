@@ -314,9 +314,14 @@ export async function getUploadReport(actor: SessionUser, reportId: number): Pro
 export async function getDatasetCohortsForExport(
   actor: SessionUser,
   id: number,
+  segment?: string,
 ): Promise<{ fileBase: string; comments: string[]; rows: { segment: string; period: string; obligors: number; defaults: number }[] }> {
   const d = await getDataset(actor, id);
   if (d.status !== 'ready') throw new AppError('conflict:dataset-not-ready', 'This dataset has no cohort rows yet: its conversion has not finished.');
+  const chosen = segment === undefined ? d.segments : d.segments.filter((s) => s.name === segment);
+  if (segment !== undefined && chosen.length === 0) {
+    throw new AppError('not_found:segment', `Dataset ${d.id} has no segment “${segment}”.`, { field: 'segment' });
+  }
   const comments = [
     `Rhobook dataset ${d.id}: ${d.name} (${d.kind})`,
     `File ${d.fileName}, SHA-256 ${d.sha256}, uploaded ${d.createdAt.slice(0, 10)} by ${d.uploadedBy.name}`,
@@ -330,8 +335,10 @@ export async function getDatasetCohortsForExport(
     comments.push('Censored: none');
   }
   if (d.supersededBy) comments.push(`Superseded by dataset ${d.supersededBy.id} (${d.supersededBy.name})`);
-  const rows = d.segments.flatMap((s) => s.rows.map((r) => ({ segment: s.name, period: String(r.period), obligors: r.obligors, defaults: r.defaults })));
-  return { fileBase: `dataset-${d.id}-cohorts`, comments, rows };
+  if (segment !== undefined) comments.push(`Segment ${segment} only`);
+  const rows = chosen.flatMap((s) => s.rows.map((r) => ({ segment: s.name, period: String(r.period), obligors: r.obligors, defaults: r.defaults })));
+  const slug = segment === undefined ? '' : `-${segment.replace(/[^A-Za-z0-9_-]+/g, '_').slice(0, 60)}`;
+  return { fileBase: `dataset-${d.id}-cohorts${slug}`, comments, rows };
 }
 
 /** The original file, still gzip-compressed, for download. */

@@ -32,6 +32,8 @@ export type FitSummaryDto = {
   createdBy: string;
   createdAt: string;
   finishedAt: string | null;
+  /** Finished with results in the current layout: it can be compared with other runs of a shared segment. */
+  comparable: boolean;
 };
 
 export type FitDto = FitSummaryDto & {
@@ -133,6 +135,7 @@ function toSummary(r: Row): FitSummaryDto {
     createdBy: r.createdBy,
     createdAt: r.run.createdAt.toISOString(),
     finishedAt: r.run.finishedAt?.toISOString() ?? null,
+    comparable: live.status === 'succeeded' && isCurrentResults(r.run.results),
   };
 }
 

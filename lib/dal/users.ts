@@ -73,7 +73,7 @@ export async function createUser(
   const db = getDb();
   return db.transaction(async (tx) => {
     const [existing] = await tx.select({ id: users.id }).from(users).where(eq(users.email, email)).limit(1);
-    if (existing) throw new AppError('conflict:user-exists', `A user with the e-mail ${email} already exists.`);
+    if (existing) throw new AppError('conflict:user-exists', `A user with the e-mail ${email} already exists.`, { field: 'email' });
     const [res] = await tx.insert(users).values({
       email,
       name: v.name,

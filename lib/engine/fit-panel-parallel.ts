@@ -101,7 +101,7 @@ function replicationStages(prepared: PreparedFit, threads: number): ReplicationS
   }
   if (prepared.audit) {
     const { spec, replications } = prepared.audit;
-    add('audit', 'Estimator audit', replications, (from, to) => ({ kind: 'audit', spec, from, to }));
+    add('audit', 'Simulation study', replications, (from, to) => ({ kind: 'audit', spec, from, to }));
   }
   return stages;
 }

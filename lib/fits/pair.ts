@@ -89,3 +89,40 @@ export function densityContour(rho: number, q: number): { alongDiagonal: number;
   const c = Math.sqrt(-2 * Math.log(1 - q));
   return { alongDiagonal: c * Math.sqrt(1 + rho), acrossDiagonal: c * Math.sqrt(1 - rho) };
 }
+
+/** The explorer's three inputs, as typed. */
+export type PairInputText = { pdA: string; pdB: string; rho: string };
+
+/**
+ * Reads the explorer's inputs: PDs in percent, the correlation as a plain number. A decimal comma
+ * is refused with a sentence rather than guessed at ("5,5" may be 5.5 or fifty-five), and so is
+ * anything that is not one plain number; each field gets its own sentence. `values` is set only
+ * when all three are usable, so nothing is ever computed from a field that has an error.
+ */
+export function readPairInputs(text: PairInputText): { problems: Partial<Record<keyof PairInputText, string>>; values: { p1: number; p2: number; rho: number } | null } {
+  const problems: Partial<Record<keyof PairInputText, string>> = {};
+  const read = (key: keyof PairInputText, what: string, example: string): number => {
+    const t = text[key].trim().replace(/%$/, '').trim();
+    if (t === '') {
+      problems[key] = `Give ${what}, for example ${example}.`;
+      return Number.NaN;
+    }
+    if (/^[+-]?\d*,\d+$/.test(t)) {
+      problems[key] = `Write the decimal with a point (${t.replace(',', '.')}), not a comma.`;
+      return Number.NaN;
+    }
+    if (!/^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i.test(t)) {
+      problems[key] = `${what[0].toUpperCase()}${what.slice(1)} must be one number, for example ${example}.`;
+      return Number.NaN;
+    }
+    return Number(t);
+  };
+  const pdA = read('pdA', 'the PD of obligor A in percent', '1.5');
+  const pdB = read('pdB', 'the PD of obligor B in percent', '1.5');
+  const rho = read('rho', 'the asset correlation', '0.12');
+  if (problems.pdA === undefined && (pdA / 100 < PAIR_LIMITS.pdMin || pdA / 100 > PAIR_LIMITS.pdMax)) problems.pdA = 'The PD of obligor A must lie between 0.0001% and 99.9%.';
+  if (problems.pdB === undefined && (pdB / 100 < PAIR_LIMITS.pdMin || pdB / 100 > PAIR_LIMITS.pdMax)) problems.pdB = 'The PD of obligor B must lie between 0.0001% and 99.9%.';
+  if (problems.rho === undefined && (rho < PAIR_LIMITS.rhoMin || rho > PAIR_LIMITS.rhoMax)) problems.rho = 'The asset correlation must lie between 0 and 0.999.';
+  const ok = Object.keys(problems).length === 0;
+  return { problems, values: ok ? { p1: pdA / 100, p2: pdB / 100, rho } : null };
+}

@@ -57,7 +57,7 @@ export const fitRequestSchema = z
       .nullish(),
     audit: z
       .object({
-        replications: z.number().int().min(10, 'An estimator audit needs at least 10 replications.').max(500, 'At most 500 audit replications.'),
+        replications: z.number().int().min(10, 'A small-sample simulation study needs at least 10 simulated panels.').max(500, 'At most 500 simulated panels in a small-sample simulation study.'),
         seed,
       })
       .nullish(),

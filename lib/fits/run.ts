@@ -105,7 +105,7 @@ export async function computeFitSegment(input: SegmentInput, position: number, r
   try {
     if (ownPool) {
       // Thread start-up (loading the engine in each thread) takes a second or two: say so rather than sit at "done".
-      await report(0, `Starting ${options.threads} worker thread${options.threads === 1 ? '' : 's'} for the bootstraps and the audit`);
+      await report(0, `Starting ${options.threads} worker thread${options.threads === 1 ? '' : 's'} for the bootstraps and the simulation study`);
       await ownPool.start();
     }
     try {

@@ -8,7 +8,7 @@
  * - A loan belongs to the cohort of R when start_date < R, it has not defaulted before R
  *   (default_date >= R or none) and has not exited before R (exit_date >= R or none).
  * - It counts as a default of that cohort when R <= default_date < R + 12 months.
- * - Exits, declared default `exits-stay`: a loan that exits without default during the year stays
+ * - Exits, the usual choice `exits-stay`: a loan that exits without default during the year stays
  *   in the denominator. Alternative `exits-removed`: such a loan is removed from that year's cohort
  *   (it still counts in earlier years). The convention used is returned with the result.
  * - As-of date: given, or else the latest date in the file. Year Y is included only when
@@ -362,7 +362,7 @@ function finish(p: Prepared, file: ReadInfo): LoanTapeValidation {
     `Loan tape aggregated by the cohort method with reference date ${refText} of each year (period Y = the twelve months from Y-${mmdd}).`,
     'A loan belongs to the cohort of reference date R when start_date < R and it has neither defaulted nor exited before R; it counts as a default of that cohort when R <= default_date < R + 12 months.',
     p.exitConvention === 'exits-stay'
-      ? 'A loan that exits without default during the year stays in that year\'s denominator (the declared default convention).'
+      ? 'A loan that exits without default during the year stays in that year\'s denominator (the usual convention).'
       : 'A loan that exits without default during the year is removed from that year\'s denominator (alternative convention).',
     `As-of date ${asOfText} (${p.asOfGiven > 0 ? 'given at upload' : 'the latest date in the file'}); a year is included only when the as-of date is on or after the last day of its twelve months.`,
     firstPeriod !== null ? `Cohorts included: ${firstPeriod} to ${lastPeriod} (the last one ends ${lastYearEnd}).` : 'No cohort included.',

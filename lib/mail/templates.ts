@@ -1,7 +1,11 @@
 /**
- * The e-mails of the assumption lifecycle: subject and plain-text body for each event. Pure: the
- * DAL writes them to the outbox in the same transaction as the transition.
+ * The e-mails of the assumption lifecycle: subject and plain-text body for each event, values in
+ * the screens' format (lib/format.ts) and the screens' words. Pure: the DAL writes them to the
+ * outbox in the same transaction as the transition.
  */
+import { DEFERRAL } from '@/lib/assumptions/cautions';
+import { rho } from '@/lib/format';
+
 export const mailKinds = [
   'awaiting-review',
   'changes-requested',
@@ -44,24 +48,23 @@ function dueIn(days: number): string {
   return days <= 0 ? 'today' : days === 1 ? 'in 1 day' : `in ${days} days`;
 }
 
-const footer =
-  '\n\n--\nRhobook. Approval in Rhobook is neither an independent validation nor a regulator\'s approval.\nYou receive this because of your role in this assumption.';
+const footer = `\n\n--\nRhobook. Approval in Rhobook is neither an independent validation nor a supervisor's approval. ${DEFERRAL}\nYou receive this because of your role in this assumption.`;
 
 export function renderMail(kind: MailKind, f: MailFacts): { subject: string; body: string } {
   const what = `${f.segment} v${f.version}`;
-  const value = Number(f.finalValue.toFixed(6));
+  const value = rho(f.finalValue);
   const comment = f.comment?.trim() ? `\n\nComment:\n${f.comment.trim()}` : '';
   const link = `\n\nOpen it: ${f.url}`;
   switch (kind) {
     case 'awaiting-review':
       return {
         subject: `Awaiting review: correlation assumption ${what}`,
-        body: `${f.actorName ?? 'An analyst'} submitted ${what} (final value ${value}, effective ${f.effectiveDate}) for review. Any validator who did not draft or edit it may take it into review.${link}${footer}`,
+        body: `${f.actorName ?? 'An analyst'} submitted ${what} (final value ${value}, effective ${f.effectiveDate}) for review. It is in the Queue of every validator who did not draft or edit it; any of them may take it into review.${link}${footer}`,
       };
     case 'changes-requested':
       return {
         subject: `Changes requested: ${what}`,
-        body: `${f.actorName ?? 'A validator'} sent ${what} back to draft with a request for changes.${comment}${link}${footer}`,
+        body: `${f.actorName ?? 'A validator'} sent ${what} back to draft with a request for changes; it is in your Queue.${comment}${link}${footer}`,
       };
     case 'approved':
       return {

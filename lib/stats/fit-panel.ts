@@ -419,7 +419,7 @@ export function prepareSegmentFit(input: PanelInput, options: FitPanelOptions = 
     } else {
       warnings.push({
         code: 'audit-unavailable',
-        message: 'No estimator audit was run: it simulates at the likelihood estimate, and there is none for these data.',
+        message: 'No small-sample simulation study was run: it simulates at the likelihood estimate, and there is none for these data.',
       });
     }
   }

@@ -30,14 +30,15 @@ test('a loan tape over 10 MB goes through the upload page and the worker convert
   await page.getByLabel('As-of date (default: the latest date in the file)').fill('2024-12-31');
   await page.getByRole('button', { name: 'Upload and validate' }).click();
   await expect(page.getByText(/^Stored as dataset no\. \d+/)).toBeVisible({ timeout: 120_000 });
-  await expect(page.getByRole('status').filter({ hasText: 'Converted: the loan tape is now a dataset of annual cohorts' })).toBeVisible({ timeout: 180_000 });
-  await page.getByRole('link', { name: 'Open the dataset' }).click();
+  // Once converted, the tape's dataset page opens with its data check report first.
+  await expect(page).toHaveURL(/\/data\/\d+\?uploaded=1$/, { timeout: 180_000 });
   await expect(page.getByRole('heading', { name: `E2E big ${tag}` })).toBeVisible();
+  await expect(page.getByRole('heading', { name: 'Data check report' })).toBeVisible();
   // Start dates 2010-2019, as of 2024-12-31: cohorts 2011 to 2024 (the first loans start during 2010).
   await expect(page.getByRole('table', { name: `Obligors and defaults by period, E2E big ${tag}` }).getByRole('row')).toHaveCount(15);
 });
 
-test('the validation report groups errors and warnings with their counts', async ({ page }) => {
+test('the data check report groups errors and warnings with their counts', async ({ page }) => {
   const tag = Date.now().toString(36);
   await signIn(page, 'analyst@fenmoor.example');
   await page.goto('/data/upload');

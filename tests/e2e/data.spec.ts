@@ -1,5 +1,5 @@
 import { expect, test } from '@playwright/test';
-import { signIn } from './helpers';
+import { keepScreenshot, signIn } from './helpers';
 
 // A small cohort file with a unique segment name, so that the test can run against a database
 // that already holds the demo data (and again, without tripping the duplicate-file check).
@@ -11,7 +11,7 @@ function cohortFile(tag: string): string {
 
 const shots = process.env.E2E_SCREENSHOTS;
 
-test('an analyst uploads a cohort file, sees the report of a broken one, and opens the dataset with its chart', async ({ page }) => {
+test('an analyst uploads a cohort file, sees the report of a broken one, and opens the dataset with its chart', async ({ page }, testInfo) => {
   const tag = Date.now().toString(36);
   await signIn(page, 'analyst@fenmoor.example');
   await page.getByRole('link', { name: 'Data', exact: true }).click();
@@ -42,20 +42,32 @@ test('an analyst uploads a cohort file, sees the report of a broken one, and ope
   await expect(page.getByTestId('chosen-file')).toContainText(`good-${tag}.csv`);
   await page.getByLabel('Name (default: the file name)').fill(`E2E cohorts ${tag}`);
   await page.getByRole('button', { name: 'Upload and validate' }).click();
-  await expect(page.getByRole('status').filter({ hasText: 'Accepted: 12 cohort rows in 1 segment' })).toBeVisible();
-  if (shots) await page.screenshot({ path: `${shots}/upload-accepted.png`, fullPage: true });
-  await page.getByRole('link', { name: 'Open the dataset' }).click();
+  // An accepted file opens its dataset page, its data check report shown first.
+  await expect(page).toHaveURL(/\/data\/\d+\?uploaded=1$/);
+  await expect(page.getByTestId('upload-accepted')).toHaveText(/^Accepted: 12 cohort rows in 1 segment, with 0 warnings\. Its data check report is right below\.$/);
+  await expect(page.getByRole('heading', { name: 'Data check report' })).toBeVisible();
+  await expect(page.getByRole('navigation', { name: 'Breadcrumb' })).toContainText(`Data/E2E cohorts ${tag}`);
 
   await expect(page.getByRole('heading', { name: new RegExp(`E2E cohorts ${tag}`) })).toBeVisible();
   await expect(page.getByRole('heading', { name: `E2E segment ${tag}` })).toBeVisible();
   const chart = page.getByTestId('default-rate-chart');
   await expect(chart).toBeVisible();
   await expect(chart.locator('svg path').first()).toBeVisible();
+  // The period table shows every year (no inner scroll), and its rows come as CSV.
   await expect(page.getByRole('table', { name: `Obligors and defaults by period, E2E segment ${tag}` }).getByRole('row')).toHaveCount(13);
-  if (shots) await page.screenshot({ path: `${shots}/dataset.png`, fullPage: true });
+  const segCsv = await page.request.get((await page.getByRole('link', { name: 'these rows as CSV' }).getAttribute('href'))!);
+  expect((await segCsv.text()).split('\r\n').filter((l) => l.startsWith(`E2E segment ${tag},`))).toHaveLength(12);
+  await keepScreenshot(page, testInfo, 'dataset-after-upload', { narrow: true });
+
+  // From the dataset to a fit without a dead end.
+  await page.getByTestId('fit-this-dataset').click();
+  await expect(page).toHaveURL(/\/fits\/new\?datasetId=\d+$/);
+  await expect(page.getByLabel('Dataset')).toHaveValue(page.url().split('=').pop()!);
+  await expect(page.getByRole('group', { name: 'Segments' })).toContainText(`E2E segment ${tag}`);
+  await page.goBack();
 
   // The list shows it, and filtering finds it.
-  await page.getByRole('link', { name: '← Data' }).click();
+  await page.getByRole('navigation', { name: 'Breadcrumb' }).getByRole('link', { name: 'Data' }).click();
   await page.getByLabel('Find (name, file, hash, uploader)').fill(tag);
   await expect(page.getByTestId('datasets-table').getByRole('link', { name: `E2E cohorts ${tag}` })).toBeVisible();
   if (shots) await page.screenshot({ path: `${shots}/data.png`, fullPage: true });

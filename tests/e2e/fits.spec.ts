@@ -23,8 +23,8 @@ test('an analyst starts a fit with a bootstrap, follows its progress and reads t
   await expect(page.getByLabel('Parametric bootstrap of the likelihood estimate')).toBeChecked();
   await page.getByLabel('Bootstrap replications').fill('1000');
   await page.getByLabel('Bootstrap seed').fill('7');
-  await page.getByLabel('Estimator audit at this sample size').check();
-  await page.getByLabel('Audit replications').fill('100');
+  await page.getByRole('checkbox', { name: /^Small-sample simulation study/ }).check();
+  await page.getByLabel('Simulated panels').fill('100');
   await page.getByRole('button', { name: 'Start the fit' }).click();
 
   await page.waitForURL(/\/fits\/\d+$/);
@@ -32,7 +32,7 @@ test('an analyst starts a fit with a bootstrap, follows its progress and reads t
   const bar = page.getByRole('progressbar', { name: 'Fit progress' });
   await expect(bar).toBeVisible();
   // Progress moves while the bootstrap runs, and survives a reload of the page.
-  await expect(page.getByTestId('fit-progress-message')).toContainText(/Bootstrap and estimator audit: \d+% of the replications|Bootstrap \d+ of 1000/, { timeout: 60_000 });
+  await expect(page.getByTestId('fit-progress-message')).toContainText(/Bootstrap and simulation study: \d+% of the replications|Bootstrap \d+ of 1000/, { timeout: 60_000 });
   const before = Number(await bar.getAttribute('aria-valuenow'));
   expect(before).toBeGreaterThan(0);
   await page.reload();
@@ -74,6 +74,13 @@ test('an analyst starts a fit with a bootstrap, follows its progress and reads t
   await expect(review.getByTestId('lr-test')).toContainText(/Likelihood-ratio test of ρ = 0: statistic \d+\.\d\d/);
   await expect(review.getByText(/^Dashed red line: the cut-off -?\d+\.\d\d, the maximum less χ²₁\(0\.95\)\/2/)).toBeVisible();
   await expect(review.getByTestId('factor-chart')).toBeVisible();
+  // Charts explain themselves: axis labels, the legend of the outlier dots, the band top told from the 99% quantile.
+  await expect(review.getByTestId('factor-chart').locator('text', { hasText: 'xₜ (standard deviations)' })).toHaveCount(1);
+  await expect(review.getByTestId('factor-chart').locator('text', { hasText: 'PIT (0–1)' })).toHaveCount(1);
+  await expect(review.getByTestId('bands-legend')).toContainText('above the fitted 99% quantile (an outlier)');
+  await expect(review.getByTestId('band-top-sentence')).toContainText(/its top \(\d+\.\d+%\) is the 99\.5% quantile, above the 99% quantile \(\d+\.\d+%\)/);
+  // PIT is spelt out before it is abbreviated.
+  await expect(review.getByTestId('section-factor')).toContainText('The probability integral transform (PIT) of a year');
   await expect(review.getByTestId('autocorrelation')).toContainText(/Lag-1 autocorrelation of the implied factor: (-?\d\.\d\d, against ±\d\.\d\d|not computed)/);
   // The three intervals of the likelihood estimate: profile, Wald (with its standard error) and the bootstrap asked for.
   const intervals = review.getByTestId('intervals-table');
@@ -133,5 +140,7 @@ test('the pair explorer: two 5% obligors at 0.3 default together with about 0.71
   await page.getByLabel('Move the correlation').fill('0.9');
   await expect(page.getByTestId('pair-joint')).toHaveText('3.187%');
   await page.getByLabel('PD of obligor A (%)').fill('0');
-  await expect(page.getByTestId('pair-explorer').getByRole('alert')).toContainText('PD of obligor A must lie between');
+  await expect(page.getByLabel('PD of obligor A (%)')).toHaveAttribute('aria-invalid', 'true');
+  await expect(page.getByTestId('pair-explorer')).toContainText('The PD of obligor A must lie between 0.0001% and 99.9%.');
+  await expect(page.getByTestId('pair-joint')).toHaveCount(0);
 });

@@ -58,7 +58,7 @@ test('draft, request changes, fix, approve; the scheduler publishes; a viewer se
   const validator = await validatorCtx.newPage();
   await signIn(validator, 'validator@fenmoor.example');
   await validator.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Queue', exact: true }).click();
-  await validator.getByRole('table', { name: 'Awaiting me' }).getByRole('link', { name: segment }).first().click();
+  await validator.getByRole('table', { name: 'Queue' }).getByRole('link', { name: segment }).first().click();
   await expect(validator).toHaveURL(versionUrl, { timeout: 60_000 });
   // The version page carries the frozen review of its segment: the validator need not leave it.
   const evidence = validator.getByTestId('version-evidence');
@@ -69,13 +69,17 @@ test('draft, request changes, fix, approve; the scheduler publishes; a viewer se
   await keepScreenshot(validator, testInfo, 'version-with-evidence');
   await act(validator, 'Start review', 'in review');
   await validator.getByRole('button', { name: 'Request changes', exact: true }).click();
-  await expect(validator.getByRole('alert').filter({ hasText: 'a comment is required' })).toBeVisible();
+  // The refusal is said at the comment field, which is marked and takes the focus.
+  const commentField = validator.getByLabel(/^Comment/);
+  await expect(commentField).toHaveAttribute('aria-invalid', 'true');
+  await expect(commentField).toBeFocused();
+  await expect(validator.locator('#transition-comment-error')).toHaveText('Say why when you request changes: a comment is required.');
   await validator.getByLabel(/^Comment/).fill('Justify the general estimation error margin: the estimate is biased low at this T.');
   await act(validator, 'Request changes', 'draft');
 
   // The analyst sees the request in the queue, fixes the margin and resubmits.
   await analyst.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Queue', exact: true }).click();
-  await expect(analyst.getByRole('table', { name: 'Awaiting me' })).toContainText('Justify the general estimation error margin');
+  await expect(analyst.getByRole('table', { name: 'Queue' })).toContainText('Justify the general estimation error margin');
   await analyst.goto(versionUrl);
   await analyst.getByRole('link', { name: /^Edit/ }).click();
   const edit = analyst.getByRole('form', { name: 'Edit the draft' });
@@ -119,7 +123,8 @@ test('draft, request changes, fix, approve; the scheduler publishes; a viewer se
   await signIn(viewer, 'viewer@fenmoor.example');
   await viewer.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Library', exact: true }).click();
   const row = viewer.getByTestId(`library-row-${segment}`);
-  await expect(row.getByTestId('library-value')).toHaveText(String(Number(Number(published).toFixed(4))));
+  await expect(row.getByTestId('library-value')).toHaveText(published);
+  expect(published).toMatch(/^0\.\d{4}$/);
   await expect(row).toContainText('published');
   await row.getByRole('link', { name: segment }).click();
   await expect(viewer.getByTestId('final-value')).toHaveText(published);

@@ -21,7 +21,7 @@ export default async function DataPage() {
         <div>
           <h1>Data</h1>
           <p className="text-sm text-[var(--color-muted)]">
-            Uploaded default histories, their validation reports and the annual cohorts made of them.
+            Uploaded default histories, their data check reports and the annual cohorts made of them.
           </p>
         </div>
         {can(actor.role, 'datasets:upload') ? (

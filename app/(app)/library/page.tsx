@@ -1,25 +1,43 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { Cautions } from '@/components/assumptions/cautions';
-import { EvidenceBadge } from '@/components/assumptions/evidence-badge';
-import { fmt, HealthBadge, StatusBadge } from '@/components/assumptions/status-badge';
+import { LibraryFiltersForm } from '@/components/assumptions/library-filters-form';
+import { LibraryTable } from '@/components/assumptions/library-table';
+import { libraryFiltersSchema, libraryStateLabels } from '@/lib/assumptions/library-filters';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { listLibrary } from '@/lib/dal/assumptions';
+import { count } from '@/lib/format';
 
 export const metadata: Metadata = { title: 'Library' };
 
-export default async function LibraryPage() {
+type Search = { segment?: string; state?: string; asOf?: string };
+
+/** The library: filters in the address (segment, state, as-of date), the cautions beside the values, the table. */
+export default async function LibraryPage({ searchParams }: { searchParams: Promise<Search> }) {
   const actor = await requireUser();
-  const library = await listLibrary(actor);
+  const raw = await searchParams;
+  const values = { segment: typeof raw.segment === 'string' ? raw.segment : undefined, state: typeof raw.state === 'string' ? raw.state : undefined, asOf: typeof raw.asOf === 'string' ? raw.asOf : undefined };
+  const parsed = libraryFiltersSchema.safeParse(values);
+  const errors: Record<string, string> = {};
+  if (!parsed.success) for (const i of parsed.error.issues) errors[String(i.path[0])] ??= i.message;
+  // A filter that cannot be read is shown at its field; the others still apply.
+  const filters = parsed.success ? parsed.data : Object.fromEntries(Object.entries(values).filter(([k]) => !errors[k]));
+  const [library, all] = await Promise.all([listLibrary(actor, new Date(), filters), listLibrary(actor)]);
+  const f = libraryFiltersSchema.parse(filters);
+  const described = [
+    f?.segment ? `segment contains “${f.segment}”` : null,
+    f?.state ? libraryStateLabels[f.state].toLowerCase() : null,
+    f?.asOf ? `in force on ${f.asOf}` : null,
+  ].filter(Boolean);
   return (
     <div className="space-y-5">
       <div className="flex flex-wrap items-end gap-3">
         <div>
           <h1>Library</h1>
-          <p className="text-sm text-[var(--color-muted)]">Published correlation assumptions by segment, with the value to use, its interval, PD and dates.</p>
+          <p className="text-sm text-[var(--color-muted)]">Correlation assumptions by segment, with the value to use, its interval, PD and dates.</p>
         </div>
-        <div className="ml-auto flex gap-2">
+        <div className="ml-auto flex flex-wrap gap-2">
           <a className="btn btn-quiet" href="/api/assumptions/export" download>
             Export CSV
           </a>
@@ -30,71 +48,24 @@ export default async function LibraryPage() {
           ) : null}
         </div>
       </div>
-      <section className="panel overflow-x-auto p-2">
-        <table className="table" aria-label="Published assumptions">
-          <thead>
-            <tr>
-              <th>Segment</th>
-              <th className="text-right">Value</th>
-              <th className="text-right">Estimate</th>
-              <th>Interval</th>
-              <th className="text-right">PD</th>
-              <th>Effective</th>
-              <th>Review by</th>
-              <th>State</th>
-              {actor.role !== 'viewer' ? <th>In progress</th> : null}
-            </tr>
-          </thead>
-          <tbody>
-            {library.map((e) => (
-              <tr key={e.assumptionId} data-testid={`library-row-${e.segment}`}>
-                <td>
-                  {e.current || e.pending ? <Link href={`/library/versions/${(e.current ?? e.pending)!.id}`}>{e.segment}</Link> : e.segment}
-                </td>
-                <td className="num text-right font-semibold" data-testid="library-value">{e.current ? fmt(e.current.finalValue) : '—'}</td>
-                <td className="num text-right whitespace-nowrap">
-                  {e.current ? fmt(e.current.estimate) : '—'}
-                  {e.current ? <span className="block text-xs text-[var(--color-muted)]">{e.current.estimator}</span> : null}
-                </td>
-                <td className="num whitespace-nowrap">
-                  {e.current ? `[${fmt(e.current.intervalLower)}, ${fmt(e.current.intervalUpper)}] ${e.current.intervalMethod} ${fmt(e.current.intervalLevel * 100, 2)}%` : '—'}
-                </td>
-                <td className="num text-right">{e.current ? fmt(e.current.pd, 5) : '—'}</td>
-                <td className="num whitespace-nowrap">{e.current?.effectiveDate ?? '—'}</td>
-                <td className="num whitespace-nowrap">{e.current?.reviewBy ?? '—'}</td>
-                <td>
-                  {e.current ? <StatusBadge status={e.current.status} /> : null} <HealthBadge health={e.health} days={e.daysToReview} />{' '}
-                  <EvidenceBadge evidence={e.evidence} />
-                </td>
-                {actor.role !== 'viewer' ? (
-                  <td>
-                    {e.pending ? (
-                      <Link href={`/library/versions/${e.pending.id}`}>
-                        v{e.pending.version} <StatusBadge status={e.pending.status} />
-                      </Link>
-                    ) : (
-                      '—'
-                    )}
-                  </td>
-                ) : null}
-              </tr>
-            ))}
-            {library.length === 0 ? (
-              <tr>
-                <td colSpan={9} className="text-[var(--color-muted)]">
-                  Nothing published yet.
-                  {can(actor.role, 'assumptions:draft') ? ' Draft an assumption from a finished fit to start.' : ''}
-                </td>
-              </tr>
-            ) : null}
-          </tbody>
-        </table>
-      </section>
+      <LibraryFiltersForm values={values} errors={errors} segments={all.map((e) => e.segment)} />
+      <p className="text-sm" role="status" data-testid="library-count">
+        {described.length ? `${library.length} of ${count(all.length, 'segment')}: ${described.join(', ')}.` : `${count(all.length, 'segment')}.`}
+      </p>
+      <Cautions compact columns title="Read these values with care." />
+      <LibraryTable
+        entries={library}
+        showPending={actor.role !== 'viewer'}
+        emptyText={
+          described.length
+            ? 'No segment matches these filters.'
+            : `Nothing published yet.${can(actor.role, 'assumptions:draft') ? ' Draft an assumption from a finished fit to start.' : ''}`
+        }
+      />
       <p className="text-sm text-[var(--color-muted)]">
         Downstream models read these values through the consumer API (<a href="/api/openapi.json">OpenAPI document</a>) with a token an
-        administrator creates.
+        administrator creates; the export CSV carries the cautions as comment lines.
       </p>
-      <Cautions />
     </div>
   );
 }

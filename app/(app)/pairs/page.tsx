@@ -1,39 +1,77 @@
 import type { Metadata } from 'next';
+import Link from 'next/link';
 import { z } from 'zod';
 import { PairExplorer } from '@/components/pairs/pair-explorer';
 import { requireUser } from '@/lib/auth/session';
+import { getFitSegment } from '@/lib/dal/fits';
+import { AppError } from '@/lib/errors';
+import { pd, rho } from '@/lib/format';
 import { PAIR_LIMITS } from '@/lib/fits/pair';
+import { segmentHref } from '@/lib/fits/results';
 
 export const metadata: Metadata = { title: 'Pair explorer' };
 
 /** A start from a fitted pair (the fit review's factor correlations link here); anything else is ignored. */
-const startSchema = z.object({
+const pairSchema = z.object({
   pdA: z.coerce.number().min(PAIR_LIMITS.pdMin).max(PAIR_LIMITS.pdMax).optional().catch(undefined),
   pdB: z.coerce.number().min(PAIR_LIMITS.pdMin).max(PAIR_LIMITS.pdMax).optional().catch(undefined),
   rho: z.coerce.number().min(PAIR_LIMITS.rhoMin).max(PAIR_LIMITS.rhoMax).optional().catch(undefined),
 });
+/** A start from one fitted segment (its review links here): both obligors at its PD, its correlation. */
+const segmentSchema = z.object({ fitId: z.coerce.number().int().positive(), segment: z.string().min(1).max(300) });
 
+/**
+ * The Pair explorer; `?pdA=&pdB=&rho=` starts it from a fitted pair of segments, `?fitId=N&segment=NAME`
+ * from one fitted segment (both obligors at the fitted PD, the fitted correlation).
+ */
 export default async function PairsPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
-  await requireUser();
-  const start = startSchema.parse(await searchParams);
-  const fromFit = start.pdA !== undefined && start.pdB !== undefined && start.rho !== undefined;
+  const actor = await requireUser();
+  const sp = await searchParams;
+  const pair = pairSchema.parse(sp);
+  const fromPair = pair.pdA !== undefined && pair.pdB !== undefined && pair.rho !== undefined;
+  const start = segmentSchema.safeParse(sp);
+  const fitted =
+    !fromPair && start.success
+      ? await getFitSegment(actor, start.data.fitId, start.data.segment).catch((err) => {
+          if (err instanceof AppError && err.kind === 'not_found') return null;
+          throw err;
+        })
+      : null;
+  const chosen = fitted ? fitted.segment.estimates[fitted.segment.chosen] : null;
+  const from = fitted && chosen && chosen.rho !== null && chosen.pd !== null ? { pd: chosen.pd, rho: chosen.rho } : null;
+  const initial = fromPair
+    ? { initialPdA: pair.pdA, initialPdB: pair.pdB, initialRho: pair.rho }
+    : from
+      ? { initialPdA: from.pd, initialPdB: from.pd, initialRho: from.rho, heading: `Two obligors of ${fitted!.segment.segment}` }
+      : {};
   return (
     <div className="space-y-4">
       <div>
         <h1>Pair explorer</h1>
         <p className="mt-1 max-w-3xl text-sm text-[var(--color-muted)]">
-          What an asset correlation means for two obligors: each defaults when its asset value falls below the
-          threshold set by its PD; the correlation of the two asset values decides how often they fall together.
+          What an asset correlation means for two obligors: each defaults when its asset value falls below the threshold set by its PD; the
+          correlation of the two asset values decides how often they fall together.
         </p>
-        {fromFit ? (
+        {fromPair ? (
           <p className="mt-1 max-w-3xl text-sm" data-testid="pair-from-fit">
             Started from a fitted pair of segments: each obligor&apos;s PD is its segment&apos;s estimate, and the asset correlation is
             sqrt(rho_A rho_B) times the correlation of the two segments&apos; factors.
           </p>
         ) : null}
+        {!fromPair && start.success && !from ? (
+          <p className="notice-caution mt-2 text-sm" role="note">
+            Fit #{start.data.fitId} has no fitted correlation for “{start.data.segment}”: the explorer starts from its usual values.
+          </p>
+        ) : null}
+        {fitted && from ? (
+          <p className="mt-2 text-sm" data-testid="pair-from-segment">
+            Started from <Link href={segmentHref(fitted.fitId, fitted.segment.segment)}>fit #{fitted.fitId}, {fitted.segment.segment}</Link>: both
+            obligors at the fitted PD <span className="num">{pd(from.pd)}</span>, asset correlation <span className="num">{rho(from.rho)}</span>.
+          </p>
+        ) : null}
       </div>
       <section className="panel p-5">
-        <PairExplorer {...(start.pdA !== undefined ? { initialPdA: start.pdA } : {})} {...(start.pdB !== undefined ? { initialPdB: start.pdB } : {})} {...(start.rho !== undefined ? { initialRho: start.rho } : {})} />
+        <PairExplorer key={JSON.stringify(initial)} {...initial} />
       </section>
     </div>
   );

@@ -1,8 +1,10 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { StatusBadge } from '@/components/assumptions/status-badge';
+import { ScrollBox } from '@/components/layout/scroll-box';
 import { requireUser } from '@/lib/auth/session';
 import { listQueue } from '@/lib/dal/assumptions';
+import { when } from '@/lib/format';
 
 export const metadata: Metadata = { title: 'Queue' };
 
@@ -11,23 +13,23 @@ export default async function QueuePage() {
   const items = await listQueue(actor);
   const explain =
     actor.role === 'validator'
-      ? 'Versions submitted for review that you did not draft or edit, and reviews you have started.'
+      ? 'What awaits you: versions submitted for review that you did not draft or edit, and reviews you have started.'
       : actor.role === 'analyst'
-        ? 'Your drafts that a validator sent back with a request for changes.'
-        : 'Only analysts and validators have a review queue.';
+        ? 'What awaits you: your drafts that a validator sent back with a request for changes.'
+        : 'Only analysts and validators have a queue.';
   return (
     <div className="space-y-4">
-      <h1>What awaits me</h1>
+      <h1>Queue</h1>
       <p className="text-sm text-[var(--color-muted)]">{explain}</p>
-      <section className="panel p-2">
-        <table className="table" aria-label="Awaiting me">
+      <ScrollBox label="Queue (scrolls sideways on narrow screens)" className="panel p-2">
+        <table className="table" aria-label="Queue">
           <thead>
             <tr>
               <th>Segment</th>
               <th>Version</th>
               <th>State</th>
               <th>Why</th>
-              <th>Since (UTC)</th>
+              <th>Since</th>
             </tr>
           </thead>
           <tbody>
@@ -41,7 +43,7 @@ export default async function QueuePage() {
                   <StatusBadge status={i.status} />
                 </td>
                 <td className="whitespace-pre-wrap">{i.why}</td>
-                <td className="num whitespace-nowrap">{i.updatedAt.replace('T', ' ').slice(0, 16)}</td>
+                <td className="num whitespace-nowrap">{when(i.updatedAt)}</td>
               </tr>
             ))}
             {items.length === 0 ? (
@@ -53,7 +55,7 @@ export default async function QueuePage() {
             ) : null}
           </tbody>
         </table>
-      </section>
+      </ScrollBox>
     </div>
   );
 }

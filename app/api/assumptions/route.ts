@@ -4,11 +4,14 @@ import { createDraft, listLibrary } from '@/lib/dal/assumptions';
 import { errorResponse, parseOrThrow } from '@/lib/errors';
 import { draftInputSchema } from '@/lib/assumptions/content';
 
-/** GET: the library by segment (signed-in users). POST: an analyst drafts a version from a fit: 201 { id }. */
-export async function GET() {
+/**
+ * GET: the library by segment (signed-in users), filtered as the library screen is
+ * (`?segment=&state=&asOf=`). POST: an analyst drafts a version from a fit: 201 { id }.
+ */
+export async function GET(req: Request) {
   try {
     const actor = await requireUser();
-    return Response.json({ library: await listLibrary(actor) });
+    return Response.json({ library: await listLibrary(actor, new Date(), Object.fromEntries(new URL(req.url).searchParams)) });
   } catch (err) {
     return errorResponse(err);
   }

@@ -15,7 +15,7 @@ export function DataSection({ seg }: ReviewContext) {
             <th className="text-right">Defaults</th>
             <th className="text-right">Default rate</th>
             <th className="text-right">Implied factor</th>
-            <th className="text-right">PIT value</th>
+            <th className="text-right">Probability integral transform (PIT)</th>
           </tr>
         </thead>
         <tbody>

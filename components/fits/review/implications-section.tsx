@@ -1,6 +1,8 @@
 import { ScrollBox } from '@/components/layout/scroll-box';
+import Link from 'next/link';
 import { PairExplorer } from '@/components/pairs/pair-explorer';
 import { assetClassNames } from '@/lib/asset-classes';
+import { capitalCaution } from '@/lib/assumptions/cautions';
 import { interval, pct, pd, rho } from '@/lib/format';
 import type { ReviewContext } from './types';
 
@@ -9,7 +11,7 @@ import type { ReviewContext } from './types';
  * estimate and the interval ends (an illustration under a stated LGD and maturity), the supervisory
  * correlation of the segment's asset class, and two obligors' joint default.
  */
-export function ImplicationsSection({ seg }: ReviewContext) {
+export function ImplicationsSection({ seg, fitId }: ReviewContext) {
   const imp = seg.implications;
   const iv = seg.estimates.binomialMle.intervals;
   if (!imp) {
@@ -67,11 +69,15 @@ export function ImplicationsSection({ seg }: ReviewContext) {
         </table>
       </ScrollBox>
       <p className="notice-caution text-xs" data-testid="capital-caution">
-        K is an illustration ({lgdAndMaturity}), not regulatory capital; an estimated correlation does not replace the supervisory correlation
-        in Pillar 1 own-funds requirements. {imp.convention}
+        {capitalCaution(imp.lgd, imp.maturityYears)} {imp.convention}
       </p>
       <details>
         <summary className="cursor-pointer text-sm text-[var(--color-accent)]">Explore two obligors at this estimate</summary>
+        {fitId !== undefined ? (
+          <p className="mt-2 text-sm">
+            Or open them in the <Link href={`/pairs?fitId=${fitId}&segment=${encodeURIComponent(seg.segment)}`}>Pair explorer</Link>.
+          </p>
+        ) : null}
         <div className="mt-3">
           <PairExplorer initialPdA={imp.pd} initialPdB={imp.pd} initialRho={imp.rho} heading="Two obligors at the fitted PD" />
         </div>

@@ -8,8 +8,18 @@ import { SegmentSummary } from './summary';
  * sections (sticky on wide screens, a row of links on narrow ones) and the sections themselves.
  * Used by a fit's segment page and, frozen, by an assumption version's page.
  */
-export function SegmentEvidence({ seg, idPrefix, bootstrapRequested }: { seg: FitSegmentResult; idPrefix: string; bootstrapRequested: boolean }) {
-  const ctx = { seg, idPrefix, bootstrapRequested };
+export function SegmentEvidence({
+  seg,
+  idPrefix,
+  bootstrapRequested,
+  fitId,
+}: {
+  seg: FitSegmentResult;
+  idPrefix: string;
+  bootstrapRequested: boolean;
+  fitId?: number;
+}) {
+  const ctx = { seg, idPrefix, bootstrapRequested, fitId };
   const sections = REVIEW_SECTIONS.filter((s) => !s.applies || s.applies(seg));
   return (
     <div className="grid gap-4 lg:grid-cols-[13rem_minmax(0,1fr)]" data-testid="segment-review">

@@ -7,6 +7,8 @@ export type ReviewContext = {
   idPrefix: string;
   /** Whether the fit asked for the parametric bootstrap (an absent bootstrap interval then needs a reason). */
   bootstrapRequested: boolean;
+  /** The fit run the segment belongs to (for links to other screens about it). */
+  fitId?: number;
 };
 
 /**

@@ -86,6 +86,8 @@ export type LibraryEntryDto = {
   evidence: EvidenceDto | null;
   daysToReview: number | null;
   pending: { id: number; version: number; status: AssumptionStatus } | null;
+  /** With an as-of date: why nothing (or an expired version) was in force on that day; otherwise null. */
+  note: string | null;
 };
 
 export type QueueItemDto = { id: number; segment: string; version: number; status: AssumptionStatus; why: string; updatedAt: string; finalValue: number };

@@ -4,11 +4,13 @@ import { getDb } from '@/db/client';
 import { assumptionAudit, assumptionReviews, assumptions, assumptionVersions, type AssumptionStatus, type AssumptionVersion } from '@/db/schema';
 import { diffVersions } from '@/lib/assumptions/content';
 import { daysBetween, EXPIRING_SOON_DAYS, todayIso } from '@/lib/assumptions/dates';
+import { versionInForceAt } from '@/lib/assumptions/in-force';
+import { libraryFiltersSchema, matchesLibraryFilters } from '@/lib/assumptions/library-filters';
 import { availableActions, openStatuses, reviewActions } from '@/lib/assumptions/lifecycle';
 import { publicationNote } from '@/lib/assumptions/publication';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { toCsv } from '@/lib/csv';
-import { AppError } from '@/lib/errors';
+import { AppError, parseOrThrow } from '@/lib/errors';
 import { roleChangesOf } from '../admin-audit';
 import { getHealth } from '../health';
 import { evidenceOf } from '../evidence-store';
@@ -157,9 +159,15 @@ export async function auditCsv(actor: SessionUser, assumptionId: number): Promis
   };
 }
 
-/** The library by segment: the published version (or the last one that lapsed) and what is pending. */
-export async function listLibrary(actor: SessionUser, now: Date = new Date()): Promise<LibraryEntryDto[]> {
+/**
+ * The library by segment: the published version (or the last one that lapsed) and what is pending.
+ * `filters` (the library screen's address, parsed here): a piece of the segment's name, the state
+ * of the entry, and an as-of date at which the version in force is read by the consumer API's rule
+ * (lib/assumptions/in-force.ts) instead of today's published one.
+ */
+export async function listLibrary(actor: SessionUser, now: Date = new Date(), filters: unknown = {}): Promise<LibraryEntryDto[]> {
   assertCan(actor, 'assumptions:read');
+  const f = parseOrThrow(libraryFiltersSchema, filters, 'invalid:library-filters', 'The library filters are not valid.');
   const db = getDb();
   const today = todayIso(now);
   const rows = await db
@@ -176,9 +184,38 @@ export async function listLibrary(actor: SessionUser, now: Date = new Date()): P
   const evidence = await evidenceOf(db, currents);
   const out: LibraryEntryDto[] = [];
   for (const [assumptionId, vs] of bySegment) {
+    const pending = vs.find((v) => openStatuses.includes(v.status));
+    const pendingDto = pending && actor.role !== 'viewer' ? { id: pending.id, version: pending.version, status: pending.status } : null;
+    if (f.asOf) {
+      const everPublished = vs.filter((v) => visibleToViewer(v.status));
+      if (actor.role === 'viewer' && everPublished.length === 0) continue;
+      const records = everPublished.map((v) => ({ ...v, publishedAt: v.publishedAt ? new Date(v.publishedAt) : null, endedAt: v.endedAt ? new Date(v.endedAt) : null, dto: v }));
+      const answer = versionInForceAt(records, f.asOf, now);
+      const current = answer.kind === 'in-force' || answer.kind === 'expired' ? answer.version.dto : null;
+      const days = current ? daysBetween(f.asOf, current.reviewBy) : null;
+      out.push({
+        assumptionId,
+        segment: vs[0].segment,
+        current,
+        health: answer.kind === 'in-force' ? (days !== null && days <= EXPIRING_SOON_DAYS ? 'expiring' : 'ok') : answer.kind === 'expired' ? 'expired' : 'none',
+        daysToReview: days,
+        evidence: current ? (evidence.get(current.id) ?? null) : null,
+        pending: pendingDto,
+        note:
+          answer.kind === 'none'
+            ? `Nothing was published by ${f.asOf}.`
+            : answer.kind === 'expired'
+              ? `Version ${answer.version.version} was past its review-by date (${answer.version.reviewBy}) on ${f.asOf}.`
+              : answer.kind === 'retired'
+                ? `Version ${answer.version.version} was retired on ${answer.on}.`
+                : answer.kind === 'ended'
+                  ? `Version ${answer.version.version} stopped being the published one on ${answer.on}.`
+                  : null,
+      });
+      continue;
+    }
     const published = vs.find((v) => v.status === 'published');
     const lapsed = !published ? vs.find((v) => v.status === 'expired') : undefined;
-    const pending = vs.find((v) => openStatuses.includes(v.status));
     if (actor.role === 'viewer' && !published && !lapsed) continue;
     const current = published ?? lapsed ?? null;
     const days = current ? daysBetween(today, current.reviewBy) : null;
@@ -197,10 +234,11 @@ export async function listLibrary(actor: SessionUser, now: Date = new Date()): P
               : 'ok',
       daysToReview: days,
       evidence: current ? (evidence.get(current.id) ?? null) : null,
-      pending: pending && actor.role !== 'viewer' ? { id: pending.id, version: pending.version, status: pending.status } : null,
+      pending: pendingDto,
+      note: null,
     });
   }
-  return out;
+  return out.filter((e) => matchesLibraryFilters(e, f));
 }
 
 /**

@@ -74,9 +74,12 @@ describe('the version in force at a date', () => {
     // 0.037091 + 0.01 + 0 + 0.02 (the margins of draftBody), by hand.
     expect(a.value).toBe(0.067091);
     expect(a.pd).toBe(0.013307);
-    expect(a.interval).toEqual({ method: 'profile', level: 0.95, lower: 0.01177, upper: 0.1147 });
+    expect(a.interval).toEqual({ method: 'profile', methodName: 'profile likelihood', level: 0.95, lower: 0.01177, upper: 0.1147 });
     // drafted from binomialMle: the Gaussian one-factor model with independent years
     expect(a.model).toEqual({ copula: 'gaussian', factor: 'independent' });
+    // The code name stays; the readable name the screens use is beside it.
+    expect(a.estimator).toBe('binomialMle');
+    expect(a.estimatorName).toBe('Binomial-mixture maximum likelihood');
     expect(a.lineage.datasetSha256).toMatch(/^[0-9a-f]{64}$/);
     expect(a.lineage.fitUrl).toBe(`/fits/${a.lineage.fitRunId}`);
     expect(a.lineage.seeds).toEqual({ bootstrap: 7, audit: 11 });
@@ -173,7 +176,7 @@ describe('CSV export', () => {
   it('one row per published segment; formula-like cells neutralised', async () => {
     const res = await call(exportRoute.GET, { headers: bearer(token) });
     expect(res.status).toBe(200);
-    const lines = res.text.replace(/^\uFEFF/, '').trim().split('\r\n');
+    const lines = res.text.replace(/^\uFEFF/, '').trim().split('\r\n').filter((l) => !l.startsWith('#'));
     expect(lines[0].split(',')[0]).toBe('segment');
     const mine = lines.filter((l) => l.startsWith(segment));
     expect(mine).toHaveLength(1);

@@ -111,6 +111,30 @@ describe('the demo library', () => {
     expect((await m.dal.versionInForce(viewer, 'SME term loans', smeRow.effectiveDate)).id).toBe(smeRow.id);
   });
 
+  it('filters the library by segment, state and as-of date, and names a filter it cannot read', async () => {
+    const analyst = await person('analyst@fenmoor.example');
+    const names = async (filters: Record<string, string>) => (await m.dal.listLibrary(analyst, new Date(), filters)).map((e) => e.segment);
+    expect(await names({})).toEqual(['Credit cards', 'Owner-occupied mortgages', 'Prime auto loans', 'SME term loans']);
+    expect(await names({ segment: 'loans' })).toEqual(['Prime auto loans', 'SME term loans']);
+    expect(await names({ state: 'due-for-review' })).toEqual(['Prime auto loans']);
+    expect(await names({ state: 'in-force' })).toEqual(['Prime auto loans', 'SME term loans']);
+    expect(await names({ state: 'in-progress' })).toEqual(['Credit cards', 'Owner-occupied mortgages']);
+    expect(await names({ state: 'not-published', segment: 'cards' })).toEqual(['Credit cards']);
+    // As of the day before the SME version's effective date, nothing of SME was in force; on it, that version.
+    const sme = (await m.dal.listLibrary(analyst)).find((e) => e.segment === 'SME term loans')!.current!;
+    const before = new Date(Date.parse(`${sme.effectiveDate}T00:00:00Z`) - 86_400_000).toISOString().slice(0, 10);
+    const then = (await m.dal.listLibrary(analyst, new Date(), { asOf: before, segment: 'SME' }))[0];
+    expect(then).toMatchObject({ segment: 'SME term loans', current: null, health: 'none', note: `Nothing was published by ${before}.` });
+    const on = (await m.dal.listLibrary(analyst, new Date(), { asOf: sme.effectiveDate, segment: 'SME' }))[0];
+    expect(on.current?.id).toBe(sme.id);
+    expect(on.health).toBe('ok');
+    await expect(m.dal.listLibrary(analyst, new Date(), { asOf: '2024-02-30' })).rejects.toMatchObject({
+      code: 'invalid:library-filters',
+      details: { field: 'asOf', fieldErrors: { asOf: 'The as-of date must be a calendar date written YYYY-MM-DD.' } },
+    });
+    await expect(m.dal.listLibrary(analyst, new Date(), { state: 'lost' })).rejects.toMatchObject({ details: { field: 'state' } });
+  });
+
   it("leaves one version in the validator's queue and one sent back in the analyst's", async () => {
     const validatorQueue = await m.dal.listQueue(await person('validator@fenmoor.example'));
     expect(validatorQueue.map((q) => [q.segment, q.status])).toEqual([['Owner-occupied mortgages', 'submitted']]);

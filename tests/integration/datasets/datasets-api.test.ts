@@ -145,6 +145,15 @@ describe('an accepted cohort file', () => {
     expect(plain.startsWith('segment,period,obligors,defaults\r\n')).toBe(true);
   });
 
+  it('downloads one segment\'s rows (the table of its history), and names a segment it does not have', async () => {
+    const res = await cohortsCsv(new Request('http://x/cohorts.csv?comments=0&segment=Retail%20A'), paramsOf({ id: String(id) }));
+    expect(res.headers.get('content-disposition')).toContain(`dataset-${id}-cohorts-Retail_A.csv`);
+    expect((await res.text()).trim().split('\r\n')).toEqual(['segment,period,obligors,defaults', 'Retail A,2015,1000,12', 'Retail A,2016,1040,20', 'Retail A,2017,1100,9']);
+    const missing = await cohortsCsv(new Request('http://x/cohorts.csv?segment=Nowhere'), paramsOf({ id: String(id) }));
+    expect(missing.status).toBe(404);
+    expect((await missing.json()).message).toBe(`Dataset ${id} has no segment “Nowhere”.`);
+  });
+
   it('warnings can be waived with a reason; errors and unknown rules cannot, and a short reason is refused', async () => {
     const waive = (body: unknown) => waiveRoute(new Request('http://x', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) }), paramsOf({ id: String(id) }));
     expect((await waive({ rule: 'tiny-cohort', reason: 'ok' })).status).toBe(422);

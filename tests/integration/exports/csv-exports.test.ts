@@ -106,15 +106,28 @@ describe('no export gives a spreadsheet a live cell', () => {
 
   it('the library for a signed-in user and for an API token', async () => {
     session.user = analyst;
-    const signedIn = await text(await libraryCsv());
+    const signedIn = await text(await libraryCsv(new Request('http://x/export')));
+    const signedInPlain = await text(await libraryCsv(new Request('http://x/export?comments=0')));
     session.user = null;
-    const byToken = await text(await consumerCsv(new Request('http://x/export', { headers: { authorization: `Bearer ${token}` } })));
+    const auth = { headers: { authorization: `Bearer ${token}` } };
+    const byToken = await text(await consumerCsv(new Request('http://x/export', auth)));
+    const byTokenPlain = await text(await consumerCsv(new Request('http://x/export?comments=0', auth)));
     for (const { status, body, bom } of [signedIn, byToken]) {
       expect(status).toBe(200);
       expect(bom).toBe(true);
-      expect(body.startsWith('segment,version,value')).toBe(true);
+      // The cautions travel with the values, as comment lines a reader skips (comment='#').
+      expect(body.startsWith('# Rhobook correlation library. Read these values with care:')).toBe(true);
+      expect(body).toContain('# 5. An estimated correlation does not replace the supervisory correlation in Pillar 1 own-funds requirements');
+      expect(body).toContain('# 6. Capital K shown beside a correlation is an illustration at the LGD and maturity stated with it, not regulatory capital.');
+      expect(body).toContain("the institution's model-risk policy, supervisory requirements or qualified professional judgement.");
+      const data = Papa.parse<string[]>(body, { comments: '#', newline: '\r\n', skipEmptyLines: true }).data;
+      expect(data[0].slice(0, 3)).toEqual(['segment', 'version', 'value']);
       expect(body).toContain(`'-2+3,'=HYPERLINK`);
       expect(liveCells(body)).toEqual([]);
+    }
+    for (const { status, body } of [signedInPlain, byTokenPlain]) {
+      expect(status).toBe(200);
+      expect(body.startsWith('segment,version,value')).toBe(true);
     }
   });
 

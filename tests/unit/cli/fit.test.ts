@@ -64,6 +64,10 @@ describe('cli fit --json (spawned)', () => {
     expect(Math.abs(b.estimates.binomialMle.intervals.profile!.upper - 0.344)).toBeLessThan(2e-3);
     expect(Math.abs(b.estimates.jointDefault!.rho! - 0.050346)).toBeLessThan(1e-6);
     expect(b.warnings.map((w) => w.code)).toContain('zero-default-periods');
+    // The cautions travel with the numbers: both missing ones and the deferral (DESIGN.md, "Cautions").
+    expect(doc.cautions.join(' ')).toMatch(/does not replace the supervisory correlation in Pillar 1 own-funds requirements/);
+    expect(doc.cautions.join(' ')).toMatch(/Capital K .* illustration at the LGD and maturity stated with it, not regulatory capital/);
+    expect(doc.cautions.join(' ')).toMatch(/does not replace independent validation, the institution's model-risk policy, supervisory requirements or qualified professional judgement/);
   });
 
   it('filters by segment and period window and bootstraps identically on 1 and 2 threads', async () => {
@@ -103,6 +107,8 @@ describe('cli fit --json (spawned)', () => {
     expect(stdout).toMatch(/break test: largest LR statistic .* from \d{4}; no p-value \(run with --bootstrap B\)/);
     expect(stdout).toMatch(/rolling window of 10: 1 window, /);
     expect(stdout).toMatch(/slowest stages: /);
+    expect(stdout).toMatch(/\nCautions:\n  - The Gaussian one-factor model has no tail dependence/);
+    expect(stdout).toMatch(/  - An estimated correlation does not replace the supervisory correlation in Pillar 1 own-funds requirements/);
   });
 });
 

@@ -56,7 +56,7 @@ describe('fitPanelParallel', () => {
     // one stage after the other, each named with its count
     expect(messages).toContain('Bootstrap 8 of 8');
     expect(messages).toContain('Bootstrap of jointDefault 8 of 8');
-    expect(messages.at(-1)).toBe('Estimator audit 6 of 6');
+    expect(messages.at(-1)).toBe('Simulation study 6 of 6');
   });
 
   it('runs the moment bootstraps, the break test and the audit at the fitted persistence on the threads, as fitPanel does, and times each stage', async () => {

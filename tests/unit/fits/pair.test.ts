@@ -63,3 +63,29 @@ describe('densityContour', () => {
     }
   });
 });
+
+describe('readPairInputs', () => {
+  it('reads PDs in percent and the correlation as plain numbers', async () => {
+    const { readPairInputs } = await import('@/lib/fits/pair');
+    expect(readPairInputs({ pdA: '5', pdB: ' 1.25% ', rho: '0.3' })).toEqual({ problems: {}, values: { p1: 0.05, p2: 0.0125, rho: 0.3 } });
+    expect(readPairInputs({ pdA: '.5', pdB: '1e-1', rho: '0' }).values).toEqual({ p1: 0.005, p2: 0.001, rho: 0 });
+  });
+
+  it('refuses a decimal comma with a sentence, and names every bad field at once without computing anything', async () => {
+    const { readPairInputs } = await import('@/lib/fits/pair');
+    const r = readPairInputs({ pdA: '5,5', pdB: 'abc', rho: '1.5' });
+    expect(r.values).toBeNull();
+    expect(r.problems).toEqual({
+      pdA: 'Write the decimal with a point (5.5), not a comma.',
+      pdB: 'The PD of obligor B in percent must be one number, for example 1.5.',
+      rho: 'The asset correlation must lie between 0 and 0.999.',
+    });
+    expect(readPairInputs({ pdA: '', pdB: '0', rho: '0,3' }).problems).toEqual({
+      pdA: 'Give the PD of obligor A in percent, for example 1.5.',
+      pdB: 'The PD of obligor B must lie between 0.0001% and 99.9%.',
+      rho: 'Write the decimal with a point (0.3), not a comma.',
+    });
+    // A thousands separator is not a number either.
+    expect(readPairInputs({ pdA: '1,000.5', pdB: '1', rho: '0.1' }).problems.pdA).toMatch(/must be one number/);
+  });
+});

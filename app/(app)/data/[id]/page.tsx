@@ -4,17 +4,19 @@ import { notFound } from 'next/navigation';
 import { DatasetActions } from '@/components/data/dataset-actions';
 import { ConversionStatus } from '@/components/data/conversion-status';
 import { StatusBadge } from '@/components/data/datasets-table';
+import { DatasetReport } from '@/components/data/dataset-report';
 import { DefaultDefinitions } from '@/components/data/default-definitions';
-import { DefaultRateChart } from '@/components/data/default-rate-chart';
-import { formatSize, formatWhen, kindLabels } from '@/components/data/format';
-import { ReportTable } from '@/components/data/report-table';
-import { WaiveForm } from '@/components/data/waive-form';
+import { formatSize, kindLabels } from '@/components/data/format';
+import { SegmentHistory } from '@/components/data/segment-history';
+import { Breadcrumbs } from '@/components/layout/breadcrumbs';
+import { ScrollBox } from '@/components/layout/scroll-box';
 import { FindingsSection } from '@/components/findings/findings-section';
+import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { getDataset, listDatasets, type DatasetDetailDto } from '@/lib/dal/datasets';
 import { findingsPanel } from '@/lib/dal/findings';
-import { assetClassLabels } from '@/lib/asset-classes';
 import { AppError } from '@/lib/errors';
+import { count, when } from '@/lib/format';
 
 export const metadata: Metadata = { title: 'Dataset' };
 
@@ -30,42 +32,43 @@ async function load(id: string): Promise<DatasetDetailDto> {
   }
 }
 
-export default async function DatasetPage({ params }: { params: Promise<{ id: string }> }) {
+/**
+ * A dataset: what it is and where it came from, its conventions, each segment's history, its data
+ * check report (right under the heading just after an upload, `?uploaded=1`), and what its owner
+ * may do with it; "Fit this dataset" starts the New fit form on it.
+ */
+export default async function DatasetPage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<{ uploaded?: string }> }) {
   const { id } = await params;
+  const justUploaded = (await searchParams).uploaded === '1';
   const d = await load(id);
   const actor = await requireUser();
   const newer = d.canManage && !d.supersededBy ? (await listDatasets(actor)).filter((x) => x.id !== d.id && x.status === 'ready' && !x.supersededBy && x.createdAt >= d.createdAt) : [];
   const findings = await findingsPanel(actor, { type: 'dataset', id: d.id });
-  const waived = new Set(d.waivers.map((w) => w.rule));
   const inUse = d.usedBy.fits + d.usedBy.assumptions > 0;
-  const warningRules = Object.entries(d.report?.summary.byRule ?? {})
-    .filter(([rule, e]) => e.severity === 'warning' && !waived.has(rule))
-    .map(([rule, e]) => ({ rule, count: e.count }));
+  const rows = d.segments.reduce((n, s) => n + s.rows.length, 0);
   return (
     <div className="space-y-6">
-      <p className="text-sm">
-        <Link href="/data">← Data</Link>
-      </p>
       <div className="flex flex-wrap items-start justify-between gap-3">
-        <div>
-          <h1>
+        <div className="min-w-0">
+          <Breadcrumbs trail={[{ href: '/data', label: 'Data' }]} current={d.name} />
+          <h1 className="break-words">
             {d.name} <span className="text-base font-normal text-[var(--color-muted)]">no. {d.id}</span>
           </h1>
-          <p className="text-sm text-[var(--color-muted)]">
-            {kindLabels[d.kind]} · {d.fileName} ({formatSize(d.sizeBytes)}) · uploaded {formatWhen(d.createdAt)} UTC by {d.uploadedBy.name} ·{' '}
+          <p className="text-sm text-[var(--color-muted)] break-words">
+            {kindLabels[d.kind]} · {d.fileName} ({formatSize(d.sizeBytes)}) · uploaded {when(d.createdAt)} by {d.uploadedBy.name} ·{' '}
             <StatusBadge d={d} />
           </p>
           {d.description ? <p className="mt-1 max-w-3xl text-sm">{d.description}</p> : null}
         </div>
         <div className="flex flex-wrap gap-2">
+          {d.status === 'ready' && can(actor.role, 'fits:run') ? (
+            <Link className="btn text-sm no-underline" href={`/fits/new?datasetId=${d.id}`} data-testid="fit-this-dataset">
+              Fit this dataset
+            </Link>
+          ) : null}
           {d.status === 'ready' ? (
             <a className="btn btn-quiet text-sm no-underline" href={`/api/datasets/${d.id}/cohorts.csv`} download>
               Cohort rows (CSV)
-            </a>
-          ) : null}
-          {d.report ? (
-            <a className="btn btn-quiet text-sm no-underline" href={`/api/datasets/${d.id}/report.csv`} download>
-              Validation report (CSV)
             </a>
           ) : null}
           <a className="btn btn-quiet text-sm no-underline" href={`/api/datasets/${d.id}/file`} download>
@@ -73,6 +76,14 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
           </a>
         </div>
       </div>
+
+      {justUploaded && d.status === 'ready' && d.report ? (
+        <p className="notice-good" role="status" data-testid="upload-accepted">
+          Accepted: {count(rows, 'cohort row')} in {count(d.segments.length, 'segment')}, with {count(d.report.warningCount, 'warning')}. Its data
+          check report is right below{d.report.warningCount > 0 ? ': review the warnings, and waive a rule with a reason if it is expected' : ''}.
+        </p>
+      ) : null}
+      {justUploaded ? <DatasetReport d={d} /> : null}
 
       {d.supersededBy ? (
         <p className="notice-caution text-sm">
@@ -113,7 +124,8 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
         {d.censored.length > 0 ? (
           <details className="text-sm">
             <summary className="cursor-pointer">Censored vintage-years: {d.censored.length} (left out of the annual cohorts)</summary>
-            <table className="table mt-2">
+            <ScrollBox label="Censored vintage-years" className="mt-2">
+            <table className="table">
               <thead>
                 <tr>
                   <th scope="col">Segment</th>
@@ -133,6 +145,7 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
                 ))}
               </tbody>
             </table>
+            </ScrollBox>
           </details>
         ) : null}
         {d.status === 'ready' ? <DefaultDefinitions uploadField={d.defaultDefinition} segments={d.segments} /> : null}
@@ -145,85 +158,12 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
         <section className="space-y-4" aria-labelledby="hist-heading">
           <h2 id="hist-heading">Segment histories</h2>
           {d.segments.map((s) => (
-            <div key={s.segmentId} className="panel grid gap-4 p-5 lg:grid-cols-[minmax(0,22rem)_1fr]">
-              <div>
-                <h3>
-                  <Link href={`/data/segments/${s.segmentId}`}>{s.name}</Link>
-                </h3>
-                <p className="mb-2 text-xs text-[var(--color-muted)]">
-                  {assetClassLabels[s.assetClass]} · {s.rows.length} period{s.rows.length === 1 ? '' : 's'}
-                  {s.rows.length > 0 ? `, ${s.rows[0].period}–${s.rows[s.rows.length - 1].period}` : ''}
-                </p>
-                <div className="max-h-72 overflow-auto">
-                  <table className="table">
-                    <caption className="sr-only">Obligors and defaults by period, {s.name}</caption>
-                    <thead>
-                      <tr>
-                        <th scope="col">Period</th>
-                        <th scope="col" className="text-right">
-                          Obligors
-                        </th>
-                        <th scope="col" className="text-right">
-                          Defaults
-                        </th>
-                        <th scope="col" className="text-right">
-                          Rate
-                        </th>
-                      </tr>
-                    </thead>
-                    <tbody>
-                      {s.rows.map((r) => (
-                        <tr key={r.period}>
-                          <td className="num">{r.period}</td>
-                          <td className="num text-right">{r.obligors.toLocaleString('en-GB')}</td>
-                          <td className="num text-right">{r.defaults.toLocaleString('en-GB')}</td>
-                          <td className="num text-right">{((100 * r.defaults) / r.obligors).toFixed(2)}%</td>
-                        </tr>
-                      ))}
-                    </tbody>
-                  </table>
-                </div>
-              </div>
-              <DefaultRateChart name={s.name} rows={s.rows} />
-            </div>
+            <SegmentHistory key={s.segmentId} datasetId={d.id} segment={s} />
           ))}
         </section>
       ) : null}
 
-      {d.report ? (
-        <section className="panel space-y-3 p-5" aria-labelledby="report-heading">
-          <h2 id="report-heading">Validation report</h2>
-          <p className="text-sm text-[var(--color-muted)]">
-            {d.report.status === 'processing'
-              ? 'The header was checked at upload; the rows are checked by the conversion.'
-              : d.report.status === 'failed'
-                ? 'Only the header was checked: the rows were not, because the conversion did not finish.'
-                : `${d.report.errorCount.toLocaleString('en-GB')} error${d.report.errorCount === 1 ? '' : 's'}, ${d.report.warningCount.toLocaleString('en-GB')} warning${d.report.warningCount === 1 ? '' : 's'}${d.waivers.length > 0 ? `, ${d.waivers.length} rule${d.waivers.length === 1 ? '' : 's'} waived` : ''}${d.report.summary.truncated ? ' (only the first 1,000 findings of each rule are listed)' : ''}.`}
-          </p>
-          {d.waivers.length > 0 ? (
-            <ul className="space-y-1 text-sm">
-              {d.waivers.map((w) => (
-                <li key={w.rule} className="notice-good">
-                  Waived <code>{w.rule}</code> by {w.by} on {formatWhen(w.at)}: {w.reason}
-                </li>
-              ))}
-            </ul>
-          ) : null}
-          {d.report.status === 'accepted' || d.report.issues.length > 0 ? (
-            <ReportTable issues={d.report.issues} caption="Validation report" summary={d.report.summary} waived={[...waived]} />
-          ) : null}
-          {d.canManage && warningRules.length > 0 ? (
-            <div className="space-y-2 border-t border-[var(--color-line)] pt-3">
-              <h3>Waive a warning</h3>
-              <p className="text-xs text-[var(--color-muted)]">
-                Waiving a rule records that the warnings were reviewed and why they are acceptable; the reason is kept with the dataset and
-                shown to reviewers.
-              </p>
-              <WaiveForm datasetId={d.id} rules={warningRules} />
-            </div>
-          ) : null}
-        </section>
-      ) : null}
+      {!justUploaded ? <DatasetReport d={d} /> : null}
 
       {d.canManage || d.canDelete ? (
         <section className="panel p-5" aria-labelledby="manage-heading">
@@ -236,8 +176,8 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
               : 'A dataset is never edited. To correct it, upload the corrected file and choose this dataset under “Replaces” on the upload page, or mark it superseded here by a newer dataset.'}{' '}
             {inUse
               ? `It cannot be deleted: ${[
-                  d.usedBy.fits ? `${d.usedBy.fits} fit${d.usedBy.fits === 1 ? '' : 's'}` : '',
-                  d.usedBy.assumptions ? `${d.usedBy.assumptions} assumption version${d.usedBy.assumptions === 1 ? '' : 's'}` : '',
+                  d.usedBy.fits ? count(d.usedBy.fits, 'fit') : '',
+                  d.usedBy.assumptions ? count(d.usedBy.assumptions, 'assumption version') : '',
                 ]
                   .filter(Boolean)
                   .join(' and ')} refer${d.usedBy.fits + d.usedBy.assumptions === 1 ? 's' : ''} to it.`

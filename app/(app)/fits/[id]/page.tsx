@@ -6,9 +6,9 @@ import { z } from 'zod';
 import { FindingsSection } from '@/components/findings/findings-section';
 import { ReportLinks } from '@/components/reports/report-links';
 import { FitDefaultDefinitions } from '@/components/fits/fit-default-definitions';
+import { Cautions } from '@/components/assumptions/cautions';
 import { FitProgress } from '@/components/fits/fit-progress';
 import { FitProvenance, OldResultsNotice } from '@/components/fits/fit-provenance';
-import { ModelCautions } from '@/components/fits/model-cautions';
 import { SegmentsOverview } from '@/components/fits/segments-overview';
 import { Breadcrumbs } from '@/components/layout/breadcrumbs';
 import { GroupResults, PairMatrix } from '@/components/fits/portfolio-review';
@@ -87,7 +87,7 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
           </section>
           {fit.results.group ? <GroupResults group={fit.results.group} /> : null}
           {fit.results.pairs ? <PairMatrix pairs={fit.results.pairs} fitId={fit.id} /> : null}
-          <ModelCautions />
+          <Cautions title="These numbers support a judgement: read them with care." />
         </>
       ) : null}
       <FindingsSection {...findings} />

@@ -3,7 +3,11 @@ import Link from 'next/link';
 import { z } from 'zod';
 import { requireUser } from '@/lib/auth/session';
 import { getFitsForCompare } from '@/lib/dal/fits';
-import { fixed, interval, pct } from '@/lib/format';
+import { Cautions } from '@/components/assumptions/cautions';
+import { Breadcrumbs } from '@/components/layout/breadcrumbs';
+import { ScrollBox } from '@/components/layout/scroll-box';
+import { capitalCaution } from '@/lib/assumptions/cautions';
+import { fixed, interval, level, pct, pd, rho } from '@/lib/format';
 import { estimatorLabel } from '@/lib/stats/estimators/types';
 import { ESTIMATOR_ORDER, isCurrentResults, type FitSegmentResult } from '@/lib/fits/results';
 
@@ -23,8 +27,9 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
   if (!q.success) {
     return (
       <div className="space-y-3">
+        <Breadcrumbs trail={[{ href: '/fits', label: 'Fits' }]} current="Compare fits" />
         <h1>Compare fits</h1>
-        <p className="notice-bad text-sm">Tick between two and eight finished runs on the <Link href="/fits">Fits</Link> screen to compare them.</p>
+        <p className="notice-bad text-sm">Tick between two and eight finished runs that share a segment on the <Link href="/fits">Fits</Link> screen to compare them.</p>
       </div>
     );
   }
@@ -37,13 +42,14 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
   if (unfinished.length > 0 || outdated.length > 0 || !segment) {
     return (
       <div className="space-y-3">
+        <Breadcrumbs trail={[{ href: '/fits', label: 'Fits' }]} current="Compare fits" />
         <h1>Compare fits</h1>
         <p className="notice-bad text-sm">
           {unfinished.length > 0
             ? `Run${unfinished.length > 1 ? 's' : ''} ${unfinished.map((f) => `#${f.id}`).join(', ')} ${unfinished.length > 1 ? 'have' : 'has'} not finished.`
             : outdated.length > 0
               ? `Run${outdated.length > 1 ? 's' : ''} ${outdated.map((f) => `#${f.id}`).join(', ')} stored results in an older layout; fit again to compare.`
-              : 'These runs have no segment in common: compare runs of the same segment.'}{' '}
+              : 'These runs have no segment in common: compare runs that share a segment (the Fits screen greys out the others).'}{' '}
           <Link href="/fits">Back to the fits</Link>
         </p>
       </div>
@@ -65,9 +71,7 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
   return (
     <div className="space-y-4">
       <div>
-        <p className="text-sm">
-          <Link href="/fits">Fits</Link> /
-        </p>
+        <Breadcrumbs trail={[{ href: '/fits', label: 'Fits' }]} current={`Compare fits: ${segment}`} />
         <h1>Compare fits: {segment}</h1>
         {common.length > 1 ? (
           <p className="mt-1 text-sm">
@@ -82,7 +86,7 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
           </p>
         ) : null}
       </div>
-      <section className="panel overflow-x-auto p-4">
+      <ScrollBox label="Comparison of the runs (scrolls sideways)" className="panel p-4">
         <table className="table" data-testid="compare-table">
           <thead>
             <tr>
@@ -97,13 +101,13 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
           <tbody>
             {row('Dataset', (c) => `#${c.fit.datasetId} (${c.fit.datasetSha256.slice(0, 8)}…)`)}
             {row('Window', (c) => `${c.seg.periods[0]}–${c.seg.periods[c.seg.periods.length - 1]} (T ${c.seg.T})`)}
-            {row('Level', (c) => `${Math.round(c.fit.request.level * 100)}%`)}
+            {row('Level', (c) => level(c.fit.request.level))}
             {row('Engine', (c) => c.fit.engineVersion)}
-            {row('Seeds (bootstrap, audit)', (c) => `${c.fit.seeds.bootstrap ?? '—'}, ${c.fit.seeds.audit ?? '—'}`)}
+            {row('Seeds (bootstrap, simulation study)', (c) => `${c.fit.seeds.bootstrap ?? '—'}, ${c.fit.seeds.audit ?? '—'}`)}
             {ESTIMATOR_ORDER.filter((k) => cols.some((c) => c.seg.estimates[k] !== undefined)).map((k) =>
-              row(`ρ ${estimatorLabel(k)}`, (c) => fixed(c.seg.estimates[k]?.rho, 4)),
+              row(`ρ ${estimatorLabel(k)}`, (c) => rho(c.seg.estimates[k]?.rho)),
             )}
-            {row('PD (likelihood)', (c) => pct(c.seg.estimates.binomialMle.pd))}
+            {row('PD (likelihood)', (c) => pd(c.seg.estimates.binomialMle.pd))}
             {row('Profile interval', (c) => interval(c.seg.estimates.binomialMle.intervals.profile?.lower, c.seg.estimates.binomialMle.intervals.profile?.upper))}
             {row('Wald interval', (c) => interval(c.seg.estimates.binomialMle.intervals.wald?.lower, c.seg.estimates.binomialMle.intervals.wald?.upper))}
             {row('Bootstrap interval', (c) =>
@@ -111,18 +115,48 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
                 ? `${interval(c.seg.estimates.binomialMle.intervals.bootstrap.lower, c.seg.estimates.binomialMle.intervals.bootstrap.upper)} B ${c.seg.estimates.binomialMle.intervals.bootstrap.replications}`
                 : '—',
             )}
-            {row('99.9% default-rate quantile', (c) => pct(c.seg.implications?.quantile999))}
-            {row('IRB K at the estimate', (c) => pct(c.seg.implications?.capital.atEstimate))}
+            {row('99.9% default-rate quantile', (c) => pd(c.seg.implications?.quantile999))}
+            {row('Illustrative IRB capital K at the estimate', (c) =>
+              c.seg.implications ? (
+                <>
+                  {pct(c.seg.implications.capital.atEstimate)}
+                  <span className="block font-sans text-xs text-[var(--color-muted)]" data-testid="capital-convention">
+                    LGD {pct(c.seg.implications.lgd, 2)}, {c.seg.implications.maturityYears === null ? 'no maturity adjustment' : `maturity ${c.seg.implications.maturityYears} years`}
+                  </span>
+                </>
+              ) : (
+                '—'
+              ),
+            )}
             {row('Periods above the fitted 99% quantile', (c) => (c.seg.diagnostics.exceedances === null ? '—' : String(c.seg.diagnostics.exceedances.above99)))}
-            {row('Lag-1 autocorrelation', (c) => fixed(c.seg.diagnostics.lag1Autocorrelation, 2))}
-            {row('Warnings', (c) => (c.seg.warnings.length === 0 ? 'none' : c.seg.warnings.map((w) => w.code).join(', ')))}
-            {row('Estimator audit: RMSE of the likelihood estimate', (c) => fixed(c.seg.estimatorAudit?.estimators.binomialMle.rmse ?? null, 4))}
+            {row('Lag-1 autocorrelation of the implied factor', (c) => fixed(c.seg.diagnostics.lag1Autocorrelation, 2))}
+            {row('Small-sample simulation study: RMSE of the likelihood estimate', (c) => rho(c.seg.estimatorAudit?.estimators.binomialMle.rmse ?? null))}
+            <tr>
+              <th scope="row" className="text-left font-normal text-[var(--color-ink)]">
+                Warnings
+              </th>
+              {cols.map((c) => (
+                <td key={c.fit.id} className="align-top text-sm" data-testid={`compare-warnings-${c.fit.id}`}>
+                  {c.seg.warnings.length === 0 ? (
+                    'none'
+                  ) : (
+                    <ul className="list-disc space-y-1 pl-4">
+                      {c.seg.warnings.map((w) => (
+                        <li key={w.code}>{w.message}</li>
+                      ))}
+                    </ul>
+                  )}
+                </td>
+              ))}
+            </tr>
           </tbody>
         </table>
-      </section>
+      </ScrollBox>
       <p className="text-xs text-[var(--color-muted)]">
-        Runs on different datasets or windows answer different questions: compare the hash and the window before the numbers.
+        Runs on different datasets or windows answer different questions: compare the hash and the window before the numbers.{' '}
+        {cols[0].seg.implications ? capitalCaution(cols[0].seg.implications.lgd, cols[0].seg.implications.maturityYears) : ''}
       </p>
+      <Cautions compact columns />
     </div>
   );
 }

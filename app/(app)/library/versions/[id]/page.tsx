@@ -9,10 +9,13 @@ import { VersionCautions } from '@/components/assumptions/version-cautions';
 import { FindingsSection } from '@/components/findings/findings-section';
 import { ModelsUsing } from '@/components/models/models-using';
 import { ReportLinks } from '@/components/reports/report-links';
-import { fmt, StatusBadge } from '@/components/assumptions/status-badge';
+import { StatusBadge } from '@/components/assumptions/status-badge';
 import { TransitionPanel } from '@/components/assumptions/transition-panel';
 import { VersionEvidence } from '@/components/assumptions/version-evidence';
+import { Breadcrumbs } from '@/components/layout/breadcrumbs';
+import { ScrollBox } from '@/components/layout/scroll-box';
 import { assumptionCautions } from '@/lib/assumptions/cautions';
+import { intervalMethodLabel } from '@/lib/assumptions/content';
 import { versionCautions } from '@/lib/assumptions/consumer';
 import { describeSpans, type DefinitionSpan } from '@/lib/ingest/default-definition';
 import { editableStatuses, statusLabels } from '@/lib/assumptions/lifecycle';
@@ -23,15 +26,19 @@ import { getFitSegment } from '@/lib/dal/fits';
 import { findingsPanel } from '@/lib/dal/findings';
 import { modelsUsing } from '@/lib/dal/models';
 import { AppError } from '@/lib/errors';
+import { interval, level, pd, rho } from '@/lib/format';
+import { estimatorLabel } from '@/lib/stats/estimators/types';
 import { FIT_MODEL_LABELS } from '@/lib/stats/fit-models';
 
 export const metadata: Metadata = { title: 'Assumption' };
+
+const seedNames: Record<string, string> = { bootstrap: 'bootstrap', audit: 'simulation study' };
 
 /** The fit's seeds ({ bootstrap, audit }) in words; anything else as JSON. */
 function seedsText(seeds: unknown): string {
   if (seeds && typeof seeds === 'object' && !Array.isArray(seeds)) {
     const o = seeds as Record<string, unknown>;
-    const parts = Object.entries(o).map(([k, val]) => `${k} ${val === null || val === undefined ? 'not run' : String(val)}`);
+    const parts = Object.entries(o).map(([k, val]) => `${seedNames[k] ?? k} ${val === null || val === undefined ? 'not run' : String(val)}`);
     return parts.length ? parts.join('; ') : 'none';
   }
   return show(seeds);
@@ -75,23 +82,32 @@ export default async function VersionPage({
   const canEdit = can(actor.role, 'assumptions:draft') && editableStatuses.includes(v.status);
   return (
     <div className="space-y-5">
-      <div>
-        <p className="text-sm">
-          <Link href="/library">Library</Link> / {v.segment}
-        </p>
-        <div className="flex flex-wrap items-start justify-between gap-2">
-          <h1 className="flex flex-wrap items-center gap-2">
-            {v.segment} · version {v.version} <StatusBadge status={v.status} />
-          </h1>
-          <ReportLinks page={`/library/versions/${v.id}/report`} pdf={`/api/assumptions/${v.id}/report.pdf`} />
+      <div className="grid gap-4 lg:grid-cols-[minmax(0,1fr)_minmax(0,28rem)]">
+        <div className="min-w-0">
+          <Breadcrumbs trail={[{ href: '/library', label: 'Library' }]} current={`${v.segment} · version ${v.version}`} />
+          <div className="flex flex-wrap items-start justify-between gap-2">
+            <h1 className="flex flex-wrap items-center gap-2 break-words">
+              {v.segment} · version {v.version} <StatusBadge status={v.status} />
+            </h1>
+            <ReportLinks page={`/library/versions/${v.id}/report`} pdf={`/api/assumptions/${v.id}/report.pdf`} />
+          </div>
+          <p className="mt-1 text-lg">
+            Value{' '}
+            <span className="num font-semibold" data-testid="final-value">
+              {rho(v.finalValue)}
+            </span>
+            <span className="ml-3 text-sm text-[var(--color-muted)]">
+              with PD <span className="num">{pd(v.pd)}</span>; effective {v.effectiveDate}, review by {v.reviewBy}
+            </span>
+          </p>
+          <p className="mt-1 text-sm text-[var(--color-muted)]">
+            Estimate <span className="num">{rho(v.estimate)}</span> by {estimatorLabel(v.estimator).toLowerCase()}, {level(v.intervalLevel)}{' '}
+            {intervalMethodLabel(v.intervalMethod)} interval <span className="num">{interval(v.intervalLower, v.intervalUpper)}</span>; the
+            value is valid only with this PD and the definition of default of the data.
+          </p>
+          <PublicationLine note={page.publication} />
         </div>
-        <p className="mt-1 text-lg">
-          Value <span className="num font-semibold" data-testid="final-value">{fmt(v.finalValue, 6)}</span>
-          <span className="ml-3 text-sm text-[var(--color-muted)]">
-            with PD <span className="num">{fmt(v.pd, 6)}</span>; effective {v.effectiveDate}, review by {v.reviewBy}
-          </span>
-        </p>
-        <PublicationLine note={page.publication} />
+        <Cautions compact title="Read this value with care." />
       </div>
       <VersionCautions cautions={versionCautions({ ...v, evidence: page.evidence, review: page.review })} />
       <EvidencePanel evidence={page.evidence} />
@@ -99,14 +115,14 @@ export default async function VersionPage({
       <section className="grid gap-4 lg:grid-cols-3">
         <div className="panel p-5 lg:col-span-2">
           <h2 className="mb-2">Evidence and judgement</h2>
-          <dl className="grid grid-cols-[12rem_1fr] gap-x-4 gap-y-1 text-sm">
+          <dl className="grid gap-x-4 gap-y-1 text-sm sm:grid-cols-[12rem_minmax(0,1fr)]">
             <dt>Estimator</dt>
             <dd>
-              {v.estimator}: <span className="num">{fmt(v.estimate, 6)}</span>
+              {estimatorLabel(v.estimator)}: <span className="num">{rho(v.estimate)}</span>
             </dd>
             <dt>Interval</dt>
-            <dd className="num">
-              [{fmt(v.intervalLower, 6)}, {fmt(v.intervalUpper, 6)}] {v.intervalMethod}, {fmt(v.intervalLevel * 100, 2)}%
+            <dd>
+              <span className="num">{interval(v.intervalLower, v.intervalUpper)}</span> {intervalMethodLabel(v.intervalMethod)}, {level(v.intervalLevel)}
             </dd>
             <dt>Model</dt>
             <dd data-testid="factor-model">Gaussian one-factor, {FIT_MODEL_LABELS[v.factorModel]}</dd>
@@ -133,6 +149,7 @@ export default async function VersionPage({
             <dd className="num text-xs break-all">{v.contentHash}</dd>
           </dl>
           <h3 className="mt-4 mb-1">Margins of conservatism</h3>
+          <ScrollBox label="Margins of conservatism">
           <table className="table">
             <thead>
               <tr>
@@ -144,26 +161,27 @@ export default async function VersionPage({
             <tbody>
               <tr>
                 <td>Data and method deficiencies</td>
-                <td className="num text-right">{fmt(v.marginData, 6)}</td>
+                <td className="num text-right">{rho(v.marginData)}</td>
                 <td className="whitespace-pre-wrap">{v.marginDataRationale}</td>
               </tr>
               <tr>
                 <td>Changes in lending or recovery practice</td>
-                <td className="num text-right">{fmt(v.marginPractice, 6)}</td>
+                <td className="num text-right">{rho(v.marginPractice)}</td>
                 <td className="whitespace-pre-wrap">{v.marginPracticeRationale}</td>
               </tr>
               <tr>
                 <td>General estimation error</td>
-                <td className="num text-right">{fmt(v.marginGeneral, 6)}</td>
+                <td className="num text-right">{rho(v.marginGeneral)}</td>
                 <td className="whitespace-pre-wrap">{v.marginGeneralRationale}</td>
               </tr>
               <tr>
                 <td>Estimate plus margins</td>
-                <td className="num text-right">{fmt(v.conservativeValue, 6)}</td>
-                <td>Final value {fmt(v.finalValue, 6)}</td>
+                <td className="num text-right">{rho(v.conservativeValue)}</td>
+                <td>Final value {rho(v.finalValue)}</td>
               </tr>
             </tbody>
           </table>
+          </ScrollBox>
           <div className="mt-3 grid gap-3 md:grid-cols-2 text-sm">
             <div>
               <h3>Intended uses</h3>
@@ -175,7 +193,7 @@ export default async function VersionPage({
             </div>
           </div>
           <h3 className="mt-4 mb-1">People and dates</h3>
-          <dl className="grid grid-cols-[12rem_1fr] gap-x-4 gap-y-1 text-sm" data-testid="people-and-dates">
+          <dl className="grid gap-x-4 gap-y-1 text-sm sm:grid-cols-[12rem_minmax(0,1fr)]" data-testid="people-and-dates">
             <dt>Author</dt>
             <dd>
               {v.author?.name ?? '—'} <span className="text-[var(--color-muted)]">drafted {when(v.createdAt)}</span>
@@ -255,6 +273,7 @@ export default async function VersionPage({
             <span className="text-xs text-[var(--color-muted)]">Compare with another version: the “diff” links under Versions.</span>
           </div>
           {page.changesFromPrevious.length ? (
+            <ScrollBox label="Changes between versions">
             <table className="table" aria-label="Changes between versions">
               <thead>
                 <tr>
@@ -275,6 +294,7 @@ export default async function VersionPage({
                   ))}
               </tbody>
             </table>
+            </ScrollBox>
           ) : (
             <p className="text-sm">No content differs between the two versions.</p>
           )}
@@ -283,6 +303,7 @@ export default async function VersionPage({
 
       <section className="panel p-5">
         <h2 className="mb-2">Versions</h2>
+        <ScrollBox label="Versions">
         <table className="table" aria-label="Versions">
           <thead>
             <tr>
@@ -312,7 +333,7 @@ export default async function VersionPage({
                 <td>
                   <StatusBadge status={o.status} />
                 </td>
-                <td className="num text-right">{fmt(o.finalValue, 6)}</td>
+                <td className="num text-right">{rho(o.finalValue)}</td>
                 <td className="num">{o.effectiveDate}</td>
                 <td className="num">{o.reviewBy}</td>
                 <td>{o.author?.name ?? '—'}</td>
@@ -320,6 +341,7 @@ export default async function VersionPage({
             ))}
           </tbody>
         </table>
+        </ScrollBox>
       </section>
 
       {page.reviews.length ? (
@@ -362,7 +384,7 @@ export default async function VersionPage({
             </ul>
           </div>
         ) : null}
-        <div className="overflow-x-auto">
+        <ScrollBox label="Audit trail (scrolls sideways)">
           <table className="table" aria-label="Audit trail">
             <thead>
               <tr>
@@ -395,9 +417,8 @@ export default async function VersionPage({
               ))}
             </tbody>
           </table>
-        </div>
+        </ScrollBox>
       </section>
-      <Cautions />
     </div>
   );
 }

@@ -4,7 +4,7 @@ import { datasetIdFrom } from '@/lib/http/route-params';
 import { AppError, errorResponse } from '@/lib/errors';
 import { findingsToCsv } from '@/lib/ingest/export';
 
-/** The validation report of the dataset's upload as CSV (line, column, rule, severity, value, message). */
+/** The data check report of the dataset's upload as CSV (line, column, rule, severity, value, message). */
 export async function GET(_req: Request, ctx: { params: Promise<{ id: string }> }) {
   try {
     const actor = await requireUser();

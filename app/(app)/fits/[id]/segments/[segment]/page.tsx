@@ -2,8 +2,8 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { z } from 'zod';
+import { Cautions } from '@/components/assumptions/cautions';
 import { FitProvenance, OldResultsNotice } from '@/components/fits/fit-provenance';
-import { ModelCautions } from '@/components/fits/model-cautions';
 import { SegmentEvidence } from '@/components/fits/review/segment-evidence';
 import { SegmentPager } from '@/components/fits/segment-pager';
 import { Breadcrumbs } from '@/components/layout/breadcrumbs';
@@ -80,13 +80,13 @@ export default async function SegmentReviewPage({ params }: Params) {
       </div>
       <SegmentPager fitId={fit.id} results={fit.results} current={name} />
       {'fit' in found ? (
-        <SegmentEvidence seg={found.fit} idPrefix="review" bootstrapRequested={!!fit.request.bootstrap} />
+        <SegmentEvidence seg={found.fit} idPrefix="review" bootstrapRequested={!!fit.request.bootstrap} fitId={fit.id} />
       ) : (
         <section className="panel notice-caution p-4" data-testid="segment-failed">
           <p className="text-sm">This segment was not fitted: {found.failure.reason} The other segments of this run were fitted as usual.</p>
         </section>
       )}
-      <ModelCautions />
+      <Cautions title="These numbers support a judgement: read them with care." />
     </div>
   );
 }

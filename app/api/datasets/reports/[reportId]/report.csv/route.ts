@@ -4,7 +4,7 @@ import { reportIdFrom } from '@/lib/http/route-params';
 import { errorResponse } from '@/lib/errors';
 import { findingsToCsv } from '@/lib/ingest/export';
 
-/** An upload's validation report as CSV; text from the file is neutralised against spreadsheet formulas. */
+/** An upload's data check report as CSV; text from the file is neutralised against spreadsheet formulas. */
 export async function GET(_req: Request, ctx: { params: Promise<{ reportId: string }> }) {
   try {
     const actor = await requireUser();
