@@ -23,7 +23,7 @@ function nextSteps(role: Role): NextStep[] {
       ];
     case 'validator':
       return [
-        { text: 'Review submitted assumptions: intervals, diagnostics, backtest and the estimator audit.', href: '/queue' },
+        { text: 'Review submitted assumptions: intervals, diagnostics, backtest and the small-sample simulation study.', href: '/queue' },
         { text: 'Run your own fits to challenge a draft; request changes, reject or approve.', href: '/fits/new' },
         { text: 'You cannot approve a version you drafted or edited: the system refuses it.' },
       ];

@@ -83,7 +83,7 @@ export function buildFitReport(input: { fit: FitDto; dataset: DatasetFacts; find
             ['Window', window],
             ['Interval level', levelText(r.level)],
             ['Bootstrap', r.bootstrap ? `${r.bootstrap.replications} replications, seed ${r.bootstrap.seed}` : 'not requested'],
-            ['Estimator audit', r.audit ? `${r.audit.replications} panels, seed ${r.audit.seed}` : 'not requested'],
+            ['Small-sample simulation study', r.audit ? `${r.audit.replications} panels, seed ${r.audit.seed}` : 'not requested'],
             ['Requested by', `${fit.createdBy}, ${fit.createdAt.slice(0, 10)}`],
             ['Status', fit.status],
           ],

@@ -105,7 +105,7 @@ export function stabilitySentences(seg: FitSegmentResult): string[] {
 
 export function auditBlocks(seg: FitSegmentResult): Block[] {
   const a = seg.estimatorAudit;
-  if (!a) return [{ kind: 'p', text: 'No estimator audit was requested for this fit.' }];
+  if (!a) return [{ kind: 'p', text: 'No small-sample simulation study was requested for this fit.' }];
   const rows = Object.entries(a.estimators).map(([k, e]) => [
     estimatorLabel(k),
     fixed(e.bias, 4),
@@ -118,7 +118,7 @@ export function auditBlocks(seg: FitSegmentResult): Block[] {
       kind: 'p',
       text: `${count(a.replications, 'panel')} simulated at the fitted values (PD ${pdText(a.truth.pd)}, rho ${rhoText(a.truth.rho)}) with this segment's cohorts and ${a.periods} years (seed ${a.seed}): how each estimator behaves on data like these.`,
     },
-    { kind: 'table', caption: 'Estimator audit', columns: ['Estimator', 'Bias', 'SD', 'RMSE', 'With a value'], rows, align: ['left', 'right', 'right', 'right', 'right'] },
+    { kind: 'table', caption: 'Small-sample simulation study', columns: ['Estimator', 'Bias', 'SD', 'RMSE', 'With a value'], rows, align: ['left', 'right', 'right', 'right', 'right'] },
     {
       kind: 'p',
       text: `Coverage of the ${fixed(a.coverage.profile.level * 100, 0)}% intervals: profile ${pct(a.coverage.profile.coverage)} (Monte Carlo s.e. ${pct(a.coverage.profile.mcse)}), Wald ${pct(a.coverage.wald.coverage)} (s.e. ${pct(a.coverage.wald.mcse)}).`,
@@ -180,6 +180,6 @@ export function segmentSections(seg: FitSegmentResult, opts: { level: 2 | 3 } = 
           },
         ]
       : []),
-    { heading: 'Estimator audit', level: opts.level, blocks: auditBlocks(seg) },
+    { heading: 'Small-sample simulation study', level: opts.level, blocks: auditBlocks(seg) },
   ];
 }
