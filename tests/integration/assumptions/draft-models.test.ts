@@ -111,7 +111,8 @@ describe('the model in the consumer API and the CSV export', () => {
       expect(a.model).toEqual({ copula: 'gaussian', factor });
     }
     const csv = await call(exportRoute.GET, { headers });
-    const lines = csv.text.replace(/^\uFEFF/, '').trim().split('\r\n');
+    // the cautions come first as '# ' lines; the header is the first line after them
+    const lines = csv.text.replace(/^\uFEFF/, '').trim().split('\r\n').filter((l) => !l.startsWith('# '));
     const header = lines[0].split(',');
     const row = lines.find((l) => l.startsWith(name('ar1Mle published')))!.split(',');
     expect(row[header.indexOf('estimator')]).toBe('ar1Mle');

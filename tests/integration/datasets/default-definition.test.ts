@@ -91,7 +91,8 @@ describe('the definition of default from the upload to the API', () => {
     expect(a.cautions[0]).toMatch(/^The data behind this value mix definitions of default across the years/);
     expect(res.body.cautions as string[]).toContain(a.cautions[0]);
 
-    const csvRes = await call(exportRoute.GET, { url: 'http://127.0.0.1/api/v1/assumptions/export', headers: { authorization: `Bearer ${token}` } });
+    // without the cautions' '# ' lines above the header
+    const csvRes = await call(exportRoute.GET, { url: 'http://127.0.0.1/api/v1/assumptions/export?comments=0', headers: { authorization: `Bearer ${token}` } });
     const lines = csvRes.text.replace(/^\ufeff/, '').trim().split('\r\n');
     const header = lines[0].split(',');
     const col = header.indexOf('default_definition');

@@ -196,31 +196,6 @@ describe('cli main (in process): usage errors exit 2 with a sentence', () => {
   });
 });
 
-describe('cli fit: one failing segment does not sink the file', () => {
-  it('fits the other segments, reports the failed one in its place and exits with 3', async () => {
-    // Segment "Huge" has a cohort of 2e9 obligors, above the engine's checked range (refused with a
-    // sentence); "Panel A" is fixture panel A and "Panel B" panel B of tests/fixtures/cli/panels-ab.csv.
-    const base = (await import('node:fs')).readFileSync(CSV, 'utf8').trim().split('\n');
-    const rows = [base[0], ...base.slice(1).filter((l) => l.startsWith('Panel A'))];
-    for (let y = 2001; y <= 2010; y++) rows.push(`Huge,${y},2000000000,${20000000 + y}`);
-    rows.push(...base.slice(1).filter((l) => l.startsWith('Panel B')));
-    const file = tempCsv(rows.join('\n') + '\n');
-    const out: string[] = [];
-    const err: string[] = [];
-    const code = await main(['fit', file, '--json'], { out: (t) => out.push(t), err: (t) => err.push(t) });
-    expect(code).toBe(3);
-    const doc = JSON.parse(out.join('\n')) as FitDocument;
-    expect(doc.segments.map((s) => s.segment)).toEqual(['Panel A', 'Panel B']);
-    expect(doc.failures).toHaveLength(1);
-    expect(doc.failures[0]).toMatchObject({ segment: 'Huge', status: 'failed', position: 1 });
-    expect(doc.failures[0].reason).toMatch(/2000000000 obligors is more than the engine handles/);
-    expect(err.join('\n')).toMatch(/segment "Huge" was not fitted/);
-    const table: string[] = [];
-    expect(await main(['fit', file], { out: (t) => table.push(t), err: () => undefined })).toBe(3);
-    expect(table.join('\n')).toMatch(/Segment Panel A[\s\S]*Segment Huge: FAILED, not fitted[\s\S]*Segment Panel B/);
-  });
-});
-
 describe('cli fit --audit R', () => {
   it('runs the seeded estimator audit on the worker threads and gives the numbers of fitPanel in this thread', async () => {
     // reproducibility: replication r draws from deriveSeed(seed, r) whatever the split (DEVELOPERS.md)
