@@ -31,7 +31,9 @@ test("the review shows the models side by side and the stability across the wind
   // A wrong window length is refused before anything is sent.
   await page.getByLabel('Rolling window (years)').fill('2');
   await page.getByRole('button', { name: 'Start the fit' }).click();
-  await expect(page.locator('form').getByRole('alert')).toContainText('Rolling window: give a whole number of years from 3 to 50.');
+  // the refusal is said at the field, which is marked
+  await expect(page.getByLabel('Rolling window (years)')).toHaveAttribute('aria-invalid', 'true');
+  await expect(page.getByText('Give a whole number of years from 3 to 50 for the rolling window.')).toBeVisible();
   await page.getByLabel('Rolling window (years)').fill('8');
   await page.getByRole('button', { name: 'Start the fit' }).click();
 

@@ -128,7 +128,7 @@ test('draft, request changes, fix, approve; the scheduler publishes; a viewer se
   await expect(row).toContainText('published');
   await row.getByRole('link', { name: segment }).click();
   await expect(viewer.getByTestId('final-value')).toHaveText(published);
-  await expect(viewer.getByRole('region', { name: 'Cautions' })).toContainText('no tail dependence');
+  await expect(viewer.getByRole('region', { name: 'Cautions', exact: true })).toContainText('no tail dependence');
 
   for (const c of [analystCtx, validatorCtx, viewerCtx]) await c.close();
 });

@@ -30,7 +30,7 @@ test('the draft form shows every error beside its field, marked and focused, wit
   await expect(form.getByLabel('Estimator')).not.toContainText('vasicekMle');
   await expect(form.getByLabel('Interval').locator('option:checked')).toHaveText('profile likelihood');
   await expect(form.getByTestId('evidence-summary')).toContainText(/Estimate 0\.\d{4} by binomial-mixture maximum likelihood, PD \d+\.\d+%/);
-  await expect(form.getByRole('region', { name: 'Cautions' })).toContainText('does not replace the supervisory correlation in Pillar 1 own-funds requirements');
+  await expect(form.getByRole('region', { name: 'Cautions', exact: true })).toContainText('does not replace the supervisory correlation in Pillar 1 own-funds requirements');
 
   await form.getByLabel('Intended uses').fill('Economic capital.');
   await form.getByRole('button', { name: 'Save draft' }).click();
@@ -50,7 +50,7 @@ test('the draft form shows every error beside its field, marked and focused, wit
 test('the library: filters by segment, state and as-of date, readable names, one format, cautions beside the values', async ({ page }, testInfo) => {
   await signIn(page, 'viewer@fenmoor.example');
   await page.goto('/library');
-  await expect(page.getByRole('region', { name: 'Cautions' })).toContainText('Capital K shown beside a correlation is an illustration');
+  await expect(page.getByRole('region', { name: 'Cautions', exact: true })).toContainText('Capital K shown beside a correlation is an illustration');
   const sme = page.getByTestId('library-row-SME term loans');
   await expect(sme.getByTestId('library-value')).toHaveText(/^0\.\d{4}$/);
   await expect(sme).toContainText('Binomial-mixture maximum likelihood');
@@ -79,7 +79,7 @@ test('the library: filters by segment, state and as-of date, readable names, one
   await sme.getByRole('link', { name: 'SME term loans' }).click();
   await expect(page.getByRole('navigation', { name: 'Breadcrumb' })).toContainText(/Library\/SME term loans · version \d+/);
   await expect(page.getByTestId('final-value')).toHaveText(/^0\.\d{4}$/);
-  await expect(page.getByRole('region', { name: 'Cautions' })).toContainText("Rhobook does not replace independent validation, the institution's model-risk policy");
+  await expect(page.getByRole('region', { name: 'Cautions', exact: true })).toContainText("Rhobook does not replace independent validation, the institution's model-risk policy");
   await expect(page.getByText(/by binomial-mixture maximum likelihood, 95% profile likelihood interval \[0\.\d{4}, 0\.\d{4}\]/)).toBeVisible();
   await expect(page.getByTestId('version-evidence').getByTestId('segment-summary')).toBeVisible();
   await keepScreenshot(page, testInfo, 'version', { narrow: true });
@@ -130,7 +130,7 @@ test('Compare offers only runs that share a segment, says why others are greyed 
   await expect(table).toContainText('Binomial-mixture maximum likelihood');
   await expect(table.getByTestId('capital-convention').first()).toHaveText(/^LGD 45\.0%, (no maturity adjustment|maturity \d+ years)$/);
   await expect(table).not.toContainText('zero-default-periods');
-  await expect(page.getByRole('region', { name: 'Cautions' })).toContainText('not regulatory capital');
+  await expect(page.getByRole('region', { name: 'Cautions', exact: true })).toContainText('not regulatory capital');
   await keepScreenshot(page, testInfo, 'compare', { narrow: true });
 });
 
