@@ -8,9 +8,20 @@ import { SegmentSummary } from './summary';
  * sections (sticky on wide screens, a row of links on narrow ones) and the sections themselves.
  * Used by a fit's segment page and, frozen, by an assumption version's page.
  */
-export function SegmentEvidence({ seg, idPrefix, bootstrapRequested }: { seg: FitSegmentResult; idPrefix: string; bootstrapRequested: boolean }) {
-  const ctx = { seg, idPrefix, bootstrapRequested };
-  const sections = REVIEW_SECTIONS.filter((s) => !s.applies || s.applies(seg));
+export function SegmentEvidence({
+  seg,
+  idPrefix,
+  bootstrapRequested,
+  lowDefaultThreshold,
+}: {
+  seg: FitSegmentResult;
+  idPrefix: string;
+  bootstrapRequested: boolean;
+  /** The setting LOW_DEFAULT_THRESHOLD (lib/env.ts), read by the page. */
+  lowDefaultThreshold: number;
+}) {
+  const ctx = { seg, idPrefix, bootstrapRequested, lowDefaultThreshold };
+  const sections = REVIEW_SECTIONS.filter((s) => !s.applies || s.applies(ctx));
   return (
     <div className="grid gap-4 lg:grid-cols-[13rem_minmax(0,1fr)]" data-testid="segment-review">
       <nav aria-label="Sections of this review" className="lg:sticky lg:top-4 lg:self-start">

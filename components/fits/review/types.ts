@@ -7,6 +7,8 @@ export type ReviewContext = {
   idPrefix: string;
   /** Whether the fit asked for the parametric bootstrap (an absent bootstrap interval then needs a reason). */
   bootstrapRequested: boolean;
+  /** Total defaults below which the review leads with the posterior (the setting LOW_DEFAULT_THRESHOLD). */
+  lowDefaultThreshold: number;
 };
 
 /**
@@ -17,5 +19,5 @@ export type ReviewSection = {
   id: string;
   title: string;
   Component: (props: ReviewContext) => React.ReactNode;
-  applies?: (seg: FitSegmentResult) => boolean;
+  applies?: (ctx: ReviewContext) => boolean;
 };

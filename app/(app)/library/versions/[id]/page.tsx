@@ -11,6 +11,7 @@ import { can, roleLabels } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { getVersionPage } from '@/lib/dal/assumptions';
 import { getFitSegment } from '@/lib/dal/fits';
+import { lowDefaultThreshold } from '@/lib/env';
 import { AppError } from '@/lib/errors';
 
 export const metadata: Metadata = { title: 'Assumption' };
@@ -195,7 +196,7 @@ export default async function VersionPage({
         </div>
       </section>
 
-      <VersionEvidence evidence={evidence} segment={v.segment} />
+      <VersionEvidence evidence={evidence} segment={v.segment} lowDefaultThreshold={lowDefaultThreshold()} />
 
       {page.changesFromPrevious && page.comparedWith ? (
         <section className="panel p-5" aria-labelledby="diff-heading">
