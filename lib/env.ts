@@ -47,6 +47,16 @@ const envSchema = z.object({
   SCHEDULER_INTERVAL_SECONDS: z.coerce.number().int().min(1).max(3600).default(60),
   /** Largest JSON request body (lib/auth/same-origin.ts readJsonBody); larger ones are answered 413. */
   JSON_BODY_MAX_BYTES: z.coerce.number().int().min(1024).default(1024 * 1024),
+  /**
+   * Total defaults over a segment's window below which a fit's review says the likelihood estimate
+   * is not informative and leads with the posterior of rho. The default is lib/stats/low-default.ts's
+   * LOW_DEFAULT_THRESHOLD (not imported: this module is loaded everywhere, the engine need not be).
+   */
+  LOW_DEFAULT_THRESHOLD: z.coerce
+    .number({ message: 'LOW_DEFAULT_THRESHOLD must be a whole number of defaults, such as 20' })
+    .int('LOW_DEFAULT_THRESHOLD must be a whole number of defaults, such as 20')
+    .min(1, 'LOW_DEFAULT_THRESHOLD must be at least 1 (a count of defaults)')
+    .default(20),
   SMTP_URL: z.string().optional(),
   MAIL_FROM: z.string().default('Rhobook <rhobook@fenmoor.example>'),
 });
@@ -55,16 +65,24 @@ export type Env = z.infer<typeof envSchema>;
 
 let cached: Env | undefined;
 
-export function env(): Env {
-  if (!cached) {
-    const parsed = envSchema.safeParse(process.env);
-    if (!parsed.success) {
-      const detail = parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ');
-      throw new Error(`Invalid environment configuration: ${detail}`);
-    }
-    cached = parsed.data;
+/** Validates a set of environment variables (process.env by default); the error names each bad variable. */
+export function parseEnv(source: Record<string, string | undefined> = process.env): Env {
+  const parsed = envSchema.safeParse(source);
+  if (!parsed.success) {
+    const detail = parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ');
+    throw new Error(`Invalid environment configuration: ${detail}`);
   }
+  return parsed.data;
+}
+
+export function env(): Env {
+  if (!cached) cached = parseEnv(process.env);
   return cached;
+}
+
+/** Total defaults below which a fit's review leads with the posterior (LOW_DEFAULT_THRESHOLD). */
+export function lowDefaultThreshold(): number {
+  return env().LOW_DEFAULT_THRESHOLD;
 }
 
 /** The reading limits of an upload (lib/ingest's ReadOptions), from the configuration. */

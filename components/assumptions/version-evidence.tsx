@@ -10,9 +10,12 @@ import { segmentHref } from '@/lib/fits/results';
 export function VersionEvidence({
   evidence,
   segment,
+  lowDefaultThreshold,
 }: {
   evidence: { fitId: number; bootstrapRequested: boolean; segment: FitSegmentResult } | null;
   segment: string;
+  /** The setting LOW_DEFAULT_THRESHOLD (lib/env.ts), read by the page. */
+  lowDefaultThreshold: number;
 }) {
   return (
     <section className="space-y-3" aria-labelledby="evidence-heading" data-testid="version-evidence">
@@ -29,7 +32,7 @@ export function VersionEvidence({
           )}
         </p>
       </div>
-      {evidence ? <SegmentEvidence seg={evidence.segment} idPrefix="evidence" bootstrapRequested={evidence.bootstrapRequested} fitId={evidence.fitId} /> : null}
+      {evidence ? <SegmentEvidence seg={evidence.segment} idPrefix="evidence" bootstrapRequested={evidence.bootstrapRequested} fitId={evidence.fitId} lowDefaultThreshold={lowDefaultThreshold} /> : null}
     </section>
   );
 }

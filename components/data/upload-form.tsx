@@ -16,10 +16,18 @@ import { ReportTable } from './report-table';
 
 type Kind = 'cohort' | 'vintage' | 'loans';
 
-const kinds: { value: Kind; label: string; columns: string; sample: string }[] = [
-  { value: 'cohort', label: 'Cohort counts', columns: 'segment, period, obligors, defaults (optional default_definition, note, grade: each grade becomes the panel "segment / grade")', sample: '/samples/cohort.csv' },
-  { value: 'vintage', label: 'Vintages', columns: 'segment, vintage (YYYY-MM), months_on_book, active, defaults', sample: '/samples/vintage.csv' },
-  { value: 'loans', label: 'Loan-level tape', columns: 'loan_id, segment, start_date, default_date, exit_date (YYYY-MM-DD)', sample: '/samples/loans.csv' },
+const kinds: { value: Kind; label: string; columns: string; samples: { href: string; label: string }[] }[] = [
+  {
+    value: 'cohort',
+    label: 'Cohort counts',
+    columns: 'segment, period, obligors, defaults (optional default_definition, note, grade: each grade becomes the panel "segment / grade")',
+    samples: [
+      { href: '/samples/cohort.csv', label: 'Sample cohort file' },
+      { href: '/samples/cohort-grades.csv', label: 'Sample with grades (five grades of one portfolio)' },
+    ],
+  },
+  { value: 'vintage', label: 'Vintages', columns: 'segment, vintage (YYYY-MM), months_on_book, active, defaults', samples: [{ href: '/samples/vintage.csv', label: 'Sample vintage file' }] },
+  { value: 'loans', label: 'Loan-level tape', columns: 'loan_id, segment, start_date, default_date, exit_date (YYYY-MM-DD)', samples: [{ href: '/samples/loans.csv', label: 'Sample loans file' }] },
 ];
 
 type Outcome =
@@ -110,9 +118,11 @@ export function UploadForm({ supersedable }: { supersedable: { id: number; name:
                   {k.label}
                 </span>
                 <span className="mt-1 block text-xs text-[var(--color-muted)]">{k.columns}</span>
-                <a href={k.sample} download className="mt-1 inline-block text-xs">
-                  Sample {k.value} file
-                </a>
+                {k.samples.map((sample) => (
+                  <a key={sample.href} href={sample.href} download className="mt-1 block text-xs">
+                    {sample.label}
+                  </a>
+                ))}
               </label>
             ))}
           </div>

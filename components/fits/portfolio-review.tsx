@@ -8,7 +8,7 @@ import { toCsv } from '@/lib/csv';
 import type { FactorCorrelationMatrix } from '@/lib/stats/factor-correlation-matrix';
 import type { GradeAuditSummary } from '@/lib/stats/grade-audit';
 import type { GradeFit } from '@/lib/stats/grade-fit';
-import { LOW_DEFAULT_THRESHOLD, type PosteriorBlock, type PrudentPdBlock } from '@/lib/stats/low-default';
+import type { PosteriorBlock, PrudentPdBlock } from '@/lib/stats/low-default';
 
 const pct = (v: number | null | undefined, digits = 3) => (v === null || v === undefined ? '–' : `${(100 * v).toFixed(digits)}%`);
 const num = (v: number | null | undefined, digits = 3) => (v === null || v === undefined ? '–' : v.toFixed(digits));
@@ -194,9 +194,6 @@ export function PairMatrix({ pairs, fitId }: { pairs: FactorCorrelationMatrix; f
   );
 }
 
-/** Total defaults below which the review leads with the posterior (lib/stats/low-default.ts). */
-export const LOW_DEFAULT_SETTING = LOW_DEFAULT_THRESHOLD;
-
 function DensityChart({ density }: { density: { rho: number; posterior: number; prior: number }[] }) {
   const W = 420;
   const H = 140;
@@ -220,14 +217,14 @@ function DensityChart({ density }: { density: { rho: number; posterior: number; 
 
 /**
  * A segment's posterior of rho (and p) with the prior drawn beside it, and its most prudent PD.
- * `leads` when the segment has fewer defaults than the setting: the review then says the
- * likelihood estimate is not informative.
+ * `leads` when the segment has fewer defaults than `setting` (LOW_DEFAULT_THRESHOLD, lib/env.ts):
+ * the review then says the likelihood estimate is not informative. Either way it names the setting.
  */
-export function PosteriorSection({ posterior, prudentPd, totalDefaults, setting = LOW_DEFAULT_SETTING }: {
+export function PosteriorSection({ posterior, prudentPd, totalDefaults, setting }: {
   posterior?: PosteriorBlock;
   prudentPd?: PrudentPdBlock;
   totalDefaults: number;
-  setting?: number;
+  setting: number;
 }) {
   const leads = totalDefaults < setting;
   if (!posterior && !prudentPd) return null;
@@ -235,10 +232,14 @@ export function PosteriorSection({ posterior, prudentPd, totalDefaults, setting 
     <div className="space-y-2" data-testid="posterior-section">
       {leads ? (
         <p className="notice-caution text-sm" data-testid="low-default-notice">
-          With {totalDefaults} default{totalDefaults === 1 ? '' : 's'} in total (fewer than {setting}), the likelihood estimate is not informative: read the
+          With {totalDefaults} default{totalDefaults === 1 ? '' : 's'} in total (fewer than {setting}, the setting LOW_DEFAULT_THRESHOLD), the likelihood estimate is not informative: read the
           posterior, and its dependence on the prior, first.
         </p>
-      ) : null}
+      ) : (
+        <p className="text-sm text-[var(--color-muted)]" data-testid="low-default-setting">
+          With {totalDefaults} defaults in total the likelihood estimate leads; below {setting} (the setting LOW_DEFAULT_THRESHOLD) the posterior would.
+        </p>
+      )}
       {posterior?.status === 'ok' ? (
         <>
           <p className="text-sm">

@@ -2,12 +2,12 @@
  * The units of work the engine's worker threads run: a slice [from, to) of the replications of a
  * parametric bootstrap (binomialMle's or a moment estimator's), of the break test's bootstrap or of
  * an estimator audit (a segment's or a grade model's), or of the pairs of a factor-correlation
- * matrix. A task is plain data (structured-clone safe) and runTask is the only code that
+ * matrix (and, before them, the margins the pairs share). A task is plain data (structured-clone safe) and runTask is the only code that
  * executes it, in a worker thread or in the calling thread alike, so every split of the index
  * range gives the same numbers.
  */
 import { auditRange, type AuditReplication, type AuditSpec } from '../stats/audit';
-import { factorCorrelation, type FactorCorrelation, type PairSegmentInput } from '../stats/factor-correlation';
+import { factorCorrelation, pairMargin, type FactorCorrelation, type PairMargin, type PairSegmentInput } from '../stats/factor-correlation';
 import { gradeAuditRange, type GradeAuditReplication, type GradeAuditSpec } from '../stats/grade-audit';
 import { bootstrapRange, type BootstrapReplication, type BootstrapSpec } from '../stats/intervals/bootstrap';
 import { momentBootstrapRange, type MomentBootstrapReplication, type MomentBootstrapSpec } from '../stats/intervals/moment-bootstrap';
@@ -39,6 +39,17 @@ export interface PairsTask {
   level: number;
   from: number;
   to: number;
+  /** Each pair's two margins when computed beforehand (a 'margins' task), by pair index. */
+  margins?: (readonly [PairMargin, PairMargin] | null)[];
+}
+
+/** The margins (binomialMle on a window) of the items from .. to - 1: segment index and the window's years. */
+export interface MarginsTask {
+  kind: 'margins';
+  segments: PairSegmentInput[];
+  items: { segment: number; periods: string[] }[];
+  from: number;
+  to: number;
 }
 
 /** Moment-bootstrap replications from .. to - 1 of one spec (lib/stats/intervals/moment-bootstrap.ts). */
@@ -65,7 +76,7 @@ export interface BreakTestTask {
   to: number;
 }
 
-export type EngineTask = BootstrapTask | AuditTask | PairsTask | GradeAuditTask | MomentBootstrapTask | BreakTestTask;
+export type EngineTask = BootstrapTask | AuditTask | PairsTask | MarginsTask | GradeAuditTask | MomentBootstrapTask | BreakTestTask;
 
 export interface BootstrapTaskResult {
   kind: 'bootstrap';
@@ -80,6 +91,11 @@ export interface AuditTaskResult {
 export interface PairsTaskResult {
   kind: 'pairs';
   entries: FactorCorrelation[];
+}
+
+export interface MarginsTaskResult {
+  kind: 'margins';
+  margins: PairMargin[];
 }
 
 export interface GradeAuditTaskResult {
@@ -101,6 +117,7 @@ export type EngineTaskResult =
   | BootstrapTaskResult
   | AuditTaskResult
   | PairsTaskResult
+  | MarginsTaskResult
   | GradeAuditTaskResult
   | MomentBootstrapTaskResult
   | BreakTestTaskResult;
@@ -121,10 +138,23 @@ export function runTask(task: EngineTask, onItem?: () => void): EngineTaskResult
       const entries: FactorCorrelation[] = [];
       for (let i = task.from; i < task.to; i++) {
         const [a, b] = task.pairs[i];
-        entries.push(factorCorrelation(task.segments[a], task.segments[b], { level: task.level }));
+        const margins = task.margins?.[i];
+        entries.push(factorCorrelation(task.segments[a], task.segments[b], { level: task.level, ...(margins ? { margins: { a: margins[0], b: margins[1] } } : {}) }));
         onItem?.();
       }
       return { kind: 'pairs', entries };
+    }
+    case 'margins': {
+      const margins: PairMargin[] = [];
+      for (let i = task.from; i < task.to; i++) {
+        const { segment, periods } = task.items[i];
+        const s = task.segments[segment];
+        const at = new Map(s.periods.map((p, t) => [String(p), t]));
+        const rows = periods.map((p) => at.get(p)!);
+        margins.push(pairMargin(s.segment, { obligors: rows.map((t) => s.obligors[t]), defaults: rows.map((t) => s.defaults[t]) }, periods));
+        onItem?.();
+      }
+      return { kind: 'margins', margins };
     }
     case 'grade-audit':
       return { kind: 'grade-audit', replications: gradeAuditRange(task.spec, task.from, task.to, onItem && (() => onItem())) };

@@ -4,8 +4,9 @@
  * estimates do not form a positive semi-definite matrix.
  */
 import { crossSegmentDefault, type CrossSegmentDefault } from './cross-segment-default';
-import { factorCorrelation, type FactorCorrelation, type PairSegmentInput } from './factor-correlation';
+import { commonWindow, factorCorrelation, pairMargin, type FactorCorrelation, type PairMargin, type PairSegmentInput } from './factor-correlation';
 import { nearestCorrelation } from './nearest-correlation';
+import type { Panel } from './panel';
 
 /** One pair with what two of its obligors' joint default looks like at the fitted values. */
 export type PairEntry = FactorCorrelation & { obligors: CrossSegmentDefault | null };
@@ -27,6 +28,11 @@ export interface FactorCorrelationMatrix {
 
 /** Most segments in one matrix (45 pairs at 10; each pair is a two-dimensional likelihood). */
 export const MAX_MATRIX_SEGMENTS = 20;
+
+/** The key of segment k's margin on a window: the same segment over the same years has one margin. */
+export function marginKey(k: number, periods: readonly string[]): string {
+  return `${k}|${periods.join(',')}`;
+}
 
 /** The index pairs (i < j) of n segments, in row order: the work items of a matrix. */
 export function pairIndices(n: number): [number, number][] {
@@ -99,7 +105,8 @@ export function assembleFactorCorrelationMatrix(segments: readonly string[], ent
 
 /**
  * Every pair of `inputs` by factorCorrelation in this thread, assembled (the engine spreads the
- * pairs over worker threads instead and assembles them the same way).
+ * pairs over worker threads instead and assembles them the same way). Each segment's margin on a
+ * window is computed once and shared by the pairs over that window.
  *
  * Special cases: fewer than 2 or more than MAX_MATRIX_SEGMENTS segments, or a name given twice,
  * throw RangeError with a sentence.
@@ -111,6 +118,20 @@ export function factorCorrelationMatrix(inputs: readonly PairSegmentInput[], opt
   if (inputs.length > MAX_MATRIX_SEGMENTS) throw new RangeError(`factorCorrelationMatrix: at most ${MAX_MATRIX_SEGMENTS} segments; got ${inputs.length}.`);
   const names = inputs.map((i) => i.segment);
   if (new Set(names).size !== names.length) throw new RangeError('factorCorrelationMatrix: each segment may be given only once.');
-  const entries = pairIndices(inputs.length).map(([i, j]) => factorCorrelation(inputs[i], inputs[j], options));
+  const margins = new Map<string, PairMargin>();
+  const entries = pairIndices(inputs.length).map(([i, j]) => {
+    const w = commonWindow(inputs[i], inputs[j]);
+    if (w.periods.length < 3) return factorCorrelation(inputs[i], inputs[j], options);
+    const margin = (k: number, panel: Panel): PairMargin => {
+      const key = marginKey(k, w.periods);
+      let m = margins.get(key);
+      if (m === undefined) {
+        m = pairMargin(inputs[k].segment, panel, w.periods);
+        margins.set(key, m);
+      }
+      return m;
+    };
+    return factorCorrelation(inputs[i], inputs[j], { ...options, margins: { a: margin(i, w.a), b: margin(j, w.b) } });
+  });
   return assembleFactorCorrelationMatrix(names, entries);
 }

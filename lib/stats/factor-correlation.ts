@@ -78,6 +78,60 @@ function pearson(x: readonly number[], y: readonly number[]): number | null {
   return sxx > 0 && syy > 0 ? sxy / Math.sqrt(sxx * syy) : null;
 }
 
+/** A segment's (p, rho) on a pair's window, or the sentence saying why it has none. */
+export type PairMargin = { pd: number; rho: number } | string;
+
+/**
+ * The margin of one segment of a pair: its own binomialMle on the pair's common window
+ * (`periods`, the years of `panel`), or why it cannot enter a pair (no likelihood estimate, or
+ * rho = 0). The same for every pair over that window, so a matrix computes it once.
+ *
+ * @example pairMargin('Retail', { obligors: [1000, 1050, 1100], defaults: [8, 12, 25] }, ['2021', '2022', '2023'])
+ */
+export function pairMargin(name: string, panel: Panel, periods: readonly string[]): PairMargin {
+  const m = binomialMle(panel);
+  if (m.rho === null || m.pd === null || m.status === 'not-converged') {
+    return `${name} has no likelihood estimate on ${periods[0]}-${periods.at(-1)} (${m.reason ?? m.status}), so its factor cannot be correlated with another`;
+  }
+  if (m.rho === 0) return `${name}'s own correlation is 0 on ${periods[0]}-${periods.at(-1)}: its factor does not move its defaults, so no correlation with another factor can be seen`;
+  return { pd: m.pd, rho: m.rho };
+}
+
+/** r clipped to [-R_LIMIT, R_LIMIT]. */
+function clampCorrelation(r: number): number {
+  return Math.max(-R_LIMIT, Math.min(R_LIMIT, r));
+}
+
+/**
+ * The maximiser of l(r) on [-1, 1]: from the moment version (clipped to +-0.9, else 0) steps
+ * toward the sign of the slope (0.25, or up to 0.5 when the secant of the slope puts its root
+ * further) until the slope changes sign, then Brent's root of the slope (tolerance
+ * 1e-7); a slope that keeps its sign to +-0.999 puts the maximum on the bound.
+ */
+function maximiseCorrelation(L: PairLikelihood, moment: number | null): { r: number; atBound: boolean; converged: boolean } {
+  let r0 = moment === null ? 0 : Math.max(-0.9, Math.min(0.9, moment));
+  let q0 = L.logLikWithSlope(r0);
+  if (q0.slope === 0) return { r: r0, atBound: false, converged: true };
+  const direction = q0.slope > 0 ? 1 : -1;
+  let step = 0.25;
+  for (;;) {
+    const r1 = clampCorrelation(r0 + step * direction);
+    const q1 = L.logLikWithSlope(r1);
+    if (Math.sign(q1.slope) !== direction || q1.slope === 0) {
+      const [lo, hi] = direction > 0 ? [r0, r1] : [r1, r0];
+      const root = brentRoot((r) => L.logLikWithSlope(r).slope, lo, hi, { tolerance: 1e-7 });
+      return { r: root.value, atBound: false, converged: root.converged };
+    }
+    if (Math.abs(r1) >= R_LIMIT) return { r: direction, atBound: true, converged: true };
+    // The secant of the slope predicts its root; go a little beyond it.
+    const shrinking = Math.abs(q1.slope) < Math.abs(q0.slope);
+    const distance = shrinking ? Math.abs((q1.slope * (r1 - r0)) / (q0.slope - q1.slope)) : Number.POSITIVE_INFINITY;
+    step = Math.min(0.5, Math.max(0.25, 1.5 * distance));
+    r0 = r1;
+    q0 = q1;
+  }
+}
+
 /** Restricts two segments to the years both have, in increasing order. */
 export function commonWindow(a: PairSegmentInput, b: PairSegmentInput): { periods: string[]; a: Panel; b: Panel } {
   const inB = new Map(b.periods.map((p, t) => [String(p), t]));
@@ -99,12 +153,14 @@ export function commonWindow(a: PairSegmentInput, b: PairSegmentInput): { period
  * estimate, Joe 2005), then r maximises l(r) (pair-likelihood.ts) on [-1, 1].
  *
  * Method: start at the moment version clipped to [-0.9, 0.9] (else 0); step toward the sign of
- * d l / d r by 0.25 (to +-0.999) until the slope changes sign; Brent's root of the slope in that
- * bracket (tolerance 1e-7). When the slope is still positive at 0.999 (negative at -0.999) the
- * maximum is on the boundary r = 1 (-1), reported as such. Interval: { r : l(r) >= l(r_hat) -
- * chi2_1(level) / 2 }, each end by safeguarded Newton with the exact slope inside (-0.999, 0.999)
- * and Brent's method between 0.999 and the exactly computed end r = +-1; an end that reaches the
- * bound is the bound. The moment version is Pearson's correlation of the implied factor series
+ * d l / d r by 0.25 to 0.5 (to +-0.999) until the slope changes sign; Brent's root of the slope in
+ * that bracket (tolerance 1e-7). When the slope is still positive at 0.999 (negative at -0.999)
+ * the maximum is on the boundary r = 1 (-1), reported as such. Interval: { r : l(r) >= l(r_hat) -
+ * chi2_1(level) / 2 }; each end is first guessed from the quadratic approximation of l at r_hat
+ * (its curvature from the slopes of the last steps), then found by safeguarded Newton with the
+ * exact slope inside (-0.999, 0.999) and Brent's method between 0.999 and the exactly computed
+ * end r = +-1; an end that reaches the bound is the bound. Every l(r) is evaluated once
+ * (PairLikelihood remembers the last ones). The moment version is Pearson's correlation of the implied factor series
  * (DESIGN.md) at each segment's own estimate.
  *
  * Special cases (status `undefined` with a sentence, never NaN): fewer than 3 common years; a
@@ -120,7 +176,7 @@ export function commonWindow(a: PairSegmentInput, b: PairSegmentInput): { period
 export function factorCorrelation(
   segmentA: PairSegmentInput,
   segmentB: PairSegmentInput,
-  options: { level?: number; margins?: { a: { pd: number; rho: number }; b: { pd: number; rho: number } } } = {},
+  options: { level?: number; margins?: { a: PairMargin; b: PairMargin } } = {},
 ): FactorCorrelation {
   const level = options.level ?? 0.95;
   if (!(level > 0 && level < 1)) throw new RangeError(`factorCorrelation: the level must be strictly between 0 and 1; got ${level}.`);
@@ -141,16 +197,8 @@ export function factorCorrelation(
   if (window.periods.length < 3) {
     return { ...base, reason: `${segmentA.segment} and ${segmentB.segment} have ${window.periods.length} year${window.periods.length === 1 ? '' : 's'} in common; a factor correlation needs at least 3.` };
   }
-  const margin = (name: string, panel: Panel): { pd: number; rho: number } | string => {
-    const m = binomialMle(panel);
-    if (m.rho === null || m.pd === null || m.status === 'not-converged') {
-      return `${name} has no likelihood estimate on ${window.periods[0]}-${window.periods.at(-1)} (${m.reason ?? m.status}), so its factor cannot be correlated with another`;
-    }
-    if (m.rho === 0) return `${name}'s own correlation is 0 on ${window.periods[0]}-${window.periods.at(-1)}: its factor does not move its defaults, so no correlation with another factor can be seen`;
-    return { pd: m.pd, rho: m.rho };
-  };
-  const ma = options.margins?.a ?? margin(segmentA.segment, window.a);
-  const mb = options.margins?.b ?? margin(segmentB.segment, window.b);
+  const ma = options.margins?.a ?? pairMargin(segmentA.segment, window.a, window.periods);
+  const mb = options.margins?.b ?? pairMargin(segmentB.segment, window.b, window.periods);
   if (typeof ma === 'string' || typeof mb === 'string') {
     const reasons = [ma, mb].filter((x): x is string => typeof x === 'string');
     return {
@@ -170,58 +218,49 @@ export function factorCorrelation(
   }
   try {
     const L = new PairLikelihood(window.a, window.b, ma, mb);
-    let converged = true;
-    // Bracket the maximum by the slope's sign.
-    let r0 = base.moment === null ? 0 : Math.max(-0.9, Math.min(0.9, base.moment));
-    let q0 = L.logLikWithSlope(r0);
-    const direction = q0.slope >= 0 ? 1 : -1;
-    let rHat: number;
-    let atBound = false;
-    for (;;) {
-      const r1 = Math.max(-R_LIMIT, Math.min(R_LIMIT, r0 + 0.25 * direction));
-      const q1 = L.logLikWithSlope(r1);
-      if (Math.sign(q1.slope) !== direction || q1.slope === 0) {
-        const [lo, hi] = direction > 0 ? [r0, r1] : [r1, r0];
-        const root = brentRoot((r) => L.logLikWithSlope(r).slope, lo, hi, { tolerance: 1e-7 });
-        rHat = root.value;
-        converged &&= root.converged;
-        break;
-      }
-      if (Math.abs(r1) >= R_LIMIT) {
-        rHat = direction;
-        atBound = true;
-        break;
-      }
-      r0 = r1;
-      q0 = q1;
-    }
+    const found = maximiseCorrelation(L, base.moment);
+    let converged = found.converged;
+    const rHat = found.r;
+    const atBound = found.atBound;
     const logLik = L.logLik(rHat);
     const cut = logLik - chiSquare1Quantile(level) / 2;
+    // The ends are searched in Fisher's z = atanh(r), where l is closer to a parabola; the
+    // quadratic approximation of l at its maximum (curvature from the slopes of the last steps)
+    // gives the first guess of each.
+    const zHat = Math.atanh(rHat);
+    const curvature = atBound ? Number.NaN : L.curvatureNear(rHat) * (1 - rHat * rHat) ** 2;
+    const halfWidth = curvature < 0 ? Math.sqrt((2 * (logLik - cut)) / -curvature) : 0.2;
+    const zLimit = Math.atanh(R_LIMIT);
     const end = (side: 1 | -1): number => {
       if (atBound && rHat === side) return side;
-      const g = (r: number) => {
+      const g = (z: number) => {
+        const r = Math.tanh(z);
         const q = L.logLikWithSlope(r);
-        return { f: q.value - cut, df: q.slope };
+        return { f: q.value - cut, df: q.slope * (1 - r) * (1 + r) };
       };
-      let inside = rHat;
+      let inside = zHat;
       let fInside = logLik - cut;
-      for (let step = 0.1; ; step *= 2) {
-        const r = Math.abs(inside + side * step) >= R_LIMIT ? side * R_LIMIT : inside + side * step;
-        const q = g(r);
+      let z = Math.max(-zLimit, Math.min(zLimit, zHat + side * halfWidth));
+      for (let attempt = 0; attempt < 60; attempt++) {
+        const q = g(z);
         if (q.f < 0) {
-          const [lo, hi, flo, fhi] = side > 0 ? [inside, r, fInside, q.f] : [r, inside, q.f, fInside];
-          const root = safeguardedNewtonRoot(g, lo, hi, flo, fhi, { tolerance: 1e-7, start: r });
+          const [lo, hi, flo, fhi] = side > 0 ? [inside, z, fInside, q.f] : [z, inside, q.f, fInside];
+          const root = safeguardedNewtonRoot(g, lo, hi, flo, fhi, { tolerance: 1e-7, start: z });
           converged &&= root.converged;
-          return root.value;
+          return Math.tanh(root.value);
         }
-        inside = r;
+        inside = z;
         fInside = q.f;
-        if (Math.abs(r) >= R_LIMIT) break;
+        if (Math.abs(z) >= zLimit) break;
+        // Still above the cut: a Newton step, which on a concave l lands beyond the end.
+        const newton = q.df * side < 0 ? -q.f / q.df : Number.POSITIVE_INFINITY;
+        z = Math.max(-zLimit, Math.min(zLimit, z + side * Math.min(1, Math.max(0.05, Math.abs(newton)))));
       }
+      const inR = Math.tanh(inside);
       // Above the cut-off at +-0.999: the end lies between there and the bound, or is the bound.
       const atEnd = L.logLik(side) - cut;
       if (atEnd >= 0) return side;
-      const root = brentRoot((r) => L.logLik(r) - cut, Math.min(inside, side), Math.max(inside, side), { tolerance: 1e-9 });
+      const root = brentRoot((x) => L.logLik(x) - cut, Math.min(inR, side), Math.max(inR, side), { tolerance: 1e-9 });
       converged &&= root.converged;
       return root.value;
     };

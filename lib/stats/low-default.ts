@@ -11,7 +11,10 @@ import type { Panel } from './panel';
 import { prudentPd, type PrudentPd } from './prudent-pd';
 import { rhoPosterior, type RhoPosterior } from './rho-posterior';
 
-/** Total defaults below which the likelihood estimate is called not informative (a setting of the review). */
+/**
+ * Total defaults below which the likelihood estimate is called not informative: the default of the
+ * review's setting LOW_DEFAULT_THRESHOLD (lib/env.ts), which the deployment may change.
+ */
 export const LOW_DEFAULT_THRESHOLD = 20;
 
 /** The PD floor of the IRB approach, used for the supervisory correlation of a segment without defaults (BCBS 2006 para 285). */

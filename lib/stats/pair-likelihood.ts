@@ -20,11 +20,21 @@
  */
 import { GradeLikelihood } from './grade-likelihood';
 import { logBinomialCoefficient } from './log-binomial';
-import { LogConcaveIntegrator } from './log-concave-integral';
+import { LogConcaveIntegrator, type LogConcaveIntegral } from './log-concave-integral';
 import type { IntegrationReport } from './mixture-likelihood';
 import { normalQuantile } from './normal';
 import { PairYearIntegrand, PAIR_MOMENTS } from './pair-mixing';
 import { assertPanel, type Panel } from './panel';
+
+/** Largest interpolation error of a year's inner table (log-units) at the checks by the outer mode. */
+export const TABLE_TOLERANCE = 1e-10;
+/** Log-units below its maximum at which the outer integrand is cut (mass left out below e^-30 relative). */
+const OUTER_TRUNCATION = 30;
+/** Halvings of a year's table spacing before the year is integrated exactly. */
+const MAX_REFINEMENTS = 3;
+
+/** Evaluations of l(r) remembered. */
+const MEMO = 16;
 
 /** A segment's own estimate, held fixed in the pair likelihood. */
 export interface Margin {
@@ -56,11 +66,20 @@ export class PairLikelihood {
   private readonly hasMode: Uint8Array;
   private readonly panels: readonly [Panel, Panel];
   private readonly ends = new Map<number, GradeLikelihood>();
+  private readonly tabulate: boolean;
+  private readonly memoR = new Float64Array(MEMO).fill(Number.NaN);
+  private readonly memoValue = new Float64Array(MEMO);
+  private readonly memoSlope = new Float64Array(MEMO);
+  private memoNext = 0;
   evaluations = 0;
   unconverged = 0;
+  /** Halvings of a year's table spacing, and years integrated exactly after MAX_REFINEMENTS. */
+  refinements = 0;
+  exactYears = 0;
   private worstRelativeError = 0;
 
-  constructor(a: Panel, b: Panel, marginA: Margin, marginB: Margin) {
+  constructor(a: Panel, b: Panel, marginA: Margin, marginB: Margin, options: { tabulate?: boolean } = {}) {
+    this.tabulate = options.tabulate ?? true;
     assertPanel(a, 'PairLikelihood (first segment)');
     assertPanel(b, 'PairLikelihood (second segment)');
     if (a.obligors.length !== b.obligors.length) {
@@ -97,12 +116,42 @@ export class PairLikelihood {
   /** l(r), r in [-1, 1]. */
   logLik(r: number): number {
     if (r === 1 || r === -1) return this.atEnd(r);
-    return this.evaluate(r).value;
+    return this.logLikWithSlope(r).value;
   }
 
-  /** l(r) and d l / d r, |r| < 1. */
+  /** l(r) and d l / d r, |r| < 1. The last MEMO values are remembered (a search often asks again). */
   logLikWithSlope(r: number): { value: number; slope: number } {
-    return this.evaluate(r);
+    for (let i = 0; i < MEMO; i++) {
+      if (this.memoR[i] === r) return { value: this.memoValue[i], slope: this.memoSlope[i] };
+    }
+    const q = this.evaluate(r);
+    const i = this.memoNext;
+    this.memoR[i] = r;
+    this.memoValue[i] = q.value;
+    this.memoSlope[i] = q.slope;
+    this.memoNext = (i + 1) % MEMO;
+    return q;
+  }
+
+  /**
+   * The curvature d^2 l / d r^2 near r from the slopes remembered at the two points closest to
+   * it (a secant), or NaN when fewer than two are known.
+   */
+  curvatureNear(r: number): number {
+    let i = -1;
+    let j = -1;
+    for (let k = 0; k < MEMO; k++) {
+      if (Number.isNaN(this.memoR[k])) continue;
+      const d = Math.abs(this.memoR[k] - r);
+      if (i < 0 || d < Math.abs(this.memoR[i] - r)) {
+        j = i;
+        i = k;
+      } else if (j < 0 || d < Math.abs(this.memoR[j] - r)) {
+        j = k;
+      }
+    }
+    if (i < 0 || j < 0 || this.memoR[i] === this.memoR[j]) return Number.NaN;
+    return (this.memoSlope[i] - this.memoSlope[j]) / (this.memoR[i] - this.memoR[j]);
   }
 
   private atEnd(r: 1 | -1): number {
@@ -113,6 +162,29 @@ export class PairLikelihood {
     }
     this.evaluations++;
     return L.evaluate([this.cA, this.cB], [this.aA, r * this.aB], false).value;
+  }
+
+  /** One year's outer integral at r (the integrand set up), keeping its mode and widths as the next warm start. */
+  private integrateYear(t: number, r: number): LogConcaveIntegral {
+    const res = this.integrator.integrate(
+      this.integrand,
+      this.hasMode[t] === 1
+        ? { start: this.modes[t], leftWidth: this.widths[2 * t], rightWidth: this.widths[2 * t + 1], curvatureBound: 1, truncation: OUTER_TRUNCATION }
+        : { curvatureBound: 1, truncation: OUTER_TRUNCATION },
+    );
+    if (!res.converged) {
+      if (!Number.isFinite(res.value)) {
+        this.hasMode[t] = 0;
+        throw new RangeError(`pair log-likelihood: the integral of year ${t + 1} failed at r = ${r}: ${res.reason}.`);
+      }
+      this.unconverged++;
+      if (res.relativeError > this.worstRelativeError) this.worstRelativeError = res.relativeError;
+    }
+    this.modes[t] = res.mode;
+    this.widths[2 * t] = res.leftWidth;
+    this.widths[2 * t + 1] = res.rightWidth;
+    this.hasMode[t] = 1;
+    return res;
   }
 
   private evaluate(r: number): { value: number; slope: number } {
@@ -126,24 +198,25 @@ export class PairLikelihood {
     let slope = 0;
     for (let t = 0; t < this.years; t++) {
       f.setYear(this.nA[t], this.dA[t], this.lcA[t], this.nB[t], this.dB[t], this.lcB[t]);
-      const res = this.integrator.integrate(
-        f,
-        this.hasMode[t] === 1
-          ? { start: this.modes[t], leftWidth: this.widths[2 * t], rightWidth: this.widths[2 * t + 1], curvatureBound: 1 }
-          : { curvatureBound: 1 },
-      );
-      if (!res.converged) {
-        if (!Number.isFinite(res.value)) {
-          this.hasMode[t] = 0;
-          throw new RangeError(`pair log-likelihood: the integral of year ${t + 1} failed at r = ${r}: ${res.reason}.`);
+      f.useTable(this.tabulate);
+      let res = this.integrateYear(t, r);
+      // The table's error where the integrand's mass is: halve the spacing as often as the error's
+      // h^6 law says is needed to bring it below the tolerance (checking again after), or integrate
+      // exactly when that takes more than MAX_REFINEMENTS halvings in all.
+      let halvings = 0;
+      for (let error = this.tabulate ? f.checkTable(res.mode) : 0; error > TABLE_TOLERANCE; error = f.checkTable(res.mode)) {
+        const needed = Math.max(1, Math.ceil(Math.log(error / TABLE_TOLERANCE) / Math.log(64)));
+        if (halvings + needed > MAX_REFINEMENTS) {
+          f.useTable(false);
+          this.exactYears++;
+          res = this.integrateYear(t, r);
+          break;
         }
-        this.unconverged++;
-        if (res.relativeError > this.worstRelativeError) this.worstRelativeError = res.relativeError;
+        for (let k = 0; k < needed; k++) f.refineTable();
+        halvings += needed;
+        this.refinements += needed;
+        res = this.integrateYear(t, r);
       }
-      this.modes[t] = res.mode;
-      this.widths[2 * t] = res.leftWidth;
-      this.widths[2 * t + 1] = res.rightWidth;
-      this.hasMode[t] = 1;
       value += res.value;
       const hA = f.hAAtMode;
       const hB = f.hBAtMode;

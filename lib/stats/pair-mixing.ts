@@ -29,19 +29,28 @@
  * Biometrika 41:351-360; Prekopa, A. (1973), Acta Sci. Math. 34:335-343; Gordy, M. B. &
  * Heitfield, E. (2002), Federal Reserve Board working paper, eq. (4) (each segment's likelihood).
  */
-import { GaussianPeriodIntegrand, GAUSSIAN_MOMENTS } from './gaussian-mixing';
-import { LogConcaveIntegrator, type LogConcaveIntegrand } from './log-concave-integral';
+import type { LogConcaveIntegrand } from './log-concave-integral';
 import { normalTails, TAIL_SLOTS } from './normal-tails';
+import { InnerLogIntegralTable } from './pair-inner-table';
 
 const LN_SQRT_2PI = 0.9189385332046727418;
 
 /** Moment functions of the outer integrand. */
 export const PAIR_MOMENTS = 3;
 
+/** Node spacing of the inner table, in standard deviations of the outer integrand at its first point. */
+export const TABLE_SPACING = 2;
+/** Smallest node spacing in c, as a fraction of the inner scale a' (the whole outer range fits one cell when r is near 0). */
+const MIN_SPACING = 0.02;
+
 /**
  * One year of a pair of segments with correlated factors, at |r| < 1, as the outer integrand over
  * z1 (module comment). Set the margins with {@link setMargins}, r with {@link setCorrelation} and
- * the year with {@link setYear}. It owns the inner integrator.
+ * the year with {@link setYear}. It owns the inner integrals: exact ones, or (after
+ * {@link useTable}) a table of them along the line c = c_B - a_B r z1 (pair-inner-table.ts),
+ * laid at the first point the outer integrator asks for with a spacing of {@link TABLE_SPACING}
+ * standard deviations of the outer integrand there, and checked after the integral by
+ * {@link checkTable}.
  *
  * @example
  * const f = new PairYearIntegrand();
@@ -60,22 +69,14 @@ export class PairYearIntegrand implements LogConcaveIntegrand {
   private nA = 1;
   private dA = 0;
   private logCA = 0;
-  private readonly inner = new GaussianPeriodIntegrand();
-  private readonly innerIntegrator = new LogConcaveIntegrator(GAUSSIAN_MOMENTS[1]);
-  private innerMode = Number.NaN;
-  private innerLeft = 0;
-  private innerRight = 0;
+  private readonly inner = new InnerLogIntegralTable();
+  private tabulate = false;
   private readonly tails = new Float64Array(TAIL_SLOTS);
   /** h1_A and E[h1_B | z1] at the mode (set by prepare). */
   hAAtMode = 0;
   hBAtMode = 0;
-  /** Inner integrals that missed their tolerance (the values are used). */
-  innerUnconverged = 0;
-  // Results of the last inner integral: log value, E[h1_B], Var h1_B, E[h2_B].
-  private iValue = 0;
-  private iMean = 0;
-  private iVar = 0;
-  private iH2 = 0;
+  // Psi, Psi', Psi'' of the inner integral at the last z1 (pair-inner-table.ts).
+  private readonly psi = new Float64Array(3);
 
   /** The two margins: c = Phi^-1(p) / sqrt(1 - rho) and a = sqrt(rho / (1 - rho)) of A and of B. */
   setMargins(cA: number, aA: number, cB: number, aB: number): void {
@@ -85,10 +86,11 @@ export class PairYearIntegrand implements LogConcaveIntegrand {
     this.aB = aB;
   }
 
-  /** The factor correlation, |r| < 1. */
+  /** The factor correlation, |r| < 1 (after {@link setMargins}). */
   setCorrelation(r: number): void {
     this.r = r;
     this.s = Math.sqrt((1 - r) * (1 + r));
+    this.inner.setScale(this.aB * this.s);
   }
 
   /** The year: A's and B's obligors, defaults and log C(n, d). */
@@ -96,36 +98,54 @@ export class PairYearIntegrand implements LogConcaveIntegrand {
     this.nA = nA;
     this.dA = dA;
     this.logCA = logCA;
-    this.inner.setPeriod(nB, dB, logCB);
+    this.inner.setYear(nB, dB, logCB);
   }
 
-  /** The inner integral over w at z1 (fills iValue, iMean, iVar, iH2). */
-  private integrateInner(z1: number): void {
-    const a = this.aB * this.s;
+  /** Whether the inner integrals come from a table (true) or are each computed exactly; clears the table. */
+  useTable(on: boolean): void {
+    this.tabulate = on;
+    this.inner.clear();
+  }
+
+  /** Inner integrals computed exactly, that missed their tolerance, and the last failure. */
+  get innerExact(): number {
+    return this.inner.exactIntegrals;
+  }
+  get innerUnconverged(): number {
+    return this.inner.unconverged;
+  }
+
+  /**
+   * The table's interpolation error near z1 (the outer mode): the larger at the midpoints of the
+   * cell holding z1 and of its neighbour nearer to z1 (two exact integrals).
+   */
+  checkTable(z1: number): number {
+    return this.inner.checkNear(this.cB - this.aB * this.r * z1);
+  }
+
+  /** Halves the table's node spacing (the nodes integrated so far are kept). */
+  refineTable(): void {
+    this.inner.refine();
+  }
+
+  /** The inner integral at z1 into psi; curvA = -(d^2/dz1^2) log f_A(z1) lays the table's grid at the first call. */
+  private integrateInner(z1: number, curvA: number): void {
     const c = this.cB - this.aB * this.r * z1;
-    const rho = (a * a) / (1 + a * a);
-    this.inner.setParameters(c / Math.sqrt(1 + a * a), rho, 1);
-    const res = this.innerIntegrator.integrate(
-      this.inner,
-      Number.isFinite(this.innerMode) ? { start: this.innerMode, leftWidth: this.innerLeft, rightWidth: this.innerRight, curvatureBound: 1 } : { curvatureBound: 1 },
-    );
-    if (!res.converged) {
-      if (!Number.isFinite(res.value)) {
-        this.innerMode = Number.NaN;
-        // NaN makes the outer integral fail, which the evaluator reports with the year.
-        this.iValue = Number.NaN;
-        return;
-      }
-      this.innerUnconverged++;
+    const psi = this.psi;
+    if (!this.tabulate) {
+      this.inner.exact(c, psi);
+      return;
     }
-    this.innerMode = res.mode;
-    this.innerLeft = res.leftWidth;
-    this.innerRight = res.rightWidth;
-    const M = this.innerIntegrator.moments;
-    this.iValue = res.value;
-    this.iMean = this.inner.h1AtMode + M[0];
-    this.iVar = Math.max(0, M[1] - M[0] * M[0]);
-    this.iH2 = M[2];
+    if (this.inner.started) {
+      this.inner.interpolate(c, psi);
+      return;
+    }
+    this.inner.exact(c, psi);
+    if (!Number.isFinite(psi[0])) return;
+    const slope = this.aB * Math.abs(this.r);
+    const curvature = curvA + 1 - slope * slope * psi[2];
+    const sd = 1 / Math.sqrt(Math.max(1, curvature));
+    this.inner.start(c, Math.max(TABLE_SPACING * sd * slope, MIN_SPACING * this.aB * this.s), psi);
   }
 
   guess(): number {
@@ -137,19 +157,22 @@ export class PairYearIntegrand implements LogConcaveIntegrand {
     normalTails(this.cA - this.aA * x, T);
     const dA = this.dA;
     const ndA = this.nA - dA;
-    this.integrateInner(x);
+    const aA = this.aA;
+    const curvA = aA * aA * (dA * T[4] + ndA * T[5]);
+    this.integrateInner(x, curvA);
+    const psi = this.psi;
     const aBr = this.aB * this.r;
-    out[0] = this.logCA - LN_SQRT_2PI + dA * T[0] + ndA * T[1] - 0.5 * x * x + this.iValue;
-    out[1] = -this.aA * (dA * T[2] - ndA * T[3]) - x - aBr * this.iMean;
-    out[2] = -this.aA * this.aA * (dA * T[4] + ndA * T[5]) - 1 + aBr * aBr * (this.iH2 + this.iVar);
+    out[0] = this.logCA - LN_SQRT_2PI + dA * T[0] + ndA * T[1] - 0.5 * x * x + psi[0];
+    out[1] = -aA * (dA * T[2] - ndA * T[3]) - x - aBr * psi[1];
+    out[2] = -curvA - 1 + aBr * aBr * psi[2];
   }
 
   prepare(mode: number): void {
     const T = this.tails;
     normalTails(this.cA - this.aA * mode, T);
     this.hAAtMode = this.dA * T[2] - (this.nA - this.dA) * T[3];
-    this.integrateInner(mode);
-    this.hBAtMode = this.iMean;
+    this.integrateInner(mode, this.aA * this.aA * (this.dA * T[4] + (this.nA - this.dA) * T[5]));
+    this.hBAtMode = this.psi[1];
   }
 
   node(x: number, row: Float64Array): number {
@@ -157,12 +180,13 @@ export class PairYearIntegrand implements LogConcaveIntegrand {
     normalTails(this.cA - this.aA * x, T);
     const dA = this.dA;
     const ndA = this.nA - dA;
-    this.integrateInner(x);
+    this.integrateInner(x, this.aA * this.aA * (dA * T[4] + ndA * T[5]));
+    const psi = this.psi;
     const u = dA * T[2] - ndA * T[3] - this.hAAtMode;
-    const v = this.iMean - this.hBAtMode;
+    const v = psi[1] - this.hBAtMode;
     row[0] = u;
     row[1] = v;
     row[2] = u * v;
-    return this.logCA - LN_SQRT_2PI + dA * T[0] + ndA * T[1] - 0.5 * x * x + this.iValue;
+    return this.logCA - LN_SQRT_2PI + dA * T[0] + ndA * T[1] - 0.5 * x * x + psi[0];
   }
 }

@@ -22,7 +22,7 @@ export interface RhoPosteriorOptions {
   pdPrior?: { a: number; b: number };
   /** Level of the credible intervals (default 0.95). */
   level?: number;
-  /** Nodes of rho at which the k-integral is computed exactly where the posterior lies (default 21; a first pass of half as many finds that region). */
+  /** Nodes of rho at which the k-integral is computed exactly where the posterior lies (default 21, at least; a first pass of half as many finds that region and its nodes are reused). */
   nodes?: number;
   /** Cells of the posterior grid on [0, 0.995] (default 400). */
   cells?: number;
@@ -51,6 +51,17 @@ export interface RhoPosterior extends PosteriorSummary {
   /** Prior probability of rho above the grid's end 0.995, left out. */
   priorMassOutside: number;
 }
+
+/**
+ * Drops below the maximum of h(k) (log-units) at which a Gaussian of the same curvature would put
+ * the interior nodes of the k-integral on each side (with the mode and the outer node at 30-60).
+ */
+const INTERIOR_DROPS = [3, 12];
+/**
+ * Newton decrement h'^2 / |h''| at which the search for the mode of h(k) stops (h within 5e-7 of
+ * its maximum): the mode is only the first node of the rule, not a result.
+ */
+const MODE_DECREMENT = 1e-6;
 
 /** Offset c of the interpolation variable log((rho + c) / (1 - rho + c)). */
 const W_OFFSET = 0.001;
@@ -88,10 +99,10 @@ function quintic(a: KNode, b: KNode, x: number): number {
  * (for the posterior of p). h(k) = l + (a - 1) log Phi(k) + (b - 1) log Phi(-k) + log phi(k) +
  * const is concave (a, b >= 1; l is concave in k by Prekopa 1973).
  *
- * Method: the mode of h by Newton with exact derivatives (MixtureLikelihood); on each side the
- * point where h has dropped 30 below its maximum (Newton from the mode outward on the concave h,
- * then bisection into [30, 60] below), and interior nodes where a Gaussian of the same drop would
- * be 2, 7 and 16 below; h between nodes by quintic Hermite interpolation from its values and two
+ * Method: the mode of h by Newton with exact derivatives (MixtureLikelihood), to a Newton
+ * decrement of 1e-6; on each side the point where h has dropped 30 below its maximum (Newton from
+ * the mode outward on the concave h, then bisection into [30, 60] below), and interior nodes where
+ * a Gaussian of the same drop would be 3 and 12 below; h between nodes by quintic Hermite interpolation from its values and two
  * derivatives, integrated by 8-point Gauss-Legendre per piece. The mass beyond the outer nodes is
  * below e^-30 relative and left out.
  */
@@ -119,7 +130,7 @@ function kIntegral(L: MixtureLikelihood, rho: number, a: number, b: number, warm
     else hi = x;
     let next = x - node.h1 / node.h2;
     if (!(next > lo && next < hi) || !(node.h2 < 0)) next = Number.isFinite(lo) && Number.isFinite(hi) ? 0.5 * (lo + hi) : x + (node.h1 > 0 ? 1 : -1);
-    if ((node.h1 * node.h1) / Math.max(1e-300, -node.h2) < 1e-14 || Math.abs(next - x) < 1e-12) break;
+    if ((node.h1 * node.h1) / Math.max(1e-300, -node.h2) < MODE_DECREMENT || Math.abs(next - x) < 1e-12) break;
     x = next;
     node = at(x);
   }
@@ -143,7 +154,7 @@ function kIntegral(L: MixtureLikelihood, rho: number, a: number, b: number, warm
     }
     nodes.push(out);
     const drop = top.h - out.h;
-    for (const level of [2, 7, 16]) nodes.push(at(top.k + (out.k - top.k) * Math.sqrt(level / drop)));
+    for (const level of INTERIOR_DROPS) nodes.push(at(top.k + (out.k - top.k) * Math.sqrt(level / drop)));
   }
   nodes.sort((p, q) => p.k - q.k);
   let sum = 0;
@@ -214,22 +225,25 @@ function summarise(edges: readonly number[], mass: readonly number[], level: num
  * Method: the marginal likelihood m(rho) = Int L(p, rho) pi_p(p) dp is computed (up to the
  * interpolation below) by the integral over k = Phi^-1(p) of kIntegral (Newton for the mode,
  * quintic Hermite between exactly evaluated nodes, Gauss-Legendre). A first pass at `nodes` / 2
- * values of rho (denser toward 1) finds where m(rho) times the prior is within e^-25 of its peak;
- * the second computes m at `nodes` values spaced evenly in w = log((rho + 0.001) / (1.001 - rho))
- * over that region (one node beyond it on each side), interpolates log m by a natural cubic spline
- * in w (log m is smooth there: the large-pool likelihood is -S / (2 rho) + ...) to the
- * midpoints of `cells` equal cells of rho on [0, 0.995] inside the region (outside it the mass is
- * taken as 0); each cell's posterior mass is m(midpoint) times
- * the prior's exact probability of the cell (Beta CDF), so priors with an infinite density at 0
- * are handled. The median and the equal-tailed interval come from the piecewise-linear posterior
- * CDF, the mean from the cell midpoints, the HPD interval from the cells of highest density. The
- * posterior of p sums over the cells of rho the conditional density of k, interpolated between the
- * two neighbouring rho nodes linearly in its logarithm, weighted by the cell's posterior mass.
+ * values of rho evenly in w = log((rho + 0.001) / (1.001 - rho)) finds where m(rho) times the
+ * prior is within e^-25 of its peak; the second computes m at (at least) `nodes` values spaced
+ * evenly in w over that region (one scout node beyond it on each side), every first-pass node of
+ * the region among them (computed once), interpolates log m by a natural cubic spline in w (log m
+ * is smooth there: the large-pool likelihood is -S / (2 rho) + ...) to the midpoints of `cells`
+ * equal cells of rho on [0, 0.995] inside the region (outside it the mass is taken as 0); each
+ * cell's posterior mass is m(midpoint) times the prior's exact probability of the cell (Beta CDF),
+ * so priors with an infinite density at 0 are handled. The median and the equal-tailed interval
+ * come from the piecewise-linear posterior CDF, the mean from the cell midpoints, the HPD interval
+ * from the cells of highest density. The posterior of p sums over the cells of rho the
+ * conditional density of k, interpolated in its logarithm between the four nearest rho nodes by
+ * cubic Lagrange interpolation in w (linearly between the two neighbours at a k that a further
+ * node's rule does not reach), weighted by the cell's posterior mass.
  * Accuracy against a direct SciPy quadrature (tests/fixtures/portfolio/make_posterior.py): the
- * quantiles and mean of rho to about 1e-3; those of p to about 2-3% relative with the default 21
- * nodes under a flat prior on rho (whose posterior spans [0, 1)), 0.2% with 81. A posterior with a second mode more than
- * e^-25 below the first, outside the region, would be missed. Accuracy is checked against a SciPy two-dimensional quadrature of
- * the posterior (tests/fixtures/portfolio/make_posterior.py).
+ * quantiles and mean of rho to about 1e-3; those of p to about 1% relative with the default 21
+ * nodes (1.4% on a panel without defaults under a flat prior on rho, whose p reaches far into the
+ * tail: the reference's own grid of k ends at -8), 1e-4 on the first panel with 81. A posterior
+ * with a second mode more than e^-25 below the first, outside the region, would be missed.
+ * A T = 20 panel takes about 200 likelihood evaluations (21 rho nodes of about 9.5 each).
  *
  * Special cases: a prior with a, b not positive (no mass in (0, 1)), a prior on p with a or b
  * below 1, or a prior with no mass on [0, 0.995] throw RangeError with a sentence; a panel with
@@ -271,17 +285,28 @@ export function rhoPosterior(panel: Panel, options: RhoPosteriorOptions): RhoPos
   };
   const wBottom = W(0);
   const wTop = W(top);
-  // Pass 1: where is the posterior? Coarse nodes evenly in w.
+  // Pass 1: where is the posterior? Coarse nodes evenly in w. Each k-integral is kept: the second
+  // pass's grid holds every scout node of its region, so these are not computed twice.
   const coarse = Math.max(5, Math.round(J / 2));
+  const step = (wTop - wBottom) / (coarse - 1);
+  const known = new Map<number, ReturnType<typeof kIntegral>>();
   let warm = -2;
+  const integralAt = (rho: number) => {
+    let r = known.get(rho);
+    if (!r) {
+      r = kIntegral(L, rho, pdPrior.a, pdPrior.b, warm);
+      known.set(rho, r);
+    }
+    warm = r.mode;
+    return r;
+  };
+  const scoutRho = (j: number) => (j === coarse - 1 ? top : rhoOfW(wBottom + step * j));
   const scout: { u: number; lp: number }[] = [];
   for (let j = 0; j < coarse; j++) {
-    const uj = wBottom + ((wTop - wBottom) * j) / (coarse - 1);
-    const rho = j === coarse - 1 ? top : rhoOfW(uj);
-    const r = kIntegral(L, rho, pdPrior.a, pdPrior.b, warm);
-    warm = r.mode;
+    const rho = scoutRho(j);
+    const r = integralAt(rho);
     const mass = betaProbability(prior.a, prior.b, Math.max(0, rho - 0.0025), Math.min(top, rho + 0.0025));
-    scout.push({ u: uj, lp: r.logValue + Math.log(Math.max(mass, 1e-300)) });
+    scout.push({ u: wBottom + step * j, lp: r.logValue + Math.log(Math.max(mass, 1e-300)) });
   }
   const best = Math.max(...scout.map((x) => x.lp));
   let first = scout.findIndex((x) => x.lp >= best - 25);
@@ -290,16 +315,18 @@ export function rhoPosterior(panel: Panel, options: RhoPosteriorOptions): RhoPos
   last = Math.min(scout.length - 1, last + 1);
   const uLo = scout[first].u;
   const uHi = scout[last].u;
-  // Pass 2: J nodes evenly in w over that region; the posterior outside it is below e^-25 of its peak.
+  // Pass 2: at least `nodes` nodes evenly in w over that region (the posterior outside it is below
+  // e^-25 of its peak), q to each scout interval so that every scout node of the region is one.
+  const spans = last - first;
+  const q = Math.max(1, Math.ceil((J - 1) / spans));
+  const nodeCount = spans * q + 1;
   const u: number[] = [];
   const logM: number[] = [];
   const integrals: ReturnType<typeof kIntegral>[] = [];
   warm = -2;
-  for (let j = 0; j < J; j++) {
-    const uj = uLo + ((uHi - uLo) * j) / (J - 1);
-    const r = kIntegral(L, j === J - 1 && uHi === wTop ? top : rhoOfW(uj), pdPrior.a, pdPrior.b, warm);
-    warm = r.mode;
-    u.push(uj);
+  for (let i = 0; i < nodeCount; i++) {
+    const r = integralAt(i % q === 0 ? scoutRho(first + i / q) : rhoOfW(uLo + (step * i) / q));
+    u.push(uLo + (step * i) / q);
     logM.push(r.logValue);
     integrals.push(r);
   }
@@ -340,19 +367,34 @@ export function rhoPosterior(panel: Panel, options: RhoPosteriorOptions): RhoPos
     return row;
   });
   const kMass = new Array<number>(kCells).fill(0);
-  const du = (uHi - uLo) / (J - 1);
+  const du = (uHi - uLo) / (nodeCount - 1);
   const row = new Float64Array(kCells);
   for (let c = 0; c < cells; c++) {
     if (!(mass[c] > 0)) continue;
     const um = W(0.5 * (edges[c] + edges[c + 1]));
-    const x = du > 0 ? Math.min(J - 1, Math.max(0, (um - uLo) / du)) : 0;
-    const j = Math.min(J - 2, Math.floor(x));
+    const x = du > 0 ? Math.min(nodeCount - 1, Math.max(0, (um - uLo) / du)) : 0;
+    const j = Math.min(nodeCount - 2, Math.floor(x));
     const f = x - j;
     const a = logDensity[j];
     const b = logDensity[j + 1];
+    // Cubic (four-node Lagrange) interpolation in w where the four nearest nodes all reach k,
+    // linear between the two neighbours elsewhere.
+    const cubic = nodeCount >= 4;
+    const base = Math.max(0, Math.min(nodeCount - 4, j - 1));
+    const t = x - base;
+    const w0 = (-(t - 1) * (t - 2) * (t - 3)) / 6;
+    const w1 = (t * (t - 2) * (t - 3)) / 2;
+    const w2 = (-t * (t - 1) * (t - 3)) / 2;
+    const w3 = (t * (t - 1) * (t - 2)) / 6;
+    const l0 = logDensity[base];
+    const l1 = logDensity[base + 1];
+    const l2 = logDensity[base + 2];
+    const l3 = logDensity[base + 3];
     let top = -Infinity;
     for (let i = 0; i < kCells; i++) {
-      row[i] = a[i] === -Infinity || b[i] === -Infinity ? -Infinity : (1 - f) * a[i] + f * b[i];
+      if (a[i] === -Infinity || b[i] === -Infinity) row[i] = -Infinity;
+      else if (cubic && l0[i] !== -Infinity && l1[i] !== -Infinity && l2[i] !== -Infinity && l3[i] !== -Infinity) row[i] = w0 * l0[i] + w1 * l1[i] + w2 * l2[i] + w3 * l3[i];
+      else row[i] = (1 - f) * a[i] + f * b[i];
       if (row[i] > top) top = row[i];
     }
     if (top === -Infinity) continue;

@@ -14,7 +14,7 @@ import { WindowsSection } from './windows-section';
 /**
  * The sections of a segment's review, in the order of the page and its side index. Adding a section
  * is one entry here: a component taking ReviewContext (types.ts), an anchor id and a heading, and
- * optionally `applies` for results that may not carry its part.
+ * optionally `applies` (given the same context) for results that may not carry its part.
  */
 export const REVIEW_SECTIONS: readonly ReviewSection[] = [
   // With fewer defaults than the setting the likelihood estimate is not informative: the posterior leads.
@@ -22,11 +22,11 @@ export const REVIEW_SECTIONS: readonly ReviewSection[] = [
     id: 'posterior-first',
     title: 'Posterior of ρ (few defaults)',
     Component: PosteriorReviewSection,
-    applies: (seg) => (seg.posterior !== undefined || seg.prudentPd !== undefined) && isLowDefault(seg),
+    applies: ({ seg, lowDefaultThreshold }) => (seg.posterior !== undefined || seg.prudentPd !== undefined) && isLowDefault(seg, lowDefaultThreshold),
   },
   { id: 'estimates', title: 'Estimates and intervals', Component: EstimatesSection },
-  { id: 'models', title: 'Independent years and a persistent factor', Component: ModelsSection, applies: (seg) => seg.estimates.ar1Mle !== undefined },
-  { id: 'stability', title: 'Stability across the window', Component: StabilitySection, applies: (seg) => !!seg.stability },
+  { id: 'models', title: 'Independent years and a persistent factor', Component: ModelsSection, applies: ({ seg }) => seg.estimates.ar1Mle !== undefined },
+  { id: 'stability', title: 'Stability across the window', Component: StabilitySection, applies: ({ seg }) => !!seg.stability },
   { id: 'bands', title: 'Default rates against the fitted model', Component: BandsSection },
   { id: 'profile', title: 'Profile log-likelihood of ρ', Component: ProfileSection },
   { id: 'factor', title: 'Implied factor and probability integral transform', Component: FactorSection },
@@ -37,7 +37,7 @@ export const REVIEW_SECTIONS: readonly ReviewSection[] = [
     id: 'posterior',
     title: 'Posterior of ρ and the most prudent PD',
     Component: PosteriorReviewSection,
-    applies: (seg) => (seg.posterior !== undefined || seg.prudentPd !== undefined) && !isLowDefault(seg),
+    applies: ({ seg, lowDefaultThreshold }) => (seg.posterior !== undefined || seg.prudentPd !== undefined) && !isLowDefault(seg, lowDefaultThreshold),
   },
   { id: 'data', title: 'The data, period by period', Component: DataSection },
 ];

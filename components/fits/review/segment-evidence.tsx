@@ -13,14 +13,17 @@ export function SegmentEvidence({
   idPrefix,
   bootstrapRequested,
   fitId,
+  lowDefaultThreshold,
 }: {
   seg: FitSegmentResult;
   idPrefix: string;
   bootstrapRequested: boolean;
   fitId?: number;
+  /** The setting LOW_DEFAULT_THRESHOLD (lib/env.ts), read by the page. */
+  lowDefaultThreshold: number;
 }) {
-  const ctx = { seg, idPrefix, bootstrapRequested, fitId };
-  const sections = REVIEW_SECTIONS.filter((s) => !s.applies || s.applies(seg));
+  const ctx = { seg, idPrefix, bootstrapRequested, fitId, lowDefaultThreshold };
+  const sections = REVIEW_SECTIONS.filter((s) => !s.applies || s.applies(ctx));
   return (
     <div className="grid gap-4 lg:grid-cols-[13rem_minmax(0,1fr)]" data-testid="segment-review">
       <nav aria-label="Sections of this review" className="lg:sticky lg:top-4 lg:self-start">

@@ -9,6 +9,8 @@ export type ReviewContext = {
   bootstrapRequested: boolean;
   /** The fit run the segment belongs to (for links to other screens about it). */
   fitId?: number;
+  /** Total defaults below which the review leads with the posterior (the setting LOW_DEFAULT_THRESHOLD). */
+  lowDefaultThreshold: number;
 };
 
 /**
@@ -19,5 +21,5 @@ export type ReviewSection = {
   id: string;
   title: string;
   Component: (props: ReviewContext) => React.ReactNode;
-  applies?: (seg: FitSegmentResult) => boolean;
+  applies?: (ctx: ReviewContext) => boolean;
 };

@@ -1,6 +1,7 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import engine from '@/tests/fixtures/engine/engine-fixtures.json';
-import { EnginePool, fitPanelParallel } from '@/lib/engine';
+import { EnginePool, factorCorrelationMatrixParallel, fitPanelParallel } from '@/lib/engine';
+import { factorCorrelationMatrix } from '@/lib/stats/factor-correlation-matrix';
 import { splitRange } from '@/lib/engine/tasks';
 import { fitPanel, type PanelInput, type TimedSegmentFit } from '@/lib/stats/fit-panel';
 
@@ -157,5 +158,28 @@ describe('fitPanelParallel', () => {
       /"Panel A", period 2001/,
     );
     expect(() => new EnginePool(0)).toThrow(RangeError);
+  });
+});
+
+describe('factorCorrelationMatrixParallel', () => {
+  it('gives the same matrix on 2 threads, in this thread and in factorCorrelationMatrix, each margin once per window', async () => {
+    // the margins are shared by the pairs over one window (a 'margins' task each); the numbers
+    // must not depend on where they were computed
+    const years = ['2011', '2012', '2013', '2014', '2015', '2016'];
+    const seg = (segment: string, obligors: number[], defaults: number[], periods = years) => ({ segment, periods, obligors, defaults });
+    const inputs = [
+      seg('A', [1000, 1100, 1050, 990, 1200, 1150], [6, 15, 4, 22, 9, 5]),
+      seg('B', [2000, 2050, 1980, 2100, 2150, 2000], [52, 30, 25, 70, 22, 38]),
+      seg('C', [900, 950, 940, 910, 930], [10, 4, 3, 19, 6], years.slice(1)),
+    ];
+    const serial = factorCorrelationMatrix(inputs, { level: 0.95 });
+    const messages: string[] = [];
+    const two = await factorCorrelationMatrixParallel(inputs, { level: 0.95 }, { threads: 2, onProgress: (_, m) => void messages.push(m) });
+    const inThread = await factorCorrelationMatrixParallel(inputs, { level: 0.95 }, { threads: 0 });
+    expect(two).toEqual(serial);
+    expect(inThread).toEqual(serial);
+    // A and B over 2011-2016; A, B and C over 2012-2016: five margins before the three pairs
+    expect(messages).toContain('Factor correlations: the margins of 5 of 5 segment windows');
+    expect(messages.at(-1)).toBe('Factor correlations: 3 of 3 pairs');
   });
 });

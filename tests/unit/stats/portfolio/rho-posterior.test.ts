@@ -15,21 +15,27 @@ describe('rhoPosterior (grid posterior of rho and p)', () => {
       expect(Math.abs(r.mean - c.rho.mean!), `${what} mean`).toBeLessThan(2e-3);
       expect(Math.abs(r.lower - c.rho.lower), `${what} lower`).toBeLessThan(2e-3);
       expect(Math.abs(r.upper - c.rho.upper), `${what} upper`).toBeLessThan(2e-3);
-      // p's posterior interpolates the conditional densities of 21 rho nodes: to 3% (relative) with
-      // a flat prior on rho, whose posterior spans [0, 1); closer with more nodes (see the next test)
-      expect(Math.abs(r.pd.median - c.pd.median) / c.pd.median, `${what} pd median`).toBeLessThan(3e-2);
-      expect(Math.abs(r.pd.lower - c.pd.lower) / c.pd.lower, `${what} pd lower`).toBeLessThan(3e-2);
-      expect(Math.abs(r.pd.upper - c.pd.upper) / c.pd.upper, `${what} pd upper`).toBeLessThan(3e-2);
+      // p's posterior interpolates the conditional densities of 21 rho nodes: to 1.5% (relative);
+      // the widest gap is the panel without defaults under a flat prior on rho, whose p reaches
+      // into the tail where the reference's grid of k ends (-8); closer with more nodes (next test)
+      expect(Math.abs(r.pd.median - c.pd.median) / c.pd.median, `${what} pd median`).toBeLessThan(1.5e-2);
+      expect(Math.abs(r.pd.lower - c.pd.lower) / c.pd.lower, `${what} pd lower`).toBeLessThan(1.5e-2);
+      expect(Math.abs(r.pd.upper - c.pd.upper) / c.pd.upper, `${what} pd upper`).toBeLessThan(1.5e-2);
       expect(r.prior).toEqual({ rho: c.prior, pd: 'beta:1,1' });
     }
   });
 
   it('gives the posterior of p closer to SciPy with more rho nodes', () => {
-    // convergence of the rule (tests/fixtures/portfolio/make_posterior.py, SciPy 1.17)
+    // convergence of the rule toward tests/fixtures/portfolio/make_posterior.py (SciPy 1.17), whose
+    // own grids hold it near 6e-4 (relative) at the upper end
     const c = fx.cases.find((x) => x.panel === 'low' && x.prior === 'flat')!;
-    const err = (nodes: number) => Math.abs(rhoPosterior({ obligors: c.obligors, defaults: c.defaults }, { prior: { a: 1, b: 1, label: 'flat' }, nodes }).pd.median - c.pd.median);
-    expect(err(81)).toBeLessThan(err(21) / 4);
-    expect(err(81) / c.pd.median).toBeLessThan(3e-3);
+    const pd = (nodes: number) => rhoPosterior({ obligors: c.obligors, defaults: c.defaults }, { prior: { a: 1, b: 1, label: 'flat' }, nodes }).pd;
+    const coarse = pd(11);
+    const fine = pd(81);
+    const err = (x: number, y: number) => Math.abs(x - y) / y;
+    expect(err(fine.upper, c.pd.upper)).toBeLessThan(err(coarse.upper, c.pd.upper) / 4);
+    expect(err(fine.upper, c.pd.upper)).toBeLessThan(1e-3);
+    expect(err(fine.median, c.pd.median)).toBeLessThan(3e-4);
   });
 
   it('under flat priors peaks at the maximum-likelihood rho for a data-rich panel', () => {

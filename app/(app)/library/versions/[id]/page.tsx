@@ -25,6 +25,7 @@ import { getVersionPage } from '@/lib/dal/assumptions';
 import { getFitSegment } from '@/lib/dal/fits';
 import { findingsPanel } from '@/lib/dal/findings';
 import { modelsUsing } from '@/lib/dal/models';
+import { lowDefaultThreshold } from '@/lib/env';
 import { AppError } from '@/lib/errors';
 import { interval, level, pd, rho } from '@/lib/format';
 import { estimatorLabel } from '@/lib/stats/estimators/types';
@@ -260,7 +261,7 @@ export default async function VersionPage({
         </div>
       </section>
 
-      <VersionEvidence evidence={evidence} segment={v.segment} />
+      <VersionEvidence evidence={evidence} segment={v.segment} lowDefaultThreshold={lowDefaultThreshold()} />
       <FindingsSection {...findings} note="Findings on this version, on its fit and on its dataset." />
       <ModelsUsing models={usedBy} />
 

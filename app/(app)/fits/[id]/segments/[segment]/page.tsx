@@ -10,6 +10,7 @@ import { Breadcrumbs } from '@/components/layout/breadcrumbs';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { getFit } from '@/lib/dal/fits';
+import { lowDefaultThreshold } from '@/lib/env';
 import { AppError } from '@/lib/errors';
 import { findSegment, isCurrentResults } from '@/lib/fits/results';
 
@@ -80,7 +81,7 @@ export default async function SegmentReviewPage({ params }: Params) {
       </div>
       <SegmentPager fitId={fit.id} results={fit.results} current={name} />
       {'fit' in found ? (
-        <SegmentEvidence seg={found.fit} idPrefix="review" bootstrapRequested={!!fit.request.bootstrap} fitId={fit.id} />
+        <SegmentEvidence seg={found.fit} idPrefix="review" bootstrapRequested={!!fit.request.bootstrap} fitId={fit.id} lowDefaultThreshold={lowDefaultThreshold()} />
       ) : (
         <section className="panel notice-caution p-4" data-testid="segment-failed">
           <p className="text-sm">This segment was not fitted: {found.failure.reason} The other segments of this run were fitted as usual.</p>
