@@ -61,6 +61,7 @@ export function replicationWeight(task: EngineTask): number {
       return task.spec.persistent ? 14 : 2;
     // not replications of a segment fit (the portfolio blocks of lib/engine/portfolio.ts run them)
     case 'pairs':
+    case 'margins':
     case 'grade-audit':
       return 1;
   }

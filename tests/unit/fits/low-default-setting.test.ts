@@ -13,6 +13,7 @@ const seg = {
   segment: 'Low-default book',
   observed: panel.defaults.map((d, t) => ({ period: String(2011 + t), obligors: panel.obligors[t], defaults: d })),
   posterior,
+  estimates: {}, // a stored segment always has its estimates (none are needed here)
 } as unknown as FitSegmentResult;
 const applying = (threshold: number) =>
   REVIEW_SECTIONS.filter((s) => !s.applies || s.applies({ seg, idPrefix: 'x', bootstrapRequested: false, lowDefaultThreshold: threshold })).map((s) => s.id);
