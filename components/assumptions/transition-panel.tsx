@@ -37,7 +37,21 @@ export function TransitionPanel({ versionId, actions, facts }: { versionId: numb
   });
   const problem = useMemo(() => problemOf(m.error), [m.error]);
   const { error, formMessage } = useFieldErrors(problem, FIELDS);
-  if (!actions.length) return <p className="text-sm text-[var(--color-muted)]">Nothing for you to do on this version now.</p>;
+  const doneNote = done ? (
+    <p className="notice-good text-sm" role="status">
+      {done}
+    </p>
+  ) : null;
+  // After a decision that leaves this person nothing more to do, the page refreshes with no actions:
+  // the sentence saying what was done stays.
+  if (!actions.length) {
+    return (
+      <div className="space-y-3">
+        {doneNote}
+        <p className="text-sm text-[var(--color-muted)]">Nothing for you to do on this version now.</p>
+      </div>
+    );
+  }
   const needsComment = actions.some((a) => transitionRules[a].commentRequired);
   const commentFor = actions.filter((a) => transitionRules[a].commentRequired).map((a) => actionLabels[a].toLowerCase());
   return (
@@ -85,11 +99,7 @@ export function TransitionPanel({ versionId, actions, facts }: { versionId: numb
         />
       ) : null}
       <FormMessage message={formMessage} />
-      {done ? (
-        <p className="notice-good text-sm" role="status">
-          {done}
-        </p>
-      ) : null}
+      {doneNote}
     </div>
   );
 }
