@@ -1,0 +1,64 @@
+/**
+ * Mixing-law benchmark (third part of `npm run bench`): the challenge of the Gaussian copula on
+ * seeded simulated panels, T = 20, cohorts 50,000. Prints the median wall time of each item with
+ * its target:
+ *
+ * 1. the t copula by maximum likelihood with the profile intervals of rho and nu (target < 1 s),
+ *    and without the intervals;
+ * 2. beta and logit-normal mixing by maximum likelihood (target < 50 ms each), and with the
+ *    profile interval of their equivalent rho;
+ * 3. one replication of the bootstrap test and of the power study (this thread; the issue's target
+ *    is B = 200 and R = 200 together under 60 s on the worker threads).
+ *
+ * Options: --runs N (repetitions, default 3).
+ */
+import { betaMixingMle } from '@/lib/stats/estimators/beta-mixing-mle';
+import { logitNormalMle } from '@/lib/stats/estimators/logit-normal-mle';
+import { tCopulaMle } from '@/lib/stats/estimators/t-copula-mle';
+import { copulaBootstrapRange, copulaPowerRange } from '@/lib/stats/copula-lr-test';
+import { createRng } from '@/lib/stats/random';
+import { simulatePanel } from '@/lib/stats/simulate';
+import { simulateTCopulaPanel } from '@/lib/stats/simulate-t-copula';
+
+function arg(name: string, fallback: string): string {
+  const i = process.argv.indexOf(name);
+  return i >= 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
+}
+const RUNS = Math.max(1, Number(arg('--runs', '3')));
+
+const median = (xs: number[]) => {
+  const s = [...xs].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+};
+
+function time(fn: () => unknown, runs: number): { median: number; cpu: number } {
+  const xs: number[] = [];
+  const cpu0 = process.cpuUsage();
+  for (let i = 0; i < runs; i++) {
+    const t0 = performance.now();
+    fn();
+    xs.push(performance.now() - t0);
+  }
+  const cpu = process.cpuUsage(cpu0);
+  return { median: median(xs), cpu: (cpu.user + cpu.system) / 1000 / runs };
+}
+
+const line = (label: string, t: { median: number; cpu: number }, target: string) =>
+  console.log(`${label.padEnd(62)} ${t.median.toFixed(0).padStart(7)} ms (CPU ${t.cpu.toFixed(0)} ms)  ${target}`);
+
+const obligors = Array.from({ length: 20 }, () => 50000);
+const gaussian = simulatePanel({ pd: 0.01, rho: 0.08, obligors }, createRng(1801));
+const fat = simulateTCopulaPanel({ pd: 0.01, rho: 0.05, nu: 5, obligors }, createRng(1802));
+
+console.log(`Mixing laws, T = 20, cohorts 50,000 (median of ${RUNS} runs, a fresh evaluator each run)`);
+line('t copula MLE + profile intervals of rho and nu (Gaussian panel)', time(() => tCopulaMle(gaussian), RUNS), 'target < 1000 ms');
+line('t copula MLE + profile intervals of rho and nu (t panel, nu = 5)', time(() => tCopulaMle(fat), RUNS), 'target < 1000 ms');
+line('t copula MLE without intervals (t panel)', time(() => tCopulaMle(fat, { intervals: false }), RUNS), '');
+line('beta mixing MLE (no interval)', time(() => betaMixingMle(fat, { intervals: false }), RUNS), 'target < 50 ms');
+line('beta mixing MLE + profile interval of the equivalent rho', time(() => betaMixingMle(fat), RUNS), '');
+line('logit-normal MLE (no interval)', time(() => logitNormalMle(fat, { intervals: false }), RUNS), 'target < 50 ms');
+line('logit-normal MLE + profile interval of the equivalent rho', time(() => logitNormalMle(fat), RUNS), '');
+const spec = { obligors, pd: 0.01, rho: 0.08, seed: 7 };
+line('one bootstrap replication of the LR test (this thread)', time(() => copulaBootstrapRange(spec, 0, 1), RUNS), 'B = 200 + R = 200: target < 60 s on the threads');
+line('one power replication (t, nu = 5; this thread)', time(() => copulaPowerRange({ ...spec, nu: 5 }, 0, 1), RUNS), '');

@@ -1,0 +1,147 @@
+/**
+ * Maximum likelihood of the logit-normal mixing law for one panel, with the equivalent asset
+ * correlation and its profile-likelihood interval.
+ */
+import { brentRoot } from '../brent';
+import { equivalentRho, gaussianSecondMoment } from '../equivalent-rho';
+import { gridMaximize } from '../grid-maximize';
+import { likelihoodRatioEnds } from '../intervals/likelihood-ratio';
+import { LogitNormalLikelihood, logitNormalMoment } from '../logit-normal-mixing';
+import { assertPanel, type Panel } from '../panel';
+import { RHO_SEARCH_LIMIT } from './binomial-mle';
+import type { ProfileInterval } from './beta-mixing-mle';
+import type { EstimateStatus } from './types';
+
+/** Largest sigma the search considers (a default rate that is nearly 0 or 1 every year). */
+export const SIGMA_SEARCH_LIMIT = 8;
+/** Grid of sigma of the search (0, the binomial law, is a candidate of its own). */
+const SIGMA_GRID: readonly number[] = [0, 0.1, 0.25, 0.5, 0.9, 1.5, 3, 5, SIGMA_SEARCH_LIMIT];
+
+/** The fitted logit-normal law. */
+export interface LogitNormalFit {
+  mu: number | null;
+  sigma: number | null;
+  /** The mean default rate E[pi]. */
+  pd: number | null;
+  equivalentRho: number | null;
+  logLik: number | null;
+  status: EstimateStatus;
+  reason?: string;
+  intervals: { profile: ProfileInterval | null };
+}
+
+const logit = (p: number) => Math.log(p / (1 - p));
+
+/**
+ * The (mu, sigma) of the logit-normal law with mean default rate p and equivalent rho r, or null
+ * when no sigma up to the search limit reaches that joint default probability.
+ *
+ * Method: at fixed sigma, E[pi] increases in mu, so mu(sigma) is Brent's root of E[pi] = p; along
+ * that curve E[pi^2] increases with sigma (the variance of pi at a fixed mean), so sigma is Brent's
+ * root of E[pi^2] = Phi2(k, k; r). Moments by logitNormalMoment.
+ */
+export function logitNormalFromEquivalent(p: number, r: number): { mu: number; sigma: number } | null {
+  const muAt = (sigma: number) => {
+    const centre = logit(p);
+    return brentRoot((mu) => logitNormalMoment(mu, sigma, 1) - p, centre - 2 - 3 * sigma * sigma, centre + 2 + 3 * sigma * sigma, { tolerance: 1e-12 }).value;
+  };
+  if (r === 0) return { mu: logit(p), sigma: 0 };
+  const target = gaussianSecondMoment(p, r);
+  const gap = (sigma: number) => logitNormalMoment(muAt(sigma), sigma, 2) - target;
+  if (gap(SIGMA_SEARCH_LIMIT) < 0) return null;
+  const sigma = brentRoot(gap, 0, SIGMA_SEARCH_LIMIT, { tolerance: 1e-10 }).value;
+  return { mu: muAt(sigma), sigma };
+}
+
+/**
+ * Logit-normal mixing by maximum likelihood: the year's default rate is s(mu + sigma Z), reported
+ * with pd = E[pi], the equivalent asset correlation (the Gaussian rho with the same pd and joint
+ * default probability E[pi^2]) and its profile-likelihood interval (the likelihood maximised
+ * subject to each value of the equivalent rho).
+ *
+ * Method: the maximum over sigma by a grid (sigma = 0 included) and Brent, each sigma maximised
+ * over mu by a grid around the pooled rate's logit and Brent (LogitNormalLikelihood). The interval:
+ * the law re-parametrised by (p, r) (logitNormalFromEquivalent), l*(r) = max over logit p, ends by
+ * likelihoodRatioEnds; an end at 0 or 0.995 is that bound.
+ *
+ * Special cases (a status and a sentence, never NaN): no defaults, only defaults, or a single year:
+ * `undefined`; the maximum at sigma = 0 (no spread beyond chance): `ok` with equivalent rho 0; at
+ * the search limit of sigma: `clipped`.
+ *
+ * @example logitNormalMle({ obligors: [1200, 1350, 1500], defaults: [10, 25, 8] })
+ *
+ * Reference: McNeil, Frey & Embrechts (2015), section 11.2.4; Venzon & Moolgavkar (1988).
+ */
+export function logitNormalMle(panel: Panel, options: { level?: number; intervals?: boolean } = {}): LogitNormalFit {
+  assertPanel(panel, 'logitNormalMle');
+  const level = options.level ?? 0.95;
+  const empty = (reason: string): LogitNormalFit => ({ mu: null, sigma: null, pd: null, equivalentRho: null, logLik: null, status: 'undefined', reason, intervals: { profile: null } });
+  let sn = 0;
+  let sd = 0;
+  for (let t = 0; t < panel.obligors.length; t++) {
+    sn += panel.obligors[t];
+    sd += panel.defaults[t];
+  }
+  if (sd === 0) return empty('The panel has no defaults: the mean default rate has no interior maximum, so the logit-normal law is not estimated.');
+  if (sd === sn) return empty('Every obligor defaulted: the mean default rate has no interior maximum, so the logit-normal law is not estimated.');
+  if (panel.obligors.length < 2) return empty('A single year shows no spread of default rates across years, so the logit-normal law cannot be estimated.');
+  const L = new LogitNormalLikelihood(panel);
+  const centre = logit(sd / sn);
+  const muGrid = [-4, -2, -1, -0.4, 0, 0.4, 1, 2];
+  const atSigma = (sigma: number) => {
+    // E[pi] = s(mu) roughly needs mu below the pooled logit by ~sigma^2 / 2-ish: centre the grid there.
+    const shift = centre - (sigma * sigma) / 2;
+    const r = gridMaximize((mu) => L.logLik(mu, sigma), muGrid.map((u) => shift + u * (1 + sigma)), 1e-9);
+    return { mu: r.x, logLik: r.value, converged: r.converged };
+  };
+  const search = gridMaximize((sigma) => atSigma(sigma).logLik, [...SIGMA_GRID], 1e-7);
+  const at = atSigma(search.x);
+  const sigma = search.x;
+  const mu = at.mu;
+  const pd = logitNormalMoment(mu, sigma, 1);
+  const rEq = equivalentRho(pd, logitNormalMoment(mu, sigma, 2));
+  let profile: ProfileInterval | null = null;
+  let intervalConverged = true;
+  if (options.intervals ?? true) {
+    const profileAt = (r: number) => {
+      const best = gridMaximize(
+        (x) => {
+          const law = logitNormalFromEquivalent(1 / (1 + Math.exp(-x)), r);
+          return law === null ? Number.NEGATIVE_INFINITY : L.logLik(law.mu, law.sigma);
+        },
+        [-1.5, -0.5, -0.15, 0, 0.15, 0.5, 1.5].map((u) => centre + u),
+        1e-7,
+      );
+      return best.value;
+    };
+    const ends = likelihoodRatioEnds((r) => ({ logLik: profileAt(r), slope: null }), {
+      estimate: Math.min(rEq, RHO_SEARCH_LIMIT),
+      maxLogLik: Math.max(search.value, profileAt(Math.min(rEq, RHO_SEARCH_LIMIT))) + 1e-7,
+      lower: 0,
+      upper: RHO_SEARCH_LIMIT,
+      level,
+      tolerance: 1e-5,
+    });
+    profile = { level, lower: ends.lower, upper: ends.upper };
+    intervalConverged = ends.converged;
+  }
+  const converged = search.converged && at.converged && intervalConverged && L.unconverged === 0;
+  const status: EstimateStatus = !converged ? 'not-converged' : sigma >= SIGMA_SEARCH_LIMIT ? 'clipped' : 'ok';
+  return {
+    mu,
+    sigma,
+    pd,
+    equivalentRho: rEq,
+    logLik: search.value,
+    status,
+    ...(status === 'not-converged'
+      ? { reason: 'A search for the maximum or an interval end did not meet its tolerance; do not use these values.' }
+      : status === 'clipped'
+        ? { reason: `The maximum lies at the search limit of sigma (${SIGMA_SEARCH_LIMIT}): the years look all-or-nothing.` }
+        : sigma === 0
+          ? { reason: 'The maximum is the binomial law without mixing (sigma = 0): the data show no spread of default rates beyond chance.' }
+          : {}),
+    intervals: { profile },
+  };
+}
+

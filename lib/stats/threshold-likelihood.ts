@@ -1,0 +1,225 @@
+/**
+ * The Gaussian-mixing likelihood of one period as a function of its threshold c at fixed rho,
+ *
+ *   L_G(c) = Int C(n, d) Phi(z)^d Phi(-z)^(n - d) phi(x) dx,  z = (c - sqrt(rho) x) / sqrt(1 - rho),
+ *
+ * with its first two c-derivatives, exactly (one log-concave integral per point) or from a table
+ * built lazily and verified as it grows. Models that mix the Gaussian law over a threshold that
+ * moves (the t copula: c = t_nu^-1(p) sqrt(V / nu)) call it at hundreds of c per period and
+ * evaluation; at fixed rho the function does not depend on their other parameters, so one table
+ * serves a whole search over them.
+ *
+ * Derivatives (Gordy & Heitfield 2002, and gaussian-mixing.ts): with h1, h2 the z-derivatives of
+ * d log Phi(z) + (n - d) log Phi(-z), d log L_G / dc = E[h1] / sqrt(1 - rho) and
+ * d^2 log L_G / dc^2 = (E[h2] + Var h1) / (1 - rho), posterior moments of the integral.
+ *
+ * Table (Method): nodes c_i = i h0 (h0 = 1/32) computed when first needed; log L_G between two
+ * nodes by quintic Hermite interpolation from the values and both derivatives at the ends (error
+ * O(h^6)). Before an interval is used, the interpolant is checked at its midpoint against an exact
+ * evaluation; when they differ by more than 1e-10 (absolute, log-units) or the slopes by more than
+ * 1e-7 relative, the interval is halved (down to h0 / 2^16) and each half is checked the same way. So
+ * every interval in use is verified at one interior point, cliffs (a zero-default year at high
+ * rho) are refined where they are and smooth stretches stay coarse. The log-values are concave in
+ * c (Prekopa 1973), so an interpolant that agrees at three points and two slopes per end has no
+ * room for a hidden bump of the size of the tolerance between them.
+ *
+ * References: Gordy, M. B. & Heitfield, E. (2002), Federal Reserve Board working paper, eq. (4);
+ * Burden, R. L. & Faires, J. D. (2011), Numerical Analysis, 9th ed., section 3.4 (Hermite
+ * interpolation); Prekopa, A. (1973), Acta Sci. Math. 34:335-343.
+ */
+import { GaussianPeriodIntegrand, GAUSSIAN_MOMENTS } from './gaussian-mixing';
+import { LogConcaveIntegrator } from './log-concave-integral';
+import { normalTails, TAIL_SLOTS } from './normal-tails';
+
+/** Base spacing of the table in c. */
+export const TABLE_SPACING = 1 / 2;
+/** Deepest halving of an interval. */
+const MAX_LEVEL = 16;
+/** Largest absolute disagreement (log-units) of the interpolant with the exact value at a midpoint. */
+export const TABLE_TOLERANCE = 1e-10;
+/** Largest relative disagreement of the interpolated slope at a midpoint. */
+const SLOPE_TOLERANCE = 1e-7;
+
+/** One exactly evaluated point: log L_G, D1, D2 at c. */
+interface TableNode {
+  c: number;
+  v: number;
+  d1: number;
+  d2: number;
+}
+
+/** An interval of the table: its ends, and its halves once it was found too coarse. */
+interface TableInterval {
+  a: TableNode;
+  b: TableNode;
+  left: TableInterval | null;
+  right: TableInterval | null;
+}
+
+/**
+ * log L_G(c) and its first two c-derivatives for one period at fixed rho (module comment).
+ * `exact(c)` integrates; `tabulated(c)` reads the verified table. Both write into `value`, `d1`,
+ * `d2`. At rho = 0 both are the closed-form binomial at Phi(c).
+ */
+export class ThresholdLikelihood {
+  value = 0;
+  d1 = 0;
+  d2 = 0;
+  /** Exact evaluations so far (table nodes and checks included). */
+  exactEvaluations = 0;
+  /** Integrals that missed their tolerance (the values are used). */
+  unconverged = 0;
+  private n = 1;
+  private d = 0;
+  private logC = 0;
+  private rho = 0;
+  private zk = 1;
+  private readonly integrand = new GaussianPeriodIntegrand();
+  private readonly integrator = new LogConcaveIntegrator(GAUSSIAN_MOMENTS[1]);
+  private readonly tails = new Float64Array(TAIL_SLOTS);
+  private mode = Number.NaN;
+  private leftWidth = 0;
+  private rightWidth = 0;
+  private readonly intervals = new Map<number, TableInterval>();
+  private readonly nodes = new Map<number, TableNode>();
+
+  /** Sets the period and rho in [0, 1); clears the table when either changes. */
+  set(n: number, d: number, logC: number, rho: number): void {
+    if (n === this.n && d === this.d && logC === this.logC && rho === this.rho && this.nodes.size > 0) return;
+    this.n = n;
+    this.d = d;
+    this.logC = logC;
+    this.rho = rho;
+    this.zk = 1 / Math.sqrt(1 - rho);
+    this.integrand.setPeriod(n, d, logC);
+    this.mode = Number.NaN;
+    this.intervals.clear();
+    this.nodes.clear();
+  }
+
+  /** Integrates at c (module comment); fills value, d1, d2 (NaN when the integral failed). */
+  exact(c: number): void {
+    this.exactEvaluations++;
+    if (this.rho === 0) {
+      const T = this.tails;
+      normalTails(c, T);
+      const nd = this.n - this.d;
+      this.value = this.logC + this.d * T[0] + nd * T[1];
+      this.d1 = this.d * T[2] - nd * T[3];
+      this.d2 = -(this.d * T[4] + nd * T[5]);
+      return;
+    }
+    this.integrand.setParameters(c, this.rho, 1);
+    const r = this.integrator.integrate(
+      this.integrand,
+      Number.isFinite(this.mode) ? { start: this.mode, leftWidth: this.leftWidth, rightWidth: this.rightWidth, curvatureBound: 1 } : { curvatureBound: 1 },
+    );
+    if (!r.converged) {
+      if (!Number.isFinite(r.value)) {
+        this.mode = Number.NaN;
+        this.value = Number.NaN;
+        this.d1 = Number.NaN;
+        this.d2 = Number.NaN;
+        return;
+      }
+      this.unconverged++;
+    }
+    this.mode = r.mode;
+    this.leftWidth = r.leftWidth;
+    this.rightWidth = r.rightWidth;
+    const M = this.integrator.moments;
+    const zk = this.zk;
+    this.value = r.value;
+    this.d1 = (this.integrand.h1AtMode + M[0]) * zk;
+    this.d2 = (M[2] + Math.max(0, M[1] - M[0] * M[0])) * zk * zk;
+  }
+
+  /** Reads the table at c (module comment); fills value, d1, d2. At rho = 0 it is exact. */
+  tabulated(c: number): void {
+    if (this.rho === 0 || !Number.isFinite(c)) {
+      this.exact(c);
+      return;
+    }
+    const i = Math.floor(c / TABLE_SPACING);
+    let interval = this.intervals.get(i);
+    if (interval === undefined) {
+      const made = this.makeInterval(this.node(i * TABLE_SPACING, i), this.node((i + 1) * TABLE_SPACING, i + 1), 0);
+      if (made === null) {
+        this.exact(c);
+        return;
+      }
+      this.intervals.set(i, made);
+      interval = made;
+    }
+    while (interval.left !== null && interval.right !== null) {
+      interval = c < interval.left.b.c ? interval.left : interval.right;
+    }
+    this.interpolate(interval.a, interval.b, c);
+  }
+
+  private node(c: number, key: number): TableNode {
+    const known = this.nodes.get(key);
+    if (known !== undefined) return known;
+    const made = this.exactNode(c);
+    this.nodes.set(key, made);
+    return made;
+  }
+
+  private exactNode(c: number): TableNode {
+    this.exact(c);
+    return { c, v: this.value, d1: this.d1, d2: this.d2 };
+  }
+
+  /** A verified interval [a, b], halved where the midpoint check fails; null when a node is not finite. */
+  private makeInterval(a: TableNode, b: TableNode, level: number): TableInterval | null {
+    if (!Number.isFinite(a.v) || !Number.isFinite(b.v)) return null;
+    const mid = this.exactNode(0.5 * (a.c + b.c));
+    if (!Number.isFinite(mid.v)) return null;
+    this.interpolate(a, b, mid.c);
+    const close = Math.abs(this.value - mid.v) <= TABLE_TOLERANCE && Math.abs(this.d1 - mid.d1) <= SLOPE_TOLERANCE * Math.max(1, Math.abs(mid.d1));
+    if (close || level >= MAX_LEVEL) {
+      if (!close) this.unconverged++;
+      return { a, b, left: null, right: null };
+    }
+    const left = this.makeInterval(a, mid, level + 1);
+    const right = this.makeInterval(mid, b, level + 1);
+    if (left === null || right === null) return null;
+    return { a, b, left, right };
+  }
+
+  /** Quintic Hermite interpolation of log L_G and its two derivatives between nodes a and b. */
+  private interpolate(a: TableNode, b: TableNode, c: number): void {
+    const h = b.c - a.c;
+    const t = (c - a.c) / h;
+    const t2 = t * t;
+    const t3 = t2 * t;
+    const t4 = t3 * t;
+    const t5 = t4 * t;
+    // basis on [0, 1]: values, and first and second t-derivatives
+    const H0 = 1 - 10 * t3 + 15 * t4 - 6 * t5;
+    const H1 = t - 6 * t3 + 8 * t4 - 3 * t5;
+    const H2 = 0.5 * (t2 - 3 * t3 + 3 * t4 - t5);
+    const H3 = 10 * t3 - 15 * t4 + 6 * t5;
+    const H4 = -4 * t3 + 7 * t4 - 3 * t5;
+    const H5 = 0.5 * (t3 - 2 * t4 + t5);
+    const D0 = -30 * t2 + 60 * t3 - 30 * t4;
+    const D1 = 1 - 18 * t2 + 32 * t3 - 15 * t4;
+    const D2 = 0.5 * (2 * t - 9 * t2 + 12 * t3 - 5 * t4);
+    const D3 = 30 * t2 - 60 * t3 + 30 * t4;
+    const D4 = -12 * t2 + 28 * t3 - 15 * t4;
+    const D5 = 0.5 * (3 * t2 - 8 * t3 + 5 * t4);
+    const E0 = -60 * t + 180 * t2 - 120 * t3;
+    const E1 = -36 * t + 96 * t2 - 60 * t3;
+    const E2 = 0.5 * (2 - 18 * t + 36 * t2 - 20 * t3);
+    const E3 = 60 * t - 180 * t2 + 120 * t3;
+    const E4 = -24 * t + 84 * t2 - 60 * t3;
+    const E5 = 0.5 * (6 * t - 24 * t2 + 20 * t3);
+    const fa1 = h * a.d1;
+    const fa2 = h * h * a.d2;
+    const fb1 = h * b.d1;
+    const fb2 = h * h * b.d2;
+    this.value = a.v * H0 + fa1 * H1 + fa2 * H2 + b.v * H3 + fb1 * H4 + fb2 * H5;
+    this.d1 = (a.v * D0 + fa1 * D1 + fa2 * D2 + b.v * D3 + fb1 * D4 + fb2 * D5) / h;
+    this.d2 = (a.v * E0 + fa1 * E1 + fa2 * E2 + b.v * E3 + fb1 * E4 + fb2 * E5) / (h * h);
+  }
+}
