@@ -211,6 +211,8 @@ export const assumptionVersions = mysqlTable(
     windowTo: varchar('window_to', { length: 20 }).notNull(),
     /** The definitions of default of the fitted years ({ definition, from, to, periods }[]); null for versions drafted before it was carried. */
     defaultDefinitions: json('default_definitions'),
+    /** The priors of a posterior-median value ({ rho: "flat", pd: "beta:1,1" }); null for every other estimator. */
+    prior: json('prior').$type<{ rho: string; pd: string }>(),
     // The analyst's judgement.
     marginData: double('margin_data').notNull().default(0),
     marginDataRationale: text('margin_data_rationale').notNull(),

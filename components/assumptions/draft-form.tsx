@@ -11,7 +11,8 @@ import { apiSend } from '@/lib/client/api';
 import { AppError } from '@/lib/errors';
 import { pd, rho } from '@/lib/format';
 import { problemOf, type FormFieldRef } from '@/lib/forms/place-errors';
-import { estimatorLabel, type EstimatorKey } from '@/lib/stats/estimators/types';
+import { priorText, valueSourceLabel, type PriorRecord } from '@/lib/assumptions/posterior-evidence';
+import type { EstimatorKey } from '@/lib/stats/estimators/types';
 import { ESTIMATOR_MODEL, FIT_MODEL_LABELS } from '@/lib/stats/fit-models';
 import { Cautions } from './cautions';
 
@@ -19,7 +20,16 @@ export type FitOption = {
   fitId: number;
   segment: string;
   label: string;
-  estimates: Record<string, { rho: number | null; pd: number | null; intervals: Record<string, { level: number; lower: number; upper: number }> }>;
+  estimates: Record<
+    string,
+    {
+      rho: number | null;
+      pd: number | null;
+      intervals: Record<string, { level: number; lower: number; upper: number }>;
+      /** The priors of a posterior median (recorded with the version). */
+      prior?: PriorRecord;
+    }
+  >;
 };
 
 export type DraftValues = {
@@ -161,7 +171,7 @@ export function DraftForm(
                   const usable = e.rho !== null && Object.keys(e.intervals).length > 0;
                   return (
                     <option key={k} value={k} disabled={!usable}>
-                      {estimatorLabel(k)}
+                      {valueSourceLabel(k)}
                       {e.rho === null ? ' (no value on this segment)' : !usable ? ' (no interval in this fit: cannot be drafted)' : ''}
                     </option>
                   );
@@ -188,7 +198,7 @@ export function DraftForm(
             </p>
           ) : null}
           <p className="text-sm md:col-span-3" data-testid="evidence-summary">
-            Estimate <span className="num">{rho(estimate)}</span> by {estimatorLabel(estimator).toLowerCase()}, PD <span className="num">{pd(est?.pd)}</span>,
+            Estimate <span className="num">{rho(estimate)}</span> by {valueSourceLabel(estimator).toLowerCase()}, PD <span className="num">{pd(est?.pd)}</span>,
             interval{' '}
             {interval ? (
               <span className="num">
@@ -198,6 +208,12 @@ export function DraftForm(
               <span className="text-[var(--color-bad)]">not computed by this fit for this estimator</span>
             )}
             {model ? <>; model: {FIT_MODEL_LABELS[model]}</> : null}
+            {est?.prior ? (
+              <span data-testid="evidence-prior">
+                ; prior {priorText(est.prior)}, recorded with the version. A posterior depends on its prior as well as on the data: say in the
+                rationale why this prior.
+              </span>
+            ) : null}
           </p>
           <div className="md:col-span-3">
             <Cautions compact title="The value you draft carries these cautions wherever it is used." />

@@ -3,7 +3,7 @@ import { ScrollBox } from '@/components/layout/scroll-box';
 import { intervalMethodLabel } from '@/lib/assumptions/content';
 import type { LibraryEntryDto } from '@/lib/dal/assumptions';
 import { interval, level, pd, rho } from '@/lib/format';
-import { estimatorLabel } from '@/lib/stats/estimators/types';
+import { valueSourceLabel } from '@/lib/assumptions/posterior-evidence';
 import { EvidenceBadge } from './evidence-badge';
 import { HealthBadge, StatusBadge } from './status-badge';
 
@@ -37,7 +37,7 @@ export function LibraryTable({ entries, showPending, emptyText }: { entries: Lib
               </td>
               <td className="num text-right whitespace-nowrap">
                 {e.current ? rho(e.current.estimate) : '—'}
-                {e.current ? <span className="block font-sans text-xs text-[var(--color-muted)]">{estimatorLabel(e.current.estimator)}</span> : null}
+                {e.current ? <span className="block font-sans text-xs text-[var(--color-muted)]">{valueSourceLabel(e.current.estimator)}</span> : null}
               </td>
               <td className="num whitespace-nowrap">
                 {e.current ? (

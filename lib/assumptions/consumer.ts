@@ -3,7 +3,7 @@ import { assumptionStatuses, overduePolicyKinds } from '@/db/schema';
 import { FIT_MODELS } from '@/lib/stats/fit-models';
 import { toCsv, type CsvValue } from '@/lib/csv';
 import { describeSpans, isMixed, mixedDefinitionCaution } from '@/lib/ingest/default-definition';
-import { estimatorLabel } from '@/lib/stats/estimators/types';
+import { valueSourceLabel } from './posterior-evidence';
 import { assumptionCautions } from './cautions';
 import { intervalMethodLabel } from './content';
 import { overdueCaution } from './overdue-policy';
@@ -41,6 +41,15 @@ export const consumerVersionSchema = z.object({
         .describe('The systematic factor over time: "independent" (drawn afresh each year) or "ar1" (a persistent factor, Z_t = phi Z_(t-1) + sqrt(1 - phi^2) e_t).'),
     })
     .describe('The model the value was estimated under; versions drafted before the model was recorded are gaussian/independent.'),
+  prior: z
+    .object({
+      rho: z.string().describe('The prior on rho: "flat", "supervisory:STRENGTH" (a Beta centred on the supervisory correlation) or "beta:A,B".'),
+      pd: z.string().describe('The prior on the PD, "beta:A,B" (Beta(1, 1), uniform, unless the fit set another).'),
+    })
+    .nullable()
+    .describe(
+      'The priors of a posterior-median value (estimator posteriorMedian, interval "credible": the equal-tailed credible interval; pd the posterior median of p), null for every other estimator. A posterior depends on its prior as well as on the data: with few defaults the prior may decide much of it.',
+    ),
   estimate: z.number(),
   interval,
   margins: z.object({ data: margin, practice: margin, general: margin }),
@@ -153,8 +162,9 @@ export function toConsumerVersion(v: VersionLike): ConsumerVersion {
     value: v.finalValue,
     pd: v.pd,
     estimator: v.estimator,
-    estimatorName: estimatorLabel(v.estimator),
+    estimatorName: valueSourceLabel(v.estimator),
     model: { copula: 'gaussian', factor: v.factorModel },
+    prior: v.prior,
     estimate: v.estimate,
     interval: { method: v.intervalMethod, methodName: intervalMethodLabel(v.intervalMethod), level: v.intervalLevel, lower: v.intervalLower, upper: v.intervalUpper },
     margins: {
@@ -248,6 +258,8 @@ export const exportColumns = [
   'estimator',
   'copula',
   'factor_model',
+  'prior_rho',
+  'prior_pd',
   'estimate',
   'interval_method',
   'interval_level',
@@ -281,6 +293,8 @@ export function exportRow(c: ConsumerVersion): CsvValue[] {
     c.estimator,
     c.model.copula,
     c.model.factor,
+    c.prior?.rho ?? null,
+    c.prior?.pd ?? null,
     c.estimate,
     c.interval.method,
     c.interval.level,

@@ -5,6 +5,7 @@ import { ESTIMATOR_KEYS } from '@/lib/stats/estimators/types';
 import { isIsoDate, reviewByProblem } from './dates';
 import type { DefinitionSpan } from '@/lib/ingest/default-definition';
 import { marginProblems } from './margins';
+import { CREDIBLE_INTERVAL, POSTERIOR_ESTIMATOR, type PriorRecord } from './posterior-evidence';
 
 /**
  * The content of an assumption version: the frozen evidence copied from the fit run and the
@@ -36,6 +37,11 @@ export type Evidence = {
    * drafted before they were carried (left out of the hash, so their hashes stay as stored).
    */
   defaultDefinitions?: DefinitionSpan[];
+  /**
+   * The priors of a posterior median ({ rho: "flat", pd: "beta:1,1" }), null for every other
+   * estimator. Not in the content hash: it follows from the fit run, segment and estimator, which are.
+   */
+  prior: PriorRecord | null;
 };
 
 export type Judgement = {
@@ -170,10 +176,17 @@ export const judgementSchema = z.object({
   reviewBy: isoDate('review-by date').optional(),
 });
 
-/** Every estimator with an interval can be drafted: the five of DESIGN.md and the persistent-factor ones. */
-export const estimatorKeys = ESTIMATOR_KEYS;
-/** The interval keys of the engine's results: binomialMle's profile, Wald and bootstrap, vasicekMle's chi-square, the moment estimators' bootstrap, ar1Mle's profile. */
-export const intervalMethods = ['profile', 'wald', 'bootstrap', 'chiSquare'] as const;
+/**
+ * Every estimator with an interval can be drafted: the five of DESIGN.md, the persistent-factor
+ * ones, and the posterior median of a low-default segment (posterior-evidence.ts).
+ */
+export const estimatorKeys = [...ESTIMATOR_KEYS, POSTERIOR_ESTIMATOR] as const;
+/**
+ * The interval keys of the engine's results: binomialMle's profile, Wald and bootstrap, vasicekMle's
+ * chi-square, the moment estimators' bootstrap, ar1Mle's profile, and the posterior's equal-tailed
+ * credible interval.
+ */
+export const intervalMethods = ['profile', 'wald', 'bootstrap', 'chiSquare', CREDIBLE_INTERVAL] as const;
 
 /** The readable name of each interval method, beside the keys (screens, API answers). */
 export const INTERVAL_METHOD_LABELS: Readonly<Record<string, string>> = {
@@ -181,6 +194,7 @@ export const INTERVAL_METHOD_LABELS: Readonly<Record<string, string>> = {
   wald: 'Wald',
   bootstrap: 'parametric bootstrap',
   chiSquare: 'chi-square (large pool)',
+  [CREDIBLE_INTERVAL]: 'equal-tailed credible (posterior)',
 };
 
 /** The readable name of an interval method key (a key without a label is shown as it is). */

@@ -2,6 +2,7 @@ import type { FactorModel } from '@/db/schema';
 import { AppError } from '@/lib/errors';
 import type { EstimatorKey } from '@/lib/stats/estimators/types';
 import { ESTIMATOR_MODEL } from '@/lib/stats/fit-models';
+import { CREDIBLE_INTERVAL, pickPosterior, POSTERIOR_ESTIMATOR, type PriorRecord } from './posterior-evidence';
 
 /**
  * Picks the evidence of one segment and estimator out of a fit run's results (the JSON the engine
@@ -9,11 +10,12 @@ import { ESTIMATOR_MODEL } from '@/lib/stats/fit-models';
  * the methods binomialMle's profile, wald and bootstrap, vasicekMle's chiSquare, the moment
  * estimators' bootstrap and ar1Mle's profile), with the factor model the estimator assumes. A
  * missing segment, an undefined estimate or a missing interval is refused with a sentence: an
- * assumption is never drafted on evidence that is not there.
+ * assumption is never drafted on evidence that is not there. The estimator `posteriorMedian` reads
+ * the segment's `posterior` block instead (posterior-evidence.ts), with its credible interval and priors.
  */
 type Interval = { level: number; lower: number; upper: number };
 type Estimate = { rho: number | null; pd: number | null; status?: string; reason?: string; intervals?: Record<string, Interval | null> };
-type SegmentResult = { segment: string; periods?: string[]; estimates: Record<string, Estimate | undefined> };
+type SegmentResult = { segment: string; periods?: string[]; estimates: Record<string, Estimate | undefined>; posterior?: unknown };
 
 export type PickedEvidence = {
   factorModel: FactorModel;
@@ -24,6 +26,8 @@ export type PickedEvidence = {
   intervalUpper: number;
   windowFrom: string;
   windowTo: string;
+  /** The priors of a posterior median; null for every other estimator. */
+  prior: PriorRecord | null;
 };
 
 /** The intervals an estimate has, for the sentence that refuses another. */
@@ -43,6 +47,17 @@ export function pickEvidence(
   const segs = (results as { segments?: SegmentResult[] } | null)?.segments;
   const seg = Array.isArray(segs) ? segs.find((s) => s?.segment === segment) : undefined;
   if (!seg) throw new AppError('invalid:segment', `The fit run has no results for the segment “${segment}”.`, { field: 'segment' });
+  const periods = seg.periods ?? [];
+  const window = { windowFrom: periods[0] ?? '', windowTo: periods[periods.length - 1] ?? '' };
+  if (estimator === POSTERIOR_ESTIMATOR) {
+    if (intervalMethod !== CREDIBLE_INTERVAL) {
+      throw new AppError('invalid:interval', `A posterior median carries its credible interval: choose the interval ${CREDIBLE_INTERVAL}, not ${intervalMethod}.`, {
+        field: 'intervalMethod',
+      });
+    }
+    // The grid posterior is of the independent-years model (lib/stats/rho-posterior.ts).
+    return { factorModel: 'independent', ...pickPosterior(seg), ...window };
+  }
   const est = seg.estimates?.[estimator];
   if (!est || typeof est.rho !== 'number' || typeof est.pd !== 'number') {
     throw new AppError(
@@ -59,7 +74,6 @@ export function pickEvidence(
       { field: 'intervalMethod' },
     );
   }
-  const periods = seg.periods ?? [];
   return {
     factorModel: ESTIMATOR_MODEL[estimator as EstimatorKey] ?? 'independent',
     estimate: est.rho,
@@ -67,7 +81,7 @@ export function pickEvidence(
     intervalLevel: iv.level,
     intervalLower: iv.lower,
     intervalUpper: iv.upper,
-    windowFrom: periods[0] ?? '',
-    windowTo: periods[periods.length - 1] ?? '',
+    ...window,
+    prior: null,
   };
 }

@@ -1,4 +1,5 @@
 import { AppError } from '@/lib/errors';
+import { estimatorLabel } from '@/lib/stats/estimators/types';
 
 /**
  * The evidence of a posterior-median assumption: a segment's `posterior` block of a fit run (the
@@ -72,6 +73,11 @@ export function pickPosterior(segmentResult: { segment: string; posterior?: unkn
     intervalUpper: p.upper,
     prior: { rho: rhoPrior, pd: pdPrior },
   };
+}
+
+/** The readable name of a draftable estimator key: the engine's estimators and the posterior median. */
+export function valueSourceLabel(key: string): string {
+  return key === POSTERIOR_ESTIMATOR ? POSTERIOR_LABEL : estimatorLabel(key);
 }
 
 /** The prior in one line, e.g. "rho flat, p beta:1,1". */

@@ -103,6 +103,7 @@ export function contentOf(v: AssumptionVersion, segment: string): VersionContent
     seeds: v.seeds,
     estimator: v.estimator,
     factorModel: v.factorModel,
+    prior: v.prior ?? null,
     estimate: v.estimate,
     intervalMethod: v.intervalMethod,
     intervalLevel: v.intervalLevel,

@@ -17,6 +17,8 @@ describe('the factor model of an assumption', () => {
     expect([...estimatorKeys]).toEqual(
       expect.arrayContaining(['binomialMle', 'vasicekMle', 'momentVariance', 'momentVarianceCorrected', 'jointDefault', 'momentVarianceAutocorrected', 'ar1Mle']),
     );
-    expect([...intervalMethods].sort()).toEqual(['bootstrap', 'chiSquare', 'profile', 'wald']);
+    // and a low-default segment's posterior median with its equal-tailed credible interval
+    expect([...estimatorKeys]).toContain('posteriorMedian');
+    expect([...intervalMethods].sort()).toEqual(['bootstrap', 'chiSquare', 'credible', 'profile', 'wald']);
   });
 });

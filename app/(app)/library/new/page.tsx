@@ -4,6 +4,7 @@ import { forbidden } from 'next/navigation';
 import { z } from 'zod';
 import { DraftForm, type FitOption } from '@/components/assumptions/draft-form';
 import { todayIso } from '@/lib/assumptions/dates';
+import { CREDIBLE_INTERVAL, POSTERIOR_ESTIMATOR } from '@/lib/assumptions/posterior-evidence';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { listOpenVersions } from '@/lib/dal/assumptions';
@@ -35,6 +36,11 @@ export default async function NewDraftPage({ searchParams }: { searchParams: Pro
         const ivs = (e as { intervals?: Record<string, { level: number; lower: number; upper: number } | null> }).intervals ?? {};
         for (const [m, iv] of Object.entries(ivs)) if (iv) intervals[m] = { level: iv.level, lower: iv.lower, upper: iv.upper };
         estimates[k] = { rho: e.rho, pd: e.pd, intervals };
+      }
+      // A low-default segment's posterior median, with its credible interval and priors, when the fit computed it.
+      if (s.posterior?.status === 'ok') {
+        const p = s.posterior;
+        estimates[POSTERIOR_ESTIMATOR] = { rho: p.median, pd: p.pd.median, intervals: { [CREDIBLE_INTERVAL]: { level: p.level, lower: p.lower, upper: p.upper } }, prior: p.prior };
       }
       options.push({ fitId: f.id, segment: s.segment, label: `Fit ${f.id} · ${f.datasetName} · ${s.segment}`, estimates });
     }

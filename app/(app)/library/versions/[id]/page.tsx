@@ -28,7 +28,7 @@ import { modelsUsing } from '@/lib/dal/models';
 import { lowDefaultThreshold } from '@/lib/env';
 import { AppError } from '@/lib/errors';
 import { interval, level, pd, rho } from '@/lib/format';
-import { estimatorLabel } from '@/lib/stats/estimators/types';
+import { priorText, valueSourceLabel } from '@/lib/assumptions/posterior-evidence';
 import { FIT_MODEL_LABELS } from '@/lib/stats/fit-models';
 
 export const metadata: Metadata = { title: 'Assumption' };
@@ -102,7 +102,7 @@ export default async function VersionPage({
             </span>
           </p>
           <p className="mt-1 text-sm text-[var(--color-muted)]">
-            Estimate <span className="num">{rho(v.estimate)}</span> by {estimatorLabel(v.estimator).toLowerCase()}, {level(v.intervalLevel)}{' '}
+            Estimate <span className="num">{rho(v.estimate)}</span> by {valueSourceLabel(v.estimator).toLowerCase()}, {level(v.intervalLevel)}{' '}
             {intervalMethodLabel(v.intervalMethod)} interval <span className="num">{interval(v.intervalLower, v.intervalUpper)}</span>; the
             value is valid only with this PD and the definition of default of the data.
           </p>
@@ -119,7 +119,7 @@ export default async function VersionPage({
           <dl className="grid gap-x-4 gap-y-1 text-sm sm:grid-cols-[12rem_minmax(0,1fr)]">
             <dt>Estimator</dt>
             <dd>
-              {estimatorLabel(v.estimator)}: <span className="num">{rho(v.estimate)}</span>
+              {valueSourceLabel(v.estimator)}: <span className="num">{rho(v.estimate)}</span>
             </dd>
             <dt>Interval</dt>
             <dd>
@@ -127,6 +127,15 @@ export default async function VersionPage({
             </dd>
             <dt>Model</dt>
             <dd data-testid="factor-model">Gaussian one-factor, {FIT_MODEL_LABELS[v.factorModel]}</dd>
+            {v.prior ? (
+              <>
+                <dt>Prior</dt>
+                <dd data-testid="version-prior">
+                  {priorText(v.prior)}: the value is the posterior median under this prior, which shapes it as well as the data do (more so the
+                  fewer the defaults); the PD is the posterior median of p.
+                </dd>
+              </>
+            ) : null}
             <dt>Data window</dt>
             <dd>
               {v.windowFrom} to {v.windowTo}

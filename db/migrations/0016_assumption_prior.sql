@@ -1,0 +1,1 @@
+ALTER TABLE `assumption_versions` ADD `prior` json;
