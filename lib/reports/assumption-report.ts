@@ -1,12 +1,12 @@
 import { assumptionCautions } from '@/lib/assumptions/cautions';
 import { versionCautions } from '@/lib/assumptions/consumer';
 import { statusLabels } from '@/lib/assumptions/lifecycle';
+import { priorText, valueSourceLabel } from '@/lib/assumptions/posterior-evidence';
 import type { VersionPageDto } from '@/lib/dal/assumptions';
 import type { FindingDto } from '@/lib/dal/findings';
 import type { FitSegmentResult } from '@/lib/fits/results';
 import { level as levelText, pd as pdText, rho as rhoText, when } from '@/lib/format';
 import { describeSpans } from '@/lib/ingest/default-definition';
-import { estimatorLabel } from '@/lib/stats/estimators/types';
 import type { ReportDocument, Section } from './document';
 import { dataBlocks, findingsBlocks, type DatasetFacts } from './fit-report';
 import { segmentSections } from './segment-blocks';
@@ -47,8 +47,9 @@ export function buildAssumptionReport(input: {
           rows: [
             ['Final value (rho to use)', rhoText(v.finalValue)],
             ['With the PD', pdText(v.pd)],
-            ['Estimator', `${estimatorLabel(v.estimator)}: ${rhoText(v.estimate)}`],
+            ['Estimator', `${valueSourceLabel(v.estimator)}: ${rhoText(v.estimate)}`],
             ['Interval', `[${rhoText(v.intervalLower)}, ${rhoText(v.intervalUpper)}] ${v.intervalMethod}, ${levelText(v.intervalLevel)}`],
+            ...(v.prior ? [['Prior', `${priorText(v.prior)} (the value is the posterior median under it; the PD the posterior median of p)`] as [string, string]] : []),
             ['Estimate plus margins', rhoText(v.conservativeValue)],
             ['Data window', `${v.windowFrom} to ${v.windowTo}`],
             ['Definition of default', v.defaultDefinitions ? (describeSpans(v.defaultDefinitions) ?? 'not stated in the data') : 'not recorded (drafted before it was carried)'],
