@@ -13,11 +13,8 @@
 import os from 'node:os';
 import { EnginePool, defaultThreads, splitRange, type EngineTask } from '@/lib/engine';
 import { mergeAudit, type AuditReplication, type AuditSpec, type CoverageAudit, type EstimatorAudit } from '@/lib/stats/audit';
+import { arg } from './timing';
 
-function arg(name: string, fallback: string): string {
-  const i = process.argv.indexOf(name);
-  return i >= 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
-}
 
 const R = Number(arg('--replications', '500'));
 const THREADS = Math.max(1, Number(arg('--threads', String(defaultThreads()))));

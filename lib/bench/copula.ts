@@ -19,18 +19,10 @@ import { copulaBootstrapRange, copulaPowerRange } from '@/lib/stats/copula-lr-te
 import { createRng } from '@/lib/stats/random';
 import { simulatePanel } from '@/lib/stats/simulate';
 import { simulateTCopulaPanel } from '@/lib/stats/simulate-t-copula';
+import { arg, median } from './timing';
 
-function arg(name: string, fallback: string): string {
-  const i = process.argv.indexOf(name);
-  return i >= 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
-}
 const RUNS = Math.max(1, Number(arg('--runs', '3')));
 
-const median = (xs: number[]) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
-};
 
 function time(fn: () => unknown, runs: number): { median: number; cpu: number } {
   const xs: number[] = [];

@@ -62,44 +62,16 @@ import { validateCohortText } from '@/lib/ingest';
 import type { FitModel } from '@/lib/stats/fit-models';
 import { jackknife } from '@/lib/stats/stability/jackknife';
 import { rollingWindow } from '@/lib/stats/stability/rolling-window';
+import { arg, median, time, type Timing } from './timing';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 const panel = { obligors: fixtures.panels.E.obligors, defaults: fixtures.panels.E.defaults };
 
-function arg(name: string, fallback: string): string {
-  const i = process.argv.indexOf(name);
-  return i >= 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
-}
 const RUNS = Math.max(1, Number(arg('--runs', '3')));
 const THREADS = Math.max(1, Number(arg('--threads', String(defaultThreads()))));
 
-const median = (xs: number[]) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
-};
 
-interface Timing {
-  wallMs: number;
-  cpuMs: number;
-  bestMs: number;
-}
 
-/** Median wall and CPU time of fn over `runs` runs (after `warmup` unmeasured runs). */
-async function time(fn: () => unknown, runs: number, warmup = 1): Promise<Timing> {
-  for (let i = 0; i < warmup; i++) await fn();
-  const wall: number[] = [];
-  const cpu: number[] = [];
-  for (let i = 0; i < runs; i++) {
-    const c0 = process.cpuUsage();
-    const t0 = performance.now();
-    await fn();
-    wall.push(performance.now() - t0);
-    const c = process.cpuUsage(c0);
-    cpu.push((c.user + c.system) / 1000);
-  }
-  return { wallMs: median(wall), cpuMs: median(cpu), bestMs: Math.min(...wall) };
-}
 
 const fmt = (ms: number) => (ms < 1 ? `${(ms * 1000).toFixed(1)} us` : ms < 1000 ? `${ms.toFixed(2)} ms` : `${(ms / 1000).toFixed(2)} s`);
 const rows: [string, string, string, string, string][] = [];

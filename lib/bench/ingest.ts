@@ -20,6 +20,7 @@ import { createRng } from '@/lib/stats/random';
 import { generateLoanTape } from '@/lib/demo/loan-tape';
 import { DEMO_SEED } from '@/lib/demo/fenmoor';
 import { validateLoanTapeStream } from '@/lib/ingest/loan-tape';
+import { arg } from './timing';
 
 type Phase = 'papaparse' | 'validate';
 interface Measure {
@@ -31,10 +32,6 @@ interface Measure {
   detail?: string;
 }
 
-function arg(name: string, fallback: string): string {
-  const i = process.argv.indexOf(name);
-  return i >= 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
-}
 
 async function runPhase(phase: Phase, file: string): Promise<Measure> {
   const t0 = performance.now();

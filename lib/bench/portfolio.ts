@@ -24,42 +24,13 @@ import { factorCorrelation } from '@/lib/stats/factor-correlation';
 import { createRng } from '@/lib/stats/random';
 import { rhoPosterior } from '@/lib/stats/rho-posterior';
 import { conditionalPd } from '@/lib/stats/vasicek';
+import { arg, time, type Timing } from './timing';
 
-function arg(name: string, fallback: string): string {
-  const i = process.argv.indexOf(name);
-  return i >= 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
-}
 const RUNS = Math.max(1, Number(arg('--runs', '3')));
 const THREADS = Math.max(1, Number(arg('--threads', String(defaultThreads()))));
 
-const median = (xs: number[]) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
-};
 
-interface Timing {
-  wallMs: number;
-  bestMs: number;
-  /** CPU time of the process (all its threads): what the work costs whatever else runs on the machine. */
-  cpuMs: number;
-}
 
-/** Median wall and CPU time of fn over `runs` runs (after `warmup` unmeasured runs), and the best wall time. */
-async function time(fn: () => unknown, runs: number, warmup = 1): Promise<Timing> {
-  for (let i = 0; i < warmup; i++) await fn();
-  const wall: number[] = [];
-  const cpu: number[] = [];
-  for (let i = 0; i < runs; i++) {
-    const c0 = process.cpuUsage();
-    const t0 = performance.now();
-    await fn();
-    wall.push(performance.now() - t0);
-    const c = process.cpuUsage(c0);
-    cpu.push((c.user + c.system) / 1000);
-  }
-  return { wallMs: median(wall), bestMs: Math.min(...wall), cpuMs: median(cpu) };
-}
 
 const years = Array.from({ length: 20 }, (_, t) => String(2005 + t));
 

@@ -33,6 +33,7 @@ import { gunzipSource } from '@/lib/ingest/gzip';
 import { DEFAULT_MAX_COLUMNS, DEFAULT_MAX_LINE_CHARS } from '@/lib/ingest/limits';
 import { checkLoanTapeHeader, convertLoanTape, validateCohortOrVintage, type Validated } from '@/lib/ingest/upload';
 import { createRng } from '@/lib/stats/random';
+import { arg } from './timing';
 
 const CASES = ['single-line', 'wide-header', 'tape-upload', 'tape-convert'] as const;
 type Case = (typeof CASES)[number];
@@ -48,10 +49,6 @@ interface Measure {
 const MB = 1024 * 1024;
 const PIECE = 256 * 1024;
 
-function arg(name: string, fallback: string): string {
-  const i = process.argv.indexOf(name);
-  return i >= 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
-}
 
 /** `bytes` of `unit` repeated, in pieces of about 256 KB, never all at once. */
 function* repeated(unit: string, bytes: number): Generator<string> {

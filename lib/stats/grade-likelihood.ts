@@ -24,6 +24,7 @@ import { GradeYearIntegrand, gradeMoments } from './grade-mixing';
 import type { IntegrationReport } from './mixture-likelihood';
 import { logBinomialCoefficient } from './log-binomial';
 import { LogConcaveIntegrator } from './log-concave-integral';
+import { PeriodWarmStarts } from './period-warm-starts';
 import { assertPanel, type Panel } from './panel';
 
 /** Value, gradient and Hessian (row-major, P x P, P = 2G in the order c_1, a_1, ..., c_G, a_G). */
@@ -49,14 +50,14 @@ export class GradeLikelihood {
   readonly obligors: Float64Array;
   readonly defaults: Float64Array;
   private readonly logChoose: Float64Array;
-  private readonly modes: Float64Array;
-  private readonly widths: Float64Array;
-  private readonly hasMode: Uint8Array;
+  private readonly warm: PeriodWarmStarts;
   private readonly integrand: GradeYearIntegrand;
   private readonly integrator: LogConcaveIntegrator;
   evaluations = 0;
-  unconverged = 0;
-  private worstRelativeError = 0;
+  /** Period integrals that missed the tolerance of the adaptive rule (their finite values are used). */
+  get unconverged(): number {
+    return this.warm.unconverged;
+  }
 
   constructor(panels: readonly Panel[]) {
     if (!Array.isArray(panels) || panels.length === 0) throw new RangeError('GradeLikelihood: give at least one grade.');
@@ -82,16 +83,14 @@ export class GradeLikelihood {
         this.logChoose[t * G + g] = logBinomialCoefficient(n, d);
       }
     }
-    this.modes = new Float64Array(T);
-    this.widths = new Float64Array(2 * T);
-    this.hasMode = new Uint8Array(T);
+    this.warm = new PeriodWarmStarts(T);
     this.integrand = new GradeYearIntegrand(G);
     this.integrator = new LogConcaveIntegrator(gradeMoments(G, true));
   }
 
   /** How the integrations went: evaluations, integrals above tolerance, worst error estimate. */
   report(): IntegrationReport {
-    return { evaluations: this.evaluations, unconverged: this.unconverged, worstRelativeError: this.worstRelativeError };
+    return { evaluations: this.evaluations, unconverged: this.warm.unconverged, worstRelativeError: this.warm.worstRelativeError };
   }
 
   /**
@@ -116,24 +115,8 @@ export class GradeLikelihood {
     for (let t = 0; t < this.years; t++) {
       const o = t * G;
       f.setYear(this.obligors.subarray(o, o + G), this.defaults.subarray(o, o + G), this.logChoose.subarray(o, o + G));
-      const r = this.integrator.integrate(
-        f,
-        this.hasMode[t] === 1
-          ? { start: this.modes[t], leftWidth: this.widths[2 * t], rightWidth: this.widths[2 * t + 1], curvatureBound: 1 }
-          : { curvatureBound: 1 },
-      );
-      if (!r.converged) {
-        if (!Number.isFinite(r.value)) {
-          this.hasMode[t] = 0;
-          throw new RangeError(`grade log-likelihood: the integral of year ${t + 1} failed: ${r.reason}.`);
-        }
-        this.unconverged++;
-        if (r.relativeError > this.worstRelativeError) this.worstRelativeError = r.relativeError;
-      }
-      this.modes[t] = r.mode;
-      this.widths[2 * t] = r.leftWidth;
-      this.widths[2 * t + 1] = r.rightWidth;
-      this.hasMode[t] = 1;
+      const r = this.integrator.integrate(f, this.warm.options(t, { curvatureBound: 1 }));
+      this.warm.record(t, r, () => `grade log-likelihood: the integral of year ${t + 1} failed: ${r.reason}.`);
       value += r.value;
       if (!withDerivatives) continue;
       const fm = f.fAtMode;

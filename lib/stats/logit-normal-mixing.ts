@@ -14,6 +14,7 @@
  * of Risk 6(1):59-92, section 4.
  */
 import { LogConcaveIntegrator, type LogConcaveIntegrand } from './log-concave-integral';
+import { PeriodWarmStarts } from './period-warm-starts';
 import { logBinomialCoefficient } from './log-binomial';
 import { assertPanel, type Panel } from './panel';
 
@@ -100,13 +101,13 @@ export class LogitNormalLikelihood {
   private readonly obligors: Float64Array;
   private readonly defaults: Float64Array;
   private readonly logChoose: Float64Array;
-  private readonly modes: Float64Array;
-  private readonly widths: Float64Array;
-  private readonly hasMode: Uint8Array;
+  private readonly warm: PeriodWarmStarts;
   private readonly integrand = new LogitNormalPeriodIntegrand();
   private readonly integrator = new LogConcaveIntegrator(0);
-  /** Period integrals that missed the tolerance (the values are used). */
-  unconverged = 0;
+  /** Period integrals that missed the tolerance of the adaptive rule (their finite values are used). */
+  get unconverged(): number {
+    return this.warm.unconverged;
+  }
   evaluations = 0;
 
   constructor(panel: Panel) {
@@ -116,9 +117,7 @@ export class LogitNormalLikelihood {
     this.obligors = Float64Array.from(panel.obligors);
     this.defaults = Float64Array.from(panel.defaults);
     this.logChoose = new Float64Array(T);
-    this.modes = new Float64Array(T);
-    this.widths = new Float64Array(2 * T);
-    this.hasMode = new Uint8Array(T);
+    this.warm = new PeriodWarmStarts(T);
     for (let t = 0; t < T; t++) this.logChoose[t] = logBinomialCoefficient(this.obligors[t], this.defaults[t]);
   }
 
@@ -132,25 +131,8 @@ export class LogitNormalLikelihood {
     let value = 0;
     for (let t = 0; t < this.periods; t++) {
       f.setPeriod(this.obligors[t], this.defaults[t], this.logChoose[t]);
-      const r = this.integrator.integrate(
-        f,
-        this.hasMode[t] === 1
-          ? { start: this.modes[t], leftWidth: this.widths[2 * t], rightWidth: this.widths[2 * t + 1], curvatureBound: 1 }
-          : { curvatureBound: 1 },
-      );
-      if (!r.converged) {
-        if (!Number.isFinite(r.value)) {
-          this.hasMode[t] = 0;
-          throw new RangeError(
-            `logit-normal log-likelihood: the integral of period ${t + 1} (n = ${this.obligors[t]}, d = ${this.defaults[t]}) failed at mu = ${mu}, sigma = ${sigma}: ${r.reason}.`,
-          );
-        }
-        this.unconverged++;
-      }
-      this.modes[t] = r.mode;
-      this.widths[2 * t] = r.leftWidth;
-      this.widths[2 * t + 1] = r.rightWidth;
-      this.hasMode[t] = 1;
+      const r = this.integrator.integrate(f, this.warm.options(t, { curvatureBound: 1 }));
+      this.warm.record(t, r, () => `logit-normal log-likelihood: the integral of period ${t + 1} (n = ${this.obligors[t]}, d = ${this.defaults[t]}) failed at mu = ${mu}, sigma = ${sigma}: ${r.reason}.`);
       value += r.value;
     }
     return value;

@@ -28,6 +28,7 @@
 import { GaussianPeriodIntegrand, GAUSSIAN_MOMENTS, type DerivativeOrder } from './gaussian-mixing';
 import { binomialLogPmf, logBinomialCoefficient } from './log-binomial';
 import { LogConcaveIntegrator } from './log-concave-integral';
+import { PeriodWarmStarts } from './period-warm-starts';
 import { normalCdf, normalQuantile } from './normal';
 import { normalTails, TAIL_SLOTS } from './normal-tails';
 import { assertPanel, type Panel } from './panel';
@@ -100,9 +101,7 @@ export class MixtureLikelihood {
   readonly obligors: Float64Array;
   readonly defaults: Float64Array;
   private readonly logChoose: Float64Array;
-  private readonly modes: Float64Array;
-  private readonly widths: Float64Array;
-  private readonly hasMode: Uint8Array;
+  private readonly warm: PeriodWarmStarts;
   private readonly integrand = new GaussianPeriodIntegrand();
   private readonly integrator = new LogConcaveIntegrator(GAUSSIAN_MOMENTS[2]);
   private readonly tails = new Float64Array(TAIL_SLOTS);
@@ -110,9 +109,10 @@ export class MixtureLikelihood {
   readonly pooledRate: number;
   /** Likelihood evaluations performed (each covers every period). */
   evaluations = 0;
-  /** Period integrals that missed the tolerance of the adaptive rule (should stay 0; see report()). */
-  unconverged = 0;
-  private worstRelativeError = 0;
+  /** Period integrals that missed the tolerance of the adaptive rule (their finite values are used). */
+  get unconverged(): number {
+    return this.warm.unconverged;
+  }
 
   constructor(panel: Panel) {
     assertPanel(panel, 'MixtureLikelihood');
@@ -121,9 +121,7 @@ export class MixtureLikelihood {
     this.obligors = Float64Array.from(panel.obligors);
     this.defaults = Float64Array.from(panel.defaults);
     this.logChoose = new Float64Array(T);
-    this.modes = new Float64Array(T);
-    this.widths = new Float64Array(2 * T);
-    this.hasMode = new Uint8Array(T);
+    this.warm = new PeriodWarmStarts(T);
     let sn = 0;
     let sd = 0;
     for (let t = 0; t < T; t++) {
@@ -136,7 +134,7 @@ export class MixtureLikelihood {
 
   /** How the integrations went so far: evaluations, integrals that missed the tolerance, the worst error estimate. */
   report(): IntegrationReport {
-    return { evaluations: this.evaluations, unconverged: this.unconverged, worstRelativeError: this.worstRelativeError };
+    return { evaluations: this.evaluations, unconverged: this.warm.unconverged, worstRelativeError: this.warm.worstRelativeError };
   }
 
   /** Log-likelihood at (k, rho), k = Phi^-1(p). */
@@ -182,26 +180,8 @@ export class MixtureLikelihood {
     const M = this.integrator.moments;
     for (let t = 0; t < this.periods; t++) {
       f.setPeriod(this.obligors[t], this.defaults[t], this.logChoose[t]);
-      const r = this.integrator.integrate(
-        f,
-        this.hasMode[t] === 1
-          ? { start: this.modes[t], leftWidth: this.widths[2 * t], rightWidth: this.widths[2 * t + 1], curvatureBound: 1 }
-          : { curvatureBound: 1 },
-      );
-      if (!r.converged) {
-        if (!Number.isFinite(r.value)) {
-          this.hasMode[t] = 0;
-          throw new RangeError(
-            `mixture log-likelihood: the integral of period ${t + 1} (n = ${this.obligors[t]}, d = ${this.defaults[t]}) failed at k = ${k}, rho = ${rho}: ${r.reason}.`,
-          );
-        }
-        this.unconverged++;
-        if (r.relativeError > this.worstRelativeError) this.worstRelativeError = r.relativeError;
-      }
-      this.modes[t] = r.mode;
-      this.widths[2 * t] = r.leftWidth;
-      this.widths[2 * t + 1] = r.rightWidth;
-      this.hasMode[t] = 1;
+      const r = this.integrator.integrate(f, this.warm.options(t, { curvatureBound: 1 }));
+      this.warm.record(t, r, () => `mixture log-likelihood: the integral of period ${t + 1} (n = ${this.obligors[t]}, d = ${this.defaults[t]}) failed at k = ${k}, rho = ${rho}: ${r.reason}.`);
       value += r.value;
       if (order > 0) {
         const h1m = f.h1AtMode;

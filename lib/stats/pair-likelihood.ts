@@ -21,6 +21,7 @@
 import { GradeLikelihood } from './grade-likelihood';
 import { logBinomialCoefficient } from './log-binomial';
 import { LogConcaveIntegrator, type LogConcaveIntegral } from './log-concave-integral';
+import { PeriodWarmStarts } from './period-warm-starts';
 import type { IntegrationReport } from './mixture-likelihood';
 import { normalQuantile } from './normal';
 import { PairYearIntegrand, PAIR_MOMENTS } from './pair-mixing';
@@ -61,9 +62,7 @@ export class PairLikelihood {
   private readonly aB: number;
   private readonly integrand = new PairYearIntegrand();
   private readonly integrator = new LogConcaveIntegrator(PAIR_MOMENTS);
-  private readonly modes: Float64Array;
-  private readonly widths: Float64Array;
-  private readonly hasMode: Uint8Array;
+  private readonly warm: PeriodWarmStarts;
   private readonly panels: readonly [Panel, Panel];
   private readonly ends = new Map<number, GradeLikelihood>();
   private readonly tabulate: boolean;
@@ -72,11 +71,13 @@ export class PairLikelihood {
   private readonly memoSlope = new Float64Array(MEMO);
   private memoNext = 0;
   evaluations = 0;
-  unconverged = 0;
+  /** Period integrals that missed the tolerance of the adaptive rule (their finite values are used). */
+  get unconverged(): number {
+    return this.warm.unconverged;
+  }
   /** Halvings of a year's table spacing, and years integrated exactly after MAX_REFINEMENTS. */
   refinements = 0;
   exactYears = 0;
-  private worstRelativeError = 0;
 
   constructor(a: Panel, b: Panel, marginA: Margin, marginB: Margin, options: { tabulate?: boolean } = {}) {
     this.tabulate = options.tabulate ?? true;
@@ -103,14 +104,12 @@ export class PairLikelihood {
     this.aA = Math.sqrt(marginA.rho / (1 - marginA.rho));
     this.cB = normalQuantile(marginB.pd) / Math.sqrt(1 - marginB.rho);
     this.aB = Math.sqrt(marginB.rho / (1 - marginB.rho));
-    this.modes = new Float64Array(T);
-    this.widths = new Float64Array(2 * T);
-    this.hasMode = new Uint8Array(T);
+    this.warm = new PeriodWarmStarts(T);
   }
 
   /** How the integrations went (outer and inner integrals above tolerance). */
   report(): IntegrationReport {
-    return { evaluations: this.evaluations, unconverged: this.unconverged + this.integrand.innerUnconverged, worstRelativeError: this.worstRelativeError };
+    return { evaluations: this.evaluations, unconverged: this.warm.unconverged + this.integrand.innerUnconverged, worstRelativeError: this.warm.worstRelativeError };
   }
 
   /** l(r), r in [-1, 1]. */
@@ -166,24 +165,8 @@ export class PairLikelihood {
 
   /** One year's outer integral at r (the integrand set up), keeping its mode and widths as the next warm start. */
   private integrateYear(t: number, r: number): LogConcaveIntegral {
-    const res = this.integrator.integrate(
-      this.integrand,
-      this.hasMode[t] === 1
-        ? { start: this.modes[t], leftWidth: this.widths[2 * t], rightWidth: this.widths[2 * t + 1], curvatureBound: 1, truncation: OUTER_TRUNCATION }
-        : { curvatureBound: 1, truncation: OUTER_TRUNCATION },
-    );
-    if (!res.converged) {
-      if (!Number.isFinite(res.value)) {
-        this.hasMode[t] = 0;
-        throw new RangeError(`pair log-likelihood: the integral of year ${t + 1} failed at r = ${r}: ${res.reason}.`);
-      }
-      this.unconverged++;
-      if (res.relativeError > this.worstRelativeError) this.worstRelativeError = res.relativeError;
-    }
-    this.modes[t] = res.mode;
-    this.widths[2 * t] = res.leftWidth;
-    this.widths[2 * t + 1] = res.rightWidth;
-    this.hasMode[t] = 1;
+    const res = this.integrator.integrate(this.integrand, this.warm.options(t, { curvatureBound: 1, truncation: OUTER_TRUNCATION }));
+    this.warm.record(t, res, () => `pair log-likelihood: the integral of year ${t + 1} failed at r = ${r}: ${res.reason}.`);
     return res;
   }
 

@@ -12,6 +12,7 @@
 import studentTCdf from '@stdlib/stats-base-dists-t-cdf';
 import studentTQuantile from '@stdlib/stats-base-dists-t-quantile';
 import { LogConcaveIntegrator } from './log-concave-integral';
+import { PeriodWarmStarts } from './period-warm-starts';
 import { logBinomialCoefficient } from './log-binomial';
 import { MixtureLikelihood, type IntegrationReport } from './mixture-likelihood';
 import { normalCdf, normalQuantile } from './normal';
@@ -84,9 +85,7 @@ export class TCopulaLikelihood {
   /** Total defaults / total obligors. */
   readonly pooledRate: number;
   private readonly logChoose: Float64Array;
-  private readonly modes: Float64Array;
-  private readonly widths: Float64Array;
-  private readonly hasMode: Uint8Array;
+  private readonly warm: PeriodWarmStarts;
   private readonly integrand = new TCopulaPeriodIntegrand();
   /** The periods' inner likelihoods in the threshold, one set per recent rho (most recent last). */
   private readonly tables = new Map<number, ThresholdLikelihood[]>();
@@ -96,8 +95,10 @@ export class TCopulaLikelihood {
   private readonly gaussian: MixtureLikelihood;
   private lastNu = Number.NaN;
   evaluations = 0;
-  unconverged = 0;
-  private worstRelativeError = 0;
+  /** Period integrals that missed the tolerance of the adaptive rule (their finite values are used). */
+  get unconverged(): number {
+    return this.warm.unconverged;
+  }
 
   constructor(panel: Panel, options: { tabulate?: boolean } = {}) {
     assertPanel(panel, 'TCopulaLikelihood');
@@ -107,9 +108,7 @@ export class TCopulaLikelihood {
     this.obligors = Float64Array.from(panel.obligors);
     this.defaults = Float64Array.from(panel.defaults);
     this.logChoose = new Float64Array(T);
-    this.modes = new Float64Array(T);
-    this.widths = new Float64Array(2 * T);
-    this.hasMode = new Uint8Array(T);
+    this.warm = new PeriodWarmStarts(T);
     let sn = 0;
     let sd = 0;
     for (let t = 0; t < T; t++) {
@@ -126,8 +125,8 @@ export class TCopulaLikelihood {
     const g = this.gaussian.report();
     return {
       evaluations: this.evaluations,
-      unconverged: this.unconverged + this.tableMisses + [...this.tables.values()].reduce((sum, set) => sum + set.reduce((s, i) => s + i.unconverged, 0), 0) + g.unconverged,
-      worstRelativeError: Math.max(this.worstRelativeError, g.worstRelativeError),
+      unconverged: this.warm.unconverged + this.tableMisses + [...this.tables.values()].reduce((sum, set) => sum + set.reduce((s, i) => s + i.unconverged, 0), 0) + g.unconverged,
+      worstRelativeError: Math.max(this.warm.worstRelativeError, g.worstRelativeError),
     };
   }
 
@@ -176,7 +175,7 @@ export class TCopulaLikelihood {
       return { value: g.value, dk: g.dk, dkk: g.dkk };
     }
     // Warm starts are only good for nearby nu: the law of s narrows as nu grows.
-    if (!(Math.abs(nu - this.lastNu) <= 0.2 * nu)) this.hasMode.fill(0);
+    if (!(Math.abs(nu - this.lastNu) <= 0.2 * nu)) this.warm.forget();
     this.lastNu = nu;
     const f = this.integrand;
     f.setParameters(kt, nu);
@@ -187,26 +186,8 @@ export class TCopulaLikelihood {
     let dkk = 0;
     for (let t = 0; t < this.periods; t++) {
       f.setPeriod(inner[t], this.tabulate);
-      const r = this.integrator.integrate(
-        f,
-        this.hasMode[t] === 1
-          ? { start: this.modes[t], leftWidth: this.widths[2 * t], rightWidth: this.widths[2 * t + 1], curvatureBound: nu, lower: 0 }
-          : { curvatureBound: nu, lower: 0 },
-      );
-      if (!r.converged) {
-        if (!Number.isFinite(r.value)) {
-          this.hasMode[t] = 0;
-          throw new RangeError(
-            `t-copula log-likelihood: the integral of period ${t + 1} (n = ${this.obligors[t]}, d = ${this.defaults[t]}) failed at k_nu = ${kt}, rho = ${rho}, nu = ${nu}: ${r.reason}.`,
-          );
-        }
-        this.unconverged++;
-        if (r.relativeError > this.worstRelativeError) this.worstRelativeError = r.relativeError;
-      }
-      this.modes[t] = r.mode;
-      this.widths[2 * t] = r.leftWidth;
-      this.widths[2 * t + 1] = r.rightWidth;
-      this.hasMode[t] = 1;
+      const r = this.integrator.integrate(f, this.warm.options(t, { curvatureBound: nu, lower: 0 }));
+      this.warm.record(t, r, () => `t-copula log-likelihood: the integral of period ${t + 1} (n = ${this.obligors[t]}, d = ${this.defaults[t]}) failed at k_nu = ${kt}, rho = ${rho}, nu = ${nu}: ${r.reason}.`);
       value += r.value;
       if (derivatives) {
         const uMode = f.uAtMode;
