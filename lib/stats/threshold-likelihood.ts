@@ -16,8 +16,9 @@
  * Table (Method): nodes c_i = i h0 (h0 = 1/32) computed when first needed; log L_G between two
  * nodes by quintic Hermite interpolation from the values and both derivatives at the ends (error
  * O(h^6)). Before an interval is used, the interpolant is checked at its midpoint against an exact
- * evaluation; when they differ by more than 1e-10 (absolute, log-units) or the slopes by more than
- * 1e-7 relative, the interval is halved (down to h0 / 2^16) and each half is checked the same way. So
+ * evaluation; when they differ by more than 1e-10 max(1, D) (absolute, log-units; D the drop of the
+ * midpoint below the largest value of the table so far, where an error weighs e^-D) or the slopes
+ * by more than 1e-7 max(1, D) relative, the interval is halved (down to h0 / 2^16) and each half is checked the same way. So
  * every interval in use is verified at one interior point, cliffs (a zero-default year at high
  * rho) are refined where they are and smooth stretches stay coarse. The log-values are concave in
  * c (Prekopa 1973), so an interpolant that agrees at three points and two slopes per end has no
@@ -82,6 +83,8 @@ export class ThresholdLikelihood {
   private rightWidth = 0;
   private readonly intervals = new Map<number, TableInterval>();
   private readonly nodes = new Map<number, TableNode>();
+  /** The largest log L_G of the table so far (the tolerance loosens with the drop below it). */
+  private top = Number.NEGATIVE_INFINITY;
 
   /** Sets the period and rho in [0, 1); clears the table when either changes. */
   set(n: number, d: number, logC: number, rho: number): void {
@@ -95,6 +98,7 @@ export class ThresholdLikelihood {
     this.mode = Number.NaN;
     this.intervals.clear();
     this.nodes.clear();
+    this.top = Number.NEGATIVE_INFINITY;
   }
 
   /** Integrates at c (module comment); fills value, d1, d2 (NaN when the integral failed). */
@@ -176,7 +180,12 @@ export class ThresholdLikelihood {
     const mid = this.exactNode(0.5 * (a.c + b.c));
     if (!Number.isFinite(mid.v)) return null;
     this.interpolate(a, b, mid.c);
-    const close = Math.abs(this.value - mid.v) <= TABLE_TOLERANCE && Math.abs(this.d1 - mid.d1) <= SLOPE_TOLERANCE * Math.max(1, Math.abs(mid.d1));
+    // Far below the best value seen, an error weighs e^-(drop) in any integral over c: the absolute
+    // tolerance grows with the drop (1e-10 at the top, 1e-7 a thousand log-units down).
+    if (mid.v > this.top) this.top = mid.v;
+    const scale = Math.max(1, this.top - mid.v);
+    const close =
+      Math.abs(this.value - mid.v) <= TABLE_TOLERANCE * scale && Math.abs(this.d1 - mid.d1) <= SLOPE_TOLERANCE * scale * Math.max(1, Math.abs(mid.d1));
     if (close || level >= MAX_LEVEL) {
       if (!close) this.unconverged++;
       return { a, b, left: null, right: null };
