@@ -20,6 +20,14 @@ import { assertPanel, type Panel } from './panel';
 
 const LN_SQRT_2PI = 0.9189385332046727418;
 
+/**
+ * Moment functions of the (mu, sigma)-derivatives: with r = d - n s(eta) (the eta-score) and
+ * q = n s(eta) s(-eta), u = r - r(mode), v = x r - (x r)(mode): [u, u^2, v, v^2, u v, q, x q, x^2 q].
+ * Then d l / d mu = E[r], d l / d sigma = E[x r], and the Hessian is E[-q, -x q, -x^2 q] plus the
+ * covariances of (r, x r) (the posterior-moment identities of gaussian-mixing.ts).
+ */
+export const LOGIT_NORMAL_MOMENTS = 8;
+
 /** log s(eta) = -log(1 + exp(-eta)) without overflow. */
 export function logLogistic(eta: number): number {
   return eta >= 0 ? -Math.log1p(Math.exp(-eta)) : eta - Math.log1p(Math.exp(eta));
@@ -42,16 +50,22 @@ export function logistic(eta: number): number {
  * new LogConcaveIntegrator(0).integrate(f, { curvatureBound: 1 }).value
  */
 export class LogitNormalPeriodIntegrand implements LogConcaveIntegrand {
-  readonly moments = 0;
+  /** 0, or LOGIT_NORMAL_MOMENTS when the derivatives in (mu, sigma) are wanted. */
+  moments = 0;
   private mu = 0;
   private sigma = 0;
   private n = 1;
   private d = 0;
   private logC = 0;
+  /** r = d - n s(eta) and x r at the mode (set by prepare). */
+  rAtMode = 0;
+  xrAtMode = 0;
 
-  setParameters(mu: number, sigma: number): void {
+  /** Sets (mu, sigma) and whether the moments of the (mu, sigma)-derivatives are wanted. */
+  setParameters(mu: number, sigma: number, derivatives = false): void {
     this.mu = mu;
     this.sigma = sigma;
+    this.moments = derivatives ? LOGIT_NORMAL_MOMENTS : 0;
   }
 
   setPeriod(n: number, d: number, logC: number): void {
@@ -78,8 +92,31 @@ export class LogitNormalPeriodIntegrand implements LogConcaveIntegrand {
     out[2] = -this.sigma * this.sigma * this.n * s * sc - 1;
   }
 
-  node(x: number): number {
+  prepare(mode: number): void {
+    const eta = this.mu + this.sigma * mode;
+    const r = this.d * logistic(-eta) - (this.n - this.d) * logistic(eta);
+    this.rAtMode = r;
+    this.xrAtMode = mode * r;
+  }
+
+  node(x: number, row: Float64Array): number {
     const eta = this.mu + this.sigma * x;
+    if (this.moments > 0) {
+      const s = logistic(eta);
+      const sc = logistic(-eta);
+      const r = this.d * sc - (this.n - this.d) * s;
+      const q = this.n * s * sc;
+      const u = r - this.rAtMode;
+      const v = x * r - this.xrAtMode;
+      row[0] = u;
+      row[1] = u * u;
+      row[2] = v;
+      row[3] = v * v;
+      row[4] = u * v;
+      row[5] = q;
+      row[6] = x * q;
+      row[7] = x * x * q;
+    }
     return this.logC - LN_SQRT_2PI + this.d * logLogistic(eta) + (this.n - this.d) * logLogistic(-eta) - 0.5 * x * x;
   }
 }
@@ -103,7 +140,7 @@ export class LogitNormalLikelihood {
   private readonly logChoose: Float64Array;
   private readonly warm: PeriodWarmStarts;
   private readonly integrand = new LogitNormalPeriodIntegrand();
-  private readonly integrator = new LogConcaveIntegrator(0);
+  private readonly integrator = new LogConcaveIntegrator(LOGIT_NORMAL_MOMENTS);
   /** Period integrals that missed the tolerance of the adaptive rule (their finite values are used). */
   get unconverged(): number {
     return this.warm.unconverged;
@@ -123,19 +160,44 @@ export class LogitNormalLikelihood {
 
   /** Log-likelihood at (mu, sigma). */
   logLik(mu: number, sigma: number): number {
+    return this.evaluate(mu, sigma, false).value;
+  }
+
+  /** Log-likelihood with its gradient and Hessian in (mu, sigma) (module comment of LOGIT_NORMAL_MOMENTS). */
+  logLikFull(mu: number, sigma: number): { value: number; gradient: [number, number]; hessian: [[number, number], [number, number]] } {
+    const r = this.evaluate(mu, sigma, true);
+    return { value: r.value, gradient: [r.g0, r.g1], hessian: [[r.h00, r.h01], [r.h01, r.h11]] };
+  }
+
+  private evaluate(mu: number, sigma: number, derivatives: boolean): { value: number; g0: number; g1: number; h00: number; h01: number; h11: number } {
     if (!Number.isFinite(mu)) throw new RangeError(`logit-normal log-likelihood: mu must be finite; got ${mu}.`);
     if (!(sigma >= 0) || !Number.isFinite(sigma)) throw new RangeError(`logit-normal log-likelihood: sigma must be a finite number at or above 0; got ${sigma}.`);
     this.evaluations++;
     const f = this.integrand;
-    f.setParameters(mu, sigma);
+    f.setParameters(mu, sigma, derivatives);
+    const M = this.integrator.moments;
     let value = 0;
+    let g0 = 0;
+    let g1 = 0;
+    let h00 = 0;
+    let h01 = 0;
+    let h11 = 0;
     for (let t = 0; t < this.periods; t++) {
       f.setPeriod(this.obligors[t], this.defaults[t], this.logChoose[t]);
       const r = this.integrator.integrate(f, this.warm.options(t, { curvatureBound: 1 }));
       this.warm.record(t, r, () => `logit-normal log-likelihood: the integral of period ${t + 1} (n = ${this.obligors[t]}, d = ${this.defaults[t]}) failed at mu = ${mu}, sigma = ${sigma}: ${r.reason}.`);
       value += r.value;
+      if (derivatives) {
+        const eu = M[0];
+        const ev = M[2];
+        g0 += f.rAtMode + eu;
+        g1 += f.xrAtMode + ev;
+        h00 += -M[5] + M[1] - eu * eu;
+        h01 += -M[6] + M[4] - eu * ev;
+        h11 += -M[7] + M[3] - ev * ev;
+      }
     }
-    return value;
+    return { value, g0, g1, h00, h01, h11 };
   }
 }
 

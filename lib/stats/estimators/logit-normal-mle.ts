@@ -4,6 +4,7 @@
  */
 import { brentRoot } from '../brent';
 import { equivalentRho, gaussianSecondMoment } from '../equivalent-rho';
+import { boxNewtonMaximize } from '../box-newton';
 import { gridMaximize } from '../grid-maximize';
 import { likelihoodRatioEnds } from '../intervals/likelihood-ratio';
 import { LogitNormalLikelihood, logitNormalMoment } from '../logit-normal-mixing';
@@ -14,8 +15,6 @@ import type { EstimateStatus } from './types';
 
 /** Largest sigma the search considers (a default rate that is nearly 0 or 1 every year). */
 export const SIGMA_SEARCH_LIMIT = 8;
-/** Grid of sigma of the search (0, the binomial law, is a candidate of its own). */
-const SIGMA_GRID: readonly number[] = [0, 0.1, 0.25, 0.5, 0.9, 1.5, 3, 5, SIGMA_SEARCH_LIMIT];
 
 /** The fitted logit-normal law. */
 export interface LogitNormalFit {
@@ -59,8 +58,9 @@ export function logitNormalFromEquivalent(p: number, r: number): { mu: number; s
  * default probability E[pi^2]) and its profile-likelihood interval (the likelihood maximised
  * subject to each value of the equivalent rho).
  *
- * Method: the maximum over sigma by a grid (sigma = 0 included) and Brent, each sigma maximised
- * over mu by a grid around the pooled rate's logit and Brent (LogitNormalLikelihood). The interval:
+ * Method: projected Newton in (mu, sigma), sigma in [0, 8] (box-newton.ts), with the exact gradient
+ * and Hessian of LogitNormalLikelihood (posterior moments), from three starts: sigma = 0 held (the
+ * binomial law, a candidate of its own), sigma = 0.3 and sigma = 1 at the pooled rate's logit. The interval:
  * the law re-parametrised by (p, r) (logitNormalFromEquivalent), l*(r) = max over logit p, ends by
  * likelihoodRatioEnds; an end at 0 or 0.995 is that bound.
  *
@@ -87,17 +87,25 @@ export function logitNormalMle(panel: Panel, options: { level?: number; interval
   if (panel.obligors.length < 2) return empty('A single year shows no spread of default rates across years, so the logit-normal law cannot be estimated.');
   const L = new LogitNormalLikelihood(panel);
   const centre = logit(sd / sn);
-  const muGrid = [-4, -2, -1, -0.4, 0, 0.4, 1, 2];
-  const atSigma = (sigma: number) => {
-    // E[pi] = s(mu) roughly needs mu below the pooled logit by ~sigma^2 / 2-ish: centre the grid there.
-    const shift = centre - (sigma * sigma) / 2;
-    const r = gridMaximize((mu) => L.logLik(mu, sigma), muGrid.map((u) => shift + u * (1 + sigma)), 1e-9);
-    return { mu: r.x, logLik: r.value, converged: r.converged };
-  };
-  const search = gridMaximize((sigma) => atSigma(sigma).logLik, [...SIGMA_GRID], 1e-7);
-  const at = atSigma(search.x);
-  const sigma = search.x;
-  const mu = at.mu;
+  const problem = (fixed?: boolean[]) => ({
+    evaluate: (x: readonly number[]) => L.logLikFull(x[0], x[1]),
+    lower: [centre - 30, 0],
+    upper: [centre + 30, SIGMA_SEARCH_LIMIT],
+    maxStep: [1, 0.5],
+    fixed,
+  });
+  // Starts: sigma = 0 (the binomial law, a candidate of its own), a small and a large spread.
+  const runs = [
+    boxNewtonMaximize(problem([false, true]), [centre, 0], { tolerance: 1e-11 }),
+    boxNewtonMaximize(problem(), [centre - 0.05, 0.3], { tolerance: 1e-11 }),
+    boxNewtonMaximize(problem(), [centre - 0.5, 1.0], { tolerance: 1e-11 }),
+  ];
+  let best = runs[0];
+  for (const r of runs) if (r.value > best.value + 1e-9) best = r;
+  const search = { value: best.value, converged: best.converged };
+  const at = { converged: best.converged };
+  const mu = best.x[0];
+  const sigma = best.x[1];
   const pd = logitNormalMoment(mu, sigma, 1);
   const rEq = equivalentRho(pd, logitNormalMoment(mu, sigma, 2));
   let profile: ProfileInterval | null = null;
