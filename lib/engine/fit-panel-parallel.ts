@@ -20,6 +20,7 @@ import type { MomentEstimatorKey } from '../stats/estimators/moment-target';
 import type { BootstrapReplication } from '../stats/intervals/bootstrap';
 import type { MomentBootstrapReplication } from '../stats/intervals/moment-bootstrap';
 import type { BreakReplication } from '../stats/stability/break-test';
+import type { CopulaLrReplication } from '../stats/copula-lr-test';
 import { StageTimer } from '../stats/stage-timer';
 import { defaultThreads, EngineAbortError, EnginePool, totalItems } from './pool';
 import { runTask, splitRange, type EngineTask, type EngineTaskResult } from './tasks';
@@ -64,6 +65,10 @@ export function replicationWeight(task: EngineTask): number {
     case 'margins':
     case 'grade-audit':
       return 1;
+    case 'copula-bootstrap':
+    case 'copula-power':
+      // a t-copula fit on the simulated panel: about 20 binomialMle fits (measured at T = 20)
+      return 20;
   }
 }
 
@@ -103,6 +108,14 @@ function replicationStages(prepared: PreparedFit, threads: number): ReplicationS
   if (prepared.audit) {
     const { spec, replications } = prepared.audit;
     add('audit', 'Simulation study', replications, (from, to) => ({ kind: 'audit', spec, from, to }));
+  }
+  if (prepared.mixingLaws?.bootstrap) {
+    const { spec, replications } = prepared.mixingLaws.bootstrap;
+    add('modelComparison.lrTest', 'Test of the Gaussian copula', replications, (from, to) => ({ kind: 'copula-bootstrap', spec, from, to }));
+  }
+  if (prepared.mixingLaws?.power) {
+    const { spec, replications } = prepared.mixingLaws.power;
+    add('modelComparison.power', 'Power of that test', replications, (from, to) => ({ kind: 'copula-power', spec, from, to }));
   }
   return stages;
 }
@@ -174,6 +187,8 @@ interface Gathered extends FitReplications {
   audit?: AuditReplication[];
   breakTest?: BreakReplication[];
   momentBootstraps?: Partial<Record<MomentEstimatorKey, MomentBootstrapReplication[]>>;
+  copulaBootstrap?: CopulaLrReplication[];
+  copulaPower?: CopulaLrReplication[];
 }
 
 /** Adds a stage's results to the replications of completeSegmentFit. */
@@ -182,6 +197,8 @@ function mergeInto(out: Gathered, results: EngineTaskResult[], stage: Replicatio
     if (r.kind === 'bootstrap') (out.bootstrap ??= []).push(...r.replications);
     else if (r.kind === 'audit') (out.audit ??= []).push(...r.replications);
     else if (r.kind === 'break-test') (out.breakTest ??= []).push(...r.replications);
+    else if (r.kind === 'copula-bootstrap') (out.copulaBootstrap ??= []).push(...r.replications);
+    else if (r.kind === 'copula-power') (out.copulaPower ??= []).push(...r.replications);
     else if (r.kind !== 'moment-bootstrap') throw new Error(`fitPanelParallel: a ${r.kind} result in the ${stage.name} stage of a segment fit.`);
     else {
       const task = stage.tasks[0];

@@ -6,6 +6,7 @@
  * executes it, in a worker thread or in the calling thread alike, so every split of the index
  * range gives the same numbers.
  */
+import { copulaBootstrapRange, copulaPowerRange, type CopulaLrReplication, type CopulaPowerSpec, type CopulaTestSpec } from '../stats/copula-lr-test';
 import { auditRange, type AuditReplication, type AuditSpec } from '../stats/audit';
 import { factorCorrelation, pairMargin, type FactorCorrelation, type PairMargin, type PairSegmentInput } from '../stats/factor-correlation';
 import { gradeAuditRange, type GradeAuditReplication, type GradeAuditSpec } from '../stats/grade-audit';
@@ -76,7 +77,12 @@ export interface BreakTestTask {
   to: number;
 }
 
-export type EngineTask = BootstrapTask | AuditTask | PairsTask | MarginsTask | GradeAuditTask | MomentBootstrapTask | BreakTestTask;
+/** Replications from .. to - 1 of the LR test of the Gaussian copula (its bootstrap) or of its power study (lib/stats/copula-lr-test.ts). */
+export type CopulaTask =
+  | { kind: 'copula-bootstrap'; spec: CopulaTestSpec; from: number; to: number }
+  | { kind: 'copula-power'; spec: CopulaPowerSpec; from: number; to: number };
+
+export type EngineTask = CopulaTask | BootstrapTask | AuditTask | PairsTask | MarginsTask | GradeAuditTask | MomentBootstrapTask | BreakTestTask;
 
 export interface BootstrapTaskResult {
   kind: 'bootstrap';
@@ -113,7 +119,13 @@ export interface BreakTestTaskResult {
   replications: BreakReplication[];
 }
 
+export interface CopulaTaskResult {
+  kind: 'copula-bootstrap' | 'copula-power';
+  replications: CopulaLrReplication[];
+}
+
 export type EngineTaskResult =
+  | CopulaTaskResult
   | BootstrapTaskResult
   | AuditTaskResult
   | PairsTaskResult
@@ -162,6 +174,10 @@ export function runTask(task: EngineTask, onItem?: () => void): EngineTaskResult
       return { kind: 'moment-bootstrap', replications: momentBootstrapRange(task.spec, task.from, task.to, onItem && (() => onItem())) };
     case 'break-test':
       return { kind: 'break-test', replications: breakTestRange(task.spec, task.from, task.to, onItem && (() => onItem())) };
+    case 'copula-bootstrap':
+      return { kind: 'copula-bootstrap', replications: copulaBootstrapRange(task.spec, task.from, task.to, onItem && (() => onItem())) };
+    case 'copula-power':
+      return { kind: 'copula-power', replications: copulaPowerRange(task.spec, task.from, task.to, onItem && (() => onItem())) };
     default: {
       const unknown: never = task;
       throw new RangeError(`runTask: unknown task kind ${String((unknown as { kind: unknown }).kind)}.`);

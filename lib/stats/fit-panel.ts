@@ -37,6 +37,8 @@ import { momentBootstrapRange, summariseMomentBootstrap, type MomentBootstrapRep
 import { chiSquare1Quantile, profileInterval } from './intervals/profile';
 import { waldInterval } from './intervals/wald';
 import type { AssetClass } from './irb';
+import { copulaBootstrapRange, copulaPowerRange, type CopulaLrReplication } from './copula-lr-test';
+import { completeMixingLaws, MIXING_LAW_MODELS, prepareMixingLaws, type MixingLawModel, type PreparedMixingLaws } from './mixing-laws-block';
 import { StageTimer, type StageTimes } from './stage-timer';
 import { breakTestRange, MAX_BREAK_REPLICATIONS, type BreakReplication } from './stability/break-test';
 import { DEFAULT_ROLLING_WINDOW } from './stability/rolling-window';
@@ -108,6 +110,12 @@ export interface FitPanelOptions {
   profileCurvePoints?: number;
   /** A clock in ms (lib/engine passes performance.now) to time each stage; absent: no timing. */
   clock?: () => number;
+  /**
+   * The other mixing laws to fit beside the Gaussian one (mixing-laws-block.ts: t, beta,
+   * logitNormal) and the replications of the LR test's bootstrap and of its power study (seeded
+   * with `seed`); absent or an empty list: none.
+   */
+  mixingLaws?: { models: readonly MixingLawModel[]; replications?: number; powerReplications?: number; seed?: number } | null;
 }
 
 export { MAX_OBLIGORS_PER_PERIOD } from './cohort-limit';
@@ -172,6 +180,15 @@ function assertOptions(options: FitPanelOptions): void {
       throw new RangeError(`fitPanel: the rolling window must be a whole number of periods from 2 to 1000; got ${w}.`);
     }
   }
+  if (options.mixingLaws) {
+    const { models, replications, powerReplications, seed } = options.mixingLaws;
+    for (const m of models) {
+      if (!(MIXING_LAW_MODELS as readonly string[]).includes(m)) throw new RangeError(`fitPanel: unknown mixing law "${m}"; the laws are ${MIXING_LAW_MODELS.join(', ')}.`);
+    }
+    if (new Set(models).size !== models.length) throw new RangeError('fitPanel: a mixing law is named twice.');
+    if (replications) assertReplicationOption('LR test bootstrap', { replications, seed: seed ?? 1 }, MAX_BOOTSTRAP_REPLICATIONS);
+    if (powerReplications) assertReplicationOption('power study', { replications: powerReplications, seed: seed ?? 1 }, MAX_BOOTSTRAP_REPLICATIONS);
+  }
   const points = options.profileCurvePoints ?? 40;
   if (!Number.isInteger(points) || points < 2 || points > 1000) {
     throw new RangeError(`fitPanel: profileCurvePoints must be a whole number from 2 to 1000; got ${points}.`);
@@ -221,6 +238,8 @@ export interface PreparedFit {
   breakTest: BreakTestPlan | null;
   /** The estimator audit, when asked for and possible; else null. */
   audit: { spec: AuditSpec; replications: number } | null;
+  /** The mixing laws' stage-1 block, with the LR test's bootstrap and power replications to run; null when no law was asked for. */
+  mixingLaws: PreparedMixingLaws | null;
   /** ms per stage of the preparation ({} without a clock). */
   stages: StageTimes;
 }
@@ -445,7 +464,22 @@ export function prepareSegmentFit(input: PanelInput, options: FitPanelOptions = 
     })),
     estimatorAudit: null,
   };
-  return { fit, bootstrap, momentBootstraps, breakTest: breakPlan, audit, stages: timer.stages };
+  let mixingLaws: PreparedMixingLaws | null = null;
+  if (options.mixingLaws && options.mixingLaws.models.length > 0) {
+    const asked = options.mixingLaws;
+    mixingLaws = timer.time('mixingLaws', () =>
+      prepareMixingLaws(panel, usable ? { pd: mle.pd, rho: mle.rho, logLik: mle.logLik } : { pd: null, rho: null, logLik: null }, {
+        models: asked.models,
+        level,
+        replications: asked.replications ?? 0,
+        powerReplications: asked.powerReplications ?? 0,
+        seed: asked.seed ?? 1,
+      }),
+    );
+    Object.assign(fit.estimates, mixingLaws.estimates);
+    fit.modelComparison = mixingLaws.comparison;
+  }
+  return { fit, bootstrap, momentBootstraps, breakTest: breakPlan, audit, mixingLaws, stages: timer.stages };
 }
 
 /** Share of failed bootstrap replications above which a warning is added (5%). */
@@ -458,6 +492,9 @@ export interface FitReplications {
   momentBootstraps?: Partial<Record<MomentEstimatorKey, readonly MomentBootstrapReplication[]>>;
   breakTest?: readonly BreakReplication[];
   audit?: readonly AuditReplication[];
+  /** The LR test's bootstrap under the Gaussian fit and the power study's replications (copula-lr-test.ts). */
+  copulaBootstrap?: readonly CopulaLrReplication[];
+  copulaPower?: readonly CopulaLrReplication[];
 }
 
 function checkPart(part: string, planned: number | null, got: readonly unknown[] | undefined): void {
@@ -533,6 +570,12 @@ export function completeSegmentFit(prepared: PreparedFit, replications: FitRepli
     if (warning) fit.warnings.push(warning);
   }
   if (prepared.audit !== null) fit.estimatorAudit = mergeAudit([replications.audit!], prepared.audit.spec);
+  checkPart('LR test bootstrap', prepared.mixingLaws?.bootstrap?.replications ?? null, replications.copulaBootstrap);
+  checkPart('power study', prepared.mixingLaws?.power?.replications ?? null, replications.copulaPower);
+  if (prepared.mixingLaws !== null) {
+    const done = completeMixingLaws(prepared.mixingLaws, replications.copulaBootstrap ?? null, replications.copulaPower ?? null);
+    fit.modelComparison = done.modelComparison;
+  }
   return fit;
 }
 
@@ -547,7 +590,9 @@ export function completeSegmentFit(prepared: PreparedFit, replications: FitRepli
  */
 export function fitPanel(input: PanelInput, options: FitPanelOptions = {}): SegmentFit {
   const prepared = prepareSegmentFit(input, options);
-  const none = prepared.bootstrap === null && prepared.momentBootstraps.length === 0 && prepared.breakTest === null && prepared.audit === null;
+  const copula = prepared.mixingLaws;
+  const none =
+    prepared.bootstrap === null && prepared.momentBootstraps.length === 0 && prepared.breakTest === null && prepared.audit === null && copula === null;
   if (none) return prepared.fit;
   return completeSegmentFit(prepared, {
     ...(prepared.bootstrap ? { bootstrap: bootstrapRange(prepared.bootstrap.spec, 0, prepared.bootstrap.replications) } : {}),
@@ -556,5 +601,7 @@ export function fitPanel(input: PanelInput, options: FitPanelOptions = {}): Segm
       : {}),
     ...(prepared.breakTest ? { breakTest: breakTestRange(prepared.breakTest.spec, 0, prepared.breakTest.replications) } : {}),
     ...(prepared.audit ? { audit: auditRange(prepared.audit.spec, 0, prepared.audit.replications) } : {}),
+    ...(copula?.bootstrap ? { copulaBootstrap: copulaBootstrapRange(copula.bootstrap.spec, 0, copula.bootstrap.replications) } : {}),
+    ...(copula?.power ? { copulaPower: copulaPowerRange(copula.power.spec, 0, copula.power.replications) } : {}),
   });
 }

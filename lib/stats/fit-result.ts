@@ -23,6 +23,7 @@
  * under `intervals` (null when it was not asked for or cannot be computed; `intervalNotes` says why
  * in the second case).
  */
+import type { MixingLawEstimates, ModelComparison } from './mixing-laws-block';
 import type { AuditSummary } from './audit';
 import type { Implications } from './capital-implications';
 import type { Diagnostics } from './diagnostics';
@@ -114,6 +115,10 @@ export interface SegmentEstimates {
   momentVarianceAutocorrected?: AutocorrectedMomentDto;
   jointDefault?: MomentEstimateDto;
   ar1Mle?: Ar1MleDto;
+  /** The other mixing laws (mixing-laws-block.ts), when asked for. */
+  tCopula?: MixingLawEstimates['tCopula'];
+  betaMixing?: MixingLawEstimates['betaMixing'];
+  logitNormal?: MixingLawEstimates['logitNormal'];
 }
 
 /** The jackknife (DESIGN.md `stability.jackknife`), or why there is none. */
@@ -187,6 +192,12 @@ export interface SegmentFit {
    * likelihood and chi-square intervals. Null unless requested (and possible).
    */
   estimatorAudit: AuditSummary | null;
+  /**
+   * The mixing laws side by side with the Gaussian one, the LR test of the Gaussian against the t
+   * copula (bootstrap p-value when replications were run) and the power study, with their cautions;
+   * absent unless a mixing law was asked for.
+   */
+  modelComparison?: ModelComparison;
 }
 
 /**
