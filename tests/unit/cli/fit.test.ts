@@ -174,7 +174,7 @@ describe('cli main (in process): usage errors exit 2 with a sentence', () => {
     [['fit'], /exactly one cohort CSV file/],
     [['fit', CSV, '--level', '95'], /--level must be a number strictly between 0 and 1/],
     [['fit', CSV, '--bootstrap', '1'], /--bootstrap must be a whole number of replications/],
-    [['fit', CSV, '--seed', '3'], /give --bootstrap B as well/],
+    [['fit', CSV, '--seed', '3'], /give --bootstrap B or --copula-bootstrap B as well/],
     [['fit', CSV, '--from', '2010', '--to', '2001'], /--from \(2010\) is after --to \(2001\)/],
     [['fit', CSV, '--segment', 'Retail'], /no segment "Retail".*"Panel A", "Panel B"/],
     [['fit', CSV, '--from', '2020'], /has no period from 2020/],
