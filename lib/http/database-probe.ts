@@ -13,6 +13,8 @@ let inFlight: Promise<boolean> | null = null;
 export function databaseReachable(host: string, port: number, { timeoutMs = 1000, freshMs = 1000 } = {}): Promise<boolean> {
   if (Date.now() - lastUp < freshMs) return Promise.resolve(true);
   if (inFlight) return inFlight;
+  // A port that is not one (a mistyped DB_PORT) cannot be reached: down, not a thrown RangeError.
+  if (!Number.isInteger(port) || port < 1 || port > 65535) return Promise.resolve(false);
   inFlight = new Promise<boolean>((resolve) => {
     const socket = net.connect({ host, port });
     const done = (up: boolean) => {

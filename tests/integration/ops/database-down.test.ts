@@ -43,7 +43,8 @@ async function closedPort(): Promise<number> {
   return port;
 }
 
-const upPort = process.env.DB_PORT;
+// Where the test database listens: DB_PORT when the runner sets it, else the app's default (lib/env.ts).
+const upPort = process.env.DB_PORT ?? '3307';
 let downPort: number;
 
 beforeAll(async () => {
