@@ -2,6 +2,10 @@ import Link from 'next/link';
 import type { FitDto } from '@/lib/dal/fits';
 import { level, when } from '@/lib/format';
 import { FIT_MODEL_LABELS, type FitModel } from '@/lib/stats/fit-models';
+import type { MixingLawModel } from '@/lib/stats/mixing-laws-block';
+
+/** The other mixing laws as the provenance line names them. */
+const MIXING_LAW_SHORT: Readonly<Record<MixingLawModel, string>> = { t: 't copula', beta: 'beta', logitNormal: 'logit-normal' };
 
 /** Where a fit's numbers come from: dataset and its hash, window, level, models, seeds, engine, who and when. */
 export function FitProvenance({ fit }: { fit: Pick<FitDto, 'datasetId' | 'datasetName' | 'datasetSha256' | 'request' | 'engineVersion' | 'createdBy' | 'createdAt'> }) {
@@ -16,7 +20,11 @@ export function FitProvenance({ fit }: { fit: Pick<FitDto, 'datasetId' | 'datase
       {models.map((m) => FIT_MODEL_LABELS[m]).join(' and ')}
       {r.breakTest ? ` · break test B ${r.breakTest.replications}, seed ${r.breakTest.seed}` : ''} · bootstrap{' '}
       {r.bootstrap ? `B ${r.bootstrap.replications}, seed ${r.bootstrap.seed}` : 'none'} · simulation study{' '}
-      {r.audit ? `R ${r.audit.replications}, seed ${r.audit.seed}` : 'none'} · engine {fit.engineVersion} · started by {fit.createdBy}{' '}
+      {r.audit ? `R ${r.audit.replications}, seed ${r.audit.seed}` : 'none'}
+      {r.mixingLaws
+        ? ` · mixing laws ${r.mixingLaws.laws.map((l) => MIXING_LAW_SHORT[l]).join(', ')}: test B ${r.mixingLaws.replications}, power R ${r.mixingLaws.powerReplications}, seed ${r.mixingLaws.seed}`
+        : ''}{' '}
+      · engine {fit.engineVersion} · started by {fit.createdBy}{' '}
       {when(fit.createdAt)}
     </p>
   );

@@ -24,8 +24,9 @@ function intOrNaN(s: string): number {
 
 /**
  * The New fit form: dataset (the one given, when started from a dataset page), segments, window,
- * level, the factor models, the optional bootstraps (the break test's too) and small-sample
- * simulation study. Every error is shown beside its field, whether found here or by the server.
+ * level, the factor models, the optional bootstraps (the break test's too), small-sample
+ * simulation study and challenge of the Gaussian copula (the other mixing laws, with the replications
+ * of their test and its power). Every error is shown beside its field, whether found here or by the server.
  */
 export function NewFitForm({ datasets, initialDatasetId }: { datasets: DatasetOption[]; initialDatasetId?: number }) {
   const id = useId();
@@ -55,6 +56,10 @@ export function NewFitForm({ datasets, initialDatasetId }: { datasets: DatasetOp
   const [audit, setAudit] = useState(false);
   const [auditR, setAuditR] = useState('50');
   const [auditSeed, setAuditSeed] = useState('20260102');
+  const [copula, setCopula] = useState(false);
+  const [copulaB, setCopulaB] = useState('200');
+  const [copulaR, setCopulaR] = useState('200');
+  const [copulaSeed, setCopulaSeed] = useState('20260104');
   const [portfolio, setPortfolio] = useState<PortfolioState>(INITIAL_PORTFOLIO);
   const [localProblem, setLocalProblem] = useState<FormProblem>(null);
 
@@ -77,6 +82,9 @@ export function NewFitForm({ datasets, initialDatasetId }: { datasets: DatasetOp
       ['rollingWindow', `${id}-rolling`],
       ['breakTest.replications', `${id}-bt-count`],
       ['breakTest.seed', `${id}-bt-seed`],
+      ['mixingLaws.replications', `${id}-ml-count`],
+      ['mixingLaws.powerReplications', `${id}-ml-power`],
+      ['mixingLaws.seed', `${id}-ml-seed`],
     ],
     [id],
   );
@@ -130,6 +138,15 @@ export function NewFitForm({ datasets, initialDatasetId }: { datasets: DatasetOp
       if (!(r >= 10 && r <= 500)) problems['audit.replications'] = 'Give a whole number of simulated panels from 10 to 500.';
       if (!Number.isFinite(s)) problems['audit.seed'] = 'The simulation seed must be a whole number of 0 or more.';
       body.audit = { replications: r, seed: s };
+    }
+    if (copula) {
+      const b = intOrNaN(copulaB);
+      const r = intOrNaN(copulaR);
+      const s = intOrNaN(copulaSeed);
+      if (!(b >= 20 && b <= 2000)) problems['mixingLaws.replications'] = 'Give a whole number of test replications from 20 to 2,000.';
+      if (!(r >= 20 && r <= 2000)) problems['mixingLaws.powerReplications'] = 'Give a whole number of power-study replications from 20 to 2,000.';
+      if (!Number.isFinite(s)) problems['mixingLaws.seed'] = 'The copula seed must be a whole number of 0 or more.';
+      body.mixingLaws = { replications: b, powerReplications: r, seed: s };
     }
     const keys = Object.keys(problems);
     if (keys.length > 0) return setLocalProblem({ message: problems[keys[0]], field: keys[0], fieldErrors: problems });
@@ -270,10 +287,28 @@ export function NewFitForm({ datasets, initialDatasetId }: { datasets: DatasetOp
             error={error}
           />
         ) : null}
+        <label className="flex items-center gap-2 text-sm font-medium">
+          <input type="checkbox" checked={copula} onChange={(e) => setCopula(e.target.checked)} /> Challenge the Gaussian copula: the t copula,
+          beta and logit-normal mixing beside it, the test of the Gaussian against the t copula and its power on these cohorts
+        </label>
+        {copula ? (
+          <div className="grid gap-3 pl-6 sm:grid-cols-3">
+            <FormField id={`${id}-ml-count`} label="Test replications (B)" error={error(`${id}-ml-count`)}>
+              {(a) => <input {...a} className="field num" inputMode="numeric" value={copulaB} onChange={(e) => setCopulaB(e.target.value)} />}
+            </FormField>
+            <FormField id={`${id}-ml-power`} label="Power replications (R)" error={error(`${id}-ml-power`)}>
+              {(a) => <input {...a} className="field num" inputMode="numeric" value={copulaR} onChange={(e) => setCopulaR(e.target.value)} />}
+            </FormField>
+            <FormField id={`${id}-ml-seed`} label="Copula seed" error={error(`${id}-ml-seed`)}>
+              {(a) => <input {...a} className="field num" inputMode="numeric" value={copulaSeed} onChange={(e) => setCopulaSeed(e.target.value)} />}
+            </FormField>
+          </div>
+        ) : null}
         <p className="text-xs text-[var(--color-muted)]">
           The bootstraps and the simulation study take a few seconds per hundred replications and segment; the break test&apos;s
           bootstrap refits every split year, about twenty times a bootstrap replication, and the simulation study with the AR(1)
-          model fits it on every panel. Seeds are stored with the run, so the numbers can be reproduced exactly.
+          model fits it on every panel; each replication of the copula test and of its power study fits the t copula, about twenty
+          times a bootstrap replication. Seeds are stored with the run, so the numbers can be reproduced exactly.
         </p>
       </fieldset>
       <PortfolioFields id={id} state={portfolio} onChange={setPortfolio} />

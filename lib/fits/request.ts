@@ -1,11 +1,14 @@
 import { z } from 'zod';
 import { FIT_MODELS } from '@/lib/stats/fit-models';
+import { MIXING_LAW_MODELS } from '@/lib/stats/mixing-laws-block';
 
 /**
  * The body of POST /api/fits (and the New fit form): which dataset, which segments (all when
  * omitted), which window of periods, the interval level, the factor models, the rolling window's
- * length, and the optional bootstraps (binomialMle's and the moment estimators', the break test's)
- * and audit. Requests stored before the models existed parse with the defaults.
+ * length, the optional bootstraps (binomialMle's and the moment estimators', the break test's)
+ * and audit, and the optional challenge of the Gaussian copula (the other mixing laws with the
+ * bootstrap of their LR test and its power). Requests stored before the models existed parse with
+ * the defaults.
  * Stored as fit_runs.request after validation, so that a run can be repeated exactly.
  */
 const seed = z
@@ -60,6 +63,24 @@ export const fitRequestSchema = z
         replications: z.number().int().min(10, 'A small-sample simulation study needs at least 10 simulated panels.').max(500, 'At most 500 simulated panels in a small-sample simulation study.'),
         seed,
       })
+      .nullish(),
+    /**
+     * Challenge the Gaussian copula (lib/stats/mixing-laws-block.ts): the other mixing laws (default
+     * all three), the bootstrap replications B of the LR test of the Gaussian against the t copula,
+     * the replications R of its power study, and their seed; null or absent: not run.
+     */
+    mixingLaws: z
+      .object({
+        laws: z
+          .array(z.enum(MIXING_LAW_MODELS, { message: `A mixing law is one of ${MIXING_LAW_MODELS.join(', ')}.` }))
+          .min(1, 'Choose at least one mixing law.')
+          .refine((m) => new Set(m).size === m.length, 'Name each mixing law once.')
+          .default([...MIXING_LAW_MODELS]),
+        replications: replications('The copula test', 20, 2000).default(200),
+        powerReplications: replications('The power study', 20, 2000).default(200),
+        seed,
+      })
+      .strict()
       .nullish(),
     /** Grades under one factor: the segments, best grade first (lib/stats/grade-fit.ts). */
     group: z

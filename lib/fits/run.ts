@@ -67,8 +67,11 @@ export function benchmarkOf(input: SegmentInput): { assetClass: StatsAssetClass 
  */
 function weights(request: FitRequest) {
   const ar1 = request.models.includes('ar1');
+  const copula = request.mixingLaws;
   const fits =
     (request.bootstrap?.replications ?? 0) +
+    // a replication of the copula test or its power study fits the t copula: about 20 fits (lib/engine's replicationWeight)
+    (copula ? 20 * (copula.replications + copula.powerReplications) : 0) +
     (request.models.includes('independent') ? 23 * (request.breakTest?.replications ?? 0) : 0) +
     (ar1 ? 14 : 2) * (request.audit?.replications ?? 0);
   return { base: ar1 ? 1 : 0.5, replications: fits / 500, windows: 0.2 };
@@ -97,7 +100,7 @@ export async function computeFitSegment(input: SegmentInput, position: number, r
   const perSegment = w.base + w.replications + w.windows;
   const name = input.segment;
   const at = (units: number) => Math.min(99, (100 * units) / perSegment);
-  const ownPool = !options.pool && (request.bootstrap || request.audit || request.breakTest) && options.threads > 0 ? new EnginePool(options.threads) : null;
+  const ownPool = !options.pool && (request.bootstrap || request.audit || request.breakTest || request.mixingLaws) && options.threads > 0 ? new EnginePool(options.threads) : null;
   const pool = options.pool ?? ownPool;
   const benchmark = benchmarkOf(input);
   let progressFailed = false;
@@ -117,6 +120,17 @@ export async function computeFitSegment(input: SegmentInput, position: number, r
           bootstrap: request.bootstrap ?? null,
           audit: request.audit ?? null,
           stability: { rollingWindow: request.rollingWindow, breakTest: request.breakTest ?? null },
+          // as the CLI passes --models t,beta,logitNormal with --copula-bootstrap (lib/cli/fit.ts)
+          ...(request.mixingLaws
+            ? {
+                mixingLaws: {
+                  models: request.mixingLaws.laws,
+                  replications: request.mixingLaws.replications,
+                  powerReplications: request.mixingLaws.powerReplications,
+                  seed: request.mixingLaws.seed,
+                },
+              }
+            : {}),
           assetClass: benchmark.assetClass,
           turnoverMillions: benchmark.turnoverMillions,
         },
@@ -171,7 +185,7 @@ export async function computeFitSegment(input: SegmentInput, position: number, r
  */
 export async function computeFitRun(panels: readonly SegmentInput[], request: FitRequest, options: FitRunOptions): Promise<FitResults> {
   const report = options.onProgress ?? (() => undefined);
-  const pool = (request.bootstrap || request.audit || request.breakTest || request.pairs) && options.threads > 0 ? new EnginePool(options.threads) : null;
+  const pool = (request.bootstrap || request.audit || request.breakTest || request.pairs || request.mixingLaws) && options.threads > 0 ? new EnginePool(options.threads) : null;
   const outcomes: SegmentOutcome[] = [];
   try {
     if (pool) {
