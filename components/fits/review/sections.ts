@@ -3,6 +3,7 @@ import { DataSection } from './data-section';
 import { EstimatesSection } from './estimates-section';
 import { FactorSection } from './factor-section';
 import { ImplicationsSection } from './implications-section';
+import { MixingLawsSection } from './mixing-laws-section';
 import { ModelsSection } from './models-section';
 import { isLowDefault, PosteriorReviewSection } from './posterior-section';
 import { ProfileSection } from './profile-section';
@@ -26,6 +27,7 @@ export const REVIEW_SECTIONS: readonly ReviewSection[] = [
   },
   { id: 'estimates', title: 'Estimates and intervals', Component: EstimatesSection },
   { id: 'models', title: 'Independent years and a persistent factor', Component: ModelsSection, applies: ({ seg }) => seg.estimates.ar1Mle !== undefined },
+  { id: 'mixing-laws', title: 'Mixing laws: the Gaussian copula challenged', Component: MixingLawsSection, applies: ({ seg }) => seg.modelComparison !== undefined },
   { id: 'stability', title: 'Stability across the window', Component: StabilitySection, applies: ({ seg }) => !!seg.stability },
   { id: 'bands', title: 'Default rates against the fitted model', Component: BandsSection },
   { id: 'profile', title: 'Profile log-likelihood of ρ', Component: ProfileSection },

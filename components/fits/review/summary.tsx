@@ -18,12 +18,15 @@ export function splitWarnings(seg: FitSegmentResult) {
 
 /**
  * The first lines of a segment's review: the estimate the review leads with, its interval and PD,
- * the window and asset class, and the segment's cautions right beside the value.
+ * the window and asset class, and the segment's cautions right beside the value (the engine's, and
+ * those of the other mixing laws when they were fitted).
  */
 export function SegmentSummary({ seg }: { seg: FitSegmentResult }) {
   const chosen = seg.estimates[seg.chosen] ?? seg.estimates.binomialMle;
   const iv = seg.estimates.binomialMle.intervals;
   const { cautions, notes } = splitWarnings(seg);
+  // the challenge of the Gaussian copula, when run: another law fits better, or the history cannot tell (mixingLawCautions)
+  const copulaCautions = seg.modelComparison?.cautions ?? [];
   return (
     <div className="panel p-4" data-testid="segment-summary">
       <p>
@@ -43,10 +46,15 @@ export function SegmentSummary({ seg }: { seg: FitSegmentResult }) {
         . {count(seg.T, 'period')}, {seg.periods[0]}–{seg.periods[seg.periods.length - 1]};{' '}
         {seg.assetClass === 'none' ? 'no asset class set' : assetClassNames[seg.assetClass]}.
       </p>
-      {cautions.length > 0 ? (
+      {cautions.length + copulaCautions.length > 0 ? (
         <ul className="notice-caution mt-3 list-disc space-y-1 pl-8 text-sm" data-testid="cautions" aria-label="Cautions">
           {cautions.map((w) => (
             <li key={w.code}>{w.message}</li>
+          ))}
+          {copulaCautions.map((c) => (
+            <li key={c} data-testid="mixing-law-caution">
+              {c}
+            </li>
           ))}
         </ul>
       ) : null}
