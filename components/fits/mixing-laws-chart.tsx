@@ -19,7 +19,7 @@ function rateMax(v: number): number {
 /**
  * The default-rate distributions of the fitted mixing laws on a logarithmic tail scale: for each law
  * the probability that a year's default rate (of an infinitely large pool) exceeds x, against x,
- * from 50% down to 1 in 10,000; the observed default rates as dots at their plotting positions
+ * from 98% down to 1 in 10,000; the observed default rates as dots at their plotting positions
  * i / (T + 1) and as ticks on the rate axis.
  */
 export function MixingLawsTailChart({ curves, observed }: { curves: readonly TailCurve[]; observed: readonly { rate: number; exceed: number }[] }) {
@@ -30,7 +30,7 @@ export function MixingLawsTailChart({ curves, observed }: { curves: readonly Tai
   const top = Math.max(...drawn.flatMap((c) => c.points.map((p) => p.rate)), ...observed.map((o) => o.rate), 1e-6);
   const xMax = rateMax(top * 1.02);
   const x = (v: number) => m.l + (Math.min(v, xMax) / xMax) * (W - m.l - m.r);
-  const ly0 = Math.log10(TAIL_RANGE.from * 2); // 1 at the top
+  const ly0 = 0; // 100% at the top
   const ly1 = Math.log10(TAIL_RANGE.to);
   const y = (e: number) => m.t + ((ly0 - Math.log10(Math.max(e, TAIL_RANGE.to))) / (ly0 - ly1)) * (H - m.t - m.b);
   const xTicks = [0, 0.25, 0.5, 0.75, 1].map((f) => f * xMax);

@@ -58,8 +58,8 @@ export function fittedLawsOf(seg: Segment): FittedLaw[] {
   return out;
 }
 
-/** Exceedance probabilities of the tail chart: log-spaced from 50% down to 1 in 10,000. */
-export const TAIL_RANGE = { from: 0.5, to: 1e-4 } as const;
+/** Exceedance probabilities of the tail chart: log-spaced from 98% (where the best year of a long history sits) down to 1 in 10,000. */
+export const TAIL_RANGE = { from: 0.98, to: 1e-4 } as const;
 
 /** One law's tail curve: the default rate x exceeded with probability `exceed`, or why there is none. */
 export type TailCurve = { law: MixingLaw; points: { exceed: number; rate: number }[] } | { law: MixingLaw; points: null; reason: string };

@@ -65,14 +65,15 @@ export function MixingLawsSection({ seg }: ReviewContext) {
             <table className="table text-sm" data-testid="mixing-laws-table">
               <thead>
                 <tr>
-                  <th>Law</th>
-                  <th>Fitted values</th>
+                  <th className="min-w-[15rem]">Law and fitted values</th>
                   <th className="text-right">Log-likelihood</th>
-                  <th className="text-right">Parameters</th>
+                  <th className="text-right">
+                    <abbr title="number of free parameters">k</abbr>
+                  </th>
                   <th className="text-right">AIC</th>
                   <th className="text-right">BIC</th>
-                  <th className="text-right">99% default rate</th>
-                  <th className="text-right">99.9% default rate</th>
+                  <th className="text-right">99% rate</th>
+                  <th className="text-right">99.9% rate</th>
                   <th className="text-right">Joint default</th>
                   <th className="text-right">Default correlation</th>
                   <th className="text-right">Tail dependence</th>
@@ -83,9 +84,9 @@ export function MixingLawsSection({ seg }: ReviewContext) {
                   const eq = equivalentRhoText(l.law, seg);
                   return (
                     <tr key={l.law}>
-                      <td>{MIXING_LAW_LABELS[l.law]}</td>
-                      <td className="num">
-                        {parametersText(l.law, seg)}
+                      <td>
+                        {MIXING_LAW_LABELS[l.law]}{' '}
+                        <span className="num block text-xs">{parametersText(l.law, seg)}</span>
                         {l.law === 't' && t ? (
                           <span className="block text-xs text-[var(--color-muted)]">
                             {lv} interval of ρ {openInterval(t.intervals.profile)}, of ν {openInterval(t.nuInterval, (v) => fixed(v, 2))}
@@ -112,7 +113,7 @@ export function MixingLawsSection({ seg }: ReviewContext) {
                       </td>
                       <td className="num text-right">{l.jointDefault.toExponential(3)}</td>
                       <td className="num text-right">{smallRho(l.defaultCorrelation)}</td>
-                      <td className="num text-right">{l.tailDependence === null ? 'none (no latent variables)' : rho(l.tailDependence)}</td>
+                      <td className="num text-right">{l.tailDependence === null ? 'none' : rho(l.tailDependence)}</td>
                     </tr>
                   );
                 })}
@@ -121,9 +122,10 @@ export function MixingLawsSection({ seg }: ReviewContext) {
           </ScrollBox>
           <p className="text-xs text-[var(--color-muted)]">
             AIC = 2k − 2 log-likelihood; BIC = k log T − 2 log-likelihood, where BIC uses the number of years (T = {seg.T}) as the sample
-            size, since the years, not the obligors, are the independent draws of the mixing variable. Lower is better for both. Default
-            rates are quantiles of an infinitely large pool; below each, the ratio to the Gaussian law&apos;s. Joint default: the probability
-            that two obligors both default in one year. Tail dependence: of the latent variables, 0 under the Gaussian copula. The equivalent
+            size, since the years, not the obligors, are the independent draws of the mixing variable. Lower is better for both. k: the
+            number of free parameters. The 99% and 99.9% rates are default-rate quantiles of an infinitely large pool; below each, the ratio to the Gaussian law&apos;s. Joint default: the probability
+            that two obligors both default in one year. Tail dependence: of the latent variables, 0 under the Gaussian copula; beta and logit-normal
+            mixing have no latent variables. The equivalent
             ρ of beta and logit-normal mixing is the Gaussian ρ with the same PD and joint default probability. An unbounded interval end
             means the profile likelihood stays above its cut-off to the edge of the range.
           </p>
