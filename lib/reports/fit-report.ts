@@ -84,6 +84,9 @@ export function buildFitReport(input: { fit: FitDto; dataset: DatasetFacts; find
             ['Interval level', levelText(r.level)],
             ['Bootstrap', r.bootstrap ? `${r.bootstrap.replications} replications, seed ${r.bootstrap.seed}` : 'not requested'],
             ['Small-sample simulation study', r.audit ? `${r.audit.replications} panels, seed ${r.audit.seed}` : 'not requested'],
+            ...(r.mixingLaws
+              ? [['Challenge of the Gaussian copula', `${r.mixingLaws.laws.map((l) => ({ t: 't copula', beta: 'beta mixing', logitNormal: 'logit-normal mixing' })[l]).join(', ')}; test ${r.mixingLaws.replications} and power ${r.mixingLaws.powerReplications} replications, seed ${r.mixingLaws.seed}`] as [string, string]]
+              : []),
             ['Requested by', `${fit.createdBy}, ${fit.createdAt.slice(0, 10)}`],
             ['Status', fit.status],
           ],
@@ -119,7 +122,7 @@ export function buildFitReport(input: { fit: FitDto; dataset: DatasetFacts; find
     reproduce: [
       ['Engine version', fit.engineVersion],
       ['Dataset SHA-256', fit.datasetSha256],
-      ['Seeds', `bootstrap ${fit.seeds.bootstrap ?? 'not run'}; audit ${fit.seeds.audit ?? 'not run'}`],
+      ['Seeds', `bootstrap ${fit.seeds.bootstrap ?? 'not run'}; audit ${fit.seeds.audit ?? 'not run'}${r.mixingLaws ? `; mixing laws ${r.mixingLaws.seed}` : ''}`],
       ['Fit run', String(fit.id)],
     ],
     sections,

@@ -3,6 +3,7 @@ import { count, fixed, interval, pct, pd as pdText, pValue, rho as rhoText } fro
 import { estimatorLabel } from '@/lib/stats/estimators/types';
 import { defaultRateChart, profileChart } from './charts';
 import type { Block, Section } from './document';
+import { MIXING_LAW_ESTIMATES, mixingLawsSection } from './mixing-laws-blocks';
 
 /**
  * The evidence of one fitted segment as report sections: its data, every estimator with its
@@ -18,7 +19,9 @@ type AnyEstimate = { rho: number | null; pd: number | null; status?: string; rea
 const intervalNames: Record<string, string> = { profile: 'profile', wald: 'Wald', bootstrap: 'bootstrap', chiSquare: 'chi-square' };
 
 export function estimatesTable(seg: FitSegmentResult): Block {
-  const rows = Object.entries(seg.estimates as unknown as Record<string, AnyEstimate>).map(([key, e]) => {
+  // the other mixing laws have a section of their own (mixing-laws-blocks.ts)
+  const entries = Object.entries(seg.estimates as unknown as Record<string, AnyEstimate>).filter(([key]) => !MIXING_LAW_ESTIMATES.has(key));
+  const rows = entries.map(([key, e]) => {
     const ivs = Object.entries(e.intervals ?? {})
       .filter(([, iv]) => iv && typeof iv.lower === 'number' && typeof iv.upper === 'number')
       .map(([k, iv]) => `${intervalNames[k] ?? k} ${interval(iv!.lower, iv!.upper)}`);
@@ -135,6 +138,7 @@ export function segmentSections(seg: FitSegmentResult, opts: { level: 2 | 3 } = 
   if (pc) charts.push({ kind: 'chart', chart: pc });
   const imp = seg.implications;
   const stability = stabilitySentences(seg);
+  const mixingLaws = mixingLawsSection(seg, opts.level);
   return [
     {
       heading: `Data of ${seg.segment}`,
@@ -160,6 +164,7 @@ export function segmentSections(seg: FitSegmentResult, opts: { level: 2 | 3 } = 
       ],
     },
     ...(stability.length ? [{ heading: 'Stability across the window', level: opts.level, blocks: [{ kind: 'list' as const, items: stability }] }] : []),
+    ...(mixingLaws ? [mixingLaws] : []),
     ...(imp
       ? [
           {
