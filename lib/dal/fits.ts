@@ -42,8 +42,8 @@ export type FitDto = FitSummaryDto & {
   error: string | null;
   datasetSha256: string;
   engineVersion: string;
-  /** breakTest is absent in runs stored before the break test's bootstrap. */
-  seeds: { bootstrap: number | null; audit: number | null; breakTest?: number | null };
+  /** breakTest is absent in runs stored before the break test's bootstrap; mixingLaws in runs that did not challenge the Gaussian copula. */
+  seeds: { bootstrap: number | null; audit: number | null; breakTest?: number | null; mixingLaws?: number };
   /** The run's jobs: one per segment, in the order of its segments (one for a run from before runs were split). */
   jobIds: number[];
   mayCancel: boolean;
@@ -163,7 +163,12 @@ export async function createFit(actor: SessionUser, input: FitRequestInput | unk
       datasetSha256: dataset.sha256,
       request,
       engineVersion: ENGINE_VERSION,
-      seeds: { bootstrap: request.bootstrap?.seed ?? null, audit: request.audit?.seed ?? null, breakTest: request.breakTest?.seed ?? null },
+      seeds: {
+        bootstrap: request.bootstrap?.seed ?? null,
+        audit: request.audit?.seed ?? null,
+        breakTest: request.breakTest?.seed ?? null,
+        ...(request.mixingLaws ? { mixingLaws: request.mixingLaws.seed } : {}),
+      },
       createdBy: actor.id,
     });
     const id = Number(res.insertId);

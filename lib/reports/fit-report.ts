@@ -122,7 +122,7 @@ export function buildFitReport(input: { fit: FitDto; dataset: DatasetFacts; find
     reproduce: [
       ['Engine version', fit.engineVersion],
       ['Dataset SHA-256', fit.datasetSha256],
-      ['Seeds', `bootstrap ${fit.seeds.bootstrap ?? 'not run'}; audit ${fit.seeds.audit ?? 'not run'}${r.mixingLaws ? `; mixing laws ${r.mixingLaws.seed}` : ''}`],
+      ['Seeds', `bootstrap ${fit.seeds.bootstrap ?? 'not run'}; audit ${fit.seeds.audit ?? 'not run'}${fit.seeds.mixingLaws !== undefined ? `; mixing laws ${fit.seeds.mixingLaws}` : ''}`],
       ['Fit run', String(fit.id)],
     ],
     sections,

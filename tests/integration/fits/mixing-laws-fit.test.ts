@@ -74,6 +74,7 @@ describe('the fit request: challenge the Gaussian copula', () => {
     const fit = await getFit(analyst, id);
     expect(fit.status).toBe('succeeded');
     expect(fit.request.mixingLaws).toEqual({ laws: ['t', 'beta', 'logitNormal'], replications: 20, powerReplications: 20, seed: 9 });
+    expect(fit.seeds).toEqual({ bootstrap: null, audit: null, breakTest: null, mixingLaws: 9 });
     const seg = fit.results!.segments[0];
     expect(Object.keys(seg.estimates.tCopula!)).toEqual(expect.arrayContaining(['rho', 'pd', 'nu', 'logLik', 'status', 'intervals', 'nuInterval']));
     expect(Object.keys(seg.estimates.betaMixing!)).toEqual(expect.arrayContaining(['a', 'b', 'pd', 'equivalentRho', 'logLik', 'status', 'intervals']));
@@ -123,6 +124,7 @@ describe('the fit request: challenge the Gaussian copula', () => {
     const fit = await getFit(analyst, id);
     expect(fit.status).toBe('succeeded');
     expect(fit.request).not.toHaveProperty('mixingLaws');
+    expect(fit.seeds).toEqual({ bootstrap: null, audit: null, breakTest: null });
     const { assetClass: _a, chosen: _c, windows: _w, timing: _t, ...engineFields } = fit.results!.segments[0];
     expect(engineFields).not.toHaveProperty('modelComparison');
     expect(Object.keys(engineFields.estimates)).not.toEqual(expect.arrayContaining(['tCopula']));
