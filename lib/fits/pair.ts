@@ -94,6 +94,24 @@ export function densityContour(rho: number, q: number): { alongDiagonal: number;
 export type PairInputText = { pdA: string; pdB: string; rho: string };
 
 /**
+ * Reads one of the explorer's fields as one plain number (a trailing % is allowed unless `allowPercent` is false). A decimal comma
+ * is refused with a sentence rather than guessed at ("5,5" may be 5.5 or fifty-five), and so is
+ * anything that is not one plain number; `what` names the field in the sentence.
+ */
+export function readPlainNumber(
+  raw: string,
+  what: string,
+  example: string,
+  allowPercent = true,
+): { problem: string; value: null } | { problem: null; value: number } {
+  const t = allowPercent ? raw.trim().replace(/%$/, '').trim() : raw.trim();
+  if (t === '') return { problem: `Give ${what}, for example ${example}.`, value: null };
+  if (/^[+-]?\d*,\d+$/.test(t)) return { problem: `Write the decimal with a point (${t.replace(',', '.')}), not a comma.`, value: null };
+  if (!/^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i.test(t)) return { problem: `${what[0].toUpperCase()}${what.slice(1)} must be one number, for example ${example}.`, value: null };
+  return { problem: null, value: Number(t) };
+}
+
+/**
  * Reads the explorer's inputs: PDs in percent, the correlation as a plain number. A decimal comma
  * is refused with a sentence rather than guessed at ("5,5" may be 5.5 or fifty-five), and so is
  * anything that is not one plain number; each field gets its own sentence. `values` is set only
@@ -102,20 +120,12 @@ export type PairInputText = { pdA: string; pdB: string; rho: string };
 export function readPairInputs(text: PairInputText): { problems: Partial<Record<keyof PairInputText, string>>; values: { p1: number; p2: number; rho: number } | null } {
   const problems: Partial<Record<keyof PairInputText, string>> = {};
   const read = (key: keyof PairInputText, what: string, example: string): number => {
-    const t = text[key].trim().replace(/%$/, '').trim();
-    if (t === '') {
-      problems[key] = `Give ${what}, for example ${example}.`;
+    const r = readPlainNumber(text[key], what, example);
+    if (r.problem !== null) {
+      problems[key] = r.problem;
       return Number.NaN;
     }
-    if (/^[+-]?\d*,\d+$/.test(t)) {
-      problems[key] = `Write the decimal with a point (${t.replace(',', '.')}), not a comma.`;
-      return Number.NaN;
-    }
-    if (!/^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i.test(t)) {
-      problems[key] = `${what[0].toUpperCase()}${what.slice(1)} must be one number, for example ${example}.`;
-      return Number.NaN;
-    }
-    return Number(t);
+    return r.value;
   };
   const pdA = read('pdA', 'the PD of obligor A in percent', '1.5');
   const pdB = read('pdB', 'the PD of obligor B in percent', '1.5');

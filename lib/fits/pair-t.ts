@@ -1,0 +1,90 @@
+/**
+ * The pair explorer's Student-t copula: two obligors whose latent pair is standard bivariate t with
+ * correlation rho and nu degrees of freedom; obligor i defaults when its latent value falls below
+ * k_i = t_nu^-1(p_i), so each keeps its PD and only the joint behaviour changes.
+ *
+ *   joint default probability   P(both) = P(T1 <= k1, T2 <= k2)          (bivariateTJointDefault)
+ *   default (indicator) corr.   (P(both) - p1 p2) / sqrt(p1 (1 - p1) p2 (1 - p2))
+ *   lower tail dependence       2 t_{nu+1}(-sqrt((nu + 1)(1 - rho) / (1 + rho)))  (0 for the Gaussian)
+ *
+ * beside the Gaussian copula at the same p1, p2 and rho (pairMetrics) and the ratio of the two
+ * joint probabilities. Pure: used in the browser by the Pair explorer.
+ */
+import { tCopulaTailDependence, bivariateTJointDefault } from '@/lib/stats/t-copula-tail';
+import { tQuantile } from '@/lib/stats/t-copula-likelihood';
+import { pairInputProblem, pairMetrics, readPlainNumber, type PairMetrics } from './pair';
+
+/** The explorer's range of nu: above 2 (a finite variance, as the engine's fit requires) and at most 1000 (beyond, the t copula is the Gaussian one to the digits shown). */
+export const PAIR_NU_LIMITS = { nuMin: 2, nuMax: 1000 } as const;
+
+export type PairTMetrics = {
+  p1: number;
+  p2: number;
+  rho: number;
+  nu: number;
+  /** Default thresholds of the latent t values, k_i = t_nu^-1(p_i). */
+  k1: number;
+  k2: number;
+  /** P(both default) under the t copula. */
+  joint: number;
+  /** p1 * p2. */
+  independent: number;
+  defaultCorrelation: number;
+  /** P(obligor 2 defaults | obligor 1 defaults) = joint / p1. */
+  secondGivenFirst: number;
+  /** Lower tail-dependence coefficient of the latent pair. */
+  tailDependence: number;
+  /** The Gaussian copula at the same p1, p2 and rho. */
+  gaussian: PairMetrics;
+  /** joint / gaussian.joint. */
+  ratioToGaussian: number;
+};
+
+/** Returns a sentence naming what is wrong with nu, or null when it is usable. */
+export function pairNuProblem(nu: number): string | null {
+  if (!Number.isFinite(nu)) return 'The degrees of freedom ν must be a number.';
+  if (!(nu > PAIR_NU_LIMITS.nuMin) || nu > PAIR_NU_LIMITS.nuMax)
+    return `The degrees of freedom ν must be above ${PAIR_NU_LIMITS.nuMin} and at most ${PAIR_NU_LIMITS.nuMax} (for a larger ν choose the Gaussian copula, its limit).`;
+  return null;
+}
+
+/**
+ * Joint default probability, default correlation and tail dependence of two obligors under the
+ * t copula, with the Gaussian copula's figures at the same inputs. Throws RangeError with the
+ * sentence of pairInputProblem / pairNuProblem when an input is outside the explorer's range.
+ *
+ * @example pairTMetrics(0.01, 0.01, 0.3, 4).joint // ≈ 0.0019110276 (SciPy 1.17, make_pair_t.py)
+ */
+export function pairTMetrics(p1: number, p2: number, rho: number, nu: number): PairTMetrics {
+  const problem = pairInputProblem(p1, p2, rho) ?? pairNuProblem(nu);
+  if (problem) throw new RangeError(problem);
+  const gaussian = pairMetrics(p1, p2, rho);
+  const joint = bivariateTJointDefault(p1, p2, rho, nu);
+  const independent = p1 * p2;
+  return {
+    p1,
+    p2,
+    rho,
+    nu,
+    k1: tQuantile(p1, nu),
+    k2: tQuantile(p2, nu),
+    joint,
+    independent,
+    defaultCorrelation: (joint - independent) / Math.sqrt(p1 * (1 - p1) * p2 * (1 - p2)),
+    secondGivenFirst: joint / p1,
+    tailDependence: tCopulaTailDependence(rho, nu),
+    gaussian,
+    ratioToGaussian: joint / gaussian.joint,
+  };
+}
+
+/**
+ * Reads the degrees of freedom as typed, by the explorer's rules (one plain number, a decimal
+ * comma refused with a sentence, the range of PAIR_NU_LIMITS): the value, or the sentence for the field.
+ */
+export function readPairNu(text: string): { problem: string; value: null } | { problem: null; value: number } {
+  const r = readPlainNumber(text, 'the degrees of freedom ν', '4', false);
+  if (r.problem !== null) return { problem: r.problem, value: null };
+  const problem = pairNuProblem(r.value);
+  return problem ? { problem, value: null } : { problem: null, value: r.value };
+}
