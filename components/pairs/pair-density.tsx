@@ -1,16 +1,37 @@
+import { useId } from 'react';
 import { densityContour } from '@/lib/fits/pair';
+import { bivariateTContour } from '@/lib/stats/bivariate-t-density';
 
 const SIZE = 340;
 const PAD = { left: 44, right: 12, top: 12, bottom: 40 };
-const LIM = 4;
 const CONTOURS = [0.99, 0.95, 0.8, 0.5, 0.2] as const;
 
 /**
  * The standard bivariate normal density of two obligors' asset values drawn as shaded contours
  * (exact ellipses, each enclosing the probability written on it), with the joint-default corner
- * x < k1, y < k2 marked. Pure SVG: re-renders at once when rho or a threshold moves.
+ * x < k1, y < k2 marked; with `nu` the standard bivariate t density of the t copula's latent pair
+ * instead (its level sets are ellipses too, wider at the same probability). `limit` is the half
+ * width of the axes (two figures meant to be compared share it). Pure SVG: re-renders at once when
+ * rho or a threshold moves.
  */
-export function PairDensity({ rho, k1, k2, jointLabel }: { rho: number; k1: number; k2: number; jointLabel: string }) {
+export function PairDensity({
+  rho,
+  k1,
+  k2,
+  jointLabel,
+  nu,
+  limit = 4,
+}: {
+  rho: number;
+  k1: number;
+  k2: number;
+  jointLabel: string;
+  nu?: number;
+  limit?: number;
+}) {
+  const LIM = limit;
+  const uid = useId().replace(/[^a-zA-Z0-9_-]/g, '');
+  const law = nu === undefined ? 'standard normal' : `Student t, ν = ${nu}`;
   const inner = SIZE - PAD.left - PAD.right;
   const innerH = SIZE - PAD.top - PAD.bottom;
   const sx = (x: number) => PAD.left + ((x + LIM) / (2 * LIM)) * inner;
@@ -18,7 +39,8 @@ export function PairDensity({ rho, k1, k2, jointLabel }: { rho: number; k1: numb
   const unit = inner / (2 * LIM);
   const cx1 = sx(Math.max(-LIM, Math.min(LIM, k1)));
   const cy2 = sy(Math.max(-LIM, Math.min(LIM, k2)));
-  const ticks = [-4, -3, -2, -1, 0, 1, 2, 3, 4];
+  const step = LIM > 4 ? 2 : 1;
+  const ticks = Array.from({ length: (2 * LIM) / step + 1 }, (_, i) => -LIM + i * step);
   const rhoDraw = Math.min(rho, 0.999);
   const outside = k1 < -LIM || k2 < -LIM;
   return (
@@ -28,19 +50,19 @@ export function PairDensity({ rho, k1, k2, jointLabel }: { rho: number; k1: numb
         width="100%"
         style={{ maxWidth: SIZE }}
         role="img"
-        aria-label={`Bivariate normal density of the two asset values at correlation ${rho.toFixed(3)}; the joint-default corner below ${k1.toFixed(2)} and ${k2.toFixed(2)} holds probability ${jointLabel}.`}
-        data-testid="pair-density"
+        aria-label={`${nu === undefined ? 'Bivariate normal' : `Bivariate Student t (ν = ${nu})`} density of the two asset values at correlation ${rho.toFixed(3)}; the joint-default corner below ${k1.toFixed(2)} and ${k2.toFixed(2)} holds probability ${jointLabel}.`}
+        data-testid={nu === undefined ? 'pair-density' : 'pair-density-t'}
       >
         <defs>
-          <clipPath id="pair-plot-area">
+          <clipPath id={`${uid}-area`}>
             <rect x={PAD.left} y={PAD.top} width={inner} height={innerH} />
           </clipPath>
-          <pattern id="pair-hatch" width="6" height="6" patternUnits="userSpaceOnUse" patternTransform="rotate(45)">
+          <pattern id={`${uid}-hatch`} width="6" height="6" patternUnits="userSpaceOnUse" patternTransform="rotate(45)">
             <line x1="0" y1="0" x2="0" y2="6" stroke="var(--color-bad)" strokeWidth="1.2" strokeOpacity="0.45" />
           </pattern>
         </defs>
         <rect x={PAD.left} y={PAD.top} width={inner} height={innerH} fill="white" stroke="var(--color-line)" />
-        <g clipPath="url(#pair-plot-area)">
+        <g clipPath={`url(#${uid}-area)`}>
           {ticks.map((t) => (
             <g key={t} stroke="#efefea">
               <line x1={sx(t)} x2={sx(t)} y1={PAD.top} y2={PAD.top + innerH} />
@@ -48,7 +70,7 @@ export function PairDensity({ rho, k1, k2, jointLabel }: { rho: number; k1: numb
             </g>
           ))}
           {CONTOURS.map((q, i) => {
-            const e = densityContour(rhoDraw, q);
+            const e = nu === undefined ? densityContour(rhoDraw, q) : bivariateTContour(rhoDraw, nu, q);
             return (
               <ellipse
                 key={q}
@@ -65,7 +87,7 @@ export function PairDensity({ rho, k1, k2, jointLabel }: { rho: number; k1: numb
               />
             );
           })}
-          <rect x={PAD.left} y={cy2} width={Math.max(0, cx1 - PAD.left)} height={Math.max(0, PAD.top + innerH - cy2)} fill="url(#pair-hatch)" />
+          <rect x={PAD.left} y={cy2} width={Math.max(0, cx1 - PAD.left)} height={Math.max(0, PAD.top + innerH - cy2)} fill={`url(#${uid}-hatch)`} />
           <rect
             x={PAD.left}
             y={cy2}
@@ -99,7 +121,7 @@ export function PairDensity({ rho, k1, k2, jointLabel }: { rho: number; k1: numb
           </g>
         ))}
         <text x={PAD.left + inner / 2} y={SIZE - 6} fontSize="11" textAnchor="middle" fill="var(--color-ink)">
-          asset value of A (standard normal)
+          asset value of A ({law})
         </text>
         <text
           x={12}
@@ -114,7 +136,8 @@ export function PairDensity({ rho, k1, k2, jointLabel }: { rho: number; k1: numb
       </svg>
       <figcaption className="mt-1 text-xs text-[var(--color-muted)]">
         Shaded ellipses enclose 20%, 50%, 80%, 95% and 99% of the probability. The hatched corner is where both
-        obligors default.{outside ? ' A threshold lies below −4 and is drawn at the edge.' : ''}
+        obligors default.{nu === undefined ? '' : ' The t’s asset values spread wider (variance ν / (ν − 2)) and its tails are heavier, so its ellipses and thresholds lie farther out: compare the probabilities, not the areas.'}
+        {outside ? ` A threshold lies below −${LIM} and is drawn at the edge.` : ''}
       </figcaption>
     </figure>
   );

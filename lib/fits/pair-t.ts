@@ -43,8 +43,9 @@ export type PairTMetrics = {
 /** Returns a sentence naming what is wrong with nu, or null when it is usable. */
 export function pairNuProblem(nu: number): string | null {
   if (!Number.isFinite(nu)) return 'The degrees of freedom ν must be a number.';
-  if (!(nu > PAIR_NU_LIMITS.nuMin) || nu > PAIR_NU_LIMITS.nuMax)
-    return `The degrees of freedom ν must be above ${PAIR_NU_LIMITS.nuMin} and at most ${PAIR_NU_LIMITS.nuMax} (for a larger ν choose the Gaussian copula, its limit).`;
+  if (!(nu > PAIR_NU_LIMITS.nuMin)) return `The degrees of freedom ν must be above ${PAIR_NU_LIMITS.nuMin} (the t copula's fits need a finite variance), for example 4.`;
+  if (nu > PAIR_NU_LIMITS.nuMax)
+    return `A ν above ${PAIR_NU_LIMITS.nuMax} is the Gaussian copula to the digits shown: choose the Gaussian copula, or a ν of at most ${PAIR_NU_LIMITS.nuMax}.`;
   return null;
 }
 
@@ -87,4 +88,25 @@ export function readPairNu(text: string): { problem: string; value: null } | { p
   if (r.problem !== null) return { problem: r.problem, value: null };
   const problem = pairNuProblem(r.value);
   return problem ? { problem, value: null } : { problem: null, value: r.value };
+}
+
+/** The part of a segment's stored `estimates.tCopula` (the engine's JSON) that a start reads. */
+export type StoredTCopula = { rho: number | null; pd: number | null; nu: number | null; status: string; reason?: string };
+
+/**
+ * What the explorer can start from a fitted segment's t copula: its rho, nu and PD (`start`); the
+ * Gaussian limit (`gaussian-limit`: nu = infinity, stored as null, or beyond the explorer's largest
+ * nu, where the two copulas agree to the digits shown), so the explorer keeps the Gaussian copula;
+ * or no usable estimate (`none`, with the engine's reason or a sentence). Null when the fit ran no t copula.
+ */
+export function pairTStartOf(
+  t: StoredTCopula | undefined,
+): { kind: 'start'; pd: number; rho: number; nu: number } | { kind: 'gaussian-limit'; pd: number; rho: number } | { kind: 'none'; reason: string } | null {
+  if (t === undefined) return null;
+  if (!(t.status === 'ok' || t.status === 'clipped') || t.rho === null || t.pd === null) return { kind: 'none', reason: t.reason ?? `the estimate's status is ${t.status}.` };
+  const inputs = pairInputProblem(t.pd, t.pd, t.rho);
+  if (inputs !== null) return { kind: 'none', reason: inputs };
+  if (t.nu === null || !Number.isFinite(t.nu) || t.nu > PAIR_NU_LIMITS.nuMax) return { kind: 'gaussian-limit', pd: t.pd, rho: t.rho };
+  const nuProblem = pairNuProblem(t.nu);
+  return nuProblem !== null ? { kind: 'none', reason: nuProblem } : { kind: 'start', pd: t.pd, rho: t.rho, nu: t.nu };
 }

@@ -7,6 +7,7 @@ import { getFitSegment } from '@/lib/dal/fits';
 import { AppError } from '@/lib/errors';
 import { pd, rho } from '@/lib/format';
 import { PAIR_LIMITS } from '@/lib/fits/pair';
+import { pairTStartOf } from '@/lib/fits/pair-t';
 import { segmentHref } from '@/lib/fits/results';
 
 export const metadata: Metadata = { title: 'Pair explorer' };
@@ -39,11 +40,13 @@ export default async function PairsPage({ searchParams }: { searchParams: Promis
       : null;
   const chosen = fitted ? fitted.segment.estimates[fitted.segment.chosen] : null;
   const from = fitted && chosen && chosen.rho !== null && chosen.pd !== null ? { pd: chosen.pd, rho: chosen.rho } : null;
+  const tFit = fitted ? pairTStartOf(fitted.segment.estimates.tCopula) : null;
+  const tStart = fitted && tFit?.kind === 'start' ? { pd: tFit.pd, rho: tFit.rho, nu: tFit.nu, from: `fit #${fitted.fitId}’s t copula` } : null;
   const initial = fromPair
     ? { initialPdA: pair.pdA, initialPdB: pair.pdB, initialRho: pair.rho }
     : from
-      ? { initialPdA: from.pd, initialPdB: from.pd, initialRho: from.rho, heading: `Two obligors of ${fitted!.segment.segment}` }
-      : {};
+      ? { initialPdA: from.pd, initialPdB: from.pd, initialRho: from.rho, heading: `Two obligors of ${fitted!.segment.segment}`, tStart }
+      : { tStart };
   return (
     <div className="space-y-4">
       <div>
@@ -67,6 +70,25 @@ export default async function PairsPage({ searchParams }: { searchParams: Promis
           <p className="mt-2 text-sm" data-testid="pair-from-segment">
             Started from <Link href={segmentHref(fitted.fitId, fitted.segment.segment)}>fit #{fitted.fitId}, {fitted.segment.segment}</Link>: both
             obligors at the fitted PD <span className="num">{pd(from.pd)}</span>, asset correlation <span className="num">{rho(from.rho)}</span>.
+          </p>
+        ) : null}
+        {fitted && tFit?.kind === 'start' ? (
+          <p className="mt-1 max-w-3xl text-sm" data-testid="pair-t-from-segment">
+            The fit also estimated a Student t copula for this segment (ρ <span className="num">{rho(tFit.rho)}</span>, ν{' '}
+            <span className="num">{tFit.nu.toPrecision(4)}</span>, PD <span className="num">{pd(tFit.pd)}</span>): choose “Start the t copula” below to
+            explore it. A ν fitted to a few yearly default rates is weakly identified; see its interval on the segment’s review.
+          </p>
+        ) : null}
+        {fitted && tFit?.kind === 'gaussian-limit' ? (
+          <p className="mt-1 max-w-3xl text-sm" data-testid="pair-t-from-segment">
+            The fit’s Student t copula for this segment reaches the Gaussian limit (ν = ∞; ρ <span className="num">{rho(tFit.rho)}</span>): its
+            data show no fatter joint tail, so the explorer keeps the Gaussian copula. You can still choose the t copula and a ν to see what the
+            choice would cost.
+          </p>
+        ) : null}
+        {fitted && tFit?.kind === 'none' ? (
+          <p className="mt-1 max-w-3xl text-sm text-[var(--color-muted)]" data-testid="pair-t-from-segment">
+            The fit’s Student t copula for this segment has no estimate to start from: {tFit.reason}
           </p>
         ) : null}
       </div>

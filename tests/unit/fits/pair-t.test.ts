@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fx from '@/tests/fixtures/copula/pair-t-fixtures.json';
 import { readPairInputs } from '@/lib/fits/pair';
-import { pairNuProblem, pairTMetrics, readPairNu } from '@/lib/fits/pair-t';
+import { pairNuProblem, pairTMetrics, pairTStartOf, readPairNu } from '@/lib/fits/pair-t';
 
 describe('pairTMetrics', () => {
   it('gives the t joint default, default correlation and tail dependence, and the Gaussian ones beside them, as SciPy does', () => {
@@ -55,7 +55,7 @@ describe('pairTMetrics', () => {
     expect(() => pairTMetrics(0.01, 0.01, 1.2, 4)).toThrow(/asset correlation/);
     expect(pairNuProblem(2)).toMatch(/above 2/);
     expect(pairNuProblem(2.0001)).toBeNull();
-    expect(pairNuProblem(1001)).toMatch(/at most 1000.*Gaussian/);
+    expect(pairNuProblem(1001)).toMatch(/above 1000 is the Gaussian copula.*at most 1000/);
     expect(pairNuProblem(Number.NaN)).toMatch(/must be a number/);
   });
 });
@@ -72,7 +72,7 @@ describe('readPairNu', () => {
     expect(readPairNu('').problem).toBe('Give the degrees of freedom ν, for example 4.');
     expect(readPairNu('four').problem).toBe('The degrees of freedom ν must be one number, for example 4.');
     expect(readPairNu('4%').problem).toMatch(/must be one number/);
-    expect(readPairNu('1.5').problem).toMatch(/must be above 2 and at most 1000/);
+    expect(readPairNu('1.5').problem).toBe('The degrees of freedom ν must be above 2 (the t copula\'s fits need a finite variance), for example 4.');
     expect(readPairNu('2').problem).toMatch(/must be above 2/);
     expect(readPairNu('Infinity').problem).toMatch(/must be one number/);
   });
@@ -81,5 +81,28 @@ describe('readPairNu', () => {
     // readPairInputs now reads through the same plain-number rule
     expect(readPairInputs({ pdA: '1', pdB: '1%', rho: '0.3' }).values).toEqual({ p1: 0.01, p2: 0.01, rho: 0.3 });
     expect(readPairInputs({ pdA: '5,5', pdB: '1', rho: '0.3' }).problems.pdA).toBe('Write the decimal with a point (5.5), not a comma.');
+  });
+});
+
+describe('pairTStartOf', () => {
+  // the engine's estimates.tCopula { rho, pd, nu, status, reason? } (nu null at the Gaussian limit)
+  const fitted = { rho: 0.05, pd: 0.02, nu: 6.3, status: 'ok' };
+
+  it('starts the t copula from a fitted rho, nu and PD', () => {
+    expect(pairTStartOf(fitted)).toEqual({ kind: 'start', pd: 0.02, rho: 0.05, nu: 6.3 });
+    expect(pairTStartOf({ ...fitted, status: 'clipped', rho: 0 })).toEqual({ kind: 'start', pd: 0.02, rho: 0, nu: 6.3 });
+  });
+
+  it('says the Gaussian limit when nu is null or beyond the explorer\'s largest nu', () => {
+    expect(pairTStartOf({ ...fitted, nu: null })).toEqual({ kind: 'gaussian-limit', pd: 0.02, rho: 0.05 });
+    expect(pairTStartOf({ ...fitted, nu: 5000 })).toEqual({ kind: 'gaussian-limit', pd: 0.02, rho: 0.05 });
+  });
+
+  it('gives the reason when there is nothing to start from, and nothing when the fit ran no t copula', () => {
+    expect(pairTStartOf(undefined)).toBeNull();
+    expect(pairTStartOf({ rho: null, pd: null, nu: null, status: 'undefined', reason: 'No defaults in the window.' })).toEqual({ kind: 'none', reason: 'No defaults in the window.' });
+    expect(pairTStartOf({ ...fitted, status: 'not-converged' })).toEqual({ kind: 'none', reason: "the estimate's status is not-converged." });
+    expect(pairTStartOf({ ...fitted, nu: 1.8 })).toEqual({ kind: 'none', reason: expect.stringMatching(/above 2/) });
+    expect(pairTStartOf({ ...fitted, rho: 0.9995 })).toEqual({ kind: 'none', reason: expect.stringMatching(/asset correlation/) });
   });
 });
