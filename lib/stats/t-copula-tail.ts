@@ -8,7 +8,7 @@ import { adaptiveIntegral } from './adaptive-quadrature';
 import { bivariateNormalCdf } from './bivariate-normal';
 import { brentRoot } from './brent';
 import { normalCdf, normalQuantile } from './normal';
-import { chiScaleLogDensity } from './t-copula-mixing';
+import { chiScaleLogConstant, chiScaleLogDensity } from './t-copula-mixing';
 import { studentT, tQuantile } from './t-copula-likelihood';
 
 function assertLaw(fn: string, rho: number, nu: number, rhoLower = 0): void {
@@ -51,7 +51,8 @@ export function tCopulaTailDependence(rho: number, nu: number): number {
  * E[Phi2(k1 s, k2 s; rho)], s = sqrt(V / nu), V ~ chi-square(nu), k_i = t_nu^-1(p_i).
  *
  * Method: the mixture over s by adaptive Gauss-Kronrod (adaptive-quadrature.ts, relative 1e-11)
- * on the range that holds the law of s to e^-50; Phi2 by bivariateNormalCdf (Genz 2004).
+ * on the range that holds the law of s to e^-50, and where that rule misses its tolerance (nu near
+ * 2 with small PDs) the same integral in log s; Phi2 by bivariateNormalCdf (Genz 2004).
  *
  * Special cases: nu = Infinity is Phi2(Phi^-1(p1), Phi^-1(p2); rho), the Gaussian copula; p outside
  * (0, 1), rho outside (-1, 1) or nu not positive throw RangeError.
@@ -69,8 +70,26 @@ export function bivariateTJointDefault(p1: number, p2: number, rho: number, nu: 
   const k2 = tQuantile(p2, nu);
   const [lo, hi] = chiScaleRange(nu);
   const r = adaptiveIntegral((s) => (s > 0 ? bivariateNormalCdf(k1 * s, k2 * s, rho) * Math.exp(chiScaleLogDensity(s, nu)) : 0), lo, hi, { relativeTolerance: 1e-11 });
-  if (!r.converged) throw new RangeError(`bivariateTJointDefault: the integral over the mixing variable did not meet its tolerance (p1 = ${p1}, p2 = ${p2}, rho = ${rho}, nu = ${nu}).`);
-  return r.value;
+  if (r.converged) return r.value;
+  // Near nu = 2 the law of s reaches down to ~e^(-50 / (nu - 1)) and, at small PDs, the integrand
+  // lives where k s is a few units, s ~ 1 / |k|: a rule in s cannot resolve both within its
+  // panels. In u = log s (ds = s du) both ends are smooth; used only when the rule in s fails, so
+  // every value that rule gives stays as it was. The log-density of s plus log s, written in u as
+  // C - (nu / 2) expm1(2u) + nu u (C = chiScaleLogConstant), keeps its digits at tiny s, where
+  // the kernel's s^2 - 1 rounds to -1.
+  const uLo = Math.log(Math.max(lo, 1e-300));
+  const constant = chiScaleLogConstant(nu);
+  const inLog = adaptiveIntegral(
+    (u) => {
+      const s = Math.exp(u);
+      return bivariateNormalCdf(k1 * s, k2 * s, rho) * Math.exp(constant - 0.5 * nu * Math.expm1(2 * u) + nu * u);
+    },
+    uLo,
+    Math.log(hi),
+    { relativeTolerance: 1e-11 },
+  );
+  if (!inLog.converged) throw new RangeError(`bivariateTJointDefault: the integral over the mixing variable did not meet its tolerance (p1 = ${p1}, p2 = ${p2}, rho = ${rho}, nu = ${nu}).`);
+  return inLog.value;
 }
 
 /**

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fx from '@/tests/fixtures/copula/copula-fixtures.json';
+import pairFx from '@/tests/fixtures/copula/pair-t-fixtures.json';
 import { bivariateNormalCdf } from '@/lib/stats/bivariate-normal';
 import { normalQuantile } from '@/lib/stats/normal';
 import { bivariateTJointDefault, tCopulaTailDependence, tDefaultRateCdf, tDefaultRateQuantile } from '@/lib/stats/t-copula-tail';
@@ -67,5 +68,29 @@ describe('default-rate distribution of a granular pool under the t copula', () =
       mean += (1 - tDefaultRateCdf(x * x, 0.01, 0.12, 5)) * 2 * x / N;
     }
     expect(Math.abs(mean / 0.01 - 1)).toBeLessThan(2e-3);
+  });
+});
+
+describe('joint default under the bivariate t near nu = 2', () => {
+  it('meets its tolerance where the law of the mixing variable reaches far down, and matches SciPy there', () => {
+    // computed with SciPy 1.17 by tests/fixtures/copula/make_pair_t.py (quad over log V from log nu - 90;
+    // multivariate_t.cdf is a randomised QMC with an absolute error of ~1e-8 to 1e-7 at these small probabilities)
+    for (const c of pairFx.jointNearTwo) {
+      const v = bivariateTJointDefault(c.p1, c.p2, c.rho, c.nu);
+      expect(Math.abs(v / c.joint - 1), `p1=${c.p1} p2=${c.p2} rho=${c.rho} nu=${c.nu}`).toBeLessThan(1e-9);
+      expect(Math.abs(v - c.multivariateT), `p1=${c.p1} nu=${c.nu}`).toBeLessThan(1e-7);
+    }
+  });
+
+  it('gives a value over the whole range the pair explorer takes (nu above 2, PDs 0.0001% to 99.9%, rho 0 to 0.999)', () => {
+    // property: a probability in [0, min(p1, p2)] at every corner of the range, never a throw
+    for (const nu of [2.001, 2.01, 2.1])
+      for (const p1 of [1e-6, 1e-4, 0.5, 0.999])
+        for (const p2 of [1e-6, 0.01, 0.999])
+          for (const rho of [0, 0.5, 0.999]) {
+            const v = bivariateTJointDefault(p1, p2, rho, nu);
+            expect(v, `p1=${p1} p2=${p2} rho=${rho} nu=${nu}`).toBeGreaterThan(0);
+            expect(v).toBeLessThanOrEqual(Math.min(p1, p2) * (1 + 1e-9));
+          }
   });
 });
