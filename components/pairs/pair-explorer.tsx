@@ -67,13 +67,24 @@ export function PairExplorer({
   const values = read.values && (!isT || nuRead.value !== null) ? read.values : null;
   const nu = isT ? nuRead.value : null;
   const m = useMemo(() => (values ? pairMetrics(values.p1, values.p2, values.rho) : null), [values]);
-  const mt = useMemo(() => (values && nu !== null ? pairTMetrics(values.p1, values.p2, values.rho, nu) : null), [values, nu]);
+  // The t figures are integrals with a tolerance: should one ever miss it, say so instead of breaking the page.
+  const tComputed = useMemo(() => {
+    if (!values || nu === null) return null;
+    try {
+      return {
+        m: pairTMetrics(values.p1, values.p2, values.rho, nu),
+        references: REFERENCE_RHOS.map((r) => pairTMetrics(values.p1, values.p2, r, nu).joint),
+        error: null,
+      };
+    } catch (err) {
+      if (!(err instanceof RangeError)) throw err;
+      return { m: null, references: null, error: err.message };
+    }
+  }, [values, nu]);
+  const mt = tComputed?.m ?? null;
   const references = useMemo(
-    () =>
-      values
-        ? REFERENCE_RHOS.map((r) => ({ r, m: pairMetrics(values.p1, values.p2, r), t: nu !== null ? pairTMetrics(values.p1, values.p2, r, nu).joint : null }))
-        : [],
-    [values, nu],
+    () => (values ? REFERENCE_RHOS.map((r, i) => ({ r, m: pairMetrics(values.p1, values.p2, r), t: tComputed?.references?.[i] ?? null })) : []),
+    [values, tComputed],
   );
   const rho = values?.rho ?? null;
   // The slider follows the correlation field whenever that field alone is usable.
@@ -142,8 +153,13 @@ export function PairExplorer({
             {invalid === 1 ? 'One field needs a change' : `${invalid} fields need a change`}: no result is shown until every field holds a usable number.
           </p>
         ) : null}
+        {tComputed?.error ? (
+          <p className="notice-bad text-sm" role="alert" data-testid="pair-t-error">
+            The t copula’s figures could not be computed at these inputs ({tComputed.error}) Change an input, or choose the Gaussian copula.
+          </p>
+        ) : null}
         {mt ? <PairTResults m={mt} /> : null}
-        {m && !mt ? (
+        {m && !isT ? (
           <>
             <dl className="grid gap-x-6 gap-y-2 sm:grid-cols-2" data-testid="pair-results">
               <div className="flex justify-between border-b border-[#ecece6] py-1">
@@ -186,7 +202,7 @@ export function PairExplorer({
             </p>
           </>
         ) : null}
-        {m ? (
+        {m && (!isT || mt) ? (
           <>
             <details>
               <summary className="cursor-pointer text-sm text-[var(--color-accent)]">The same pair at other correlations</summary>
