@@ -7,6 +7,10 @@ const nextConfig = {
   // Packages that load files or native code at run time stay outside the server bundle.
   serverExternalPackages: ['mysql2', 'bcryptjs', 'nodemailer', 'pdfkit'],
   typedRoutes: false,
+  turbopack: {
+    // stdlib probes for generators with new Function, which the CSP refuses: in the browser the probe answers false.
+    resolveAlias: { '@stdlib/assert-has-generator-support': { browser: './lib/browser/no-generator-codegen.cjs' } },
+  },
   // `npm test` runs `tsc --noEmit` as its own step; the build does not type-check a second time.
   typescript: { ignoreBuildErrors: true },
   experimental: {

@@ -31,7 +31,7 @@ export function PairDensity({
 }) {
   const LIM = limit;
   const uid = useId().replace(/[^a-zA-Z0-9_-]/g, '');
-  const law = nu === undefined ? 'standard normal' : `Student t, ν = ${nu}`;
+  const law = nu === undefined ? 'standard normal' : `Student t, ν = ${Number(nu.toPrecision(4))}`;
   const inner = SIZE - PAD.left - PAD.right;
   const innerH = SIZE - PAD.top - PAD.bottom;
   const sx = (x: number) => PAD.left + ((x + LIM) / (2 * LIM)) * inner;
@@ -50,7 +50,7 @@ export function PairDensity({
         width="100%"
         style={{ maxWidth: SIZE }}
         role="img"
-        aria-label={`${nu === undefined ? 'Bivariate normal' : `Bivariate Student t (ν = ${nu})`} density of the two asset values at correlation ${rho.toFixed(3)}; the joint-default corner below ${k1.toFixed(2)} and ${k2.toFixed(2)} holds probability ${jointLabel}.`}
+        aria-label={`${nu === undefined ? 'Bivariate normal' : `Bivariate Student t (ν = ${Number(nu.toPrecision(4))})`} density of the two asset values at correlation ${rho.toFixed(3)}; the joint-default corner below ${k1.toFixed(2)} and ${k2.toFixed(2)} holds probability ${jointLabel}.`}
         data-testid={nu === undefined ? 'pair-density' : 'pair-density-t'}
       >
         <defs>
