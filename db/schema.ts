@@ -148,6 +148,12 @@ export type Job = typeof jobs.$inferSelect;
  */
 export const factorModels = ['independent', 'ar1'] as const;
 export type FactorModel = (typeof factorModels)[number];
+/**
+ * The mixing law (copula) an assumption's value was estimated under: the one-factor Gaussian copula
+ * (Vasicek) or the one-factor Student-t copula with nu degrees of freedom (lib/stats/estimators/t-copula-mle.ts).
+ */
+export const mixingLawKinds = ['gaussian', 't'] as const;
+export type AssumptionMixingLaw = (typeof mixingLawKinds)[number];
 
 /** DESIGN.md "Assumption lifecycle"; the transitions are in lib/assumptions/lifecycle.ts. */
 export const assumptionStatuses = [
@@ -213,6 +219,12 @@ export const assumptionVersions = mysqlTable(
     defaultDefinitions: json('default_definitions'),
     /** The priors of a posterior-median value ({ rho: "flat", pd: "beta:1,1" }); null for every other estimator. */
     prior: json('prior').$type<{ rho: string; pd: string }>(),
+    /** The mixing law of the value; every version drafted before it was kept is Gaussian. */
+    mixingLaw: mysqlEnum('mixing_law', mixingLawKinds).notNull().default('gaussian'),
+    /** The degrees of freedom of a t-copula value; null for a Gaussian one. */
+    nu: double('nu'),
+    /** The profile-likelihood interval of nu ({ level, lower, upper }, an unbounded end null); null for a Gaussian value. */
+    nuInterval: json('nu_interval').$type<{ level: number; lower: number | null; upper: number | null }>(),
     // The analyst's judgement.
     marginData: double('margin_data').notNull().default(0),
     marginDataRationale: text('margin_data_rationale').notNull(),

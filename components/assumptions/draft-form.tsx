@@ -12,6 +12,7 @@ import { AppError } from '@/lib/errors';
 import { pd, rho } from '@/lib/format';
 import { problemOf, type FormFieldRef } from '@/lib/forms/place-errors';
 import { priorText, valueSourceLabel, type PriorRecord } from '@/lib/assumptions/posterior-evidence';
+import { nuIntervalText, nuText, type NuInterval } from '@/lib/assumptions/t-copula-evidence';
 import type { EstimatorKey } from '@/lib/stats/estimators/types';
 import { ESTIMATOR_MODEL, FIT_MODEL_LABELS } from '@/lib/stats/fit-models';
 import { Cautions } from './cautions';
@@ -28,6 +29,10 @@ export type FitOption = {
       intervals: Record<string, { level: number; lower: number; upper: number }>;
       /** The priors of a posterior median (recorded with the version). */
       prior?: PriorRecord;
+      /** A t-copula value's nu with its interval, and what nu means for the tail. */
+      nu?: { value: number; interval: NuInterval; caution: string };
+      /** Why this estimate cannot be drafted, in a sentence. */
+      refusal?: string;
     }
   >;
 };
@@ -172,7 +177,7 @@ export function DraftForm(
                   return (
                     <option key={k} value={k} disabled={!usable}>
                       {valueSourceLabel(k)}
-                      {e.rho === null ? ' (no value on this segment)' : !usable ? ' (no interval in this fit: cannot be drafted)' : ''}
+                      {e.refusal ? ' (cannot be drafted: see below)' : e.rho === null ? ' (no value on this segment)' : !usable ? ' (no interval in this fit: cannot be drafted)' : ''}
                     </option>
                   );
                 })}
@@ -191,6 +196,11 @@ export function DraftForm(
               </select>
             )}
           </FormField>
+          {option?.estimates.tCopula?.refusal ? (
+            <p className="text-sm text-[var(--color-muted)] md:col-span-3" data-testid="t-copula-refusal">
+              {option.estimates.tCopula.refusal}
+            </p>
+          ) : null}
           {option && props.open?.[option.segment] ? (
             <p className="notice-caution text-sm md:col-span-3" role="note">
               Version {props.open[option.segment].version} of {option.segment} is still {props.open[option.segment].status.replace('_', ' ')}:
@@ -208,6 +218,14 @@ export function DraftForm(
               <span className="text-[var(--color-bad)]">not computed by this fit for this estimator</span>
             )}
             {model ? <>; model: {FIT_MODEL_LABELS[model]}</> : null}
+            {est?.nu ? (
+              <span data-testid="evidence-nu">
+                ; mixing law: Student-t copula with nu <span className="num">{nuText(est.nu.value)}</span>, interval of nu{' '}
+                <span className="num">{nuIntervalText(est.nu.interval)}</span>, recorded with the version. {est.nu.caution}
+              </span>
+            ) : (
+              <>; mixing law: Gaussian copula</>
+            )}
             {est?.prior ? (
               <span data-testid="evidence-prior">
                 ; prior {priorText(est.prior)}, recorded with the version. A posterior depends on its prior as well as on the data: say in the

@@ -4,6 +4,7 @@ import { intervalMethodLabel } from '@/lib/assumptions/content';
 import type { LibraryEntryDto } from '@/lib/dal/assumptions';
 import { interval, level, pd, rho } from '@/lib/format';
 import { valueSourceLabel } from '@/lib/assumptions/posterior-evidence';
+import { nuText } from '@/lib/assumptions/t-copula-evidence';
 import { EvidenceBadge } from './evidence-badge';
 import { HealthBadge, StatusBadge } from './status-badge';
 
@@ -37,7 +38,12 @@ export function LibraryTable({ entries, showPending, emptyText }: { entries: Lib
               </td>
               <td className="num text-right whitespace-nowrap">
                 {e.current ? rho(e.current.estimate) : '—'}
-                {e.current ? <span className="block font-sans text-xs text-[var(--color-muted)]">{valueSourceLabel(e.current.estimator)}</span> : null}
+                {e.current ? (
+                  <span className="block font-sans text-xs text-[var(--color-muted)]">
+                    {valueSourceLabel(e.current.estimator)}
+                    {e.current.mixingLaw === 't' ? `, t copula with nu ${nuText(e.current.nu)}` : ''}
+                  </span>
+                ) : null}
               </td>
               <td className="num whitespace-nowrap">
                 {e.current ? (

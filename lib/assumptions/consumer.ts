@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { assumptionStatuses, overduePolicyKinds } from '@/db/schema';
+import { mixingLawKinds, assumptionStatuses, overduePolicyKinds } from '@/db/schema';
 import { FIT_MODELS } from '@/lib/stats/fit-models';
 import { toCsv, type CsvValue } from '@/lib/csv';
 import { describeSpans, isMixed, mixedDefinitionCaution } from '@/lib/ingest/default-definition';
@@ -7,6 +7,7 @@ import { valueSourceLabel } from './posterior-evidence';
 import { assumptionCautions } from './cautions';
 import { intervalMethodLabel } from './content';
 import { overdueCaution } from './overdue-policy';
+import { tCopulaCaution } from './t-copula-caution';
 import type { VersionContent } from './content';
 
 /**
@@ -33,9 +34,27 @@ export const consumerVersionSchema = z.object({
   pd: z.number().describe('The PD the correlation was fitted with; the value is valid only with it.'),
   estimator: z.string().describe('The estimator key (binomialMle, vasicekMle, ...).'),
   estimatorName: z.string().describe('The readable name of the estimator, as the screens show it.'),
+  mixingLaw: z
+    .enum(mixingLawKinds)
+    .describe(
+      'The mixing law (copula) the value was estimated under and must be used with: "gaussian", the one-factor Gaussian copula (Vasicek), for every value drafted before the law was recorded; "t", the one-factor Student-t copula with nu degrees of freedom (nu below).',
+    ),
+  nu: z
+    .object({
+      value: z.number().describe('The degrees of freedom of the t copula; the smaller, the fatter the joint tail.'),
+      interval: z
+        .object({
+          level: z.number(),
+          lower: z.number().nullable().describe('Null when unbounded.'),
+          upper: z.number().nullable().describe('Null when unbounded: the data cannot exclude nu = infinity (the Gaussian copula).'),
+        })
+        .describe('The profile-likelihood interval of nu (p and rho re-maximised).'),
+    })
+    .nullable()
+    .describe('For a t-copula value its nu with the interval; null for a Gaussian value. A t-copula value must be used with the t copula and this nu, not in the Gaussian (Vasicek) formula.'),
   model: z
     .object({
-      copula: z.literal('gaussian').describe('The dependence model: the Vasicek one-factor (Gaussian copula) model.'),
+      copula: z.enum(mixingLawKinds).describe('The dependence model, the same as mixingLaw: "gaussian" (the Vasicek one-factor model) or "t" (the one-factor Student-t copula).'),
       factor: z
         .enum(FIT_MODELS)
         .describe('The systematic factor over time: "independent" (drawn afresh each year) or "ar1" (a persistent factor, Z_t = phi Z_(t-1) + sqrt(1 - phi^2) e_t).'),
@@ -163,7 +182,9 @@ export function toConsumerVersion(v: VersionLike): ConsumerVersion {
     pd: v.pd,
     estimator: v.estimator,
     estimatorName: valueSourceLabel(v.estimator),
-    model: { copula: 'gaussian', factor: v.factorModel },
+    mixingLaw: v.mixingLaw,
+    nu: v.mixingLaw === 't' && v.nu !== null && v.nuInterval ? { value: v.nu, interval: { level: v.nuInterval.level, lower: v.nuInterval.lower, upper: v.nuInterval.upper } } : null,
+    model: { copula: v.mixingLaw, factor: v.factorModel },
     prior: v.prior,
     estimate: v.estimate,
     interval: { method: v.intervalMethod, methodName: intervalMethodLabel(v.intervalMethod), level: v.intervalLevel, lower: v.intervalLower, upper: v.intervalUpper },
@@ -232,11 +253,15 @@ export function evidenceCautionOf(e: EvidenceLike): string | null {
 }
 
 /**
- * The cautions of one version in particular: a fit over mixed definitions of default, evidence
- * that has aged, a review-by date that has passed.
+ * The cautions of one version in particular: a t-copula value's law (what nu means for the tail and
+ * that it must be used with the t copula), a fit over mixed definitions of default, evidence that
+ * has aged, a review-by date that has passed.
  */
-export function versionCautions(v: Pick<VersionContent, 'defaultDefinitions'> & { evidence?: EvidenceLike; review?: ReviewLike }): string[] {
+export function versionCautions(
+  v: Pick<VersionContent, 'defaultDefinitions'> & Partial<Pick<VersionContent, 'mixingLaw' | 'nu' | 'finalValue'>> & { evidence?: EvidenceLike; review?: ReviewLike },
+): string[] {
   const out: string[] = [];
+  if (v.mixingLaw === 't' && typeof v.nu === 'number' && typeof v.finalValue === 'number') out.push(tCopulaCaution(v.finalValue, v.nu));
   const mixed = v.defaultDefinitions ? mixedDefinitionCaution(v.defaultDefinitions) : null;
   if (mixed) out.push(mixed);
   const aged = v.evidence ? evidenceCautionOf(v.evidence) : null;
@@ -257,6 +282,11 @@ export const exportColumns = [
   'pd',
   'estimator',
   'copula',
+  'mixing_law',
+  'nu',
+  'nu_level',
+  'nu_lower',
+  'nu_upper',
   'factor_model',
   'prior_rho',
   'prior_pd',
@@ -292,6 +322,11 @@ export function exportRow(c: ConsumerVersion): CsvValue[] {
     c.pd,
     c.estimator,
     c.model.copula,
+    c.mixingLaw,
+    c.nu?.value ?? null,
+    c.nu?.interval.level ?? null,
+    c.nu?.interval.lower ?? null,
+    c.nu?.interval.upper ?? null,
     c.model.factor,
     c.prior?.rho ?? null,
     c.prior?.pd ?? null,

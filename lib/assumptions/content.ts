@@ -1,11 +1,12 @@
 import { createHash } from 'node:crypto';
 import { z } from 'zod';
-import type { FactorModel } from '@/db/schema';
+import type { AssumptionMixingLaw, FactorModel } from '@/db/schema';
 import { ESTIMATOR_KEYS } from '@/lib/stats/estimators/types';
 import { isIsoDate, reviewByProblem } from './dates';
 import type { DefinitionSpan } from '@/lib/ingest/default-definition';
 import { marginProblems } from './margins';
 import { CREDIBLE_INTERVAL, POSTERIOR_ESTIMATOR, type PriorRecord } from './posterior-evidence';
+import { T_COPULA_ESTIMATOR, type NuInterval } from './t-copula-evidence';
 
 /**
  * The content of an assumption version: the frozen evidence copied from the fit run and the
@@ -42,6 +43,14 @@ export type Evidence = {
    * estimator. Not in the content hash: it follows from the fit run, segment and estimator, which are.
    */
   prior: PriorRecord | null;
+  /**
+   * The mixing law of the value ('gaussian' for every version drafted before it was kept), and for
+   * the t copula its degrees of freedom nu with their profile interval (null for a Gaussian value).
+   * In the content hash only when the law is not Gaussian, so the hashes of Gaussian versions stay as stored.
+   */
+  mixingLaw: AssumptionMixingLaw;
+  nu: number | null;
+  nuInterval: NuInterval | null;
 };
 
 export type Judgement = {
@@ -77,6 +86,9 @@ export const contentFields = [
   'windowFrom',
   'windowTo',
   'defaultDefinitions',
+  'mixingLaw',
+  'nu',
+  'nuInterval',
   'marginData',
   'marginDataRationale',
   'marginPractice',
@@ -102,9 +114,14 @@ function canonical(v: unknown): string {
     .join(',')}}`;
 }
 
+/** The fields of the mixing law: hashed only for a law other than the Gaussian. */
+const lawFields: ReadonlySet<string> = new Set(['mixingLaw', 'nu', 'nuInterval']);
+
 export function contentHash(c: VersionContent): string {
   const picked: Record<string, unknown> = {};
-  for (const f of contentFields) picked[f] = c[f];
+  // Left out (undefined) for a Gaussian value: its hash is the one taken before the law was kept.
+  const gaussian = (c.mixingLaw ?? 'gaussian') === 'gaussian';
+  for (const f of contentFields) picked[f] = gaussian && lawFields.has(f) ? undefined : c[f];
   return createHash('sha256').update(canonical(picked)).digest('hex');
 }
 
@@ -125,6 +142,9 @@ export const fieldLabels: Record<(typeof contentFields)[number], string> = {
   windowFrom: 'Window from',
   windowTo: 'Window to',
   defaultDefinitions: 'Definition of default',
+  mixingLaw: 'Mixing law',
+  nu: 'Degrees of freedom (nu)',
+  nuInterval: 'Interval of nu',
   marginData: 'Margin: data and method',
   marginDataRationale: 'Rationale: data and method',
   marginPractice: 'Margin: lending practice',
@@ -178,9 +198,10 @@ export const judgementSchema = z.object({
 
 /**
  * Every estimator with an interval can be drafted: the five of DESIGN.md, the persistent-factor
- * ones, and the posterior median of a low-default segment (posterior-evidence.ts).
+ * ones, the posterior median of a low-default segment (posterior-evidence.ts) and the Student-t
+ * copula's maximum (t-copula-evidence.ts).
  */
-export const estimatorKeys = [...ESTIMATOR_KEYS, POSTERIOR_ESTIMATOR] as const;
+export const estimatorKeys = [...ESTIMATOR_KEYS, POSTERIOR_ESTIMATOR, T_COPULA_ESTIMATOR] as const;
 /**
  * The interval keys of the engine's results: binomialMle's profile, Wald and bootstrap, vasicekMle's
  * chi-square, the moment estimators' bootstrap, ar1Mle's profile, and the posterior's equal-tailed

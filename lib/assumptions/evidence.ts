@@ -1,8 +1,9 @@
-import type { FactorModel } from '@/db/schema';
+import type { AssumptionMixingLaw, FactorModel } from '@/db/schema';
 import { AppError } from '@/lib/errors';
 import type { EstimatorKey } from '@/lib/stats/estimators/types';
 import { ESTIMATOR_MODEL } from '@/lib/stats/fit-models';
 import { CREDIBLE_INTERVAL, pickPosterior, POSTERIOR_ESTIMATOR, type PriorRecord } from './posterior-evidence';
+import { pickTCopula, T_COPULA_ESTIMATOR, type NuInterval } from './t-copula-evidence';
 
 /**
  * Picks the evidence of one segment and estimator out of a fit run's results (the JSON the engine
@@ -11,7 +12,9 @@ import { CREDIBLE_INTERVAL, pickPosterior, POSTERIOR_ESTIMATOR, type PriorRecord
  * estimators' bootstrap and ar1Mle's profile), with the factor model the estimator assumes. A
  * missing segment, an undefined estimate or a missing interval is refused with a sentence: an
  * assumption is never drafted on evidence that is not there. The estimator `posteriorMedian` reads
- * the segment's `posterior` block instead (posterior-evidence.ts), with its credible interval and priors.
+ * the segment's `posterior` block instead (posterior-evidence.ts), with its credible interval and priors;
+ * the estimator `tCopula` reads `estimates.tCopula` with nu and its interval (t-copula-evidence.ts).
+ * Every other value is of the Gaussian copula.
  */
 type Interval = { level: number; lower: number; upper: number };
 type Estimate = { rho: number | null; pd: number | null; status?: string; reason?: string; intervals?: Record<string, Interval | null> };
@@ -28,7 +31,13 @@ export type PickedEvidence = {
   windowTo: string;
   /** The priors of a posterior median; null for every other estimator. */
   prior: PriorRecord | null;
+  /** The mixing law of the value, and for the t copula its nu with the interval of nu (null for a Gaussian value). */
+  mixingLaw: AssumptionMixingLaw;
+  nu: number | null;
+  nuInterval: NuInterval | null;
 };
+
+const GAUSSIAN = { mixingLaw: 'gaussian', nu: null, nuInterval: null } as const;
 
 /** The intervals an estimate has, for the sentence that refuses another. */
 function computed(est: Estimate): string {
@@ -56,7 +65,11 @@ export function pickEvidence(
       });
     }
     // The grid posterior is of the independent-years model (lib/stats/rho-posterior.ts).
-    return { factorModel: 'independent', ...pickPosterior(seg), ...window };
+    return { factorModel: 'independent', ...pickPosterior(seg), ...window, ...GAUSSIAN };
+  }
+  if (estimator === T_COPULA_ESTIMATOR) {
+    // The t copula of the engine is of independent years (lib/stats/t-copula-likelihood.ts).
+    return { factorModel: 'independent', ...pickTCopula(seg, intervalMethod), ...window, prior: null, mixingLaw: 't' };
   }
   const est = seg.estimates?.[estimator];
   if (!est || typeof est.rho !== 'number' || typeof est.pd !== 'number') {
@@ -83,5 +96,6 @@ export function pickEvidence(
     intervalUpper: iv.upper,
     ...window,
     prior: null,
+    ...GAUSSIAN,
   };
 }

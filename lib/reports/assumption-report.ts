@@ -2,6 +2,7 @@ import { assumptionCautions } from '@/lib/assumptions/cautions';
 import { versionCautions } from '@/lib/assumptions/consumer';
 import { statusLabels } from '@/lib/assumptions/lifecycle';
 import { priorText, valueSourceLabel } from '@/lib/assumptions/posterior-evidence';
+import { nuIntervalText, nuText } from '@/lib/assumptions/t-copula-evidence';
 import type { VersionPageDto } from '@/lib/dal/assumptions';
 import type { FindingDto } from '@/lib/dal/findings';
 import type { FitSegmentResult } from '@/lib/fits/results';
@@ -49,6 +50,12 @@ export function buildAssumptionReport(input: {
             ['With the PD', pdText(v.pd)],
             ['Estimator', `${valueSourceLabel(v.estimator)}: ${rhoText(v.estimate)}`],
             ['Interval', `[${rhoText(v.intervalLower)}, ${rhoText(v.intervalUpper)}] ${v.intervalMethod}, ${levelText(v.intervalLevel)}`],
+            [
+              'Mixing law',
+              v.mixingLaw === 't'
+                ? `Student-t copula (t), nu ${nuText(v.nu)}${v.nuInterval ? `, profile interval of nu ${nuIntervalText(v.nuInterval)}` : ''}: use the value with the t copula and this nu, not in the Gaussian (Vasicek) formula`
+                : 'Gaussian copula (gaussian)',
+            ],
             ...(v.prior ? [['Prior', `${priorText(v.prior)} (the value is the posterior median under it; the PD the posterior median of p)`] as [string, string]] : []),
             ['Estimate plus margins', rhoText(v.conservativeValue)],
             ['Data window', `${v.windowFrom} to ${v.windowTo}`],

@@ -66,9 +66,19 @@ export const ESTIMATOR_LABELS: Readonly<Record<EstimatorKey, string>> = {
   ar1Mle: 'Maximum likelihood with a persistent (AR(1)) factor',
 };
 
+/**
+ * The readable names of the other mixing laws' estimators (their estimates under a segment's
+ * `estimates`, lib/stats/mixing-laws-block.ts), by key. Only the t copula's can be drafted as a value.
+ */
+export const MIXING_LAW_ESTIMATOR_LABELS: Readonly<Record<'tCopula' | 'betaMixing' | 'logitNormal', string>> = {
+  tCopula: 'Student-t copula maximum likelihood',
+  betaMixing: 'Beta mixing maximum likelihood',
+  logitNormal: 'Logit-normal mixing maximum likelihood',
+};
+
 /** The readable name of an estimator key as stored anywhere (a key without a label is shown as it is). */
 export function estimatorLabel(key: string): string {
-  return (ESTIMATOR_LABELS as Record<string, string>)[key] ?? key;
+  return (ESTIMATOR_LABELS as Record<string, string>)[key] ?? (MIXING_LAW_ESTIMATOR_LABELS as Record<string, string>)[key] ?? key;
 }
 
 /** An undefined estimate with its reason. */

@@ -11,6 +11,7 @@ import * as versionRoute from '@/app/api/v1/assumptions/[id]/versions/[version]/
 import * as exportRoute from '@/app/api/v1/assumptions/export/route';
 import * as openApiRoute from '@/app/api/openapi.json/route';
 import * as tokensRoute from '@/app/api/admin/tokens/route';
+import { validate, type Schema } from '../../support/json-schema';
 import { makeUser } from '../../support/users';
 import { call, draftBody, makeFitRun } from '../../support/assumptions';
 
@@ -184,43 +185,7 @@ describe('CSV export', () => {
   });
 });
 
-// ---------------------------------------------------------------------------------------------
-// The OpenAPI document against the real answers: a small validator for the subset of JSON Schema
-// 2020-12 that zod emits (type, properties, required, additionalProperties, items, enum, anyOf,
-// oneOf, $ref).
-// ---------------------------------------------------------------------------------------------
-
-type Schema = Record<string, unknown>;
-function validate(value: unknown, schema: Schema, root: Schema, path = '$'): string[] {
-  if (typeof schema.$ref === 'string') {
-    const target = schema.$ref.replace(/^#\//, '').split('/').reduce<unknown>((o, k) => (o as Schema)[k], root);
-    return validate(value, target as Schema, root, path);
-  }
-  for (const key of ['anyOf', 'oneOf'] as const) {
-    if (Array.isArray(schema[key])) {
-      const ok = (schema[key] as Schema[]).filter((s) => validate(value, s, root, path).length === 0).length;
-      if (key === 'anyOf' ? ok === 0 : ok !== 1) return [`${path}: matches ${ok} of ${key}`];
-    }
-  }
-  const errs: string[] = [];
-  const types = schema.type === undefined ? [] : ([] as string[]).concat(schema.type as string | string[]);
-  const actual = value === null ? 'null' : Array.isArray(value) ? 'array' : typeof value;
-  const fits = (t: string) => (t === 'integer' ? Number.isInteger(value) : t === actual);
-  if (types.length && !types.some(fits)) return [`${path}: expected ${types.join(' or ')}, got ${actual}`];
-  const t = types.find(fits);
-  if (Array.isArray(schema.enum) && !schema.enum.includes(value)) errs.push(`${path}: ${String(value)} not in enum`);
-  if (t === 'object' && value && typeof value === 'object') {
-    const props = (schema.properties ?? {}) as Record<string, Schema>;
-    for (const r of (schema.required ?? []) as string[]) if (!(r in value)) errs.push(`${path}.${r}: required`);
-    for (const [k, v] of Object.entries(value)) {
-      if (props[k]) errs.push(...validate(v, props[k], root, `${path}.${k}`));
-      else if (schema.additionalProperties === false) errs.push(`${path}.${k}: not in the document`);
-    }
-  }
-  if (t === 'array' && Array.isArray(value) && schema.items) value.forEach((v, i) => errs.push(...validate(v, schema.items as Schema, root, `${path}[${i}]`)));
-  return errs;
-}
-
+// The OpenAPI document against the real answers (the validator: tests/support/json-schema.ts).
 describe('the OpenAPI document', () => {
   it('is OpenAPI 3.1, lists the routes, and every real answer validates against it', async () => {
     const doc = (await call(openApiRoute.GET)).body as Schema;
@@ -241,6 +206,13 @@ describe('the OpenAPI document', () => {
     const refused = await inForce('', 'rhb_nope');
     expect(validate(refused.body, schemaOf('/api/v1/assumptions', '401'), doc)).toEqual([]);
 
+    // Every value names its mixing law: the Gaussian copula for every value drafted before t-copula values (no nu).
+    expect(one.body.assumption).toMatchObject({ mixingLaw: 'gaussian', nu: null, model: { copula: 'gaussian' } });
+    const answer = (doc.components as { schemas: Record<string, { properties: { assumption: { properties: Record<string, Schema> } } }> }).schemas.Answer;
+    const fields = answer.properties.assumption.properties;
+    expect(fields.mixingLaw).toMatchObject({ type: 'string', enum: ['gaussian', 't'] });
+    expect(JSON.stringify(fields.nu)).toContain('"null"');
+    expect(validate({ ...(one.body.assumption as Schema), mixingLaw: 'beta' }, answer.properties.assumption as never, doc)).toEqual(['$.mixingLaw: beta not in enum']);
     // The validator itself catches an answer that drifts from the document.
     const drifted = { ...one.body, assumption: { ...(one.body.assumption as Schema), extra: 1, value: 'high' } };
     expect(validate(drifted, schemaOf('/api/v1/assumptions', '200'), doc)).not.toEqual([]);

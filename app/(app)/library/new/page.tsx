@@ -4,7 +4,10 @@ import { forbidden } from 'next/navigation';
 import { z } from 'zod';
 import { DraftForm, type FitOption } from '@/components/assumptions/draft-form';
 import { todayIso } from '@/lib/assumptions/dates';
+import { estimatorKeys } from '@/lib/assumptions/content';
 import { CREDIBLE_INTERVAL, POSTERIOR_ESTIMATOR } from '@/lib/assumptions/posterior-evidence';
+import { tCopulaCaution } from '@/lib/assumptions/t-copula-caution';
+import { T_COPULA_ESTIMATOR, tCopulaRefusal } from '@/lib/assumptions/t-copula-evidence';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { listOpenVersions } from '@/lib/dal/assumptions';
@@ -32,6 +35,8 @@ export default async function NewDraftPage({ searchParams }: { searchParams: Pro
     for (const s of full.results?.segments ?? []) {
       const estimates: FitOption['estimates'] = {};
       for (const [k, e] of Object.entries(s.estimates)) {
+        // The beta and logit-normal laws have no asset correlation of their own to draft; the t copula is offered below.
+        if (!(estimatorKeys as readonly string[]).includes(k) || k === T_COPULA_ESTIMATOR) continue;
         const intervals: FitOption['estimates'][string]['intervals'] = {};
         const ivs = (e as { intervals?: Record<string, { level: number; lower: number; upper: number } | null> }).intervals ?? {};
         for (const [m, iv] of Object.entries(ivs)) if (iv) intervals[m] = { level: iv.level, lower: iv.lower, upper: iv.upper };
@@ -41,6 +46,21 @@ export default async function NewDraftPage({ searchParams }: { searchParams: Pro
       if (s.posterior?.status === 'ok') {
         const p = s.posterior;
         estimates[POSTERIOR_ESTIMATOR] = { rho: p.median, pd: p.pd.median, intervals: { [CREDIBLE_INTERVAL]: { level: p.level, lower: p.lower, upper: p.upper } }, prior: p.prior };
+      }
+      // The Student-t copula's maximum, with nu and its interval, when the fit challenged the Gaussian copula; its sentence when it cannot be drafted.
+      if (s.estimates.tCopula) {
+        const t = s.estimates.tCopula;
+        const refusal = tCopulaRefusal(s.segment, t);
+        const iv = t.intervals.profile;
+        estimates[T_COPULA_ESTIMATOR] =
+          refusal === null && t.rho !== null && t.nu !== null && iv && t.nuInterval
+            ? {
+                rho: t.rho,
+                pd: t.pd,
+                intervals: { profile: { level: iv.level, lower: iv.lower as number, upper: iv.upper as number } },
+                nu: { value: t.nu, interval: t.nuInterval, caution: tCopulaCaution(t.rho, t.nu) },
+              }
+            : { rho: null, pd: null, intervals: {}, refusal: refusal ?? undefined };
       }
       options.push({ fitId: f.id, segment: s.segment, label: `Fit ${f.id} · ${f.datasetName} · ${s.segment}`, estimates });
     }

@@ -29,6 +29,7 @@ import { lowDefaultThreshold } from '@/lib/env';
 import { AppError } from '@/lib/errors';
 import { interval, level, pd, rho } from '@/lib/format';
 import { priorText, valueSourceLabel } from '@/lib/assumptions/posterior-evidence';
+import { nuIntervalText, nuText } from '@/lib/assumptions/t-copula-evidence';
 import { FIT_MODEL_LABELS } from '@/lib/stats/fit-models';
 
 export const metadata: Metadata = { title: 'Assumption' };
@@ -104,7 +105,8 @@ export default async function VersionPage({
           <p className="mt-1 text-sm text-[var(--color-muted)]">
             Estimate <span className="num">{rho(v.estimate)}</span> by {valueSourceLabel(v.estimator).toLowerCase()}, {level(v.intervalLevel)}{' '}
             {intervalMethodLabel(v.intervalMethod)} interval <span className="num">{interval(v.intervalLower, v.intervalUpper)}</span>; the
-            value is valid only with this PD and the definition of default of the data.
+            value is valid only with this PD, the definition of default of the data and its mixing law (
+            <span data-testid="mixing-law-line">{v.mixingLaw === 't' ? `Student-t copula, nu ${nuText(v.nu)}` : 'Gaussian copula'}</span>).
           </p>
           <PublicationLine note={page.publication} />
         </div>
@@ -126,7 +128,27 @@ export default async function VersionPage({
               <span className="num">{interval(v.intervalLower, v.intervalUpper)}</span> {intervalMethodLabel(v.intervalMethod)}, {level(v.intervalLevel)}
             </dd>
             <dt>Model</dt>
-            <dd data-testid="factor-model">Gaussian one-factor, {FIT_MODEL_LABELS[v.factorModel]}</dd>
+            <dd data-testid="factor-model">
+              {v.mixingLaw === 't' ? 'Student-t' : 'Gaussian'} one-factor, {FIT_MODEL_LABELS[v.factorModel]}
+            </dd>
+            <dt>Mixing law</dt>
+            <dd data-testid="mixing-law">
+              {v.mixingLaw === 't' ? (
+                <>
+                  Student-t copula (<span className="num">t</span>) with nu <span className="num">{nuText(v.nu)}</span>
+                  {v.nuInterval ? (
+                    <>
+                      , profile interval of nu <span className="num">{nuIntervalText(v.nuInterval)}</span>
+                    </>
+                  ) : null}
+                  : use the value with the t copula and this nu, not in the Gaussian (Vasicek) formula (the caution above says what nu means for the tail).
+                </>
+              ) : (
+                <>
+                  Gaussian copula (<span className="num">gaussian</span>): the Vasicek one-factor model.
+                </>
+              )}
+            </dd>
             {v.prior ? (
               <>
                 <dt>Prior</dt>
