@@ -33,6 +33,8 @@ export type FitOption = {
       nu?: { value: number; interval: NuInterval; caution: string };
       /** Why this estimate cannot be drafted, in a sentence. */
       refusal?: string;
+      /** Not computed by this fit (the t copula of a fit that did not challenge the Gaussian copula). */
+      missing?: boolean;
     }
   >;
 };
@@ -159,7 +161,17 @@ export function DraftForm(
           <legend className="mb-2 font-semibold">Evidence (copied from the fit and frozen)</legend>
           <FormField id="fit-segment" label="Fit and segment" error={error('fit-segment')}>
             {(a) => (
-              <select {...a} className="field" value={fitKey} onChange={(e) => setFitKey(e.target.value)}>
+              <select
+                {...a}
+                className="field"
+                value={fitKey}
+                onChange={(e) => {
+                  setFitKey(e.target.value);
+                  // An estimator the newly chosen segment cannot offer goes back to the first one.
+                  const next = props.options.find((o) => `${o.fitId}|${o.segment}` === e.target.value)?.estimates[estimator];
+                  if (!next || next.rho === null) setEstimator('binomialMle');
+                }}
+              >
                 {props.options.map((o) => (
                   <option key={`${o.fitId}|${o.segment}`} value={`${o.fitId}|${o.segment}`}>
                     {o.label}
@@ -177,7 +189,15 @@ export function DraftForm(
                   return (
                     <option key={k} value={k} disabled={!usable}>
                       {valueSourceLabel(k)}
-                      {e.refusal ? ' (cannot be drafted: see below)' : e.rho === null ? ' (no value on this segment)' : !usable ? ' (no interval in this fit: cannot be drafted)' : ''}
+                      {e.missing
+                        ? ' (not in this fit: run a fit with the t-copula challenge)'
+                        : e.refusal
+                          ? ' (cannot be drafted: see below)'
+                          : e.rho === null
+                            ? ' (no value on this segment)'
+                            : !usable
+                              ? ' (no interval in this fit: cannot be drafted)'
+                              : ''}
                     </option>
                   );
                 })}

@@ -48,7 +48,9 @@ export default async function NewDraftPage({ searchParams }: { searchParams: Pro
         estimates[POSTERIOR_ESTIMATOR] = { rho: p.median, pd: p.pd.median, intervals: { [CREDIBLE_INTERVAL]: { level: p.level, lower: p.lower, upper: p.upper } }, prior: p.prior };
       }
       // The Student-t copula's maximum, with nu and its interval, when the fit challenged the Gaussian copula; its sentence when it cannot be drafted.
-      if (s.estimates.tCopula) {
+      if (!s.estimates.tCopula) {
+        estimates[T_COPULA_ESTIMATOR] = { rho: null, pd: null, intervals: {}, missing: true };
+      } else {
         const t = s.estimates.tCopula;
         const refusal = tCopulaRefusal(s.segment, t);
         const iv = t.intervals.profile;
