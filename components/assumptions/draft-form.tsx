@@ -11,7 +11,7 @@ import { apiSend } from '@/lib/client/api';
 import { AppError } from '@/lib/errors';
 import { pd, rho } from '@/lib/format';
 import { problemOf, type FormFieldRef } from '@/lib/forms/place-errors';
-import { priorText, valueSourceLabel, type PriorRecord } from '@/lib/assumptions/posterior-evidence';
+import { priorText, valueSourceInSentence, valueSourceLabel, type PriorRecord } from '@/lib/assumptions/posterior-evidence';
 import { nuIntervalText, nuText, type NuInterval } from '@/lib/assumptions/t-copula-evidence';
 import type { EstimatorKey } from '@/lib/stats/estimators/types';
 import { ESTIMATOR_MODEL, FIT_MODEL_LABELS } from '@/lib/stats/fit-models';
@@ -228,7 +228,7 @@ export function DraftForm(
             </p>
           ) : null}
           <p className="text-sm md:col-span-3" data-testid="evidence-summary">
-            Estimate <span className="num">{rho(estimate)}</span> by {valueSourceLabel(estimator).toLowerCase()}, PD <span className="num">{pd(est?.pd)}</span>,
+            Estimate <span className="num">{rho(estimate)}</span> by {valueSourceInSentence(estimator)}, PD <span className="num">{pd(est?.pd)}</span>,
             interval{' '}
             {interval ? (
               <span className="num">

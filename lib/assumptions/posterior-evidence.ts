@@ -80,6 +80,16 @@ export function valueSourceLabel(key: string): string {
   return key === POSTERIOR_ESTIMATOR ? POSTERIOR_LABEL : estimatorLabel(key);
 }
 
+/**
+ * The readable name inside a sentence ("by binomial-mixture maximum likelihood"): the first letter
+ * in lower case, except for a name that starts with a person's name (Student-t, Vasicek); the rest
+ * as written (so "AR(1)" keeps its capitals).
+ */
+export function valueSourceInSentence(key: string): string {
+  const label = valueSourceLabel(key);
+  return /^(Student|Vasicek)\b/.test(label) ? label : label.charAt(0).toLowerCase() + label.slice(1);
+}
+
 /** The prior in one line, e.g. "rho flat, p beta:1,1". */
 export function priorText(prior: PriorRecord): string {
   return `rho ${prior.rho}, p ${prior.pd}`;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { pickPosterior, priorText } from '@/lib/assumptions/posterior-evidence';
+import { pickPosterior, priorText, valueSourceInSentence } from '@/lib/assumptions/posterior-evidence';
 import { AppError } from '@/lib/errors';
 import { posteriorBlock } from '@/lib/stats/low-default';
 
@@ -40,5 +40,15 @@ describe('a posterior median as the evidence of an assumption', () => {
     expect(failed.status).toBe('undefined');
     expect(refusal(failed).message).toMatch(/^The posterior of Small book was not computed: .+/);
     expect(refusal({ status: 'ok', median: 0.1, lower: 0.05, upper: 0.2, level: 0.95, prior: { rho: 'flat', pd: 'beta:1,1' } }).message).toMatch(/lacks/);
+  });
+});
+
+describe('the name of a value source inside a sentence', () => {
+  it('starts in lower case, except a name that starts with a person\'s name, and keeps the capitals inside', () => {
+    // common practice of English: proper names (Student, Vasicek) and abbreviations keep their capitals
+    expect(valueSourceInSentence('binomialMle')).toBe('binomial-mixture maximum likelihood');
+    expect(valueSourceInSentence('vasicekMle')).toBe('Vasicek closed-form maximum likelihood');
+    expect(valueSourceInSentence('tCopula')).toBe('Student-t copula maximum likelihood');
+    expect(valueSourceInSentence('ar1Mle')).toBe('maximum likelihood with a persistent (AR(1)) factor');
   });
 });

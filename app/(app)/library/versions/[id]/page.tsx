@@ -28,7 +28,7 @@ import { modelsUsing } from '@/lib/dal/models';
 import { lowDefaultThreshold } from '@/lib/env';
 import { AppError } from '@/lib/errors';
 import { interval, level, pd, rho } from '@/lib/format';
-import { priorText, valueSourceLabel } from '@/lib/assumptions/posterior-evidence';
+import { priorText, valueSourceInSentence, valueSourceLabel } from '@/lib/assumptions/posterior-evidence';
 import { nuIntervalText, nuText } from '@/lib/assumptions/t-copula-evidence';
 import { FIT_MODEL_LABELS } from '@/lib/stats/fit-models';
 
@@ -103,7 +103,7 @@ export default async function VersionPage({
             </span>
           </p>
           <p className="mt-1 text-sm text-[var(--color-muted)]">
-            Estimate <span className="num">{rho(v.estimate)}</span> by {valueSourceLabel(v.estimator).toLowerCase()}, {level(v.intervalLevel)}{' '}
+            Estimate <span className="num">{rho(v.estimate)}</span> by {valueSourceInSentence(v.estimator)}, {level(v.intervalLevel)}{' '}
             {intervalMethodLabel(v.intervalMethod)} interval <span className="num">{interval(v.intervalLower, v.intervalUpper)}</span>; the
             value is valid only with this PD, the definition of default of the data and its mixing law (
             <span data-testid="mixing-law-line">{v.mixingLaw === 't' ? `Student-t copula, nu ${nuText(v.nu)}` : 'Gaussian copula'}</span>).
