@@ -10,6 +10,8 @@ export type DecisionFacts = {
   value: number;
   pd: number;
   interval: { lower: number; upper: number; method: string; level: number };
+  /** The mixing law the value must be used with, in words ("Gaussian copula", "Student-t copula, nu 6.73"). */
+  mixingLaw: string;
   effectiveDate: string;
   /** When it publishes, in a sentence (lib/assumptions/publication.ts). */
   publishes: string | null;
@@ -63,6 +65,8 @@ export function DecisionDialog({
         <dd className="num">
           {intervalText(facts.interval.lower, facts.interval.upper)} {facts.interval.method}, {level(facts.interval.level)}
         </dd>
+        <dt>Mixing law</dt>
+        <dd>{facts.mixingLaw}</dd>
         <dt>Effective date</dt>
         <dd className="num">{facts.effectiveDate}</dd>
       </dl>

@@ -267,6 +267,7 @@ export default async function VersionPage({
                 value: v.finalValue,
                 pd: v.pd,
                 interval: { lower: v.intervalLower, upper: v.intervalUpper, method: v.intervalMethod, level: v.intervalLevel },
+                mixingLaw: v.mixingLaw === 't' ? `Student-t copula, nu ${nuText(v.nu)}: use it with the t copula, not the Gaussian formula` : 'Gaussian copula',
                 effectiveDate: v.effectiveDate,
                 publishes: page.publication?.text ?? null,
                 cautions: assumptionCautions,
