@@ -29,6 +29,7 @@
  */
 import { GaussianPeriodIntegrand, GAUSSIAN_MOMENTS } from './gaussian-mixing';
 import { LogConcaveIntegrator } from './log-concave-integral';
+import { quinticHermite, type HermiteValue } from './quintic-hermite';
 
 /** Nodes a table can hold (indices -CAPACITY/2 .. CAPACITY/2 - 1 around the anchor). */
 const CAPACITY = 1024;
@@ -62,6 +63,8 @@ export class InnerLogIntegralTable {
   private readonly innerLeft = new Float64Array(CAPACITY);
   private readonly innerRight = new Float64Array(CAPACITY);
   private lastSlot = -1;
+  /** The interpolant at the last point asked, reused so that interpolate allocates nothing. */
+  private readonly hermite: HermiteValue = { value: 0, d1: 0, d2: 0 };
   private readonly node = new Float64Array(6);
   private warmMode = Number.NaN;
   private warmLeft = 0;
@@ -227,23 +230,11 @@ export class InnerLogIntegralTable {
       return;
     }
     const s = OFFSET + j;
-    const h = this.step;
-    const f0 = this.value[s];
-    const f1 = this.value[s + 1];
-    const p1 = this.d1[s] * h;
-    const p2 = 0.5 * this.d2[s] * h * h;
-    const q1 = this.d1[s + 1] * h;
-    const q2 = this.d2[s + 1] * h * h;
-    // P(t) = f0 + p1 t + p2 t^2 + a3 t^3 + a4 t^4 + a5 t^5 matching f1, q1, q2 at t = 1.
-    const D0 = f1 - f0 - p1 - p2;
-    const D1 = q1 - p1 - 2 * p2;
-    const D2 = q2 - 2 * p2;
-    const a3 = 10 * D0 - 4 * D1 + 0.5 * D2;
-    const a4 = -15 * D0 + 7 * D1 - D2;
-    const a5 = 6 * D0 - 3 * D1 + 0.5 * D2;
-    out[0] = f0 + t * (p1 + t * (p2 + t * (a3 + t * (a4 + t * a5))));
-    out[1] = (p1 + t * (2 * p2 + t * (3 * a3 + t * (4 * a4 + t * 5 * a5)))) / h;
-    out[2] = (2 * p2 + t * (6 * a3 + t * (12 * a4 + t * 20 * a5))) / (h * h);
+    const c0 = this.anchor + j * this.step;
+    const r = quinticHermite(c0, this.value[s], this.d1[s], this.d2[s], c0 + this.step, this.value[s + 1], this.d1[s + 1], this.d2[s + 1], c, this.hermite);
+    out[0] = r.value;
+    out[1] = r.d1;
+    out[2] = r.d2;
   }
 
   /**

@@ -13,6 +13,7 @@ import { RHO_SEARCH_LIMIT } from './estimators/binomial-mle';
 import { MixtureLikelihood } from './mixture-likelihood';
 import { normalCdf, normalLogPdf } from './normal';
 import type { Panel } from './panel';
+import { quinticHermiteValue } from './quintic-hermite';
 
 /** Options of {@link rhoPosterior}. */
 export interface RhoPosteriorOptions {
@@ -77,21 +78,9 @@ interface KNode {
   h2: number;
 }
 
-/** Quintic Hermite interpolation on [x0, x1] from values and two derivatives at both ends. */
+/** Quintic Hermite interpolation of h between the nodes a and b (quintic-hermite.ts). */
 function quintic(a: KNode, b: KNode, x: number): number {
-  const h = b.k - a.k;
-  const t = (x - a.k) / h;
-  const t2 = t * t;
-  const t3 = t2 * t;
-  const t4 = t3 * t;
-  const t5 = t4 * t;
-  const H0 = 1 - 10 * t3 + 15 * t4 - 6 * t5;
-  const H1 = t - 6 * t3 + 8 * t4 - 3 * t5;
-  const H2 = 0.5 * (t2 - 3 * t3 + 3 * t4 - t5);
-  const H3 = 10 * t3 - 15 * t4 + 6 * t5;
-  const H4 = -4 * t3 + 7 * t4 - 3 * t5;
-  const H5 = 0.5 * (t3 - 2 * t4 + t5);
-  return H0 * a.h + H1 * h * a.h1 + H2 * h * h * a.h2 + H3 * b.h + H4 * h * b.h1 + H5 * h * h * b.h2;
+  return quinticHermiteValue(a.k, a.h, a.h1, a.h2, b.k, b.h, b.h1, b.h2, x);
 }
 
 /**

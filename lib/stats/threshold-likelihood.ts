@@ -31,6 +31,7 @@
 import { GaussianPeriodIntegrand, GAUSSIAN_MOMENTS } from './gaussian-mixing';
 import { LogConcaveIntegrator } from './log-concave-integral';
 import { normalTails, TAIL_SLOTS } from './normal-tails';
+import { quinticHermite } from './quintic-hermite';
 
 /** Base spacing of the table in c. */
 export const TABLE_SPACING = 1 / 2;
@@ -198,37 +199,6 @@ export class ThresholdLikelihood {
 
   /** Quintic Hermite interpolation of log L_G and its two derivatives between nodes a and b. */
   private interpolate(a: TableNode, b: TableNode, c: number): void {
-    const h = b.c - a.c;
-    const t = (c - a.c) / h;
-    const t2 = t * t;
-    const t3 = t2 * t;
-    const t4 = t3 * t;
-    const t5 = t4 * t;
-    // basis on [0, 1]: values, and first and second t-derivatives
-    const H0 = 1 - 10 * t3 + 15 * t4 - 6 * t5;
-    const H1 = t - 6 * t3 + 8 * t4 - 3 * t5;
-    const H2 = 0.5 * (t2 - 3 * t3 + 3 * t4 - t5);
-    const H3 = 10 * t3 - 15 * t4 + 6 * t5;
-    const H4 = -4 * t3 + 7 * t4 - 3 * t5;
-    const H5 = 0.5 * (t3 - 2 * t4 + t5);
-    const D0 = -30 * t2 + 60 * t3 - 30 * t4;
-    const D1 = 1 - 18 * t2 + 32 * t3 - 15 * t4;
-    const D2 = 0.5 * (2 * t - 9 * t2 + 12 * t3 - 5 * t4);
-    const D3 = 30 * t2 - 60 * t3 + 30 * t4;
-    const D4 = -12 * t2 + 28 * t3 - 15 * t4;
-    const D5 = 0.5 * (3 * t2 - 8 * t3 + 5 * t4);
-    const E0 = -60 * t + 180 * t2 - 120 * t3;
-    const E1 = -36 * t + 96 * t2 - 60 * t3;
-    const E2 = 0.5 * (2 - 18 * t + 36 * t2 - 20 * t3);
-    const E3 = 60 * t - 180 * t2 + 120 * t3;
-    const E4 = -24 * t + 84 * t2 - 60 * t3;
-    const E5 = 0.5 * (6 * t - 24 * t2 + 20 * t3);
-    const fa1 = h * a.d1;
-    const fa2 = h * h * a.d2;
-    const fb1 = h * b.d1;
-    const fb2 = h * h * b.d2;
-    this.value = a.v * H0 + fa1 * H1 + fa2 * H2 + b.v * H3 + fb1 * H4 + fb2 * H5;
-    this.d1 = (a.v * D0 + fa1 * D1 + fa2 * D2 + b.v * D3 + fb1 * D4 + fb2 * D5) / h;
-    this.d2 = (a.v * E0 + fa1 * E1 + fa2 * E2 + b.v * E3 + fb1 * E4 + fb2 * E5) / (h * h);
+    quinticHermite(a.c, a.v, a.d1, a.d2, b.c, b.v, b.d1, b.d2, c, this);
   }
 }

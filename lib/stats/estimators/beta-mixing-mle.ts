@@ -8,6 +8,7 @@ import { gridMaximize } from '../grid-maximize';
 import { likelihoodRatioEnds } from '../intervals/likelihood-ratio';
 import { assertPanel, type Panel } from '../panel';
 import { RHO_SEARCH_LIMIT } from './binomial-mle';
+import { mixingLawPooledRate } from './mixing-law-panel';
 import type { EstimateStatus } from './types';
 
 /** Equivalent rho at which the profile is evaluated first (the ends are candidates of their own). */
@@ -85,16 +86,9 @@ export function betaMixingMle(panel: Panel, options: { level?: number; intervals
   assertPanel(panel, 'betaMixingMle');
   const level = options.level ?? 0.95;
   const empty = (reason: string): BetaMixingFit => ({ a: null, b: null, pd: null, equivalentRho: null, logLik: null, status: 'undefined', reason, intervals: { profile: null } });
-  let sn = 0;
-  let sd = 0;
-  for (let t = 0; t < panel.obligors.length; t++) {
-    sn += panel.obligors[t];
-    sd += panel.defaults[t];
-  }
-  if (sd === 0) return empty('The panel has no defaults: the mean default rate has no interior maximum, so the beta law is not estimated.');
-  if (sd === sn) return empty('Every obligor defaulted: the mean default rate has no interior maximum, so the beta law is not estimated.');
-  if (panel.obligors.length < 2) return empty('A single year shows no spread of default rates across years, so the beta law cannot be estimated.');
-  const pooled = sd / sn;
+  const prelude = mixingLawPooledRate(panel, 'the beta law');
+  if (prelude.reason !== null) return empty(prelude.reason);
+  const pooled = prelude.pooled;
   const profile = (r: number) => betaEquivalentRhoProfile(panel, r, pooled);
   const best = gridMaximize((r) => profile(r).logLik, [...EQUIVALENT_RHO_GRID], 1e-8);
   const r = best.x;

@@ -10,6 +10,7 @@ import { likelihoodRatioEnds } from '../intervals/likelihood-ratio';
 import { LogitNormalLikelihood, logitNormalMoment } from '../logit-normal-mixing';
 import { assertPanel, type Panel } from '../panel';
 import { RHO_SEARCH_LIMIT } from './binomial-mle';
+import { mixingLawPooledRate } from './mixing-law-panel';
 import type { ProfileInterval } from './beta-mixing-mle';
 import type { EstimateStatus } from './types';
 
@@ -76,17 +77,10 @@ export function logitNormalMle(panel: Panel, options: { level?: number; interval
   assertPanel(panel, 'logitNormalMle');
   const level = options.level ?? 0.95;
   const empty = (reason: string): LogitNormalFit => ({ mu: null, sigma: null, pd: null, equivalentRho: null, logLik: null, status: 'undefined', reason, intervals: { profile: null } });
-  let sn = 0;
-  let sd = 0;
-  for (let t = 0; t < panel.obligors.length; t++) {
-    sn += panel.obligors[t];
-    sd += panel.defaults[t];
-  }
-  if (sd === 0) return empty('The panel has no defaults: the mean default rate has no interior maximum, so the logit-normal law is not estimated.');
-  if (sd === sn) return empty('Every obligor defaulted: the mean default rate has no interior maximum, so the logit-normal law is not estimated.');
-  if (panel.obligors.length < 2) return empty('A single year shows no spread of default rates across years, so the logit-normal law cannot be estimated.');
+  const prelude = mixingLawPooledRate(panel, 'the logit-normal law');
+  if (prelude.reason !== null) return empty(prelude.reason);
   const L = new LogitNormalLikelihood(panel);
-  const centre = logit(sd / sn);
+  const centre = logit(prelude.pooled);
   const problem = (fixed?: boolean[]) => ({
     evaluate: (x: readonly number[]) => L.logLikFull(x[0], x[1]),
     lower: [centre - 30, 0],
