@@ -52,25 +52,16 @@ export async function notifyModels(
   let mails = 0;
   let webhooks = 0;
   const once = event === 'assumption.overdue' || event === 'assumption.withdrawn' ? `${event}:${v.reviewBy}` : event;
+  const url = appUrl(`/library/versions/${v.id}`);
+  const facts = { segment, version: v.version, value: v.finalValue, pd: v.pd, effectiveDate: v.effectiveDate, reviewBy: v.reviewBy, supersededBy: opts.supersededBy ?? null, url };
   for (const { m } of models) {
     const key = `model:${m.id}:${v.id}:${once}`;
-    const url = appUrl(`/library/versions/${v.id}`);
     mails += await queueMail(tx, {
       kind: 'model-notice',
       to: [m.contactEmail],
       versionId: v.id,
       dedupeKey: (addr) => `${key}:${addr}`.slice(0, 160),
-      message: renderModelMail(event, {
-        model: m.name,
-        segment,
-        version: v.version,
-        value: v.finalValue,
-        pd: v.pd,
-        effectiveDate: v.effectiveDate,
-        reviewBy: v.reviewBy,
-        supersededBy: opts.supersededBy ?? null,
-        url,
-      }),
+      message: renderModelMail(event, { model: m.name, ...facts }),
     });
     if (!m.webhookUrl) continue;
     const deliveryId = randomUUID();
@@ -81,15 +72,8 @@ export async function notifyModels(
       model: { id: m.id, name: m.name },
       assumption: {
         assumptionId: v.assumptionId,
-        segment,
-        version: v.version,
         status: v.status,
-        value: v.finalValue,
-        pd: v.pd,
-        effectiveDate: v.effectiveDate,
-        reviewBy: v.reviewBy,
-        supersededBy: opts.supersededBy ?? null,
-        url,
+        ...facts,
         api: appUrl(`/api/v1/assumptions/${v.assumptionId}/versions/${v.version}`),
       },
     };

@@ -4,7 +4,7 @@
  * and what the serial-dependence checks of the diagnostics take from them.
  */
 import type { PersistenceCheck } from './diagnostics';
-import { ar1Mle } from './estimators/ar1-mle';
+import { ar1Mle, type Ar1MleResult } from './estimators/ar1-mle';
 import { momentTarget } from './estimators/moment-target';
 import { momentVarianceAutocorrected } from './estimators/moment-variance-autocorrected';
 import type { Estimate } from './estimators/types';
@@ -34,34 +34,24 @@ export function estimateOf(e: Estimate): Estimate {
  * Reference: McNeil & Wendin (2007); Venzon & Moolgavkar (1988); Wilks (1938).
  */
 export function ar1MleDto(panel: Panel, level: number, timer: StageTimer): Ar1MleDto {
+  const point = (r: Ar1MleResult) => ({ ...estimateOf(r), phi: r.phi, logLik: r.logLik, atBoundary: r.atBoundary, phiAtEdge: r.phiAtEdge, logLikIndependent: r.logLikIndependent });
   try {
     const fit = ar1Fit(panel, { level, timer });
-    const r = fit.result;
     return {
-      ...estimateOf(r),
-      phi: r.phi,
-      logLik: r.logLik,
-      atBoundary: r.atBoundary,
-      phiAtEdge: r.phiAtEdge,
+      ...point(fit.result),
       intervals: { profile: fit.profile },
       phiInterval: fit.phiInterval,
       lrTestPhi0: fit.lrTestPhi0,
-      logLikIndependent: r.logLikIndependent,
       phiProfile: fit.cutoff === null ? null : { points: fit.phiProfile, cutoff: fit.cutoff },
     };
   } catch (err) {
     if (!(err instanceof RangeError)) throw err;
-    const { result: r } = timer.time('ar1Mle', () => ar1Mle(panel));
+    const { result } = timer.time('ar1Mle', () => ar1Mle(panel));
     return {
-      ...estimateOf(r),
-      phi: r.phi,
-      logLik: r.logLik,
-      atBoundary: r.atBoundary,
-      phiAtEdge: r.phiAtEdge,
+      ...point(result),
       intervals: { profile: null },
       phiInterval: null,
       lrTestPhi0: null,
-      logLikIndependent: r.logLikIndependent,
       phiProfile: null,
       intervalNotes: { profile: `The intervals of the AR(1) model could not be computed: ${err.message}` },
     };
