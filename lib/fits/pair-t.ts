@@ -17,21 +17,13 @@ import { pairInputProblem, pairMetrics, readPlainNumber, type PairMetrics } from
 /** The explorer's range of nu: above 2 (a finite variance, as the engine's fit requires) and at most 1000 (beyond, the t copula is the Gaussian one to the digits shown). */
 export const PAIR_NU_LIMITS = { nuMin: 2, nuMax: 1000 } as const;
 
-export type PairTMetrics = {
-  p1: number;
-  p2: number;
-  rho: number;
+/**
+ * The pair's figures under the t copula: the Gaussian ones' fields (PairMetrics), with k_i the
+ * latent t values' default thresholds t_nu^-1(p_i) and joint the probability that both default
+ * under the t copula; and what only the t copula has.
+ */
+export type PairTMetrics = PairMetrics & {
   nu: number;
-  /** Default thresholds of the latent t values, k_i = t_nu^-1(p_i). */
-  k1: number;
-  k2: number;
-  /** P(both default) under the t copula. */
-  joint: number;
-  /** p1 * p2. */
-  independent: number;
-  defaultCorrelation: number;
-  /** P(obligor 2 defaults | obligor 1 defaults) = joint / p1. */
-  secondGivenFirst: number;
   /** Lower tail-dependence coefficient of the latent pair. */
   tailDependence: number;
   /** The Gaussian copula at the same p1, p2 and rho. */

@@ -25,22 +25,15 @@ export interface HermiteValue {
  * @example quinticHermiteValue(0, 0, 0, 0, 1, 1, 5, 20, 0.5) // 0.03125 = 0.5^5 (x^5 reproduced)
  */
 export function quinticHermiteValue(x0: number, f0: number, g0: number, s0: number, x1: number, f1: number, g1: number, s1: number, x: number): number {
-  const h = x1 - x0;
-  const t = (x - x0) / h;
-  const t2 = t * t;
-  const t3 = t2 * t;
-  const t4 = t3 * t;
-  const t5 = t4 * t;
-  const H0 = 1 - 10 * t3 + 15 * t4 - 6 * t5;
-  const H1 = t - 6 * t3 + 8 * t4 - 3 * t5;
-  const H2 = 0.5 * (t2 - 3 * t3 + 3 * t4 - t5);
-  const H3 = 10 * t3 - 15 * t4 + 6 * t5;
-  const H4 = -4 * t3 + 7 * t4 - 3 * t5;
-  const H5 = 0.5 * (t3 - 2 * t4 + t5);
-  return f0 * H0 + h * g0 * H1 + h * h * s0 * H2 + f1 * H3 + h * g1 * H4 + h * h * s1 * H5;
+  return quinticHermite(x0, f0, g0, s0, x1, f1, g1, s1, x, { value: 0, d1: 0, d2: 0 }).value;
 }
 
-/** The interpolant and its first two x-derivatives at x (arguments as quinticHermiteValue), written into out. */
+/**
+ * The interpolant and its first two x-derivatives at x (arguments as quinticHermiteValue), written
+ * into out. In powers of t: P(t) = f0 + p1 t + p2 t^2 + a3 t^3 + a4 t^4 + a5 t^5 with p1 = h g0,
+ * p2 = h^2 s0 / 2, and a3..a5 solving the three conditions at t = 1 (the same polynomial as the
+ * basis form of the module comment, evaluated by Horner's rule).
+ */
 export function quinticHermite(
   x0: number,
   f0: number,
@@ -55,35 +48,16 @@ export function quinticHermite(
 ): HermiteValue {
   const h = x1 - x0;
   const t = (x - x0) / h;
-  const t2 = t * t;
-  const t3 = t2 * t;
-  const t4 = t3 * t;
-  const t5 = t4 * t;
-  // basis on [0, 1]: values, and first and second t-derivatives
-  const H0 = 1 - 10 * t3 + 15 * t4 - 6 * t5;
-  const H1 = t - 6 * t3 + 8 * t4 - 3 * t5;
-  const H2 = 0.5 * (t2 - 3 * t3 + 3 * t4 - t5);
-  const H3 = 10 * t3 - 15 * t4 + 6 * t5;
-  const H4 = -4 * t3 + 7 * t4 - 3 * t5;
-  const H5 = 0.5 * (t3 - 2 * t4 + t5);
-  const D0 = -30 * t2 + 60 * t3 - 30 * t4;
-  const D1 = 1 - 18 * t2 + 32 * t3 - 15 * t4;
-  const D2 = 0.5 * (2 * t - 9 * t2 + 12 * t3 - 5 * t4);
-  const D3 = 30 * t2 - 60 * t3 + 30 * t4;
-  const D4 = -12 * t2 + 28 * t3 - 15 * t4;
-  const D5 = 0.5 * (3 * t2 - 8 * t3 + 5 * t4);
-  const E0 = -60 * t + 180 * t2 - 120 * t3;
-  const E1 = -36 * t + 96 * t2 - 60 * t3;
-  const E2 = 0.5 * (2 - 18 * t + 36 * t2 - 20 * t3);
-  const E3 = 60 * t - 180 * t2 + 120 * t3;
-  const E4 = -24 * t + 84 * t2 - 60 * t3;
-  const E5 = 0.5 * (6 * t - 24 * t2 + 20 * t3);
-  const fa1 = h * g0;
-  const fa2 = h * h * s0;
-  const fb1 = h * g1;
-  const fb2 = h * h * s1;
-  out.value = f0 * H0 + fa1 * H1 + fa2 * H2 + f1 * H3 + fb1 * H4 + fb2 * H5;
-  out.d1 = (f0 * D0 + fa1 * D1 + fa2 * D2 + f1 * D3 + fb1 * D4 + fb2 * D5) / h;
-  out.d2 = (f0 * E0 + fa1 * E1 + fa2 * E2 + f1 * E3 + fb1 * E4 + fb2 * E5) / (h * h);
+  const p1 = g0 * h;
+  const p2 = 0.5 * s0 * h * h;
+  const D0 = f1 - f0 - p1 - p2;
+  const D1 = g1 * h - p1 - 2 * p2;
+  const D2 = s1 * h * h - 2 * p2;
+  const a3 = 10 * D0 - 4 * D1 + 0.5 * D2;
+  const a4 = -15 * D0 + 7 * D1 - D2;
+  const a5 = 6 * D0 - 3 * D1 + 0.5 * D2;
+  out.value = f0 + t * (p1 + t * (p2 + t * (a3 + t * (a4 + t * a5))));
+  out.d1 = (p1 + t * (2 * p2 + t * (3 * a3 + t * (4 * a4 + t * 5 * a5)))) / h;
+  out.d2 = (2 * p2 + t * (6 * a3 + t * (12 * a4 + t * 20 * a5))) / (h * h);
   return out;
 }

@@ -8,30 +8,19 @@ import { gridMaximize } from '../grid-maximize';
 import { likelihoodRatioEnds } from '../intervals/likelihood-ratio';
 import { assertPanel, type Panel } from '../panel';
 import { RHO_SEARCH_LIMIT } from './binomial-mle';
-import { mixingLawPooledRate } from './mixing-law-panel';
+import { mixingLawPooledRate, type EquivalentRhoFit, type ProfileInterval } from './mixing-law-panel';
 import type { EstimateStatus } from './types';
 
 /** Equivalent rho at which the profile is evaluated first (the ends are candidates of their own). */
 export const EQUIVALENT_RHO_GRID: readonly number[] = [0, 0.002, 0.01, 0.03, 0.07, 0.15, 0.3, 0.5, 0.75, RHO_SEARCH_LIMIT];
 
-/** A profile-likelihood interval; an end at a bound is that bound. */
-export interface ProfileInterval {
-  level: number;
-  lower: number;
-  upper: number;
-}
+export type { ProfileInterval };
 
 /** The fitted beta law. */
-export interface BetaMixingFit {
+export interface BetaMixingFit extends EquivalentRhoFit {
   /** Beta(a, b) of the default rate; null when the maximum is the binomial law (a, b infinite). */
   a: number | null;
   b: number | null;
-  pd: number | null;
-  equivalentRho: number | null;
-  logLik: number | null;
-  status: EstimateStatus;
-  reason?: string;
-  intervals: { profile: ProfileInterval | null };
 }
 
 /** Overdispersion theta = 1 / (a + b) of the beta law with mean p and equivalent rho r. */

@@ -10,24 +10,16 @@ import { likelihoodRatioEnds } from '../intervals/likelihood-ratio';
 import { LogitNormalLikelihood, logitNormalMoment } from '../logit-normal-mixing';
 import { assertPanel, type Panel } from '../panel';
 import { RHO_SEARCH_LIMIT } from './binomial-mle';
-import { mixingLawPooledRate } from './mixing-law-panel';
-import type { ProfileInterval } from './beta-mixing-mle';
+import { mixingLawPooledRate, type EquivalentRhoFit, type ProfileInterval } from './mixing-law-panel';
 import type { EstimateStatus } from './types';
 
 /** Largest sigma the search considers (a default rate that is nearly 0 or 1 every year). */
 export const SIGMA_SEARCH_LIMIT = 8;
 
 /** The fitted logit-normal law. */
-export interface LogitNormalFit {
+export interface LogitNormalFit extends EquivalentRhoFit {
   mu: number | null;
   sigma: number | null;
-  /** The mean default rate E[pi]. */
-  pd: number | null;
-  equivalentRho: number | null;
-  logLik: number | null;
-  status: EstimateStatus;
-  reason?: string;
-  intervals: { profile: ProfileInterval | null };
 }
 
 const logit = (p: number) => Math.log(p / (1 - p));

@@ -7,6 +7,26 @@
  * @example mixingLawPooledRate({ obligors: [1000, 1000], defaults: [10, 30] }, 'the beta law') // { pooled: 0.02 }
  */
 import type { Panel } from '../panel';
+import type { EstimateStatus } from './types';
+
+/** A profile-likelihood interval; an end at a bound is that bound. */
+export interface ProfileInterval {
+  level: number;
+  lower: number;
+  upper: number;
+}
+
+/** What the fit of a mixing law without an asset correlation reports beside its own parameters. */
+export interface EquivalentRhoFit {
+  /** The mean default rate E[pi]. */
+  pd: number | null;
+  /** The rho of the Gaussian law with the same p and E[pi^2]. */
+  equivalentRho: number | null;
+  logLik: number | null;
+  status: EstimateStatus;
+  reason?: string;
+  intervals: { profile: ProfileInterval | null };
+}
 
 export function mixingLawPooledRate(panel: Panel, law: string): { pooled: number; reason: null } | { pooled: null; reason: string } {
   let sn = 0;
