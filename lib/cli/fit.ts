@@ -18,10 +18,7 @@ import { ASSET_CLASSES, type AssetClass } from '../stats/irb';
 import { ENGINE_VERSION } from '../stats/version';
 import { formatTable } from './format';
 import { parsePortfolioArgs, portfolioBlocks, PORTFOLIO_OPTIONS, PORTFOLIO_USAGE, type PortfolioArgs } from './portfolio';
-import type { GradeFit } from '../stats/grade-fit';
-import type { GradeAuditSummary } from '../stats/grade-audit';
-import type { FactorCorrelationMatrix } from '../stats/factor-correlation-matrix';
-import type { PosteriorBlock, PrudentPdBlock } from '../stats/low-default';
+import type { FitDocument } from './document';
 
 /** Where the CLI writes; injectable for tests. */
 export interface CliIo {
@@ -29,19 +26,6 @@ export interface CliIo {
   err: (text: string) => void;
 }
 
-/** The JSON document printed with --json: the fitted segments and, in their places, the failed ones. */
-export interface FitDocument {
-  engine: { version: string };
-  segments: (TimedSegmentFit & { posterior?: PosteriorBlock; prudentPd?: PrudentPdBlock })[];
-  /** Grades under one factor (--group). */
-  group?: GradeFit & { estimatorAudit?: GradeAuditSummary | null };
-  /** The factor-correlation matrix (--pairs). */
-  pairs?: FactorCorrelationMatrix;
-  /** Segments whose fit failed, with the reason and their position among all segments (exit code 3). */
-  failures: SegmentFailure[];
-  /** The cautions that travel with every correlation (lib/assumptions/cautions.ts). */
-  cautions: readonly string[];
-}
 
 /** Exit code when some segments (one or more) failed and the others were fitted. */
 export const EXIT_SOME_SEGMENTS_FAILED = 3;

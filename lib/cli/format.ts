@@ -6,7 +6,7 @@
 import { ESTIMATOR_KEYS } from '../stats/estimators/types';
 import { ESTIMATOR_LABELS } from '../stats/estimators';
 import type { SegmentEstimates, TimedSegmentFit } from '../stats/fit-panel';
-import type { FitDocument } from './fit';
+import type { FitDocument } from './document';
 
 function num(v: number | null | undefined, digits = 4): string {
   if (v === null || v === undefined) return '-';

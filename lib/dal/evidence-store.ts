@@ -5,7 +5,7 @@ import { assumptions, assumptionVersions, cohortRows, datasets, evidenceBacktest
 import { evidenceCautionOf } from '@/lib/assumptions/consumer';
 import { backtestSentences, type BacktestVerdict, type StoredBacktest } from '@/lib/assumptions/monitoring';
 import { appUrl } from '@/lib/env';
-import { MONITOR_BACKTEST_JOB } from '@/lib/jobs/kinds/monitor-backtest';
+import { MONITOR_BACKTEST_JOB } from '@/lib/jobs/kinds/monitor-backtest-payload';
 import { enqueueJob } from '@/lib/jobs/queue';
 import { queueMail } from '@/lib/mail/outbox';
 import { renderEvidenceMail } from '@/lib/mail/templates';
@@ -234,9 +234,6 @@ export async function writeBacktest(tx: Tx, backtestId: number, result: StoredBa
     .where(eq(evidenceBacktests.id, backtestId));
 }
 
-export async function markBacktestFailed(tx: DbOrTx, backtestId: number, error: string): Promise<void> {
-  await tx.update(evidenceBacktests).set({ status: 'failed', error: error.slice(0, 2000), finishedAt: new Date() }).where(eq(evidenceBacktests.id, backtestId));
-}
 
 /** The jobs of backtests still queued (the demo seed runs them in-process). */
 export async function queuedBacktestJobs(db: DbOrTx): Promise<number[]> {

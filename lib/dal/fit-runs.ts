@@ -6,7 +6,7 @@ import { AppError } from '@/lib/errors';
 import { fitRequestSchema, type FitRequest } from '@/lib/fits/request';
 import { assembleFitResults, type FitResults, type SegmentOutcome } from '@/lib/fits/results';
 import type { SegmentInput } from '@/lib/fits/run';
-import type { FitPayload } from '@/lib/jobs/kinds/fit';
+import type { FitPayload } from '@/lib/jobs/kinds/fit-payload';
 import { ENGINE_VERSION } from '@/lib/stats/version';
 import { loadFittableDataset, loadPanels } from './panels';
 

@@ -9,7 +9,7 @@ import { definitionsOf } from './default-definitions';
 import type { DefinitionSpan } from '@/lib/ingest/default-definition';
 import { fitRequestSchema, needsWholeRun, type FitRequest, type FitRequestInput } from '@/lib/fits/request';
 import { findSegment, isCurrentResults, type FitResults, type FitSegmentResult } from '@/lib/fits/results';
-import { FIT_JOB } from '@/lib/jobs/kinds/fit';
+import { FIT_JOB } from '@/lib/jobs/kinds/fit-payload';
 import { cancelJob, enqueueJob } from '@/lib/jobs/queue';
 import { ENGINE_VERSION } from '@/lib/stats/version';
 

@@ -18,7 +18,7 @@ import { loadFitJob, storeFitResults, storeSegmentOutcome } from '@/lib/dal/fit-
 import { AppError } from '@/lib/errors';
 import { defaultThreads } from '@/lib/engine';
 import { computeFitRun, computeFitSegment } from '@/lib/fits/run';
-import type { FitPayload } from '@/lib/jobs/kinds/fit';
+import type { FitPayload } from '@/lib/jobs/kinds/fit-payload';
 import type { JobContext } from '../job-handler';
 
 /** FIT_THREADS: worker threads per fit job for the bootstrap (0 = the job's own thread); default: the cores, at most 2. */

@@ -6,7 +6,7 @@
 import type { Tx } from '@/db/connection';
 import { loadBacktestInput, writeBacktest } from '@/lib/dal/evidence-store';
 import { AppError } from '@/lib/errors';
-import type { MonitorBacktestPayload } from '@/lib/jobs/kinds/monitor-backtest';
+import type { MonitorBacktestPayload } from '@/lib/jobs/kinds/monitor-backtest-payload';
 import { backtestPublished } from '@/lib/stats/backtest';
 import type { JobContext } from '../job-handler';
 

@@ -38,8 +38,8 @@ import { recordFinding } from '@/lib/dal/findings';
 import { createFit, getFit } from '@/lib/dal/fits';
 import { createModel, updateModel } from '@/lib/dal/models';
 import { appUrl } from '@/lib/env';
-import { FIT_JOB } from '@/lib/jobs/kinds/fit';
-import { MONITOR_BACKTEST_JOB } from '@/lib/jobs/kinds/monitor-backtest';
+import { FIT_JOB } from '@/lib/jobs/kinds/fit-payload';
+import { MONITOR_BACKTEST_JOB } from '@/lib/jobs/kinds/monitor-backtest-payload';
 import { seedRestatedCohorts } from './data';
 import type { Db } from '@/db/connection';
 

@@ -1,22 +1,8 @@
-import { z } from 'zod';
-import { markBacktestFailed } from '@/lib/dal/evidence-store';
+import { markBacktestFailed } from '@/lib/dal/backtest-failures';
 import { defineJobKind } from '../job-kind';
+import { MONITOR_BACKTEST_JOB, monitorBacktestPayloadSchema } from './monitor-backtest-payload';
 
-/**
- * `monitor-backtest`: backtests a published assumption's (p, rho) on the years of a newer dataset of
- * its segment (workers/handlers/monitor-backtest.ts, lib/stats/backtest.ts). Queued by the
- * scheduler's evidence sweep (lib/dal/evidence-store.ts) with its evidence_backtests row.
- */
-export const MONITOR_BACKTEST_JOB = 'monitor-backtest';
-
-export const monitorBacktestPayloadSchema = z.object({
-  backtestId: z.number().int().positive(),
-  versionId: z.number().int().positive(),
-  datasetId: z.number().int().positive(),
-  periods: z.array(z.string().regex(/^\d{4}$/)).min(1),
-});
-export type MonitorBacktestPayload = z.infer<typeof monitorBacktestPayloadSchema>;
-
+/** The `monitor-backtest` job kind (monitor-backtest-payload.ts) and what happens when one of its jobs is given up. */
 export const monitorBacktestJob = defineJobKind(MONITOR_BACKTEST_JOB, monitorBacktestPayloadSchema, {
   onGiveUp: async (tx, end) => {
     const p = monitorBacktestPayloadSchema.safeParse(end.payload);

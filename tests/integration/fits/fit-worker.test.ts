@@ -12,7 +12,7 @@ import { runFit } from '@/lib/cli/fit';
 import { fitPanel } from '@/lib/stats/fit-panel';
 import { segmentsInOrder, type FitResults } from '@/lib/fits/results';
 import { ENGINE_VERSION } from '@/lib/stats/version';
-import { FIT_JOB } from '@/lib/jobs/kinds/fit';
+import { FIT_JOB } from '@/lib/jobs/kinds/fit-payload';
 import { enqueueJob } from '@/lib/jobs/queue';
 import { runJobLoop } from '@/workers/job-loop';
 import { makeCohortDataset, PANEL_A } from '../../support/fit-data';

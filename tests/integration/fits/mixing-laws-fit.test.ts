@@ -9,7 +9,7 @@ import type { SessionUser } from '@/lib/auth/guard';
 import { runFit } from '@/lib/cli/fit';
 import { createFit, getFit } from '@/lib/dal/fits';
 import { fitRequestSchema } from '@/lib/fits/request';
-import { FIT_JOB } from '@/lib/jobs/kinds/fit';
+import { FIT_JOB } from '@/lib/jobs/kinds/fit-payload';
 import { fitPanel } from '@/lib/stats/fit-panel';
 import { runJobLoop } from '@/workers/job-loop';
 import { makeCohortDataset, PANEL_A } from '../../support/fit-data';

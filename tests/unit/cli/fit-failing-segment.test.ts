@@ -2,7 +2,7 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { describe, expect, it, vi } from 'vitest';
-import type { FitDocument } from '@/lib/cli/fit';
+import type { FitDocument } from '@/lib/cli/document';
 
 /**
  * One segment whose fit fails inside the engine does not sink the file. The upload and the CLI's

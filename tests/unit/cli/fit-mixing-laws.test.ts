@@ -1,6 +1,6 @@
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
-import type { FitDocument } from '@/lib/cli/fit';
+import type { FitDocument } from '@/lib/cli/document';
 import { main } from '@/lib/cli';
 import { betaMixingMle } from '@/lib/stats/estimators/beta-mixing-mle';
 import { binomialMle } from '@/lib/stats/estimators/binomial-mle';

@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { promisify } from 'node:util';
 import { describe, expect, it } from 'vitest';
-import type { FitDocument } from '@/lib/cli/fit';
+import type { FitDocument } from '@/lib/cli/document';
 import { main } from '@/lib/cli';
 import { ENGINE_VERSION } from '@/lib/stats/version';
 

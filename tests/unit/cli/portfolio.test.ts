@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import path from 'node:path';
-import type { FitDocument } from '@/lib/cli/fit';
+import type { FitDocument } from '@/lib/cli/document';
 import { main } from '@/lib/cli';
 import { fitGrades } from '@/lib/stats/grade-fit';
 import { factorCorrelation } from '@/lib/stats/factor-correlation';

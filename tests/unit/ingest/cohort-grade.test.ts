@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { main } from '@/lib/cli';
-import type { FitDocument } from '@/lib/cli/fit';
+import type { FitDocument } from '@/lib/cli/document';
 import { validateCohortText } from '@/lib/ingest/cohort';
 
 const SAMPLE = path.join(import.meta.dirname, '..', '..', '..', 'public', 'samples', 'cohort-grades.csv');
