@@ -30,7 +30,7 @@ const spec: AuditSpec = {
 
 const pct = (x: number | null) => (x === null ? 'n/a' : `${(100 * x).toFixed(1)}%`);
 function coverageLine(name: string, c: CoverageAudit): string {
-  return `${name.padEnd(44)} ${pct(c.coverage).padStart(6)} +- ${pct(c.mcse)}  (${c.covered}/${c.available}), mean width ${c.meanWidth?.toFixed(4) ?? 'n/a'}`;
+  return `${name.padEnd(44)} ${pct(c.coverage).padStart(6)} +- ${pct(c.mcse)}  (${c.covered}/${c.available + c.missing}${c.missing > 0 ? `, no interval in ${c.missing}, counted as misses` : ''}), mean width ${c.meanWidth?.toFixed(4) ?? 'n/a'}`;
 }
 function biasLine(name: string, e: EstimatorAudit, truth: number): string {
   return `${name.padEnd(44)} mean ${e.mean?.toFixed(4) ?? 'n/a'} (truth ${truth}), bias ${e.bias?.toFixed(4) ?? 'n/a'} +- ${e.biasMcse?.toFixed(4) ?? 'n/a'}, RMSE ${e.rmse?.toFixed(4) ?? 'n/a'}, defined ${e.defined}`;
