@@ -123,8 +123,12 @@ export async function revokeToken(actor: SessionUser, id: number): Promise<void>
 
 const REFUSED = 'The API token is missing, unknown, expired or revoked. Send it as "Authorization: Bearer <token>"; ask an administrator for a new one.';
 
+/** How finely a token's last use is recorded (the admin screen shows the day). */
+export const LAST_USE_RESOLUTION_MS = 60_000;
+
 /**
- * Authenticates an `Authorization: Bearer` header and checks the scope. Records the last use.
+ * Authenticates an `Authorization: Bearer` header and checks the scope. Records the last use (to
+ * the minute).
  * Every refusal is the same 401 sentence (an unknown token and a revoked one look alike), except a
  * valid token without the scope, which is 403.
  */
@@ -145,6 +149,9 @@ export async function authenticateToken(authorization: string | null, scope: Tok
   if (!scopes.includes(scope)) {
     throw new AppError('forbidden:token-scope', `This API token does not carry the scope ${scope}; ask an administrator for a token that does.`);
   }
-  await db.update(apiTokens).set({ lastUsedAt: now }).where(eq(apiTokens.id, t.id));
+  // The last use to the minute: a write (and its flush) on every read would cost more than the read.
+  if (!t.lastUsedAt || now.getTime() - t.lastUsedAt.getTime() >= LAST_USE_RESOLUTION_MS) {
+    await db.update(apiTokens).set({ lastUsedAt: now }).where(eq(apiTokens.id, t.id));
+  }
   return { kind: 'token', tokenId: t.id, name: t.name, scopes, modelId: t.modelId };
 }

@@ -2,7 +2,7 @@ import 'server-only';
 import { and, asc, desc, eq, inArray, isNotNull, lte } from 'drizzle-orm';
 import { getDb } from '@/db/client';
 import type { DbOrTx } from '@/db/connection';
-import { assumptions, assumptionVersions, type AssumptionStatus, type OverduePolicy } from '@/db/schema';
+import { assumptions, assumptionVersions, type AssumptionStatus, type AssumptionVersion, type OverduePolicy } from '@/db/schema';
 import { todayIso } from '@/lib/assumptions/dates';
 import { inForceCutoff, judgeInForce } from '@/lib/assumptions/in-force';
 import { overduePolicyAt } from '@/lib/assumptions/overdue-policy';
@@ -59,27 +59,32 @@ export async function versionInForce(consumer: Consumer, segment: string, asOf: 
     .orderBy(desc(assumptionVersions.publishedAt), desc(assumptionVersions.version))
     .limit(1);
   const policy = overduePolicyAt(await policyChanges(db), cutoff);
-  const answer = judgeInForce(last ? last.v : null, asOf, cutoff, policy);
+  const judged = judgeSegment(segment, last ? last.v : null, asOf, cutoff, policy);
+  if (judged instanceof AppError) throw judged;
+  return (await withEvidence(db, await versionDtos(db, [last!]), (v) => ({ reviewBy: v.reviewBy, overdue: judged.overdue, policy })))[0];
+}
+
+/**
+ * The in-force rule's answer for one segment given its last publication up to the cutoff: the
+ * version is in force (overdue or not), or the AppError (404) whose sentence says why not.
+ */
+function judgeSegment(segment: string, last: AssumptionVersion | null, asOf: string, cutoff: Date, policy: OverduePolicy): { overdue: boolean } | AppError {
+  const answer = judgeInForce(last, asOf, cutoff, policy);
   switch (answer.kind) {
-    case 'in-force': {
-      const overdue = answer.overdue;
-      return (await withEvidence(db, await versionDtos(db, [last!]), (v) => ({ reviewBy: v.reviewBy, overdue, policy })))[0];
-    }
+    case 'in-force':
+      return { overdue: answer.overdue };
     case 'none':
-      throw new AppError('not_found:assumption', `No published assumption for the segment “${segment}” was in force on ${asOf}.`);
+      return new AppError('not_found:assumption', `No published assumption for the segment “${segment}” was in force on ${asOf}.`);
     case 'expired':
-      throw new AppError(
+      return new AppError(
         'not_found:assumption-expired',
         `Version ${answer.version.version} of “${segment}” was due for review by ${answer.version.reviewBy} and is withdrawn under the institution's overdue policy: it is not in force on ${asOf}.`,
         { policy: 'withdraw', reviewBy: answer.version.reviewBy },
       );
     case 'retired':
-      throw new AppError(
-        'not_found:assumption-retired',
-        `Version ${answer.version.version} of “${segment}” was retired on ${answer.on} and is not in force on ${asOf}.`,
-      );
+      return new AppError('not_found:assumption-retired', `Version ${answer.version.version} of “${segment}” was retired on ${answer.on} and is not in force on ${asOf}.`);
     case 'ended':
-      throw new AppError(
+      return new AppError(
         'not_found:assumption',
         `Version ${answer.version.version} of “${segment}” stopped being the published one on ${answer.on}; no version was in force on ${asOf}.`,
       );
@@ -118,24 +123,40 @@ export async function listPublished(consumer: Consumer, scope: TokenScope = 'ass
   return withEvidence(db, await versionDtos(db, rows), await reviewNow(db, now));
 }
 
-/** Every segment's version in force on `asOf`, and the segments without one (with the reason). */
+/**
+ * Every segment's version in force on `asOf`, and the segments without one (with the reason): the
+ * rule of versionInForce for each segment ever published, read with a fixed number of queries (every
+ * publication up to the cutoff, the policy, the DTOs and the evidence once for all segments).
+ */
 export async function listInForce(consumer: Consumer, asOf: string, now: Date = new Date()): Promise<{ versions: ConsumerVersionDto[]; missing: { segment: string; reason: string }[] }> {
   assertConsumer(consumer, 'assumptions:read');
-  const segs = await getDb()
+  const db = getDb();
+  const cutoff = inForceCutoff(asOf, now);
+  const segs = await db
     .selectDistinct({ segment: assumptions.segment })
     .from(assumptions)
     .innerJoin(assumptionVersions, eq(assumptionVersions.assumptionId, assumptions.id))
     .where(inArray(assumptionVersions.status, everPublished))
     .orderBy(asc(assumptions.segment));
-  const versions: ConsumerVersionDto[] = [];
+  const published = await db
+    .select({ v: assumptionVersions, segment: assumptions.segment })
+    .from(assumptionVersions)
+    .innerJoin(assumptions, eq(assumptions.id, assumptionVersions.assumptionId))
+    .where(and(isNotNull(assumptionVersions.publishedAt), lte(assumptionVersions.publishedAt, cutoff)))
+    .orderBy(desc(assumptionVersions.publishedAt), desc(assumptionVersions.version));
+  // The first row of a segment in that order is its last publication up to the cutoff.
+  const lastOf = new Map<string, (typeof published)[number]>();
+  for (const row of published) if (!lastOf.has(row.segment)) lastOf.set(row.segment, row);
+  const policy = overduePolicyAt(await policyChanges(db), cutoff);
+  const inForce: { row: (typeof published)[number]; overdue: boolean }[] = [];
   const missing: { segment: string; reason: string }[] = [];
   for (const { segment } of segs) {
-    try {
-      versions.push(await versionInForce(consumer, segment, asOf, now));
-    } catch (err) {
-      if (err instanceof AppError && err.kind === 'not_found') missing.push({ segment, reason: err.message });
-      else throw err;
-    }
+    const last = lastOf.get(segment) ?? null;
+    const judged = judgeSegment(segment, last ? last.v : null, asOf, cutoff, policy);
+    if (judged instanceof AppError) missing.push({ segment, reason: judged.message });
+    else inForce.push({ row: last!, overdue: judged.overdue });
   }
+  const overdueOf = new Map(inForce.map((x) => [x.row.v.id, x.overdue]));
+  const versions = await withEvidence(db, await versionDtos(db, inForce.map((x) => x.row)), (v) => ({ reviewBy: v.reviewBy, overdue: overdueOf.get(v.id)!, policy }));
   return { versions, missing };
 }

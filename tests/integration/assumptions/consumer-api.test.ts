@@ -5,7 +5,7 @@ import { apiTokens } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
 import { addDays, addMonths, todayIso } from '@/lib/assumptions/dates';
 import { createDraft, transition } from '@/lib/dal/assumptions';
-import { createToken, listTokens, revokeToken } from '@/lib/dal/tokens';
+import { authenticateToken, createToken, LAST_USE_RESOLUTION_MS, listTokens, revokeToken } from '@/lib/dal/tokens';
 import * as inForceRoute from '@/app/api/v1/assumptions/route';
 import * as versionRoute from '@/app/api/v1/assumptions/[id]/versions/[version]/route';
 import * as exportRoute from '@/app/api/v1/assumptions/export/route';
@@ -134,6 +134,20 @@ describe('API tokens', () => {
   it('no token or a made-up one: 401', async () => {
     expect((await call(inForceRoute.GET, { url: 'http://127.0.0.1/api/v1/assumptions' })).status).toBe(401);
     expect((await inForce('', 'rhb_not-a-real-token-at-all')).status).toBe(401);
+  });
+
+  it('the last use is recorded to the minute: a read within a minute of the last writes nothing', async () => {
+    // a write (and its log flush) on every read would cost the consumer API more than the read itself
+    const t = await createToken(admin, { name: 'Minute model', scopes: ['assumptions:read'] });
+    const t0 = new Date('2026-03-02T10:00:00.000Z');
+    const lastUse = async () => (await getDb().select().from(apiTokens).where(eq(apiTokens.id, t.id)))[0].lastUsedAt!.getTime();
+    await authenticateToken(`Bearer ${t.token}`, 'assumptions:read', t0);
+    expect(await lastUse()).toBe(t0.getTime());
+    await authenticateToken(`Bearer ${t.token}`, 'assumptions:read', new Date(t0.getTime() + LAST_USE_RESOLUTION_MS - 1));
+    expect(await lastUse()).toBe(t0.getTime());
+    const later = new Date(t0.getTime() + LAST_USE_RESOLUTION_MS);
+    await authenticateToken(`Bearer ${t.token}`, 'assumptions:read', later);
+    expect(await lastUse()).toBe(later.getTime());
   });
 
   it('a revoked token is refused; the last use is recorded before', async () => {

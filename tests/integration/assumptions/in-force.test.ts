@@ -14,7 +14,7 @@ import { addDays, todayIso } from '@/lib/assumptions/dates';
 import { versionInForceAt } from '@/lib/assumptions/in-force';
 import { overduePolicyAt } from '@/lib/assumptions/overdue-policy';
 import { policyChanges } from '@/lib/dal/overdue-policy';
-import { createDraft, runScheduledTransitions, transition, versionInForce } from '@/lib/dal/assumptions';
+import { createDraft, listInForce, runScheduledTransitions, transition, versionInForce } from '@/lib/dal/assumptions';
 import { createToken } from '@/lib/dal/tokens';
 import { AppError } from '@/lib/errors';
 import * as inForceRoute from '@/app/api/v1/assumptions/route';
@@ -156,6 +156,11 @@ describe('random histories (12, seeded): the query agrees with the rule, and pas
           const asOf = todayIso(new Date(clock - (next() % 400) * DAY));
           const answer = await label(versionInForce({ kind: 'token', tokenId: 0, name: 'test', scopes: ['assumptions:read'], modelId: null }, segment, asOf, now));
           expect(answer, `${segment} asOf ${asOf} at ${now.toISOString()}`).toBe(await modelAnswer(segment, asOf, now));
+          // every segment at once (one set of queries for all) answers each segment as the single lookup does
+          const all = await listInForce({ kind: 'token', tokenId: 0, name: 'test', scopes: ['assumptions:read'], modelId: null }, asOf, now);
+          const mine = all.versions.find((v) => v.segment === segment);
+          if (answer.startsWith('v')) expect(mine ? `v${mine.version}` : 'not listed', `list ${segment} asOf ${asOf}`).toBe(answer);
+          else expect(mine, `list ${segment} asOf ${asOf}: ${answer}`).toBeUndefined();
           if (asOf < todayIso(now)) asked.push({ asOf, at: now, answer });
         }
       }
