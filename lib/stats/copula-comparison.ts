@@ -9,6 +9,7 @@ import { betaThetaFromEquivalentRho } from './estimators/beta-mixing-mle';
 import type { BetaMixingFit } from './estimators/beta-mixing-mle';
 import type { LogitNormalFit } from './estimators/logit-normal-mle';
 import type { TCopulaFit } from './estimators/t-copula-mle';
+import type { LawPit } from './law-count-pit';
 import { logitNormalMoment, logitNormalRateQuantile } from './logit-normal-mixing';
 import { normalQuantile } from './normal';
 import { bivariateTJointDefault, tCopulaTailDependence, tDefaultRateQuantile } from './t-copula-tail';
@@ -47,6 +48,14 @@ export interface LawComparison {
   defaultCorrelation: number;
   /** Lower tail dependence of the latent variables: 0 for the Gaussian copula, the t formula; null for the mixing laws without latent variables. */
   tailDependence: number | null;
+  /**
+   * The granular probability integral transform of each year under this law at its fitted values,
+   * with its uniformity test and tail years (law-count-pit.ts); null when it could not be computed
+   * (pitNote says why). Absent from results stored before it was added.
+   */
+  pit?: LawPit | null;
+  /** Why pit is null, in a sentence. */
+  pitNote?: string;
 }
 
 /** The fitted values a law's row is computed from. */

@@ -8,7 +8,9 @@
  * threads), {@link completeMixingLaws} attaches them (the power study needs the bootstrap's
  * critical value, so its replications are counted only once the bootstrap is done).
  */
-import { compareMixingLaws, fittedLaws, type LawComparison, type MixingLaw } from './copula-comparison';
+import { compareMixingLaws, fittedLaws, type FittedLaw, type LawComparison, type MixingLaw } from './copula-comparison';
+import { rateLawOf } from './default-rate-law';
+import { lawPanelPit } from './law-count-pit';
 import {
   COPULA_TEST_LEVEL,
   POWER_ALTERNATIVE_NU,
@@ -69,8 +71,11 @@ export interface MixingLawOptions {
 
 /**
  * Stage 1: fits the laws asked for (the t copula, beta and logit-normal mixing by maximum likelihood
- * with their profile intervals), compares them with the Gaussian law (binomialMle's maximum, given)
- * and computes the LR statistic of the Gaussian against the t copula.
+ * with their profile intervals), compares them with the Gaussian law (binomialMle's maximum, given),
+ * gives each compared law its granular probability integral transform (`laws[i].pit`: the mid-PIT
+ * of every year, as the Gaussian diagnostics, with a Kolmogorov-Smirnov test on the PIT randomised
+ * from `seed` and the tail years; law-count-pit.ts) and computes the LR statistic of the Gaussian
+ * against the t copula.
  *
  * The power study's alternative is the fitted t law, or nu = 5 at the Gaussian fit's p and rho when
  * the t fit reaches the Gaussian limit (or rho = 0 and 1/nu = 0 at once).
@@ -99,7 +104,8 @@ export function prepareMixingLaws(
   if (options.models.includes('logitNormal')) estimates.logitNormal = logit = logitNormalMle(panel, { level });
   const comparison: ModelComparison = { laws: [], lrTestGaussianVsT: null, power: null, cautions: [] };
   if (gaussian.pd === null || gaussian.rho === null || gaussian.logLik === null) return { estimates, comparison, bootstrap: null, power: null };
-  comparison.laws = compareMixingLaws(fittedLaws(gaussian, t, beta, logit), panel.obligors.length);
+  const fitted = fittedLaws(gaussian, t, beta, logit);
+  comparison.laws = compareMixingLaws(fitted, panel.obligors.length).map((row, i) => ({ ...row, ...lawPit(fitted[i], panel, seed) }));
   let bootstrap: PreparedMixingLaws['bootstrap'] = null;
   let power: PreparedMixingLaws['power'] = null;
   if (t && t.logLik !== null && t.gaussianLogLik !== null && t.status !== 'not-converged') {
@@ -117,6 +123,20 @@ export function prepareMixingLaws(
     }
   }
   return { estimates, comparison, bootstrap, power };
+}
+
+/**
+ * The granular probability integral transform of a fitted law on the panel (lawPanelPit: the
+ * mid-PIT, and the Kolmogorov-Smirnov test on the PIT randomised from `seed`, the same draws for
+ * every law), or why it could not be computed.
+ */
+function lawPit(law: FittedLaw, panel: Panel, seed: number): Pick<LawComparison, 'pit' | 'pitNote'> {
+  try {
+    return { pit: lawPanelPit(rateLawOf(law), panel, seed) };
+  } catch (err) {
+    const why = err instanceof Error ? err.message : String(err);
+    return { pit: null, pitNote: `The probability integral transform under ${LAW_NAMES[law.law]} could not be computed: ${why}` };
+  }
 }
 
 /**

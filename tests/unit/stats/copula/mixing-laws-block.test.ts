@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { copulaBootstrapRange, copulaPowerRange } from '@/lib/stats/copula-lr-test';
+import { panelMidPit } from '@/lib/stats/count-pit';
 import { binomialMle } from '@/lib/stats/estimators/binomial-mle';
 import { completeMixingLaws, mixingLawCautions, prepareMixingLaws, type ModelComparison } from '@/lib/stats/mixing-laws-block';
 
@@ -36,6 +37,15 @@ describe('the mixing-law block of a segment', () => {
     expect(test.pValue).toBeGreaterThanOrEqual(0.25);
     expect(done.modelComparison.power!.replications).toBe(2);
     expect(Array.isArray(done.modelComparison.cautions)).toBe(true);
+    // each law carries its granular PIT (law-count-pit.ts, checked against SciPy there); the
+    // Gaussian row's is the diagnostics' mid-PIT (count-pit.ts, checked against make_pit.py)
+    for (const l of done.modelComparison.laws) {
+      expect(l.pit?.values, l.law).toHaveLength(6);
+      expect(l.pit?.uniformity.seed, l.law).toBe(5);
+      expect(l.pit!.uniformity.pValue, l.law).toBeGreaterThan(0);
+    }
+    const gaussianPit = panelMidPit(panel, g.pd!, g.rho!);
+    done.modelComparison.laws[0].pit!.values.forEach((u, t) => expect(Math.abs(u - gaussianPit[t])).toBeLessThan(1e-9));
   });
 
   it('cautions where another law fits materially better, in the direction the numbers go, and where the power is low', () => {
