@@ -62,7 +62,7 @@ Fits the asset correlation of every segment of a cohort CSV (columns segment,per
   --level L         level of every interval, between 0 and 1 (default 0.95)
   --bootstrap B     run every parametric bootstrap with B replications (2 to 100000): binomialMle's and
                     the moment estimators' intervals and the break test's p-value
-  --seed N          seed of the bootstraps, 0 to 4294967295 (default 1)
+  --seed N          seed of the bootstraps (and of the mixing laws' randomised PIT), 0 to 4294967295 (default 1)
   --audit R         add the small-sample simulation study: R panels simulated at the fit (2 to 100000); with the AR(1)
                     model, at its fitted persistence
   --audit-seed N    seed of the simulation study, 0 to 4294967295 (default 2)

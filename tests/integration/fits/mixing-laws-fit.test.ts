@@ -95,6 +95,11 @@ describe('the fit request: challenge the Gaussian copula', () => {
     expect(mc.power!.replications + mc.power!.failed).toBe(20);
     expect(mc.power!.rejectRate).toBeGreaterThanOrEqual(0);
     expect(mc.power!.rejectRate).toBeLessThanOrEqual(1);
+    // Each law's granular PIT travels in the stored results (law-count-pit.ts; randomised from the mixing laws' seed).
+    for (const l of mc.laws) {
+      expect(l.pit!.values, l.law).toHaveLength(10);
+      expect(l.pit!.uniformity.seed, l.law).toBe(9);
+    }
 
     // The same numbers as the CLI's --models independent,t,beta,logitNormal --copula-bootstrap 20 --seed 9 ...
     const dir = await mkdtemp(path.join(os.tmpdir(), 'rhobook-copula-'));

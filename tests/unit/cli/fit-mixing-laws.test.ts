@@ -35,9 +35,14 @@ describe('cli fit with the mixing laws', () => {
     expect(c.laws[0].logLik).toBe(binomialMle(panel).logLik);
     for (const l of c.laws) {
       expect(Object.keys(l)).toEqual(
-        expect.arrayContaining(['law', 'logLik', 'parameters', 'aic', 'bic', 'quantile99', 'quantile999', 'jointDefault', 'defaultCorrelation', 'tailDependence']),
+        expect.arrayContaining(['law', 'logLik', 'parameters', 'aic', 'bic', 'quantile99', 'quantile999', 'jointDefault', 'defaultCorrelation', 'tailDependence', 'pit']),
       );
+      // README's JSON section: the law's granular mid-PIT per year, the KS test on the randomised PIT from the mixing laws' seed, the tail years
+      expect(l.pit).toMatchObject({ method: 'mid', uniformity: { test: 'kolmogorov-smirnov', randomised: true, seed: 1 }, tails: { level: 0.01 } });
+      expect(l.pit!.values).toHaveLength(s.T);
     }
+    // the Gaussian row's PIT is the diagnostics' (the same convention, count-pit.ts)
+    c.laws[0].pit!.values.forEach((u, t) => expect(Math.abs(u - s.diagnostics.pit![t])).toBeLessThan(1e-9));
     expect(c.lrTestGaussianVsT).toMatchObject({ pValue: null, replications: 0 });
     expect(c.lrTestGaussianVsT!.pValueAsymptotic).toBeGreaterThan(0);
     expect(c.power).toBeNull();
