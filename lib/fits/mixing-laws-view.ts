@@ -188,3 +188,79 @@ export function mixingLawNotes(seg: Segment): string[] {
   return out;
 }
 
+
+/** The plain name of a law inside a sentence. */
+const LAW_IN_SENTENCE: Readonly<Record<MixingLaw, string>> = {
+  gaussian: 'the Gaussian copula',
+  t: 'the t copula',
+  beta: 'beta mixing',
+  logitNormal: 'logit-normal mixing',
+};
+
+/** The laws of the comparison that carry a PIT (fits stored before it was added carry none). */
+export function lawsWithPit(mc: Pick<ModelComparison, 'laws'>): (ModelComparison['laws'][number] & { pit: NonNullable<ModelComparison['laws'][number]['pit']> })[] {
+  return mc.laws.filter((l): l is ModelComparison['laws'][number] & { pit: NonNullable<ModelComparison['laws'][number]['pit']> } => !!l.pit);
+}
+
+/** What the PIT is, once, in words (the house wording spells the name out before "PIT"). */
+export const PIT_INTRODUCTION =
+  "The probability integral transform (PIT) of each year's default count under each law at its fitted values: the mid-PIT P(D < d) + P(D = d) / 2 of the count among that year's obligors (granular, so a year without defaults is not pushed to 0). If a law describes the years, its PIT values look like draws from the uniform law on (0, 1): values near 0 or 1 are years the law finds extreme.";
+
+/**
+ * Each law's PIT in sentences: the Kolmogorov-Smirnov test of uniformity (on the randomised PIT,
+ * with its seed) and what it says at 5%, and the years in the law's outer 1%. A law whose PIT could
+ * not be computed keeps its sentence; fits stored before the PIT was added say so once.
+ */
+export function pitSentences(seg: Segment): string[] {
+  const mc = seg.modelComparison;
+  if (!mc || mc.laws.length === 0) return [];
+  if (mc.laws.every((l) => l.pit === undefined)) return ['This fit was computed before the engine gave each law its probability integral transform (PIT): run the fit again to see it.'];
+  const label = (t: number) => seg.observed[t]?.period ?? `period ${t + 1}`;
+  const years = (ts: readonly number[]) => ts.map(label).join(', ');
+  const out: string[] = [];
+  for (const l of mc.laws) {
+    const name = LAW_IN_SENTENCE[l.law];
+    if (!l.pit) {
+      if (l.pit === null) out.push(l.pitNote ?? `The PIT under ${name} could not be computed.`);
+      continue;
+    }
+    const u = l.pit.uniformity;
+    const verdict =
+      u.pValue < COPULA_TEST_LEVEL
+        ? `so the PIT is not uniform at 5%: ${name} does not describe these years' counts`
+        : 'no evidence against uniformity at 5% (with this few years the test has little power)';
+    const tails = l.pit.tails;
+    const share = pct(tails.level, 1);
+    const half = pct(tails.level / 2, 1);
+    const parts = [
+      tails.upper.length > 0 ? `${years(tails.upper)} in the upper tail (P(D ≥ d) below ${half})` : null,
+      tails.lower.length > 0 ? `${years(tails.lower)} in the lower tail (P(D ≤ d) below ${half})` : null,
+    ].filter(Boolean);
+    const tailText = parts.length === 0 ? `no year lies in its outer ${share}` : `years in its outer ${share}: ${parts.join('; ')}`;
+    out.push(
+      `Under ${name}: Kolmogorov-Smirnov D = ${fixed(u.statistic, 3)}, p = ${pValue(u.pValue)} (exact, on the randomised PIT drawn with seed ${u.seed}), ${verdict}; ${tailText}.`,
+    );
+  }
+  out.push(
+    "The test's p-value does not allow for the law's values being fitted to the same years, so it tends to be too large; a law that passes is not shown to be right.",
+  );
+  return out;
+}
+
+/** The PIT table: one row per year (period, defaults of obligors) with each law's mid-PIT and whether the year is in that law's upper or lower tail. */
+export function pitRows(seg: Segment): { period: string; defaults: number; obligors: number; cells: { law: MixingLaw; value: number; tail: 'upper' | 'lower' | null }[] }[] {
+  const mc = seg.modelComparison;
+  if (!mc) return [];
+  const laws = lawsWithPit(mc);
+  if (laws.length === 0) return [];
+  return seg.observed.map((o, t) => ({
+    period: o.period,
+    defaults: o.defaults,
+    obligors: o.obligors,
+    cells: laws.map((l) => ({
+      law: l.law,
+      value: l.pit.values[t],
+      tail: l.pit.tails.upper.includes(t) ? ('upper' as const) : l.pit.tails.lower.includes(t) ? ('lower' as const) : null,
+    })),
+  }));
+}

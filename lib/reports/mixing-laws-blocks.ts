@@ -1,5 +1,5 @@
 import type { FitSegmentResult } from '@/lib/fits/results';
-import { fixed, pct, rho as rhoText } from '@/lib/format';
+import { fixed, integer, pct, rho as rhoText } from '@/lib/format';
 import {
   equivalentRhoText,
   lrTestSentences,
@@ -9,6 +9,9 @@ import {
   nuText,
   openInterval,
   parametersText,
+  PIT_INTRODUCTION,
+  pitRows,
+  pitSentences,
   powerSentence,
   smallRho,
 } from '@/lib/fits/mixing-laws-view';
@@ -20,7 +23,9 @@ export const MIXING_LAW_ESTIMATES: ReadonlySet<string> = new Set(['tCopula', 'be
 /**
  * The challenge of the Gaussian copula as a report section, in the words of the segment review
  * (lib/fits/mixing-laws-view.ts): the laws side by side, the test with its bootstrap p-value first,
- * the power, the identification of nu and the cautions; null when the fit did not run the laws.
+ * the power, the identification of nu, the cautions and each law's probability integral transform of
+ * every year (a table and its uniformity test and tail years in sentences); null when the fit did not
+ * run the laws.
  */
 export function mixingLawsSection(seg: FitSegmentResult, level: 2 | 3): Section | null {
   const mc = seg.modelComparison;
@@ -76,6 +81,26 @@ export function mixingLawsSection(seg: FitSegmentResult, level: 2 | 3): Section 
           ]
         : []),
       { kind: 'list' as const, items: sentences },
+      ...pitBlocks(seg),
     ],
   };
+}
+
+/** Each law's probability integral transform: the introduction, the per-year table and the sentences (the review's words). */
+function pitBlocks(seg: FitSegmentResult): Section['blocks'] {
+  const text = pitSentences(seg);
+  if (text.length === 0) return [];
+  const rows = pitRows(seg);
+  if (rows.length === 0) return [{ kind: 'list' as const, items: text }];
+  return [
+    { kind: 'p' as const, text: PIT_INTRODUCTION },
+    {
+      kind: 'table' as const,
+      caption: "Probability integral transform (PIT) of each year's default count under each law (mid-PIT; a year in a law's outer 1% is marked upper or lower)",
+      columns: ['Year', 'Defaults', ...rows[0].cells.map((c) => MIXING_LAW_LABELS[c.law])],
+      rows: rows.map((r) => [r.period, `${integer(r.defaults)} of ${integer(r.obligors)}`, ...r.cells.map((c) => `${fixed(c.value, 3)}${c.tail ? ` (${c.tail} tail)` : ''}`)]),
+      align: ['left', 'right', ...rows[0].cells.map(() => 'right' as const)] as ('left' | 'right')[],
+    },
+    { kind: 'list' as const, items: text },
+  ];
 }

@@ -1,5 +1,5 @@
 import { ScrollBox } from '@/components/layout/scroll-box';
-import { fixed, level, pct, rho } from '@/lib/format';
+import { fixed, integer, level, pct, rho } from '@/lib/format';
 import {
   equivalentRhoText,
   fittedLawsOf,
@@ -11,6 +11,9 @@ import {
   observedExceedance,
   openInterval,
   parametersText,
+  PIT_INTRODUCTION,
+  pitRows,
+  pitSentences,
   powerSentence,
   smallRho,
   tailCurves,
@@ -27,7 +30,8 @@ function ratio(x: number): string {
  * The challenge of the Gaussian copula: the other mixing laws fitted to the same years (the t
  * copula, beta and logit-normal mixing) side by side with the Gaussian one, what each implies for
  * the tail, the likelihood-ratio test of the Gaussian against the t copula with its bootstrap
- * p-value, the power of that test at these cohort sizes, the cautions, and the tail chart.
+ * p-value, the power of that test at these cohort sizes, the cautions, the tail chart, and each law's
+ * probability integral transform of every year with its uniformity test and tail years.
  */
 export function MixingLawsSection({ seg }: ReviewContext) {
   const mc = seg.modelComparison;
@@ -39,6 +43,8 @@ export function MixingLawsSection({ seg }: ReviewContext) {
   const curves = tailCurves(laws);
   const power = powerSentence(mc);
   const nuWeak = nuIdentificationSentence(t);
+  const pitTable = pitRows(seg);
+  const pitText = pitSentences(seg);
   return (
     <div className="space-y-4">
       <p className="text-sm">
@@ -157,6 +163,50 @@ export function MixingLawsSection({ seg }: ReviewContext) {
               .map((c) => ` ${MIXING_LAW_LABELS[c.law]} is not drawn: ${'reason' in c ? c.reason : ''}`)
               .join('')}
           </p>
+        </div>
+      ) : null}
+      {pitText.length > 0 ? (
+        <div className="space-y-2 text-sm" data-testid="mixing-law-pit">
+          {pitTable.length > 0 ? (
+            <>
+              <p>{PIT_INTRODUCTION}</p>
+              <ScrollBox label="The probability integral transform of each year under each law">
+                <table className="table text-sm" data-testid="mixing-law-pit-table">
+                  <caption className="sr-only">Probability integral transform (PIT) of each year&apos;s default count under each law</caption>
+                  <thead>
+                    <tr>
+                      <th>Year</th>
+                      <th className="text-right">Defaults</th>
+                      {pitTable[0].cells.map((c) => (
+                        <th key={c.law} className="text-right">
+                          {MIXING_LAW_LABELS[c.law]}
+                        </th>
+                      ))}
+                    </tr>
+                  </thead>
+                  <tbody>
+                    {pitTable.map((r) => (
+                      <tr key={r.period}>
+                        <td>{r.period}</td>
+                        <td className="num text-right whitespace-nowrap">
+                          {integer(r.defaults)} of {integer(r.obligors)}
+                        </td>
+                        {r.cells.map((c) => (
+                          <td key={c.law} className={`num text-right${c.tail ? ' font-semibold' : ''}`}>
+                            {fixed(c.value, 3)}
+                            {c.tail ? <span className="block text-xs text-[var(--color-muted)]">{c.tail} tail</span> : null}
+                          </td>
+                        ))}
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </ScrollBox>
+            </>
+          ) : null}
+          {pitText.map((s) => (
+            <p key={s}>{s}</p>
+          ))}
         </div>
       ) : null}
       <p className="text-xs text-[var(--color-muted)]">

@@ -6,6 +6,9 @@ import {
   nuText,
   observedExceedance,
   openInterval,
+  PIT_INTRODUCTION,
+  pitRows,
+  pitSentences,
   powerSentence,
   smallRho,
   tailCurves,
@@ -100,5 +103,66 @@ describe('the sentences of the mixing laws', () => {
       'No law can be compared on this segment: the Gaussian model has no maximum (The panel has no defaults: rho is not identified).',
       'Student-t copula: undefined. The panel has no defaults: p has no interior maximum, so the t copula is not estimated.',
     ]);
+  });
+});
+
+describe('the probability integral transform of each law', () => {
+  const law = (name: 'gaussian' | 't', pValue: number, upper: number[], lower: number[]) => ({
+    law: name,
+    logLik: -30,
+    parameters: 2,
+    aic: 64,
+    bic: 65,
+    quantile99: 0.05,
+    quantile999: 0.08,
+    quantile99Ratio: 1,
+    quantile999Ratio: 1,
+    jointDefault: 2e-4,
+    defaultCorrelation: 0.01,
+    tailDependence: 0,
+    pit: {
+      method: 'mid' as const,
+      values: [0.12, 0.999, 0.002],
+      below: [0.1, 0.998, 0],
+      atOrBelow: [0.14, 1, 0.004],
+      uniformity: { test: 'kolmogorov-smirnov' as const, randomised: true as const, seed: 9, statistic: 0.4567, pValue },
+      tails: { level: 0.01, upper, lower },
+    },
+  });
+  const seg = (laws: ReturnType<typeof law>[] | Record<string, unknown>[]) =>
+    ({
+      T: 3,
+      estimates: {},
+      observed: [
+        { period: '2019', obligors: 500, defaults: 3, dr: 0.006 },
+        { period: '2020', obligors: 500, defaults: 40, dr: 0.08 },
+        { period: '2021', obligors: 500, defaults: 0, dr: 0 },
+      ],
+      modelComparison: { laws, lrTestGaussianVsT: null, power: null, cautions: [] },
+    }) as unknown as FitSegmentResult;
+
+  it('spells out the name before PIT and gives each law its test, verdict at 5% and tail years by period', () => {
+    // the tail rule and the test are law-count-pit.ts's (Kolmogorov-Smirnov on the randomised PIT); the 5% level is common practice
+    expect(PIT_INTRODUCTION).toMatch(/^The probability integral transform \(PIT\)/);
+    const s = pitSentences(seg([law('gaussian', 0.02, [1], [2]), law('t', 0.5, [], [])]));
+    expect(s[0]).toBe(
+      "Under the Gaussian copula: Kolmogorov-Smirnov D = 0.457, p = 0.0200 (exact, on the randomised PIT drawn with seed 9), so the PIT is not uniform at 5%: the Gaussian copula does not describe these years' counts; years in its outer 1%: 2020 in the upper tail (P(D ≥ d) below 0.5%); 2021 in the lower tail (P(D ≤ d) below 0.5%).",
+    );
+    expect(s[1]).toMatch(/^Under the t copula: .* p = 0\.5000 .*no evidence against uniformity at 5% \(with this few years the test has little power\); no year lies in its outer 1%\.$/);
+    expect(s.at(-1)).toMatch(/does not allow for the law's values being fitted to the same years/);
+    const rows = pitRows(seg([law('gaussian', 0.02, [1], [2])]));
+    expect(rows.map((r) => [r.period, r.cells[0].value, r.cells[0].tail])).toEqual([
+      ['2019', 0.12, null],
+      ['2020', 0.999, 'upper'],
+      ['2021', 0.002, 'lower'],
+    ]);
+  });
+
+  it('says when a law has no PIT, and when the fit was stored before the PIT existed', () => {
+    const failed = { ...law('t', 0.5, [], []), pit: null, pitNote: 'The probability integral transform under the t copula could not be computed: x.' };
+    expect(pitSentences(seg([law('gaussian', 0.3, [], []), failed]))).toContain(failed.pitNote);
+    const { pit: _p, ...old } = law('gaussian', 0.3, [], []);
+    expect(pitSentences(seg([old]))).toEqual(['This fit was computed before the engine gave each law its probability integral transform (PIT): run the fit again to see it.']);
+    expect(pitRows(seg([old]))).toEqual([]);
   });
 });

@@ -38,6 +38,20 @@ describe('the mixing laws in the fit report', () => {
     expect(JSON.stringify(s)).not.toMatch(/NaN|undefined/);
   });
 
+  it("gives each law's probability integral transform year by year, in the review's words", () => {
+    const s = mixingLawsSection(withLaws, 3)!;
+    const intro = s.blocks.find((b) => b.kind === 'p');
+    expect(intro?.kind === 'p' && intro.text).toMatch(/^The probability integral transform \(PIT\) of each year's default count/);
+    const table = s.blocks.find((b) => b.kind === 'table' && b.columns[0] === 'Year');
+    expect(table?.kind === 'table' && table.columns).toEqual(['Year', 'Defaults', 'Gaussian copula (probit-normal)', 'Student-t copula', 'Beta mixing', 'Logit-normal mixing']);
+    expect(table?.kind === 'table' && table.rows.map((r) => r[0])).toEqual(panel.periods);
+    expect(table?.kind === 'table' && table.rows[0][1]).toBe('10 of 1,200');
+    // the Gaussian column is the diagnostics' mid-PIT (count-pit.ts, checked against SciPy by make_pit.py)
+    expect(table?.kind === 'table' && table.rows.map((r) => r[2].slice(0, 5))).toEqual(withLaws.diagnostics.pit!.map((u) => u.toFixed(3)));
+    const last = s.blocks.at(-1)!;
+    expect(last.kind === 'list' && last.items.filter((x) => x.startsWith('Under ')).length).toBe(4);
+  });
+
   it('leaves the other laws out of the estimates table and adds nothing to a fit that did not run them', () => {
     const table = estimatesTable(withLaws);
     expect(table.kind === 'table' && table.rows.map((r) => r[0])).toEqual((estimatesTable(without) as { rows: string[][] }).rows.map((r) => r[0]));
