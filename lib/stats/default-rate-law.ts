@@ -43,7 +43,10 @@ export interface DefaultRateLaw {
   readonly scale: RateScale;
   /** F = 0 below this y (a point mass or a bounded support); -Infinity when F > 0 everywhere. */
   readonly lower: number;
-  /** Writes log F(b(y)) and its first and second y-derivatives to out[0..2] (log F concave in y). */
+  /**
+   * Writes log F(b(y)) and its first and second y-derivatives to out[0..2] (log F concave in y),
+   * for y above `lower` (below it a law may write a smooth extension or -Infinity with a huge slope).
+   */
   logCdf(y: number, out: Float64Array): void;
 }
 
@@ -66,8 +69,9 @@ export function pointMassLaw(rate: number, scale: RateScale = 'probit'): Default
   return {
     scale,
     lower,
-    logCdf(y, out) {
-      if (y < lower) return belowSupport(out);
+    // F = 1 from `lower` on, where the integral runs; the constant extension below keeps the
+    // integrand smooth for the mode search, which the integrator then clamps to the range.
+    logCdf(_y, out) {
       out[0] = 0;
       out[1] = 0;
       out[2] = 0;
