@@ -228,7 +228,7 @@ export function pitSentences(seg: Segment): string[] {
     const verdict =
       u.pValue < COPULA_TEST_LEVEL
         ? `so the PIT is not uniform at 5%: ${name} does not describe these years' counts`
-        : 'no evidence against uniformity at 5% (with this few years the test has little power)';
+        : 'no evidence against uniformity at 5% (with so few years the test has little power)';
     const tails = l.pit.tails;
     const share = pct(tails.level, 1);
     const half = pct(tails.level / 2, 1);

@@ -60,8 +60,16 @@ test('a fit can challenge the Gaussian copula; the segment review shows the laws
   await expect(section.getByTestId('mixing-laws-chart')).toBeVisible();
   await expect(section.getByTestId('mixing-laws-chart').locator('path[data-law]')).toHaveCount(4);
   await expect(section).not.toContainText('NaN');
+  // Each law's probability integral transform, year by year, with its uniformity test in a sentence
+  const pit = section.getByTestId('mixing-law-pit');
+  await expect(pit).toContainText("The probability integral transform (PIT) of each year's default count under each law");
+  await expect(pit.getByTestId('mixing-law-pit-table').getByRole('columnheader')).toHaveText(['Year', 'Defaults', 'Gaussian copula (probit-normal)', 'Student-t copula', 'Beta mixing', 'Logit-normal mixing']);
+  await expect(pit.getByTestId('mixing-law-pit-table').getByRole('row').nth(1)).toHaveText(/^\d{4}[\d,]+ of [\d,]+(0\.\d{3}|1\.000)/);
+  await expect(pit).toContainText(/Under the Gaussian copula: Kolmogorov-Smirnov D = 0\.\d{3}, p = [\d.e-]+ \(exact, on the randomised PIT drawn with seed 11\)/);
+  await expect(pit).toContainText(/Under logit-normal mixing: Kolmogorov-Smirnov D = /);
   await index.getByRole('link', { name: title }).click();
   await keepScreenshot(page, testInfo, 'fit-segment-copula', { narrow: true });
+  await pit.screenshot({ path: testInfo.outputPath('fit-segment-copula-pit-1440.png') });
 
   // The API answers the blocks under the engine's names.
   const body = await (await page.request.get(`/api/fits/${fitId}`)).json();
@@ -69,4 +77,5 @@ test('a fit can challenge the Gaussian copula; the segment review shows the laws
   expect(Object.keys(seg.estimates.tCopula)).toEqual(expect.arrayContaining(['rho', 'pd', 'nu', 'logLik', 'status', 'intervals', 'nuInterval']));
   expect(seg.modelComparison.laws.map((l: { law: string }) => l.law)).toEqual(['gaussian', 't', 'beta', 'logitNormal']);
   expect(seg.modelComparison.lrTestGaussianVsT.replications + seg.modelComparison.lrTestGaussianVsT.failed).toBe(20);
+  for (const l of seg.modelComparison.laws) expect(l.pit).toMatchObject({ method: 'mid', uniformity: { test: 'kolmogorov-smirnov', seed: 11 } });
 });

@@ -148,7 +148,7 @@ describe('the probability integral transform of each law', () => {
     expect(s[0]).toBe(
       "Under the Gaussian copula: Kolmogorov-Smirnov D = 0.457, p = 0.0200 (exact, on the randomised PIT drawn with seed 9), so the PIT is not uniform at 5%: the Gaussian copula does not describe these years' counts; years in its outer 1%: 2020 in the upper tail (P(D ≥ d) below 0.5%); 2021 in the lower tail (P(D ≤ d) below 0.5%).",
     );
-    expect(s[1]).toMatch(/^Under the t copula: .* p = 0\.5000 .*no evidence against uniformity at 5% \(with this few years the test has little power\); no year lies in its outer 1%\.$/);
+    expect(s[1]).toMatch(/^Under the t copula: .* p = 0\.5000 .*no evidence against uniformity at 5% \(with so few years the test has little power\); no year lies in its outer 1%\.$/);
     expect(s.at(-1)).toMatch(/does not allow for the law's values being fitted to the same years/);
     const rows = pitRows(seg([law('gaussian', 0.02, [1], [2])]));
     expect(rows.map((r) => [r.period, r.cells[0].value, r.cells[0].tail])).toEqual([
