@@ -8,7 +8,7 @@
  * merges slices.
  */
 import { sortedQuantile } from './intervals/bootstrap';
-import { tCopulaMle } from './estimators/t-copula-mle';
+import { tCopulaMaxima } from './estimators/t-copula-mle';
 import { lrTestRhoZero } from './lr-test';
 import type { Panel } from './panel';
 import { createRng, deriveSeed } from './random';
@@ -59,14 +59,15 @@ export interface CopulaLrTest {
 
 /**
  * The likelihood-ratio statistic of the Gaussian copula against the t copula on one panel:
- * 2 (max l_t - max l_Gaussian), both maxima from tCopulaMle (the Gaussian one is its 1/nu = 0
- * candidate, so the statistic is never negative).
+ * 2 (max l_t - max l_Gaussian), both maxima from tCopulaMaxima (tCopulaMle's search without what
+ * only its intervals and profile need; the Gaussian maximum is a candidate of the t search, so the
+ * statistic is never negative). It agrees with the statistic of tCopulaMle to within 1e-4.
  *
  * Special cases: a panel on which the t copula is undefined (no defaults, one year) gives null with
  * the estimator's sentence.
  */
 export function copulaLrStatistic(panel: Panel): { statistic: number | null; reason?: string } {
-  const fit = tCopulaMle(panel, { intervals: false });
+  const fit = tCopulaMaxima(panel);
   if (fit.logLik === null || fit.gaussianLogLik === null) return { statistic: null, reason: fit.reason ?? 'The t copula could not be fitted.' };
   if (fit.status === 'not-converged') return { statistic: null, reason: fit.reason ?? 'The search did not converge.' };
   return { statistic: Math.max(0, 2 * (fit.logLik - fit.gaussianLogLik)) };

@@ -14,6 +14,17 @@ export interface GridMaximum {
   grid: { x: number; value: number }[];
 }
 
+/** Options of {@link gridMaximize}. */
+export interface GridMaximizeOptions {
+  /**
+   * A cheaper stand-in for f(probe) at the probe next to the best end (see gridMaximize), on the
+   * same side of f(end) as f(probe): for a profile, the function with its inner parameters held at
+   * their maximum at the end, which differs from f(probe) only in the second order of the probe's
+   * tiny step (envelope theorem) and is never above it. Absent, or returning undefined: f itself.
+   */
+  endProbe?: (end: number, probe: number) => number | undefined;
+}
+
 /**
  * Maximises f on [grid[0], grid[last]]: evaluates f at every grid point (ascending, the ends
  * included), then runs Brent's localmin on -f between the neighbours of the best grid point, and
@@ -31,7 +42,12 @@ export interface GridMaximum {
  *
  * Reference: Brent, R. P. (1973), Algorithms for Minimization without Derivatives, ch. 5.
  */
-export function gridMaximize(f: (x: number) => number, grid: readonly number[], tolerance = 1e-7): GridMaximum {
+export function gridMaximize(
+  f: (x: number) => number,
+  grid: readonly number[],
+  tolerance = 1e-7,
+  options: GridMaximizeOptions = {},
+): GridMaximum {
   if (grid.length < 2) throw new RangeError('gridMaximize: the grid needs at least two points.');
   for (let i = 1; i < grid.length; i++) {
     if (!(grid[i] > grid[i - 1])) throw new RangeError(`gridMaximize: the grid must be strictly ascending; point ${i} is ${grid[i]} after ${grid[i - 1]}.`);
@@ -50,7 +66,8 @@ export function gridMaximize(f: (x: number) => number, grid: readonly number[], 
     // maximum is the end itself (the function falls into the interval) before any search.
     const end = grid[best];
     const probe = end + 1e-3 * (grid[best === 0 ? 1 : last - 1] - end);
-    if (f(probe) <= values[best]) return { x: end, value: values[best], converged: true, grid: table };
+    const atProbe = options.endProbe?.(end, probe) ?? f(probe);
+    if (atProbe <= values[best]) return { x: end, value: values[best], converged: true, grid: table };
   }
   const lo = grid[Math.max(0, best - 1)];
   const hi = grid[Math.min(grid.length - 1, best + 1)];

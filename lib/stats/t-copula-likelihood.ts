@@ -18,7 +18,7 @@ import { MixtureLikelihood, type IntegrationReport } from './mixture-likelihood'
 import { normalCdf, normalQuantile } from './normal';
 import { assertPanel, type Panel } from './panel';
 import { TCopulaPeriodIntegrand, T_COPULA_MOMENTS } from './t-copula-mixing';
-import { ThresholdLikelihood } from './threshold-likelihood';
+import { FULL_TABLE_ACCURACY, ThresholdLikelihood, type TableAccuracy } from './threshold-likelihood';
 
 /** Sets of inner tables kept for recent values of rho (a search returns to its grid points). */
 const KEPT_TABLES = 24;
@@ -71,8 +71,11 @@ export function tQuantile(q: number, nu: number): number {
  * s = sqrt(V / nu) with curvature bound nu on (0, inf), inner over the normal factor: exactly, or
  * with `tabulate` (the default) from the period's verified table of the inner likelihood in its
  * threshold at the current rho, which a search over p and nu at one rho reuses); the
- * k_nu-derivatives are outer posterior moments (t-copula-mixing.ts). Accuracy is checked against a
- * brute-force two-dimensional SciPy rule in tests/unit/stats/t-copula-likelihood.test.ts.
+ * k_nu-derivatives are outer posterior moments (t-copula-mixing.ts). Periods with the same counts
+ * (n, d) share one integral (and one table), counted as many times as they occur: the panel's sum
+ * is the same, and a panel of equal cohorts with repeated counts (several years without a default)
+ * costs less. Accuracy is checked against a brute-force two-dimensional SciPy rule in
+ * tests/unit/stats/t-copula-likelihood.test.ts.
  *
  * Special cases: nu = Infinity delegates to MixtureLikelihood; rho must be in [0, 1), nu > 1 (the
  * estimator keeps nu > 2), k_nu finite; otherwise RangeError. A failed period integral throws a
@@ -85,12 +88,19 @@ export class TCopulaLikelihood {
   /** Total defaults / total obligors. */
   readonly pooledRate: number;
   private readonly logChoose: Float64Array;
+  /**
+   * Periods with the same counts (n, d) have the same integral at every parameter: one integral per
+   * group, weighted by its size (a panel of equal cohorts often repeats a count, zero above all).
+   */
+  private readonly groupFirst: Int32Array;
+  private readonly groupSize: Float64Array;
   private readonly warm: PeriodWarmStarts;
   private readonly integrand = new TCopulaPeriodIntegrand();
   /** The periods' inner likelihoods in the threshold, one set per recent rho (most recent last). */
   private readonly tables = new Map<number, ThresholdLikelihood[]>();
   /** Read the inner Gaussian likelihood from verified tables (threshold-likelihood.ts) instead of integrating each time. */
   private readonly tabulate: boolean;
+  private readonly tableAccuracy: Readonly<TableAccuracy>;
   private readonly integrator = new LogConcaveIntegrator(T_COPULA_MOMENTS);
   private readonly gaussian: MixtureLikelihood;
   private lastNu = Number.NaN;
@@ -100,22 +110,41 @@ export class TCopulaLikelihood {
     return this.warm.unconverged;
   }
 
-  constructor(panel: Panel, options: { tabulate?: boolean } = {}) {
+  /**
+   * @param options.tabulate read the inner likelihood from verified tables (default true);
+   * options.tableAccuracy their spacing and tolerances (default FULL_TABLE_ACCURACY, 1e-10).
+   */
+  constructor(panel: Panel, options: { tabulate?: boolean; tableAccuracy?: Readonly<TableAccuracy> } = {}) {
     assertPanel(panel, 'TCopulaLikelihood');
     this.tabulate = options.tabulate ?? true;
+    this.tableAccuracy = options.tableAccuracy ?? FULL_TABLE_ACCURACY;
     const T = panel.obligors.length;
     this.periods = T;
     this.obligors = Float64Array.from(panel.obligors);
     this.defaults = Float64Array.from(panel.defaults);
     this.logChoose = new Float64Array(T);
-    this.warm = new PeriodWarmStarts(T);
     let sn = 0;
     let sd = 0;
+    const groupOf = new Map<string, number>();
+    const first: number[] = [];
+    const size: number[] = [];
     for (let t = 0; t < T; t++) {
       this.logChoose[t] = logBinomialCoefficient(this.obligors[t], this.defaults[t]);
       sn += this.obligors[t];
       sd += this.defaults[t];
+      const key = `${this.obligors[t]}/${this.defaults[t]}`;
+      const g = groupOf.get(key);
+      if (g === undefined) {
+        groupOf.set(key, first.length);
+        first.push(t);
+        size.push(1);
+      } else {
+        size[g]++;
+      }
     }
+    this.groupFirst = Int32Array.from(first);
+    this.groupSize = Float64Array.from(size);
+    this.warm = new PeriodWarmStarts(first.length);
     this.pooledRate = sd / sn;
     this.gaussian = new MixtureLikelihood(panel);
   }
@@ -132,7 +161,7 @@ export class TCopulaLikelihood {
 
   private tableMisses = 0;
 
-  /** The inner likelihoods of every period at rho: a kept set (moved to most recent) or a new one. */
+  /** The inner likelihoods of every group of periods at rho: a kept set (moved to most recent) or a new one. */
   private tablesAt(rho: number): ThresholdLikelihood[] {
     const kept = this.tables.get(rho);
     if (kept !== undefined) {
@@ -146,8 +175,8 @@ export class TCopulaLikelihood {
       this.tableMisses += dropped.reduce((s, i) => s + i.unconverged, 0);
       this.tables.delete(oldest);
     }
-    const made = Array.from({ length: this.periods }, (_, t) => {
-      const inner = new ThresholdLikelihood();
+    const made = Array.from(this.groupFirst, (t) => {
+      const inner = new ThresholdLikelihood(this.tableAccuracy);
       inner.set(this.obligors[t], this.defaults[t], this.logChoose[t], rho);
       return inner;
     });
@@ -163,6 +192,14 @@ export class TCopulaLikelihood {
   /** Log-likelihood and its first two k_nu-derivatives at (k_nu, rho, nu). */
   logLikWithDerivatives(kt: number, rho: number, nu: number): TCopulaLogLik {
     return this.evaluate(kt, rho, nu, true);
+  }
+
+  /** The sentence of a failed integral of group g: its first period, the others with the same counts, the parameters. */
+  private failure(g: number, kt: number, rho: number, nu: number, reason: string | undefined): string {
+    const t = this.groupFirst[g];
+    const others = this.groupSize[g] - 1;
+    const same = others > 0 ? ` and ${others} other period${others === 1 ? '' : 's'} with the same counts` : '';
+    return `t-copula log-likelihood: the integral of period ${t + 1}${same} (n = ${this.obligors[t]}, d = ${this.defaults[t]}) failed at k_nu = ${kt}, rho = ${rho}, nu = ${nu}: ${reason}.`;
   }
 
   private evaluate(kt: number, rho: number, nu: number, derivatives: boolean): TCopulaLogLik {
@@ -184,15 +221,17 @@ export class TCopulaLikelihood {
     let value = 0;
     let dk = 0;
     let dkk = 0;
-    for (let t = 0; t < this.periods; t++) {
-      f.setPeriod(inner[t], this.tabulate);
-      const r = this.integrator.integrate(f, this.warm.options(t, { curvatureBound: nu, lower: 0 }));
-      this.warm.record(t, r, () => `t-copula log-likelihood: the integral of period ${t + 1} (n = ${this.obligors[t]}, d = ${this.defaults[t]}) failed at k_nu = ${kt}, rho = ${rho}, nu = ${nu}: ${r.reason}.`);
-      value += r.value;
+    const groups = this.groupFirst.length;
+    for (let g = 0; g < groups; g++) {
+      f.setPeriod(inner[g], this.tabulate);
+      const r = this.integrator.integrate(f, this.warm.options(g, { curvatureBound: nu, lower: 0 }));
+      this.warm.record(g, r, () => this.failure(g, kt, rho, nu, r.reason));
+      const m = this.groupSize[g];
+      value += m * r.value;
       if (derivatives) {
         const uMode = f.uAtMode;
-        dk += uMode + M[0];
-        dkk += M[2] + Math.max(0, M[1] - M[0] * M[0]);
+        dk += m * (uMode + M[0]);
+        dkk += m * (M[2] + Math.max(0, M[1] - M[0] * M[0]));
       }
     }
     if (!Number.isFinite(value) || (derivatives && !(Number.isFinite(dk) && Number.isFinite(dkk)))) {

@@ -13,7 +13,7 @@
  * d log Phi(z) + (n - d) log Phi(-z), d log L_G / dc = E[h1] / sqrt(1 - rho) and
  * d^2 log L_G / dc^2 = (E[h2] + Var h1) / (1 - rho), posterior moments of the integral.
  *
- * Table (Method): nodes c_i = i h0 (h0 = 1/32) computed when first needed; log L_G between two
+ * Table (Method): nodes c_i = i h0 (h0 = 1/2) computed when first needed; log L_G between two
  * nodes by quintic Hermite interpolation from the values and both derivatives at the ends (error
  * O(h^6)). Before an interval is used, the interpolant is checked at its midpoint against an exact
  * evaluation; when they differ by more than 1e-10 max(1, D) (absolute, log-units; D the drop of the
@@ -22,7 +22,9 @@
  * every interval in use is verified at one interior point, cliffs (a zero-default year at high
  * rho) are refined where they are and smooth stretches stay coarse. The log-values are concave in
  * c (Prekopa 1973), so an interpolant that agrees at three points and two slopes per end has no
- * room for a hidden bump of the size of the tolerance between them.
+ * room for a hidden bump of the size of the tolerance between them. A caller that needs less
+ * (the likelihood-ratio statistic of a bootstrap replication) may lay a coarser table with looser
+ * tolerances ({@link TableAccuracy}); every estimate and interval uses the default.
  *
  * References: Gordy, M. B. & Heitfield, E. (2002), Federal Reserve Board working paper, eq. (4);
  * Burden, R. L. & Faires, J. D. (2011), Numerical Analysis, 9th ed., section 3.4 (Hermite
@@ -41,6 +43,19 @@ const MAX_LEVEL = 16;
 export const TABLE_TOLERANCE = 1e-10;
 /** Largest relative disagreement of the interpolated slope at a midpoint. */
 const SLOPE_TOLERANCE = 1e-7;
+
+/**
+ * How a table is laid and verified: base spacing in c, and the largest disagreement of value
+ * (absolute, log-units, times max(1, drop)) and slope (relative) at each interval's midpoint.
+ */
+export interface TableAccuracy {
+  spacing: number;
+  tolerance: number;
+  slopeTolerance: number;
+}
+
+/** The default: verified to 1e-10 at each midpoint, what every estimate and interval uses. */
+export const FULL_TABLE_ACCURACY: Readonly<TableAccuracy> = { spacing: TABLE_SPACING, tolerance: TABLE_TOLERANCE, slopeTolerance: SLOPE_TOLERANCE };
 
 /** One exactly evaluated point: log L_G, D1, D2 at c. */
 interface TableNode {
@@ -86,6 +101,19 @@ export class ThresholdLikelihood {
   private readonly nodes = new Map<number, TableNode>();
   /** The largest log L_G of the table so far (the tolerance loosens with the drop below it). */
   private top = Number.NEGATIVE_INFINITY;
+  private readonly spacing: number;
+  private readonly tolerance: number;
+  private readonly slopeTolerance: number;
+
+  /** @param accuracy the table's spacing and tolerances (default {@link FULL_TABLE_ACCURACY}). */
+  constructor(accuracy: Readonly<TableAccuracy> = FULL_TABLE_ACCURACY) {
+    if (!(accuracy.spacing > 0 && accuracy.tolerance > 0 && accuracy.slopeTolerance > 0)) {
+      throw new RangeError('ThresholdLikelihood: the table spacing and tolerances must be positive.');
+    }
+    this.spacing = accuracy.spacing;
+    this.tolerance = accuracy.tolerance;
+    this.slopeTolerance = accuracy.slopeTolerance;
+  }
 
   /** Sets the period and rho in [0, 1); clears the table when either changes. */
   set(n: number, d: number, logC: number, rho: number): void {
@@ -145,10 +173,11 @@ export class ThresholdLikelihood {
       this.exact(c);
       return;
     }
-    const i = Math.floor(c / TABLE_SPACING);
+    const h0 = this.spacing;
+    const i = Math.floor(c / h0);
     let interval = this.intervals.get(i);
     if (interval === undefined) {
-      const made = this.makeInterval(this.node(i * TABLE_SPACING, i), this.node((i + 1) * TABLE_SPACING, i + 1), 0);
+      const made = this.makeInterval(this.node(i * h0, i), this.node((i + 1) * h0, i + 1), 0);
       if (made === null) {
         this.exact(c);
         return;
@@ -186,7 +215,7 @@ export class ThresholdLikelihood {
     if (mid.v > this.top) this.top = mid.v;
     const scale = Math.max(1, this.top - mid.v);
     const close =
-      Math.abs(this.value - mid.v) <= TABLE_TOLERANCE * scale && Math.abs(this.d1 - mid.d1) <= SLOPE_TOLERANCE * scale * Math.max(1, Math.abs(mid.d1));
+      Math.abs(this.value - mid.v) <= this.tolerance * scale && Math.abs(this.d1 - mid.d1) <= this.slopeTolerance * scale * Math.max(1, Math.abs(mid.d1));
     if (close || level >= MAX_LEVEL) {
       if (!close) this.unconverged++;
       return { a, b, left: null, right: null };
