@@ -39,6 +39,18 @@ export class PeriodWarmStarts {
   }
 
   /**
+   * The same as {@link options}, written into `out` (whose curvature bound, limits and tolerances
+   * the caller set once): no object is made per integral in a likelihood's inner loop.
+   */
+  optionsInto(t: number, out: LogConcaveOptions): LogConcaveOptions {
+    const warm = this.has[t] === 1;
+    out.start = warm ? this.modes[t] : undefined;
+    out.leftWidth = warm ? this.widths[2 * t] : undefined;
+    out.rightWidth = warm ? this.widths[2 * t + 1] : undefined;
+    return out;
+  }
+
+  /**
    * Keeps period t's result as its next warm start. A result whose value is not finite forgets the
    * period's warm start and throws a RangeError with the caller's sentence; a finite result above
    * the tolerance is counted in `unconverged`.

@@ -11,7 +11,7 @@
  */
 import studentTCdf from '@stdlib/stats-base-dists-t-cdf';
 import studentTQuantile from '@stdlib/stats-base-dists-t-quantile';
-import { LogConcaveIntegrator } from './log-concave-integral';
+import { LogConcaveIntegrator, type LogConcaveOptions } from './log-concave-integral';
 import { PeriodWarmStarts } from './period-warm-starts';
 import { logBinomialCoefficient } from './log-binomial';
 import { MixtureLikelihood, type IntegrationReport } from './mixture-likelihood';
@@ -104,6 +104,8 @@ export class TCopulaLikelihood {
   private readonly integrator = new LogConcaveIntegrator(T_COPULA_MOMENTS);
   private readonly gaussian: MixtureLikelihood;
   private lastNu = Number.NaN;
+  /** The outer integrals' options, reused (curvature bound nu, lower limit 0, the period's warm start). */
+  private readonly options: LogConcaveOptions = { curvatureBound: 2, lower: 0 };
   evaluations = 0;
   /** Period integrals that missed the tolerance of the adaptive rule (their finite values are used). */
   get unconverged(): number {
@@ -222,9 +224,11 @@ export class TCopulaLikelihood {
     let dk = 0;
     let dkk = 0;
     const groups = this.groupFirst.length;
+    const options = this.options;
+    options.curvatureBound = nu;
     for (let g = 0; g < groups; g++) {
       f.setPeriod(inner[g], this.tabulate);
-      const r = this.integrator.integrate(f, this.warm.options(g, { curvatureBound: nu, lower: 0 }));
+      const r = this.integrator.integrate(f, this.warm.optionsInto(g, options));
       this.warm.record(g, r, () => this.failure(g, kt, rho, nu, r.reason));
       const m = this.groupSize[g];
       value += m * r.value;
