@@ -113,7 +113,7 @@ export class TCopulaProfile {
       const decrement = cur.dkk < 0 ? (cur.dk * cur.dk) / -cur.dkk : Number.POSITIVE_INFINITY;
       if (decrement < this.decrement) {
         // The last Newton step is not taken but extrapolated: l + decrement / 2 at k - l_k / l_kk
-        // (error of order l_kkk step^3, below 1e-12 here), as binomialMle's inner maximisation.
+        // (error of order l_kkk step^3, below 1e-12 at the default decrement), as binomialMle's inner maximisation.
         value = cur.value + 0.5 * decrement;
         kt -= cur.dk / cur.dkk;
         converged = true;
@@ -341,7 +341,7 @@ export interface TCopulaMaxima {
  * the nu profile at 1/nu = 0 (each sqrt(rho) on its grid, then Brent), the t maximum the search
  * with rho outside and (p, nu) inside (both grids with their bounds as candidates), without the
  * nu profile's other grid points (a second way to the same maximum, which tCopulaMle keeps for
- * the profile's shape) and without evaluating the maximum again. Two levers more: (1) when the
+ * the profile's shape) and without evaluating the maximum again. Three levers more: (1) when the
  * best sqrt(rho) of the grid is 0, the probe that decides whether rho = 0 is the maximum holds
  * 1/nu at its maximum at rho = 0 instead of searching it again (envelope theorem: the difference
  * is of second order in the probe's step of 1.5e-4 in sqrt(rho), and tables at rho ~ 2e-8 are
