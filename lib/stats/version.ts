@@ -13,4 +13,4 @@
  * When in doubt, bump MINOR: a stored result claiming a version whose code would now give another
  * value is the failure this constant exists to prevent.
  */
-export const ENGINE_VERSION = '3.3.0';
+export const ENGINE_VERSION = '3.4.0';
