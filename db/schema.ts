@@ -812,3 +812,129 @@ export const fitRunSegments = mysqlTable(
   },
   (t) => [primaryKey({ columns: [t.fitRunId, t.position] }), index('fit_run_segments_job_idx').on(t.jobId)],
 );
+
+// ---------------------------------------------------------------------------------------------
+// Factor-correlation matrices (lib/factor-matrices, lib/dal/factor-matrices/): a published
+// assumption of its own kind, the correlation matrix between segments' systematic factors from a
+// fit's `pairs` block, under the same lifecycle as the segment assumptions (lib/assumptions/lifecycle.ts)
+// ---------------------------------------------------------------------------------------------
+
+/** One matrix assumption per set of segments (the key: the segments sorted and joined by a newline); its content lives in versions. */
+export const factorMatrices = mysqlTable(
+  'factor_matrices',
+  {
+    id: int('id').autoincrement().primaryKey(),
+    /** The segments of the set, sorted and joined by "\n" (unique: one assumption per set). */
+    segmentKey: varchar('segment_key', { length: 2700 }).notNull(),
+    /** The segments as drafted first ([] of names), for display. */
+    segments: json('segments').$type<string[]>().notNull(),
+    /** SHA-256 of segmentKey, unique (a long key cannot be indexed whole). */
+    keyHash: varchar('key_hash', { length: 64 }).notNull(),
+    createdBy: int('created_by')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [uniqueIndex('factor_matrices_key_uq').on(t.keyHash)],
+);
+export type FactorMatrix = typeof factorMatrices.$inferSelect;
+
+/** One pair of a matrix version, frozen from the fit (lib/stats/factor-correlation.ts). */
+export type FactorMatrixPair = {
+  a: string;
+  b: string;
+  /** Maximum-likelihood r and the ends of its profile-likelihood interval at `level`. */
+  r: number;
+  lower: number;
+  upper: number;
+  level: number;
+  /** The moment version (Pearson correlation of the implied factor series); null when undefined. */
+  moment: number | null;
+  /** The pair's common window. */
+  periods: string[];
+};
+
+/**
+ * A version of a matrix assumption: the evidence (fit run, dataset hash, engine version, seeds,
+ * window, every pair with its interval, the estimated matrix and its nearest correlation matrix)
+ * frozen at drafting, the analyst's margin and judgement, the value to use (a valid correlation
+ * matrix), the decision. Same statuses and rules as assumption_versions.
+ */
+export const factorMatrixVersions = mysqlTable(
+  'factor_matrix_versions',
+  {
+    id: int('id').autoincrement().primaryKey(),
+    matrixId: int('matrix_id')
+      .notNull()
+      .references(() => factorMatrices.id, { onDelete: 'restrict' }),
+    version: int('version').notNull(),
+    status: mysqlEnum('status', assumptionStatuses).notNull().default('draft'),
+    // Evidence, frozen at drafting.
+    fitRunId: bigint('fit_run_id', { mode: 'number' }).references(() => fitRuns.id, { onDelete: 'restrict' }),
+    datasetId: bigint('dataset_id', { mode: 'number' }).references(() => datasets.id, { onDelete: 'restrict' }),
+    datasetSha256: varchar('dataset_sha256', { length: 64 }).notNull(),
+    engineVersion: varchar('engine_version', { length: 60 }).notNull(),
+    seeds: json('seeds').notNull(),
+    windowFrom: varchar('window_from', { length: 20 }).notNull(),
+    windowTo: varchar('window_to', { length: 20 }).notNull(),
+    /** The segments in the order of the matrix rows. */
+    segments: json('segments').$type<string[]>().notNull(),
+    pairs: json('pairs').$type<FactorMatrixPair[]>().notNull(),
+    /** The pairwise estimates as a matrix (1 on the diagonal). */
+    estimated: json('estimated').$type<number[][]>().notNull(),
+    smallestEigenvalue: double('smallest_eigenvalue').notNull(),
+    /** Higham's nearest correlation matrix when `estimated` is not PSD, and the entry it moved most; else null. */
+    nearest: json('nearest').$type<number[][]>(),
+    largestChange: json('largest_change').$type<{ a: string; b: string; from: number; to: number }>(),
+    // The analyst's judgement.
+    /** A uniform add-on to the off-diagonal entries (>= 0) and its rationale. */
+    margin: double('margin').notNull().default(0),
+    marginRationale: text('margin_rationale').notNull(),
+    /** The matrix to use: the base (nearest or estimated) plus the margin, checked valid. */
+    value: json('value').$type<number[][]>().notNull(),
+    valueSmallestEigenvalue: double('value_smallest_eigenvalue').notNull(),
+    intendedUses: text('intended_uses').notNull(),
+    limitations: text('limitations').notNull(),
+    effectiveDate: date('effective_date', { mode: 'string' }).notNull(),
+    reviewBy: date('review_by', { mode: 'string' }).notNull(),
+    contentHash: varchar('content_hash', { length: 64 }).notNull(),
+    // People and decisions.
+    authorId: int('author_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    validatorId: int('validator_id').references(() => users.id, { onDelete: 'restrict' }),
+    decisionComment: text('decision_comment'),
+    decidedAt: datetime('decided_at', { mode: 'date', fsp: 3 }),
+    publishedAt: datetime('published_at', { mode: 'date', fsp: 3 }),
+    endedAt: datetime('ended_at', { mode: 'date', fsp: 3 }),
+    createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [
+    uniqueIndex('factor_matrix_versions_uq').on(t.matrixId, t.version),
+    index('factor_matrix_versions_status_idx').on(t.status, t.effectiveDate),
+  ],
+);
+export type FactorMatrixVersion = typeof factorMatrixVersions.$inferSelect;
+
+/** Append-only audit trail of the matrix versions (triggers in the migration refuse UPDATE and DELETE). */
+export const factorMatrixAudit = mysqlTable(
+  'factor_matrix_audit',
+  {
+    id: bigint('id', { mode: 'number' }).autoincrement().primaryKey(),
+    matrixId: int('matrix_id').notNull(),
+    versionId: int('version_id').notNull(),
+    version: int('version').notNull(),
+    action: varchar('action', { length: 30 }).notNull(),
+    actorId: int('actor_id'),
+    actorEmail: varchar('actor_email', { length: 254 }).notNull(),
+    actorRole: varchar('actor_role', { length: 20 }).notNull(),
+    fromStatus: varchar('from_status', { length: 20 }),
+    toStatus: varchar('to_status', { length: 20 }).notNull(),
+    comment: text('comment'),
+    contentHash: varchar('content_hash', { length: 64 }).notNull(),
+    at: datetime('at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [index('factor_matrix_audit_matrix_idx').on(t.matrixId, t.id), index('factor_matrix_audit_version_idx').on(t.versionId)],
+);
+export type FactorMatrixAuditRow = typeof factorMatrixAudit.$inferSelect;

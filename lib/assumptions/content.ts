@@ -103,7 +103,8 @@ export const contentFields = [
   'reviewBy',
 ] as const satisfies readonly (keyof VersionContent)[];
 
-function canonical(v: unknown): string {
+/** Canonical JSON (keys sorted, undefined left out): what every content hash of the library is taken of. */
+export function canonical(v: unknown): string {
   if (v === null || typeof v !== 'object') return JSON.stringify(v ?? null);
   if (Array.isArray(v)) return `[${v.map(canonical).join(',')}]`;
   const o = v as Record<string, unknown>;

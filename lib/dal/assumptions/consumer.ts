@@ -33,7 +33,7 @@ async function withEvidence(db: DbOrTx, dtos: VersionDto[], review: (v: VersionD
   return dtos.map((v) => ({ ...v, evidence: evidence.get(v.id)!, review: review(v) }));
 }
 
-function assertConsumer(p: Consumer, scope: TokenScope): void {
+export function assertConsumer(p: Consumer, scope: TokenScope): void {
   if ('kind' in p && p.kind === 'token') {
     if (!p.scopes.includes(scope)) throw new AppError('forbidden:token-scope', `This API token does not carry the scope ${scope}.`);
     return;

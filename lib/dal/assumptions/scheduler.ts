@@ -7,6 +7,7 @@ import { daysBetween, todayIso } from '@/lib/assumptions/dates';
 import { backDatingProblem } from '@/lib/assumptions/lifecycle';
 import type { MailKind } from '@/lib/mail/templates';
 import { sweepEvidence } from '../evidence-store';
+import { publishDueMatrices } from '../factor-matrices/writes';
 import { queueFindingReminders } from '../findings';
 import { notifyModels } from '../model-notify';
 import { overduePolicyIn } from '../overdue-policy';
@@ -39,6 +40,8 @@ export type ScheduleReport = {
   findingReminders: number;
   /** Approved versions not published because their effective date is before their approval date. */
   refused: { id: number; reason: string }[];
+  /** Factor-correlation matrix versions published, and those refused as back-dated (lib/dal/factor-matrices). */
+  matrices: { published: number[]; refused: { id: number; reason: string }[] };
 };
 
 export async function runScheduledTransitions(now: Date = new Date(), db: Db = getDb()): Promise<ScheduleReport> {
@@ -52,6 +55,7 @@ export async function runScheduledTransitions(now: Date = new Date(), db: Db = g
     reminders: 0,
     findingReminders: 0,
     refused: [],
+    matrices: { published: [], refused: [] },
   };
 
   const due = await db
@@ -72,6 +76,8 @@ export async function runScheduledTransitions(now: Date = new Date(), db: Db = g
       report.published.push(id);
     });
   }
+
+  report.matrices = await publishDueMatrices(now, db);
 
   const stale = await db
     .select({ id: assumptionVersions.id })

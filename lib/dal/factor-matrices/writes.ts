@@ -1,0 +1,187 @@
+import 'server-only';
+import { and, asc, eq, lte } from 'drizzle-orm';
+import { getDb } from '@/db/client';
+import type { Db, Tx } from '@/db/connection';
+import { transactionWithRetry } from '@/db/transaction';
+import { factorMatrices, factorMatrixVersions, type AssumptionStatus, type FactorMatrixVersion } from '@/db/schema';
+import { defaultReviewBy, todayIso } from '@/lib/assumptions/dates';
+import { backDatingProblem, openStatuses, planTransition, statusLabels, type UserAction } from '@/lib/assumptions/lifecycle';
+import { assertCan, type SessionUser } from '@/lib/auth/guard';
+import { AppError, parseOrThrow } from '@/lib/errors';
+import {
+  matrixContentHash,
+  matrixDraftSchema,
+  matrixJudgementProblem,
+  matrixValue,
+  pickMatrixEvidence,
+  segmentKey,
+  segmentKeyHash,
+  type MatrixContent,
+  type MatrixDraftInput,
+  type MatrixVersionDto,
+} from '@/lib/factor-matrices/content';
+import { asActor, SYSTEM, type Actor } from '../assumptions/actors';
+import { loadFitEvidence } from '../fit-evidence';
+import { appendMatrixAudit, lockMatrixVersion, matrixDtos } from './rows';
+
+/**
+ * The writes of a factor-correlation matrix's lifecycle: drafting from a fit, every transition (the
+ * rules of lib/assumptions/lifecycle.ts: the same roles, maker-checker, required comments and
+ * back-dating refusal as the segment assumptions), and the scheduler's publication, each in one
+ * transaction with its audit row. Every write takes its time (`now`) so tests and the seed can
+ * write a history through the same rules.
+ */
+
+/**
+ * Drafts a new version of the matrix assumption of a fit's set of segments. Only analysts draft.
+ * The evidence (fit run, dataset hash, engine version, seeds, every pair with its interval, the
+ * estimated and nearest matrices) is copied and frozen; the value is checked to be a valid
+ * correlation matrix. A set of segments has at most one version on its way to publication.
+ */
+export async function createMatrixDraft(actor: SessionUser, input: MatrixDraftInput, now: Date = new Date()): Promise<MatrixVersionDto> {
+  assertCan(actor, 'assumptions:draft', `Only analysts draft assumptions; your role is ${actor.role}.`);
+  const d = parseOrThrow(matrixDraftSchema, input, 'invalid:assumption', 'The matrix draft is not valid.');
+  const reviewBy = d.reviewBy ?? defaultReviewBy(d.effectiveDate);
+  matrixJudgementProblem({ effectiveDate: d.effectiveDate, reviewBy });
+  return transactionWithRetry(getDb(), async (tx) => {
+    const fit = await loadFitEvidence(tx, d.fitId);
+    const evidence = pickMatrixEvidence(fit.results, fit);
+    const { value, smallestEigenvalue } = matrixValue(evidence, d.margin.value);
+    const hash = segmentKeyHash(evidence.segments);
+    await tx.insert(factorMatrices).ignore().values({ segmentKey: segmentKey(evidence.segments), segments: evidence.segments, keyHash: hash, createdBy: actor.id, createdAt: now });
+    const [m] = await tx.select().from(factorMatrices).where(eq(factorMatrices.keyHash, hash)).for('update');
+    // A locking read sees a draft another request committed while this one waited for the row.
+    const existing = await tx
+      .select({ version: factorMatrixVersions.version, status: factorMatrixVersions.status })
+      .from(factorMatrixVersions)
+      .where(eq(factorMatrixVersions.matrixId, m.id))
+      .for('update');
+    const open = existing.find((e) => openStatuses.includes(e.status));
+    if (open) {
+      throw new AppError(
+        'conflict:open-version',
+        `Version ${open.version} of the matrix of ${evidence.segments.join(', ')} is still ${statusLabels[open.status]}: finish or withdraw it before drafting another.`,
+      );
+    }
+    const version = existing.reduce((mx, e) => Math.max(mx, e.version), 0) + 1;
+    const content: MatrixContent = {
+      ...evidence,
+      margin: d.margin.value,
+      marginRationale: d.margin.rationale,
+      value,
+      valueSmallestEigenvalue: smallestEigenvalue,
+      intendedUses: d.intendedUses,
+      limitations: d.limitations,
+      effectiveDate: d.effectiveDate,
+      reviewBy,
+    };
+    const contentHash = matrixContentHash(content);
+    const [res] = await tx.insert(factorMatrixVersions).values({
+      ...content,
+      matrixId: m.id,
+      version,
+      status: 'draft',
+      contentHash,
+      authorId: actor.id,
+      createdAt: now,
+      updatedAt: now,
+    });
+    const id = res.insertId;
+    await appendMatrixAudit(tx, { id, matrixId: m.id, version, contentHash }, asActor(actor), { action: 'draft', from: null, to: 'draft' }, now);
+    const [row] = await tx.select().from(factorMatrixVersions).where(eq(factorMatrixVersions.id, id));
+    return (await matrixDtos(tx, [row]))[0];
+  });
+}
+
+/** The makers of a matrix version: its author (a matrix's evidence and judgement are not edited after drafting). */
+export function matrixMakerIds(v: FactorMatrixVersion): number[] {
+  return [v.authorId];
+}
+
+/** Applies a person's transition under the lifecycle's rules, in the transaction that writes it. */
+export async function matrixTransition(
+  actor: SessionUser,
+  id: number,
+  input: { action: UserAction; comment?: string | null },
+  now: Date = new Date(),
+): Promise<{ id: number; status: AssumptionStatus; previous: AssumptionStatus }> {
+  assertCan(actor, 'assumptions:read');
+  return transactionWithRetry(getDb(), async (tx) => {
+    const v = await lockMatrixVersion(tx, id);
+    const { from, to } = planTransition(input.action, {
+      actor,
+      status: v.status,
+      makerIds: matrixMakerIds(v),
+      comment: input.comment,
+      effectiveDate: v.effectiveDate,
+      today: todayIso(now),
+      approvedOn: v.decidedAt ? todayIso(v.decidedAt) : null,
+    });
+    await applyMatrixTransition(tx, v, asActor(actor), input.action, from, to, input.comment ?? null, now);
+    return { id, status: to, previous: from };
+  });
+}
+
+/** Writes a planned transition: the state and its dates, the audit row, the supersession of the set's previous published version. */
+async function applyMatrixTransition(
+  tx: Tx,
+  v: FactorMatrixVersion,
+  actor: Actor,
+  action: string,
+  from: AssumptionStatus,
+  to: AssumptionStatus,
+  comment: string | null,
+  now: Date,
+): Promise<void> {
+  const set: Partial<typeof factorMatrixVersions.$inferInsert> = { status: to, updatedAt: now };
+  if (action === 'approve' || action === 'reject') {
+    set.validatorId = actor.id;
+    set.decisionComment = comment?.trim() || null;
+    set.decidedAt = now;
+  }
+  if (action === 'request-changes') set.decisionComment = comment?.trim() || null;
+  if (action === 'publish') set.publishedAt = now;
+  if (action === 'retire' || action === 'expire' || action === 'supersede') set.endedAt = now;
+  await tx.update(factorMatrixVersions).set(set).where(eq(factorMatrixVersions.id, v.id));
+  await appendMatrixAudit(tx, v, actor, { action, from, to, comment }, now);
+  if (action !== 'publish') return;
+  const previous = await tx
+    .select()
+    .from(factorMatrixVersions)
+    .where(and(eq(factorMatrixVersions.matrixId, v.matrixId), eq(factorMatrixVersions.status, 'published')))
+    .for('update');
+  for (const p of previous) {
+    if (p.id === v.id) continue;
+    await tx.update(factorMatrixVersions).set({ status: 'superseded', endedAt: now, updatedAt: now }).where(eq(factorMatrixVersions.id, p.id));
+    await appendMatrixAudit(tx, p, SYSTEM, { action: 'supersede', from: 'published', to: 'superseded', comment: `Superseded by version ${v.version}.` }, now);
+  }
+}
+
+/**
+ * The scheduler's step for matrices (lib/dal/assumptions/scheduler.ts calls it): publishes approved
+ * versions on their effective date, never one whose effective date is before its approval date;
+ * re-checks each under its row lock, so several workers may run it at once.
+ */
+export async function publishDueMatrices(now: Date, db: Db): Promise<{ published: number[]; refused: { id: number; reason: string }[] }> {
+  const today = todayIso(now);
+  const out = { published: [] as number[], refused: [] as { id: number; reason: string }[] };
+  const due = await db
+    .select({ id: factorMatrixVersions.id })
+    .from(factorMatrixVersions)
+    .where(and(eq(factorMatrixVersions.status, 'approved'), lte(factorMatrixVersions.effectiveDate, today)))
+    .orderBy(asc(factorMatrixVersions.effectiveDate), asc(factorMatrixVersions.id));
+  for (const { id } of due) {
+    await db.transaction(async (tx) => {
+      const v = await lockMatrixVersion(tx, id);
+      if (v.status !== 'approved' || v.effectiveDate > today) return;
+      const problem = v.decidedAt ? backDatingProblem(v.effectiveDate, todayIso(v.decidedAt), 'publish') : null;
+      if (problem) {
+        out.refused.push({ id, reason: problem });
+        return;
+      }
+      await applyMatrixTransition(tx, v, SYSTEM, 'publish', 'approved', 'published', `Effective date ${v.effectiveDate} reached.`, now);
+      out.published.push(id);
+    });
+  }
+  return out;
+}
