@@ -1,4 +1,5 @@
 import type { AssumptionStatus, Role } from '@/db/schema';
+import { z } from 'zod';
 import { AppError } from '@/lib/errors';
 
 /**
@@ -21,6 +22,12 @@ export const userActions = [
   'retire',
 ] as const;
 export type UserAction = (typeof userActions)[number];
+/** The body of a person's transition request (POST .../transitions), for assumptions and factor-correlation matrices alike. */
+export const transitionBodySchema = z.object({
+  action: z.enum(userActions, { message: `The action must be one of: ${userActions.join(', ')}.` }),
+  comment: z.string().max(4000, 'A comment has at most 4000 characters.').nullish(),
+});
+
 /** Transitions only the system (scheduler) makes. */
 export type SystemAction = 'supersede' | 'expire' | 'publish';
 export type Action = UserAction | SystemAction | 'draft' | 'edit';

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { consumerMatrixListSchema, consumerMatrixVersionsSchema } from '@/lib/factor-matrices/consumer';
 import { consumerAnswerSchema, consumerListSchema, errorSchema } from './consumer';
 
 /**
@@ -87,6 +88,54 @@ export function openApiDocument(serverUrl?: string) {
           },
         },
       },
+      '/api/v1/factor-matrices': {
+        get: {
+          operationId: 'getFactorMatricesInForce',
+          summary: 'The factor-correlation matrices in force at a date (each matrix is the assumption of one set of segments)',
+          description:
+            'Scope assumptions:read. Each matrix answers its version in force by the same rule as the segment assumptions (publication time, the state at the end of the day, the overdue policy of then). `value` is the matrix to use: a valid correlation matrix checked by its eigenvalues.',
+          parameters: [
+            asOf,
+            {
+              name: 'segments',
+              in: 'query',
+              required: false,
+              description: 'Only the matrix of exactly this set of segments (in any order), comma-separated: segments=A,B,C. 404 when no such matrix has been published.',
+              schema: { type: 'string' },
+            },
+          ],
+          responses: {
+            '200': { description: 'The matrices in force, and those without a version in force with the reason.', content: { 'application/json': { schema: { $ref: '#/components/schemas/MatrixList' } } } },
+            '400': { description: 'A bad date or segment list.', content: { 'application/json': { schema: { $ref: '#/components/schemas/Error' } } } },
+            ...errors,
+            '404': notFound,
+          },
+        },
+      },
+      '/api/v1/factor-matrices/{id}/versions': {
+        get: {
+          operationId: 'getFactorMatrixVersions',
+          summary: 'Every published version of a matrix (also superseded, expired or retired ones), newest first',
+          description: 'Scope assumptions:read.',
+          parameters: [{ name: 'id', in: 'path', required: true, schema: { type: 'integer' } }],
+          responses: {
+            '200': { description: 'The versions.', content: { 'application/json': { schema: { $ref: '#/components/schemas/MatrixVersions' } } } },
+            ...errors,
+            '404': notFound,
+          },
+        },
+      },
+      '/api/v1/factor-matrices/export': {
+        get: {
+          operationId: 'exportFactorMatrices',
+          summary: 'The published factor-correlation matrices as CSV in long format (one row per pair: matrix_id, version, segment_a, segment_b, r, lower, upper, value_used, ...)',
+          description: 'Scope assumptions:export. The cautions as `# ` comment lines above the header (`comments=0` leaves them out). Cells starting with = + - @ are prefixed with an apostrophe.',
+          responses: {
+            '200': { description: 'CSV, UTF-8, header row after the comment lines.', content: { 'text/csv': { schema: { type: 'string' } } } },
+            ...errors,
+          },
+        },
+      },
     },
     components: {
       securitySchemes: { bearer: { type: 'http', scheme: 'bearer', description: 'An API token (rhb_...).' } },
@@ -94,6 +143,8 @@ export function openApiDocument(serverUrl?: string) {
         Answer: schema(consumerAnswerSchema),
         List: schema(consumerListSchema),
         Error: schema(errorSchema),
+        MatrixList: schema(consumerMatrixListSchema),
+        MatrixVersions: schema(consumerMatrixVersionsSchema),
       },
     },
   };

@@ -19,7 +19,7 @@ export async function makeFitRun(
   userId: number,
   segment: string,
   fit: { rho: number; pd: number; profile: { level: number; lower: number; upper: number } } = PANEL_A_FIT,
-  opts: { status?: 'succeeded' | 'running'; dataset?: { id: number; sha256: string }; periods?: string[]; segments?: unknown[] } = {},
+  opts: { status?: 'succeeded' | 'running'; dataset?: { id: number; sha256: string }; periods?: string[]; segments?: unknown[]; pairs?: unknown } = {},
 ): Promise<{ fitId: number; datasetId: number; sha256: string }> {
   counter += 1;
   const tag = `${Date.now().toString(36)}-${counter}`;
@@ -49,6 +49,8 @@ export async function makeFitRun(
   const periods = opts.periods ?? Array.from({ length: 10 }, (_, i) => String(2010 + i));
   const results = {
     engine: { version: 'test-engine-1' },
+    // a factor-correlation matrix block (lib/stats/factor-correlation-matrix.ts) when given
+    ...(opts.pairs ? { pairs: opts.pairs } : {}),
     // the engine's own results when given (fitPanel's SegmentFit), else the hand-made segment below
     segments: opts.segments ?? [
       {

@@ -205,7 +205,14 @@ describe('the OpenAPI document', () => {
     const doc = (await call(openApiRoute.GET)).body as Schema;
     expect(doc.openapi).toBe('3.1.0');
     const paths = doc.paths as Record<string, Record<string, { responses: Record<string, { content?: Record<string, { schema: Schema }> }> }>>;
-    expect(Object.keys(paths).sort()).toEqual(['/api/v1/assumptions', '/api/v1/assumptions/export', '/api/v1/assumptions/{id}/versions/{version}']);
+    expect(Object.keys(paths).sort()).toEqual([
+      '/api/v1/assumptions',
+      '/api/v1/assumptions/export',
+      '/api/v1/assumptions/{id}/versions/{version}',
+      '/api/v1/factor-matrices',
+      '/api/v1/factor-matrices/export',
+      '/api/v1/factor-matrices/{id}/versions',
+    ]);
     const schemaOf = (p: string, status: string) => paths[p].get.responses[status].content!['application/json'].schema;
 
     const one = await inForce(`segment=${encodeURIComponent(segment)}`);
