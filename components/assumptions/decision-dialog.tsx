@@ -4,7 +4,23 @@ import { useEffect, useRef } from 'react';
 import { interval as intervalText, level, pd as pdText, rho as rhoText } from '@/lib/format';
 
 /** What a person confirms before approving or publishing: the value and everything it stands with. */
-export type DecisionFacts = {
+export type DecisionFacts = SegmentDecisionFacts | MatrixDecisionFacts;
+
+/** A factor-correlation matrix: what it is, as label and text lines (its value is a matrix, shown on the page). */
+export type MatrixDecisionFacts = {
+  kind: 'matrix';
+  /** "the matrix of A, B, C" */
+  segment: string;
+  version: number;
+  lines: [label: string, text: string][];
+  effectiveDate: string;
+  publishes: string | null;
+  cautions: readonly string[];
+  findings: { id: number; title: string; severity: string; status: string; dueDate: string }[];
+};
+
+type SegmentDecisionFacts = {
+  kind?: 'segment';
   segment: string;
   version: number;
   value: number;
@@ -56,6 +72,18 @@ export function DecisionDialog({
       <h2 id="decision-title" className="mb-2">
         {verb} {facts.segment} version {facts.version}?
       </h2>
+      {facts.kind === 'matrix' ? (
+        <dl className="grid grid-cols-[10rem_1fr] gap-x-3 gap-y-1 text-sm" data-testid="decision-facts">
+          {facts.lines.map(([label, text]) => (
+            <div key={label} className="contents">
+              <dt>{label}</dt>
+              <dd>{text}</dd>
+            </div>
+          ))}
+          <dt>Effective date</dt>
+          <dd className="num">{facts.effectiveDate}</dd>
+        </dl>
+      ) : (
       <dl className="grid grid-cols-[10rem_1fr] gap-x-3 gap-y-1 text-sm" data-testid="decision-facts">
         <dt>Value</dt>
         <dd className="num font-semibold">{rhoText(facts.value)}</dd>
@@ -70,6 +98,7 @@ export function DecisionDialog({
         <dt>Effective date</dt>
         <dd className="num">{facts.effectiveDate}</dd>
       </dl>
+      )}
       {facts.publishes ? <p className="mt-2 text-sm font-medium">{facts.publishes}</p> : null}
       {action === 'approve' ? (
         <div className="mt-2 text-sm">

@@ -21,14 +21,25 @@ const confirmText = {
  * The actions open to the signed-in person on a version; the server decides again on each. Approve
  * and publish ask for confirmation in a dialog that shows the value and what it stands with.
  */
-export function TransitionPanel({ versionId, actions, facts }: { versionId: number; actions: UserAction[]; facts: DecisionFacts }) {
+export function TransitionPanel({
+  versionId,
+  actions,
+  facts,
+  endpoint = `/api/assumptions/${versionId}/transitions`,
+}: {
+  versionId: number;
+  actions: UserAction[];
+  facts: DecisionFacts;
+  /** Where the transition is sent (a factor-correlation matrix's own route). */
+  endpoint?: string;
+}) {
   const router = useRouter();
   const [comment, setComment] = useState('');
   const [done, setDone] = useState<string | null>(null);
   const [confirming, setConfirming] = useState<'approve' | 'publish' | null>(null);
   const m = useMutation({
     mutationFn: (action: UserAction) =>
-      apiSend<{ status: string }>('POST', `/api/assumptions/${versionId}/transitions`, { action, comment: comment.trim() || undefined }),
+      apiSend<{ status: string }>('POST', endpoint, { action, comment: comment.trim() || undefined }),
     onSuccess: (r) => {
       setDone(`Done: the version is now ${r.status.replace('_', ' ')}.`);
       setComment('');

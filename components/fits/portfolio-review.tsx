@@ -4,7 +4,9 @@
  * segment's low-default posterior with its prior drawn beside it. Server components: they only
  * draw the stored results (lib/fits/results.ts).
  */
+import { MatrixDraftForm } from '@/components/factor-matrices/matrix-draft-form';
 import { toCsv } from '@/lib/csv';
+import { Heatmap } from './correlation-heatmap';
 import type { FactorCorrelationMatrix } from '@/lib/stats/factor-correlation-matrix';
 import type { GradeAuditSummary } from '@/lib/stats/grade-audit';
 import type { GradeFit } from '@/lib/stats/grade-fit';
@@ -87,45 +89,8 @@ export function GroupResults({ group }: { group: GradeFit & { estimatorAudit?: G
   );
 }
 
-/** Blue for negative, red for positive correlations; lighter toward 0. */
-function cellColour(r: number | null): string {
-  if (r === null) return 'transparent';
-  const a = Math.min(1, Math.abs(r));
-  return r >= 0 ? `rgba(200, 60, 40, ${0.12 + 0.6 * a})` : `rgba(40, 90, 200, ${0.12 + 0.6 * a})`;
-}
-
-function Heatmap({ title, segments, matrix, testId }: { title: string; segments: string[]; matrix: (number | null)[][]; testId: string }) {
-  return (
-    <table className="table text-xs" data-testid={testId}>
-      <caption className="text-left text-sm font-medium">{title}</caption>
-      <thead>
-        <tr>
-          <th scope="col" />
-          {segments.map((s) => (
-            <th key={s} scope="col">
-              {s}
-            </th>
-          ))}
-        </tr>
-      </thead>
-      <tbody>
-        {segments.map((s, i) => (
-          <tr key={s}>
-            <th scope="row">{s}</th>
-            {matrix[i].map((v, j) => (
-              <td key={j} style={{ background: cellColour(v) }} className="text-center tabular-nums">
-                {v === null ? '–' : v.toFixed(2)}
-              </td>
-            ))}
-          </tr>
-        ))}
-      </tbody>
-    </table>
-  );
-}
-
 /** The factor-correlation matrix with intervals, the nearest valid matrix beside it, and a CSV. */
-export function PairMatrix({ pairs, fitId }: { pairs: FactorCorrelationMatrix; fitId: number }) {
+export function PairMatrix({ pairs, fitId, mayDraft = false, today }: { pairs: FactorCorrelationMatrix; fitId: number; mayDraft?: boolean; today: string }) {
   const csv = toCsv(
     ['segment_a', 'segment_b', 'r', 'lower', 'upper', 'level', 'moment', 'status', 'nearest', 'joint_default', 'default_correlation'],
     pairs.entries.map((e) => {
@@ -190,6 +155,7 @@ export function PairMatrix({ pairs, fitId }: { pairs: FactorCorrelationMatrix; f
       <a className="btn btn-quiet text-sm" download={`fit-${fitId}-factor-correlations.csv`} href={`data:text/csv;charset=utf-8,${encodeURIComponent(csv)}`}>
         Download as CSV
       </a>
+      {mayDraft ? <MatrixDraftForm fitId={fitId} today={today} complete={pairs.entries.every((e) => e.r !== null)} psd={pairs.nearest === null} /> : null}
     </section>
   );
 }

@@ -11,3 +11,11 @@ export const matrixCautions: readonly string[] = [
   'The matrix is valid only with the segments’ PDs, definitions of default and the Gaussian factor model it was fitted under.',
   `Approval in Rhobook is neither an independent validation nor a supervisor's approval. ${DEFERRAL}`,
 ];
+
+/**
+ * Why the margin may only raise correlations: a higher factor correlation between segments means
+ * less diversification between them and a fatter tail of the portfolio's loss, so for a portfolio
+ * that is long credit risk in every segment an increase is the conservative direction (common practice).
+ */
+export const MARGIN_DIRECTION =
+  'A margin may only raise the correlations: higher factor correlations mean less diversification between the segments and a fatter loss tail, so for a portfolio that holds credit risk in every segment an increase is the conservative direction.';

@@ -4,6 +4,7 @@ import type { AssumptionStatus, FactorMatrixPair } from '@/db/schema';
 import { canonical } from '@/lib/assumptions/content';
 import { isIsoDate, reviewByProblem } from '@/lib/assumptions/dates';
 import { AppError } from '@/lib/errors';
+import { MARGIN_DIRECTION } from './cautions';
 import { addUniformMargin, checkCorrelationMatrix, largestValidMargin } from '@/lib/stats/correlation-matrix-check';
 
 /**
@@ -63,14 +64,6 @@ export const MATRIX_MARGIN_MAX = 0.5;
 
 const isoDate = (what: string) => z.string().refine(isIsoDate, `The ${what} must be a calendar date written YYYY-MM-DD.`);
 
-/**
- * Why the margin may only raise correlations: a higher factor correlation between segments means
- * less diversification between them and a fatter tail of the portfolio's loss, so for a portfolio
- * that is long credit risk in every segment an increase is the conservative direction (common practice).
- */
-export const MARGIN_DIRECTION =
-  'A margin may only raise the correlations: higher factor correlations mean less diversification between the segments and a fatter loss tail, so for a portfolio that holds credit risk in every segment an increase is the conservative direction.';
-
 export const matrixDraftSchema = z.object({
   fitId: z.number({ message: 'Give the fit run (fitId) the matrix is drawn from.' }).int().positive(),
   margin: z.object({
@@ -86,6 +79,7 @@ export const matrixDraftSchema = z.object({
   /** Omitted: twelve months after the effective date. */
   reviewBy: isoDate('review-by date').optional(),
 });
+export { MARGIN_DIRECTION };
 export type MatrixDraftInput = z.input<typeof matrixDraftSchema>;
 
 /** The key of a set of segments: the names sorted, one per line (the order of the rows is the version's own). */

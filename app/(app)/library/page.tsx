@@ -3,10 +3,12 @@ import Link from 'next/link';
 import { Cautions } from '@/components/assumptions/cautions';
 import { LibraryFiltersForm } from '@/components/assumptions/library-filters-form';
 import { LibraryTable } from '@/components/assumptions/library-table';
+import { MatrixLibraryTable } from '@/components/factor-matrices/matrix-library-table';
 import { libraryFiltersSchema, libraryStateLabels } from '@/lib/assumptions/library-filters';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { listLibrary } from '@/lib/dal/assumptions';
+import { listMatrixLibrary } from '@/lib/dal/factor-matrices';
 import { count } from '@/lib/format';
 
 export const metadata: Metadata = { title: 'Library' };
@@ -23,7 +25,7 @@ export default async function LibraryPage({ searchParams }: { searchParams: Prom
   if (!parsed.success) for (const i of parsed.error.issues) errors[String(i.path[0])] ??= i.message;
   // A filter that cannot be read is shown at its field; the others still apply.
   const filters = parsed.success ? parsed.data : Object.fromEntries(Object.entries(values).filter(([k]) => !errors[k]));
-  const [library, all] = await Promise.all([listLibrary(actor, new Date(), filters), listLibrary(actor)]);
+  const [library, all, matrices] = await Promise.all([listLibrary(actor, new Date(), filters), listLibrary(actor), listMatrixLibrary(actor)]);
   const f = libraryFiltersSchema.parse(filters);
   const described = [
     f?.segment ? `segment contains “${f.segment}”` : null,
@@ -62,9 +64,17 @@ export default async function LibraryPage({ searchParams }: { searchParams: Prom
             : `Nothing published yet.${can(actor.role, 'assumptions:draft') ? ' Draft an assumption from a finished fit to start.' : ''}`
         }
       />
+      <section className="panel space-y-2 p-4" aria-labelledby="matrices-heading">
+        <h2 id="matrices-heading">Factor-correlation matrices</h2>
+        <p className="text-sm text-[var(--color-muted)]">
+          Correlations between the segments&apos; systematic factors, each matrix an assumption of its own kind under the same review, for portfolio and
+          economic-capital models (not Pillar 1).
+        </p>
+        <MatrixLibraryTable entries={matrices} />
+      </section>
       <p className="text-sm text-[var(--color-muted)]">
         Downstream models read these values through the consumer API (<a href="/api/openapi.json">OpenAPI document</a>) with a token an
-        administrator creates; the export CSV carries the cautions as comment lines.
+        administrator creates; the export CSV carries the cautions as comment lines. The matrices are read at /api/v1/factor-matrices and exported as a long CSV (a row per pair) at /api/v1/factor-matrices/export.
       </p>
     </div>
   );

@@ -12,6 +12,7 @@ import { FitProvenance, OldResultsNotice } from '@/components/fits/fit-provenanc
 import { SegmentsOverview } from '@/components/fits/segments-overview';
 import { Breadcrumbs } from '@/components/layout/breadcrumbs';
 import { GroupResults, PairMatrix } from '@/components/fits/portfolio-review';
+import { todayIso } from '@/lib/assumptions/dates';
 import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { fitStatusQuery } from '@/lib/client/fits';
@@ -86,7 +87,7 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
             <SegmentsOverview fitId={fit.id} results={fit.results} mayDraft={can(actor.role, 'assumptions:draft')} />
           </section>
           {fit.results.group ? <GroupResults group={fit.results.group} /> : null}
-          {fit.results.pairs ? <PairMatrix pairs={fit.results.pairs} fitId={fit.id} /> : null}
+          {fit.results.pairs ? <PairMatrix pairs={fit.results.pairs} fitId={fit.id} mayDraft={can(actor.role, 'assumptions:draft')} today={todayIso()} /> : null}
           <Cautions title="These numbers support a judgement: read them with care." />
         </>
       ) : null}

@@ -9,6 +9,7 @@ import { VersionCautions } from '@/components/assumptions/version-cautions';
 import { FindingsSection } from '@/components/findings/findings-section';
 import { ModelsUsing } from '@/components/models/models-using';
 import { ReportLinks } from '@/components/reports/report-links';
+import { AuditTable } from '@/components/assumptions/audit-table';
 import { StatusBadge } from '@/components/assumptions/status-badge';
 import { TransitionPanel } from '@/components/assumptions/transition-panel';
 import { VersionEvidence } from '@/components/assumptions/version-evidence';
@@ -18,7 +19,7 @@ import { assumptionCautions } from '@/lib/assumptions/cautions';
 import { intervalMethodLabel } from '@/lib/assumptions/content';
 import { versionCautions } from '@/lib/assumptions/consumer';
 import { describeSpans, type DefinitionSpan } from '@/lib/ingest/default-definition';
-import { editableStatuses, statusLabels } from '@/lib/assumptions/lifecycle';
+import { editableStatuses } from '@/lib/assumptions/lifecycle';
 import { can, roleLabels } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { getVersionPage } from '@/lib/dal/assumptions';
@@ -46,7 +47,6 @@ function seedsText(seeds: unknown): string {
   return show(seeds);
 }
 
-const label = (s: string) => statusLabels[s as keyof typeof statusLabels] ?? s;
 const roleName = (r: string | null) => (r ? (roleLabels[r as keyof typeof roleLabels] ?? r).toLowerCase() : 'an unknown role');
 const when = (s: string | null) => (s ? `${s.replace('T', ' ').slice(0, 16)} UTC` : '—');
 
@@ -417,40 +417,7 @@ export default async function VersionPage({
             </ul>
           </div>
         ) : null}
-        <ScrollBox label="Audit trail (scrolls sideways)">
-          <table className="table" aria-label="Audit trail">
-            <thead>
-              <tr>
-                <th>When (UTC)</th>
-                <th>Version</th>
-                <th>Action</th>
-                <th>Who</th>
-                <th>From → to</th>
-                <th>Comment</th>
-                <th>Content hash</th>
-              </tr>
-            </thead>
-            <tbody>
-              {page.audit.map((a) => (
-                <tr key={a.id}>
-                  <td className="num whitespace-nowrap">{a.at.replace('T', ' ').slice(0, 19)}</td>
-                  <td>v{a.version}</td>
-                  <td>{a.action}</td>
-                  <td>
-                    {a.actorEmail} <span className="badge">{a.actorRole}</span>
-                  </td>
-                  <td>
-                    {a.fromStatus ? label(a.fromStatus) : '—'} → {label(a.toStatus)}
-                  </td>
-                  <td className="whitespace-pre-wrap">{a.comment ?? ''}</td>
-                  <td className="num text-xs" title={a.contentHash}>
-                    {a.contentHash.slice(0, 12)}
-                  </td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </ScrollBox>
+        <AuditTable audit={page.audit} />
       </section>
     </div>
   );
