@@ -13,18 +13,23 @@ import { sleep } from './mail-loop';
 export async function runScheduler(opts: { db: Db; signal: AbortSignal; intervalMs?: number }): Promise<void> {
   const interval = opts.intervalMs ?? env().SCHEDULER_INTERVAL_SECONDS * 1000;
   const told = new Set<number>();
+  const toldMatrices = new Set<number>();
   while (!opts.signal.aborted) {
     try {
       const r = await runScheduledTransitions(new Date(), opts.db);
-      if (r.published.length || r.expired.length || r.reminders || r.findingReminders) {
+      if (r.published.length || r.expired.length || r.reminders || r.findingReminders || r.matrices.published.length) {
         console.log(
-          `[worker] scheduler: published ${r.published.length}, expired ${r.expired.length}, reminders queued ${r.reminders}, finding reminders ${r.findingReminders}`,
+          `[worker] scheduler: published ${r.published.length}, expired ${r.expired.length}, reminders queued ${r.reminders}, finding reminders ${r.findingReminders}, matrices published ${r.matrices.published.length}`,
         );
       }
       // Once per process: a person must edit these (the scheduler will not publish them).
       for (const { id, reason } of r.refused.filter((x) => !told.has(x.id))) {
         told.add(id);
         console.warn(`[worker] scheduler: version ${id} not published: ${reason}`);
+      }
+      for (const { id, reason } of r.matrices.refused.filter((x) => !toldMatrices.has(x.id))) {
+        toldMatrices.add(id);
+        console.warn(`[worker] scheduler: factor-correlation matrix version ${id} not published: ${reason}`);
       }
     } catch (err) {
       console.error('[worker] scheduler error:', err instanceof Error ? err.message : err);

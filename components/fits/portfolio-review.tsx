@@ -155,7 +155,7 @@ export function PairMatrix({ pairs, fitId, mayDraft = false, today }: { pairs: F
       <a className="btn btn-quiet text-sm" download={`fit-${fitId}-factor-correlations.csv`} href={`data:text/csv;charset=utf-8,${encodeURIComponent(csv)}`}>
         Download as CSV
       </a>
-      {mayDraft ? <MatrixDraftForm fitId={fitId} today={today} complete={pairs.entries.every((e) => e.r !== null)} psd={pairs.nearest === null} /> : null}
+      {mayDraft ? <MatrixDraftForm fitId={fitId} today={today} complete={pairs.entries.every((e) => e.r !== null && e.lower !== null && e.upper !== null)} psd={pairs.nearest === null} /> : null}
     </section>
   );
 }
