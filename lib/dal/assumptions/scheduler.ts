@@ -41,7 +41,7 @@ export type ScheduleReport = {
   /** Approved versions not published because their effective date is before their approval date. */
   refused: { id: number; reason: string }[];
   /** Factor-correlation matrix versions published, and those refused as back-dated (lib/dal/factor-matrices). */
-  matrices: { published: number[]; refused: { id: number; reason: string }[] };
+  matrices: { published: number[]; expired: number[]; refused: { id: number; reason: string }[] };
 };
 
 export async function runScheduledTransitions(now: Date = new Date(), db: Db = getDb()): Promise<ScheduleReport> {
@@ -55,7 +55,7 @@ export async function runScheduledTransitions(now: Date = new Date(), db: Db = g
     reminders: 0,
     findingReminders: 0,
     refused: [],
-    matrices: { published: [], refused: [] },
+    matrices: { published: [], expired: [], refused: [] },
   };
 
   const due = await db

@@ -1,5 +1,5 @@
 import 'server-only';
-import { and, asc, eq, lte } from 'drizzle-orm';
+import { and, asc, eq, lt, lte } from 'drizzle-orm';
 import { getDb } from '@/db/client';
 import type { Db, Tx } from '@/db/connection';
 import { transactionWithRetry } from '@/db/transaction';
@@ -22,6 +22,7 @@ import {
 } from '@/lib/factor-matrices/content';
 import { asActor, SYSTEM, type Actor } from '../assumptions/actors';
 import { loadFitEvidence } from '../fit-evidence';
+import { overduePolicyIn } from '../overdue-policy';
 import { appendMatrixAudit, lockMatrixVersion, matrixDtos } from './rows';
 
 /**
@@ -160,11 +161,13 @@ async function applyMatrixTransition(
 /**
  * The scheduler's step for matrices (lib/dal/assumptions/scheduler.ts calls it): publishes approved
  * versions on their effective date, never one whose effective date is before its approval date;
- * re-checks each under its row lock, so several workers may run it at once.
+ * past a published version's review-by date, expires it under the withdraw policy (under the flag
+ * policy it stays in force, flagged overdue in the API's `review`). Re-checks each under its row
+ * lock, so several workers may run it at once.
  */
-export async function publishDueMatrices(now: Date, db: Db): Promise<{ published: number[]; refused: { id: number; reason: string }[] }> {
+export async function publishDueMatrices(now: Date, db: Db): Promise<{ published: number[]; expired: number[]; refused: { id: number; reason: string }[] }> {
   const today = todayIso(now);
-  const out = { published: [] as number[], refused: [] as { id: number; reason: string }[] };
+  const out = { published: [] as number[], expired: [] as number[], refused: [] as { id: number; reason: string }[] };
   const due = await db
     .select({ id: factorMatrixVersions.id })
     .from(factorMatrixVersions)
@@ -181,6 +184,19 @@ export async function publishDueMatrices(now: Date, db: Db): Promise<{ published
       }
       await applyMatrixTransition(tx, v, SYSTEM, 'publish', 'approved', 'published', `Effective date ${v.effectiveDate} reached.`, now);
       out.published.push(id);
+    });
+  }
+  if ((await overduePolicyIn(db, now)) !== 'withdraw') return out;
+  const stale = await db
+    .select({ id: factorMatrixVersions.id })
+    .from(factorMatrixVersions)
+    .where(and(eq(factorMatrixVersions.status, 'published'), lt(factorMatrixVersions.reviewBy, today)));
+  for (const { id } of stale) {
+    await db.transaction(async (tx) => {
+      const v = await lockMatrixVersion(tx, id);
+      if (v.status !== 'published' || v.reviewBy >= today) return;
+      await applyMatrixTransition(tx, v, SYSTEM, 'expire', 'published', 'expired', `Review-by date ${v.reviewBy} passed without a new version: withdrawn under the overdue policy.`, now);
+      out.expired.push(id);
     });
   }
   return out;

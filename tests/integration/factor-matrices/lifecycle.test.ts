@@ -270,6 +270,9 @@ describe('publication, supersession and the consumer API', () => {
     expect(now2.matrices.map((m) => m.version)).toEqual([2]);
     expect(now2.matrices[0].margin).toEqual({ value: 0.02, rationale: expect.any(String) });
     expect(now2.matrices[0].pairs[0]).toMatchObject({ segmentA: setL[0], segmentB: setL[1], r: 0.62, interval: { method: 'profile', level: 0.95 }, value: 0.64 });
+    // Past its review-by date, under the default overdue policy (flag), it stays in force, flagged overdue.
+    const late = await matricesInForce(validator, iso(day(500)), setL, day(500));
+    expect(late.matrices.map((m) => [m.version, m.review.overdue, m.review.policy])).toEqual([[2, true, 'flag']]);
     const asOfPast = await matricesInForce(validator, iso(day(-5)), setL, tomorrow);
     expect(asOfPast.matrices.map((m) => m.version)).toEqual([1]);
     const versions = await call(versionsRoute.GET, { params: { id: String(matrixId) }, headers });
