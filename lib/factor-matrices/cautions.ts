@@ -19,3 +19,6 @@ export const matrixCautions: readonly string[] = [
  */
 export const MARGIN_DIRECTION =
   'A margin may only raise the correlations: higher factor correlations mean less diversification between the segments and a fatter loss tail, so for a portfolio that holds credit risk in every segment an increase is the conservative direction.';
+
+/** The refusal of a negative margin, at its field (the reason is MARGIN_DIRECTION, shown above the form). */
+export const NEGATIVE_MARGIN = 'The margin must be 0 or more: the conservative direction for a factor correlation is an increase.';

@@ -4,7 +4,7 @@ import type { AssumptionStatus, FactorMatrixPair } from '@/db/schema';
 import { canonical } from '@/lib/assumptions/content';
 import { isIsoDate, reviewByProblem } from '@/lib/assumptions/dates';
 import { AppError } from '@/lib/errors';
-import { MARGIN_DIRECTION } from './cautions';
+import { NEGATIVE_MARGIN } from './cautions';
 import { addUniformMargin, checkCorrelationMatrix, largestValidMargin } from '@/lib/stats/correlation-matrix-check';
 
 /**
@@ -69,7 +69,7 @@ export const matrixDraftSchema = z.object({
   margin: z.object({
     value: z
       .number({ message: 'The margin must be a number (0 for none).' })
-      .min(0, MARGIN_DIRECTION)
+      .min(0, NEGATIVE_MARGIN)
       .max(MATRIX_MARGIN_MAX, `The margin may be at most ${MATRIX_MARGIN_MAX}: a larger add-on replaces the estimate instead of adding prudence to it.`),
     rationale: z.string().trim().min(1, 'Give the rationale of the margin (say why none is needed when it is 0).').max(4000),
   }),
@@ -79,7 +79,6 @@ export const matrixDraftSchema = z.object({
   /** Omitted: twelve months after the effective date. */
   reviewBy: isoDate('review-by date').optional(),
 });
-export { MARGIN_DIRECTION };
 export type MatrixDraftInput = z.input<typeof matrixDraftSchema>;
 
 /** The key of a set of segments: the names sorted, one per line (the order of the rows is the version's own). */

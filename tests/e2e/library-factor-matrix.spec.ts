@@ -35,8 +35,9 @@ test('a factor-correlation matrix: drafted from a fit with pairs, approved by a 
   await form.getByLabel('Intended uses').fill('Economic capital: the correlation of the three segments’ systematic factors.');
   await form.getByLabel('Limitations').fill('Valid only with the fitted PDs and the Gaussian factor model; not for Pillar 1.');
   await form.getByRole('button', { name: 'Save draft' }).click();
-  await expect(form.locator('#matrix-margin-error')).toContainText('A margin may only raise the correlations', { timeout: 30_000 });
+  await expect(form.locator('#matrix-margin-error')).toContainText('The margin must be 0 or more', { timeout: 30_000 });
   await expect(form.getByLabel('Margin added off the diagonal')).toBeFocused();
+  await keepScreenshot(analyst, testInfo, 'draft-factor-matrix');
   await form.getByLabel('Margin added off the diagonal').fill('0');
   await form.getByRole('button', { name: 'Save draft' }).click();
   await expect(analyst).toHaveURL(/\/library\/matrices\/\d+$/, { timeout: 60_000 });
@@ -55,7 +56,7 @@ test('a factor-correlation matrix: drafted from a fit with pairs, approved by a 
   await expect(validator.getByRole('heading', { level: 1 }).getByTestId('status-badge')).toHaveText('in review', { timeout: 30_000 });
   await validator.getByLabel(/^Comment/).fill('Each pair and its interval checked against the fit; the matrix is positive semi-definite.');
   await validator.getByRole('button', { name: 'Approve', exact: true }).click();
-  const dialog = validator.getByRole('dialog', { name: /Approve the matrix of .* version 1/ });
+  const dialog = validator.getByRole('dialog', { name: /Approve the matrix of .* version \d+/ });
   await expect(dialog.getByTestId('decision-facts')).toContainText('Smallest eigenvalue');
   await dialog.getByRole('button', { name: 'Approve now' }).click();
   await expect(validator.getByRole('status').filter({ hasText: 'now approved' })).toBeVisible({ timeout: 30_000 });
@@ -82,11 +83,11 @@ test('a factor-correlation matrix: drafted from a fit with pairs, approved by a 
   const answer = await admin.request.get(`/api/v1/factor-matrices?segments=${encodeURIComponent([...SEGMENTS].reverse().join(','))}`, { headers });
   expect(answer.status()).toBe(200);
   const m = (await answer.json()).matrices[0];
-  expect(m).toMatchObject({ version: 1, status: 'published', lineage: { fitRunId: fitId } });
+  expect(m).toMatchObject({ status: 'published', lineage: { fitRunId: fitId } });
   expect([...m.segments].sort()).toEqual([...SEGMENTS].sort());
   expect(m.pairs).toHaveLength(3);
   const csv = await admin.request.get('/api/v1/factor-matrices/export', { headers });
   expect(csv.status()).toBe(200);
-  expect(await csv.text()).toContain(`${m.matrixId},1,published,${m.pairs[0].segmentA},${m.pairs[0].segmentB},${m.pairs[0].r},`);
+  expect(await csv.text()).toContain(`${m.matrixId},${m.version},published,${m.pairs[0].segmentA},${m.pairs[0].segmentB},${m.pairs[0].r},`);
   await Promise.all([analystCtx.close(), validatorCtx.close(), adminCtx.close()]);
 });

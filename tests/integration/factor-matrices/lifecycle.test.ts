@@ -6,7 +6,8 @@ import { runScheduledTransitions } from '@/lib/dal/assumptions';
 import { createMatrixDraft, getMatrixVersionPage, matricesInForce, matrixTransition, matrixVersions } from '@/lib/dal/factor-matrices';
 import { createToken } from '@/lib/dal/tokens';
 import { AppError } from '@/lib/errors';
-import { MARGIN_DIRECTION, type MatrixDraftInput } from '@/lib/factor-matrices/content';
+import { NEGATIVE_MARGIN } from '@/lib/factor-matrices/cautions';
+import type { MatrixDraftInput } from '@/lib/factor-matrices/content';
 import { checkCorrelationMatrix } from '@/lib/stats/correlation-matrix-check';
 import { assembleFactorCorrelationMatrix } from '@/lib/stats/factor-correlation-matrix';
 import type { FactorCorrelation } from '@/lib/stats/factor-correlation';
@@ -179,7 +180,7 @@ describe('drafting a factor-correlation matrix from a fit', () => {
     session.user = analyst;
     const neg = await call(draftRoute.POST, { body: body(fitA, { margin: { value: -0.01, rationale: 'Lower.' } }) });
     expect(neg.status).toBe(422);
-    expect((neg.body.fieldErrors as Record<string, string>)['margin.value']).toBe(MARGIN_DIRECTION);
+    expect((neg.body.fieldErrors as Record<string, string>)['margin.value']).toBe(NEGATIVE_MARGIN);
     expect((await refusal(createMatrixDraft(analyst, body(fitPlain)))).code).toBe('conflict:no-matrix');
     const late = await refusal(createMatrixDraft(analyst, body(fitA, { reviewBy: iso(day(400)) })));
     expect(late.details).toMatchObject({ field: 'reviewBy' });
