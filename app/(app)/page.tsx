@@ -4,6 +4,7 @@ import { roleDescriptions, roleLabels } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { getHealth } from '@/lib/dal/health';
 import { listLibrary, listQueue } from '@/lib/dal/assumptions';
+import { listMatrixQueue } from '@/lib/dal/factor-matrices';
 import { listFindings } from '@/lib/dal/findings';
 import { FindingsOverview } from '@/components/findings/findings-overview';
 import { AgedEvidenceOverview } from '@/components/assumptions/aged-evidence-overview';
@@ -43,7 +44,7 @@ function nextSteps(role: Role): NextStep[] {
 
 export default async function OverviewPage() {
   const user = await requireUser();
-  const [health, queue, library, unresolved] = await Promise.all([getHealth(), listQueue(user), listLibrary(user), listFindings(user, { unresolved: true })]);
+  const [health, queue, library, unresolved] = await Promise.all([getHealth(), listQueue(user).then(async (q) => [...q, ...(await listMatrixQueue(user))]), listLibrary(user), listFindings(user, { unresolved: true })]);
   const steps = nextSteps(user.role);
   const expiring = library.filter((e) => e.health === 'expiring');
   const expired = library.filter((e) => e.health === 'expired' || e.health === 'overdue');
@@ -73,8 +74,8 @@ export default async function OverviewPage() {
           ) : (
             <ul className="mt-2 space-y-1">
               {queue.slice(0, 6).map((q) => (
-                <li key={q.id} className="flex flex-wrap gap-x-3">
-                  <Link href={`/library/versions/${q.id}`}>
+                <li key={q.href} className="flex flex-wrap gap-x-3">
+                  <Link href={q.href}>
                     {q.segment} v{q.version}
                   </Link>
                   <span className="text-sm text-[var(--color-muted)]">{q.why}</span>

@@ -4,13 +4,15 @@ import { StatusBadge } from '@/components/assumptions/status-badge';
 import { ScrollBox } from '@/components/layout/scroll-box';
 import { requireUser } from '@/lib/auth/session';
 import { listQueue } from '@/lib/dal/assumptions';
+import { listMatrixQueue } from '@/lib/dal/factor-matrices';
 import { when } from '@/lib/format';
 
 export const metadata: Metadata = { title: 'Queue' };
 
 export default async function QueuePage() {
   const actor = await requireUser();
-  const items = await listQueue(actor);
+  // Segment versions and factor-correlation matrix versions, oldest change first.
+  const items = [...(await listQueue(actor)), ...(await listMatrixQueue(actor))].sort((a, b) => a.updatedAt.localeCompare(b.updatedAt));
   const explain =
     actor.role === 'validator'
       ? 'What awaits you: versions submitted for review that you did not draft or edit, and reviews you have started.'
@@ -25,7 +27,7 @@ export default async function QueuePage() {
         <table className="table" aria-label="Queue">
           <thead>
             <tr>
-              <th>Segment</th>
+              <th>Segment or matrix</th>
               <th>Version</th>
               <th>State</th>
               <th>Why</th>
@@ -34,9 +36,9 @@ export default async function QueuePage() {
           </thead>
           <tbody>
             {items.map((i) => (
-              <tr key={i.id}>
+              <tr key={i.href}>
                 <td>
-                  <Link href={`/library/versions/${i.id}`}>{i.segment}</Link>
+                  <Link href={i.href}>{i.segment}</Link>
                 </td>
                 <td>v{i.version}</td>
                 <td>

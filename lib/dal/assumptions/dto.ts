@@ -90,7 +90,8 @@ export type LibraryEntryDto = {
   note: string | null;
 };
 
-export type QueueItemDto = { id: number; segment: string; version: number; status: AssumptionStatus; why: string; updatedAt: string; finalValue: number };
+/** An item of a person's queue: a segment's version or a factor-correlation matrix's (`segment` names it, `href` opens it). */
+export type QueueItemDto = { id: number; segment: string; version: number; status: AssumptionStatus; why: string; updatedAt: string; href: string; finalValue?: number };
 
 /** The content of a version (evidence and judgement) with its segment, as hashed and diffed. */
 export function contentOf(v: AssumptionVersion, segment: string): VersionContent {

@@ -281,7 +281,7 @@ export async function listQueue(actor: SessionUser): Promise<QueueItemDto[]> {
         .limit(1);
       if (last?.action === 'request-changes') why = `Changes requested: ${v.decisionComment ?? 'see the comment'}`;
     }
-    if (why) out.push({ id: v.id, segment, version: v.version, status: v.status, why, updatedAt: v.updatedAt.toISOString(), finalValue: v.finalValue });
+    if (why) out.push({ id: v.id, segment, version: v.version, status: v.status, why, updatedAt: v.updatedAt.toISOString(), href: `/library/versions/${v.id}`, finalValue: v.finalValue });
   }
   return out;
 }

@@ -8,5 +8,5 @@
  * - consumer.ts: what the consumer API reads (in force at a date, a matrix's versions, the CSV)
  */
 export { createMatrixDraft, matrixTransition, publishDueMatrices } from './writes';
-export { getMatrixVersionPage, listMatrixLibrary, type MatrixLibraryEntryDto, type MatrixVersionPageDto } from './reads';
+export { getMatrixVersionPage, listMatrixLibrary, listMatrixQueue, type MatrixLibraryEntryDto, type MatrixVersionPageDto } from './reads';
 export { matricesInForce, matrixVersions, publishedMatrices } from './consumer';

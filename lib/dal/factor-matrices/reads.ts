@@ -1,5 +1,5 @@
 import 'server-only';
-import { asc, desc, eq, inArray } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray } from 'drizzle-orm';
 import { getDb } from '@/db/client';
 import { factorMatrices, factorMatrixAudit, factorMatrixVersions, type AssumptionStatus } from '@/db/schema';
 import { todayIso } from '@/lib/assumptions/dates';
@@ -8,7 +8,7 @@ import { publicationNote, type PublicationNote } from '@/lib/assumptions/publica
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import type { MatrixVersionDto } from '@/lib/factor-matrices/content';
 import { AppError } from '@/lib/errors';
-import type { AuditDto } from '../assumptions/dto';
+import type { AuditDto, QueueItemDto } from '../assumptions/dto';
 import { canSeeVersion } from '../assumptions/visibility';
 import { getHealth } from '../health';
 import { matrixDtos } from './rows';
@@ -99,4 +99,41 @@ export async function getMatrixVersionPage(actor: SessionUser, id: number, now: 
     publication: publicationNote(version, today, schedulerRunning),
     makerIds: makers,
   };
+}
+
+/**
+ * The matrix versions awaiting this person, by the rules of the segment assumptions' queue: for a
+ * validator, versions submitted for review that they did not draft and reviews they started; for
+ * an analyst, their drafts sent back with a request for changes.
+ */
+export async function listMatrixQueue(actor: SessionUser): Promise<QueueItemDto[]> {
+  assertCan(actor, 'assumptions:read');
+  if (actor.role !== 'validator' && actor.role !== 'analyst') return [];
+  const db = getDb();
+  const statuses: AssumptionStatus[] = actor.role === 'validator' ? ['submitted', 'in_review'] : ['draft'];
+  const rows = await db.select().from(factorMatrixVersions).where(inArray(factorMatrixVersions.status, statuses)).orderBy(asc(factorMatrixVersions.updatedAt));
+  const out: QueueItemDto[] = [];
+  for (const v of rows) {
+    const makers = matrixMakerIds(v);
+    const [last] = await db.select().from(factorMatrixAudit).where(eq(factorMatrixAudit.versionId, v.id)).orderBy(desc(factorMatrixAudit.id)).limit(1);
+    let why: string | null = null;
+    if (actor.role === 'validator') {
+      if (makers.includes(actor.id)) continue;
+      if (v.status === 'submitted') why = 'Submitted: awaiting review';
+      else {
+        const [mine] = await db
+          .select({ id: factorMatrixAudit.id })
+          .from(factorMatrixAudit)
+          .where(and(eq(factorMatrixAudit.versionId, v.id), eq(factorMatrixAudit.action, 'start-review'), eq(factorMatrixAudit.actorId, actor.id)))
+          .limit(1);
+        if (mine) why = 'In review by you: decide';
+      }
+    } else if (makers.includes(actor.id) && last?.action === 'request-changes') {
+      why = `Changes requested: ${v.decisionComment ?? 'see the comment'}`;
+    }
+    if (why) {
+      out.push({ id: v.id, segment: `Matrix of ${v.segments.join(', ')}`, version: v.version, status: v.status, why, updatedAt: v.updatedAt.toISOString(), href: `/library/matrices/${v.id}` });
+    }
+  }
+  return out;
 }

@@ -3,7 +3,7 @@ import { sql } from 'drizzle-orm';
 import { closeDb, getDb } from '@/db/connection';
 import type { SessionUser } from '@/lib/auth/guard';
 import { runScheduledTransitions } from '@/lib/dal/assumptions';
-import { createMatrixDraft, getMatrixVersionPage, matricesInForce, matrixTransition, matrixVersions } from '@/lib/dal/factor-matrices';
+import { createMatrixDraft, getMatrixVersionPage, listMatrixQueue, matricesInForce, matrixTransition, matrixVersions } from '@/lib/dal/factor-matrices';
 import { createToken } from '@/lib/dal/tokens';
 import { AppError } from '@/lib/errors';
 import { NEGATIVE_MARGIN } from '@/lib/factor-matrices/cautions';
@@ -193,6 +193,9 @@ describe('the lifecycle of a matrix version: the rules of the segment assumption
     const v = await createMatrixDraft(analyst, body(fitA, { margin: { value: 0, rationale: 'None.' } }));
     expect((await refusal(matrixTransition(validator, v.id, { action: 'submit' }))).code).toBe('forbidden:submit');
     await matrixTransition(analyst, v.id, { action: 'submit' });
+    // In every validator's queue but its author's (were the author a validator now).
+    expect((await listMatrixQueue(validator)).find((i) => i.id === v.id)).toMatchObject({ why: 'Submitted: awaiting review', href: `/library/matrices/${v.id}` });
+    expect((await listMatrixQueue({ ...analyst, role: 'validator' })).some((i) => i.id === v.id)).toBe(false);
     // The author, later a validator (a role change), still may not review what they drafted.
     const self = await refusal(matrixTransition({ ...analyst, role: 'validator' }, v.id, { action: 'start-review' }));
     expect(self.code).toBe('forbidden:start-review:maker');
@@ -213,6 +216,7 @@ describe('the lifecycle of a matrix version: the rules of the segment assumption
     expect(page.version.decisionComment).toBe('State the window of each pair in the limitations.');
     expect(page.audit.filter((a) => a.versionId === v.id).map((a) => a.action)).toEqual(['draft', 'submit', 'start-review', 'request-changes']);
     expect(page.actions).toEqual(['submit']);
+    expect((await listMatrixQueue(analyst)).find((i) => i.id === v.id)?.why).toBe('Changes requested: State the window of each pair in the limitations.');
     await matrixTransition(analyst, v.id, { action: 'submit' });
     await matrixTransition(validator, v.id, { action: 'start-review' });
     await matrixTransition(validator, v.id, { action: 'reject', comment: 'Closed for the next test.' });
