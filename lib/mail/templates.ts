@@ -34,7 +34,8 @@ export type Message = { subject: string; body: string };
 export type MailFacts = {
   segment: string;
   version: number;
-  finalValue: number;
+  /** The value to use; null for a factor-correlation matrix (its value is a matrix, on its page). */
+  finalValue: number | null;
   effectiveDate: string;
   reviewBy: string;
   actorName?: string;
@@ -52,14 +53,14 @@ const footer = `\n\n--\nRhobook. Approval in Rhobook is neither an independent v
 
 export function renderMail(kind: MailKind, f: MailFacts): { subject: string; body: string } {
   const what = `${f.segment} v${f.version}`;
-  const value = rho(f.finalValue);
+  const value = f.finalValue === null ? null : rho(f.finalValue);
   const comment = f.comment?.trim() ? `\n\nComment:\n${f.comment.trim()}` : '';
   const link = `\n\nOpen it: ${f.url}`;
   switch (kind) {
     case 'awaiting-review':
       return {
         subject: `Awaiting review: correlation assumption ${what}`,
-        body: `${f.actorName ?? 'An analyst'} submitted ${what} (final value ${value}, effective ${f.effectiveDate}) for review. It is in the Queue of every validator who did not draft or edit it; any of them may take it into review.${link}${footer}`,
+        body: `${f.actorName ?? 'An analyst'} submitted ${what} (${value === null ? '' : `final value ${value}, `}effective ${f.effectiveDate}) for review. It is in the Queue of every validator who did not draft or edit it; any of them may take it into review.${link}${footer}`,
       };
     case 'changes-requested':
       return {
@@ -78,8 +79,8 @@ export function renderMail(kind: MailKind, f: MailFacts): { subject: string; bod
       };
     case 'published':
       return {
-        subject: `Published: ${what} = ${value}`,
-        body: `${what} is published with the value ${value}, effective ${f.effectiveDate}, to be reviewed by ${f.reviewBy}. The previous published version of the segment, if any, is superseded.${link}${footer}`,
+        subject: value === null ? `Published: ${what}` : `Published: ${what} = ${value}`,
+        body: `${what} is published${value === null ? '' : ` with the value ${value}`}, effective ${f.effectiveDate}, to be reviewed by ${f.reviewBy}. The previous published version${value === null ? ' of the same segments' : ' of the segment'}, if any, is superseded.${link}${footer}`,
       };
     case 'review-by-30':
     case 'review-by-7':

@@ -4,7 +4,7 @@ import type { DbOrTx, Tx } from '@/db/connection';
 import { users, type AssumptionVersion, type Role } from '@/db/schema';
 import { appUrl } from '@/lib/env';
 import { queueMail } from '@/lib/mail/outbox';
-import { renderOverdueMail, type MailKind } from '@/lib/mail/templates';
+import { renderOverdueMail, type MailFacts, type MailKind } from '@/lib/mail/templates';
 import { makerIds, type Actor } from './actors';
 
 /**
@@ -35,10 +35,22 @@ async function activeEmails(db: DbOrTx, where: { role?: Role; ids?: number[] }):
 
 /** Queues the mail of a transition: awaiting review, changes requested, decided, published. */
 export async function notifyTransition(tx: Tx, v: AssumptionVersion, segment: string, action: string, actor: Actor, comment: string | null): Promise<void> {
+  await queueTransitionMail(tx, { action, makers: await makerIds(tx, v), validatorId: v.validatorId, versionId: v.id, facts: versionFacts(v, segment), actor, comment });
+}
+
+/**
+ * The mail of a transition of any kind of assumption (a segment's version, a factor-correlation
+ * matrix's): awaiting review to the validators who are not its makers, changes requested and the
+ * decision to its makers, publication to its makers and validator.
+ */
+export async function queueTransitionMail(
+  tx: Tx,
+  t: { action: string; makers: number[]; validatorId: number | null; versionId?: number; facts: Omit<MailFacts, 'actorName' | 'comment'>; actor: Actor; comment: string | null },
+): Promise<void> {
   let kind: MailKind | null = null;
   let to: string[] = [];
-  const makers = await makerIds(tx, v);
-  switch (action) {
+  const makers = t.makers;
+  switch (t.action) {
     case 'submit':
       kind = 'awaiting-review';
       to = (await activeEmails(tx, { role: 'validator' })).filter((u) => !makers.includes(u.id)).map((u) => u.email);
@@ -49,20 +61,20 @@ export async function notifyTransition(tx: Tx, v: AssumptionVersion, segment: st
       break;
     case 'approve':
     case 'reject':
-      kind = action === 'approve' ? 'approved' : 'rejected';
+      kind = t.action === 'approve' ? 'approved' : 'rejected';
       to = (await activeEmails(tx, { ids: makers })).map((u) => u.email);
       break;
     case 'publish':
       kind = 'published';
-      to = (await activeEmails(tx, { ids: [...makers, ...(v.validatorId ? [v.validatorId] : [])] })).map((u) => u.email);
+      to = (await activeEmails(tx, { ids: [...makers, ...(t.validatorId ? [t.validatorId] : [])] })).map((u) => u.email);
       break;
   }
   if (!kind) return;
   await queueMail(tx, {
     kind,
     to,
-    versionId: v.id,
-    facts: { ...versionFacts(v, segment), actorName: actor.name, comment },
+    ...(t.versionId !== undefined ? { versionId: t.versionId } : {}),
+    facts: { ...t.facts, actorName: t.actor.name, comment: t.comment },
   });
 }
 

@@ -7,6 +7,7 @@ import { factorMatrices, factorMatrixVersions, type AssumptionStatus, type Facto
 import { defaultReviewBy, todayIso } from '@/lib/assumptions/dates';
 import { backDatingProblem, openStatuses, planTransition, statusLabels, type UserAction } from '@/lib/assumptions/lifecycle';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
+import { appUrl } from '@/lib/env';
 import { AppError, parseOrThrow } from '@/lib/errors';
 import {
   matrixContentHash,
@@ -21,6 +22,7 @@ import {
   type MatrixVersionDto,
 } from '@/lib/factor-matrices/content';
 import { asActor, SYSTEM, type Actor } from '../assumptions/actors';
+import { queueTransitionMail } from '../assumptions/notify';
 import { loadFitEvidence } from '../fit-evidence';
 import { overduePolicyIn } from '../overdue-policy';
 import { appendMatrixAudit, lockMatrixVersion, matrixDtos } from './rows';
@@ -145,6 +147,22 @@ async function applyMatrixTransition(
   if (action === 'retire' || action === 'expire' || action === 'supersede') set.endedAt = now;
   await tx.update(factorMatrixVersions).set(set).where(eq(factorMatrixVersions.id, v.id));
   await appendMatrixAudit(tx, v, actor, { action, from, to, comment }, now);
+  // The same e-mail as a segment's version (the outbox's version_id is left empty: it names segment versions).
+  await queueTransitionMail(tx, {
+    action,
+    makers: matrixMakerIds(v),
+    validatorId: action === 'approve' || action === 'reject' ? actor.id : v.validatorId,
+    facts: {
+      segment: `the factor-correlation matrix of ${v.segments.join(', ')}`,
+      version: v.version,
+      finalValue: null,
+      effectiveDate: v.effectiveDate,
+      reviewBy: v.reviewBy,
+      url: appUrl(`/library/matrices/${v.id}`),
+    },
+    actor,
+    comment,
+  });
   if (action !== 'publish') return;
   const previous = await tx
     .select()

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { sql } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
 import { closeDb, getDb } from '@/db/connection';
+import { mailOutbox } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
 import { runScheduledTransitions } from '@/lib/dal/assumptions';
 import { createMatrixDraft, getMatrixVersionPage, listMatrixQueue, matricesInForce, matrixTransition, matrixVersions } from '@/lib/dal/factor-matrices';
@@ -196,6 +197,15 @@ describe('the lifecycle of a matrix version: the rules of the segment assumption
     // In every validator's queue but its author's (were the author a validator now).
     expect((await listMatrixQueue(validator)).find((i) => i.id === v.id)).toMatchObject({ why: 'Submitted: awaiting review', href: `/library/matrices/${v.id}` });
     expect((await listMatrixQueue({ ...analyst, role: 'validator' })).some((i) => i.id === v.id)).toBe(false);
+    // The e-mail of a segment's version: awaiting review, to the validators who are not its makers.
+    const mail = await getDb()
+      .select()
+      .from(mailOutbox)
+      .where(and(eq(mailOutbox.kind, 'awaiting-review'), eq(mailOutbox.toAddress, validator.email.toLowerCase())));
+    const mine = mail.find((m) => m.body.includes(`/library/matrices/${v.id}`));
+    expect(mine?.subject).toBe(`Awaiting review: correlation assumption the factor-correlation matrix of ${setA.join(', ')} v${v.version}`);
+    expect(mine?.body).toContain('(effective ');
+    expect(mine?.versionId).toBeNull();
     // The author, later a validator (a role change), still may not review what they drafted.
     const self = await refusal(matrixTransition({ ...analyst, role: 'validator' }, v.id, { action: 'start-review' }));
     expect(self.code).toBe('forbidden:start-review:maker');
