@@ -24,26 +24,45 @@ const FIELDS: readonly FormFieldRef[] = [
  * off-diagonal entry with its rationale, intended uses, limitations and dates. The server checks
  * that the value is a valid correlation matrix and answers each problem at its field.
  */
-export function MatrixDraftForm({ fitId, today, complete, psd }: { fitId: number; today: string; complete: boolean; psd: boolean }) {
+export type MatrixJudgementValues = { margin: number; marginRationale: string; intendedUses: string; limitations: string; effectiveDate: string; reviewBy: string };
+
+export function MatrixDraftForm({
+  fitId,
+  today,
+  complete,
+  psd,
+  edit,
+}: {
+  fitId: number;
+  today: string;
+  complete: boolean;
+  psd: boolean;
+  /** Editing a version's judgement (PATCH) instead of drafting from the fit. */
+  edit?: { versionId: number; initial: MatrixJudgementValues };
+}) {
   const router = useRouter();
-  const [margin, setMargin] = useState('0');
-  const [rationale, setRationale] = useState('');
-  const [intendedUses, setIntendedUses] = useState('');
-  const [limitations, setLimitations] = useState('');
-  const [effectiveDate, setEffectiveDate] = useState(today);
-  const [reviewBy, setReviewBy] = useState('');
+  const init = edit?.initial;
+  const [margin, setMargin] = useState(String(init?.margin ?? 0));
+  const [rationale, setRationale] = useState(init?.marginRationale ?? '');
+  const [intendedUses, setIntendedUses] = useState(init?.intendedUses ?? '');
+  const [limitations, setLimitations] = useState(init?.limitations ?? '');
+  const [effectiveDate, setEffectiveDate] = useState(init?.effectiveDate ?? today);
+  const [reviewBy, setReviewBy] = useState(init?.reviewBy ?? '');
   const m = useMutation({
-    mutationFn: async () =>
-      (
-        await apiSend<{ id: number }>('POST', '/api/factor-matrices', {
-          fitId,
-          margin: { value: margin.trim() === '' ? Number.NaN : Number(margin), rationale },
-          intendedUses,
-          limitations,
-          effectiveDate,
-          ...(reviewBy ? { reviewBy } : {}),
-        })
-      ).id,
+    mutationFn: async () => {
+      const body = {
+        margin: { value: margin.trim() === '' ? Number.NaN : Number(margin), rationale },
+        intendedUses,
+        limitations,
+        effectiveDate,
+        ...(reviewBy ? { reviewBy } : {}),
+      };
+      if (edit) {
+        await apiSend('PATCH', `/api/factor-matrices/${edit.versionId}`, body);
+        return edit.versionId;
+      }
+      return (await apiSend<{ id: number }>('POST', '/api/factor-matrices', { ...body, fitId })).id;
+    },
     onSuccess: (id) => {
       router.push(`/library/matrices/${id}`);
       router.refresh();
@@ -60,12 +79,13 @@ export function MatrixDraftForm({ fitId, today, complete, psd }: { fitId: number
   };
   return (
     <details className="border-t border-[var(--color-line)] pt-3" data-testid="matrix-draft">
-      <summary className="cursor-pointer font-medium">Draft as an assumption</summary>
-      <form onSubmit={onSubmit} aria-label="Draft the matrix as an assumption" className="mt-3 space-y-3" noValidate>
+      <summary className="cursor-pointer font-medium">{edit ? 'Edit the judgement' : 'Draft as an assumption'}</summary>
+      <form onSubmit={onSubmit} aria-label={edit ? 'Edit the matrix draft' : 'Draft the matrix as an assumption'} className="mt-3 space-y-3" noValidate>
         <p className="text-sm text-[var(--color-muted)]">
-          The pairs with their intervals, the {psd ? 'estimated matrix' : 'nearest correlation matrix (the estimates are not positive semi-definite)'}, the
-          dataset hash, the engine version and the seeds are copied and frozen. A validator who did not draft it reviews it; the scheduler publishes it on
-          its effective date. {MARGIN_DIRECTION}
+          {edit
+            ? 'The evidence stays frozen; the value is recomputed from the margin and checked again. Editing a version after submission returns it to draft.'
+            : `The pairs with their intervals, the ${psd ? 'estimated matrix' : 'nearest correlation matrix (the estimates are not positive semi-definite)'}, the dataset hash, the engine version and the seeds are copied and frozen. A validator who did not draft it reviews it; the scheduler publishes it on its effective date.`}{' '}
+          {MARGIN_DIRECTION}
         </p>
         <div className="grid gap-3 md:grid-cols-[12rem_1fr]">
           <FormField id="matrix-margin" label="Margin added off the diagonal" error={error('matrix-margin')}>
@@ -91,7 +111,7 @@ export function MatrixDraftForm({ fitId, today, complete, psd }: { fitId: number
         </div>
         <FormMessage message={formMessage} />
         <button type="submit" className="btn" disabled={m.isPending}>
-          Save draft
+          {edit ? 'Save changes' : 'Save draft'}
         </button>
       </form>
     </details>

@@ -81,6 +81,10 @@ export const matrixDraftSchema = z.object({
 });
 export type MatrixDraftInput = z.input<typeof matrixDraftSchema>;
 
+/** An edit changes the judgement only (every field of it); the evidence stays frozen (draft a new version for another fit). */
+export const matrixEditSchema = matrixDraftSchema.omit({ fitId: true }).strict();
+export type MatrixEditInput = z.input<typeof matrixEditSchema>;
+
 /** The key of a set of segments: the names sorted, one per line (the order of the rows is the version's own). */
 export function segmentKey(segments: readonly string[]): string {
   return [...segments].sort().join('\n');

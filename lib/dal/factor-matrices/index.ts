@@ -7,6 +7,6 @@
  * - reads.ts: the library entries and the version page
  * - consumer.ts: what the consumer API reads (in force at a date, a matrix's versions, the CSV)
  */
-export { createMatrixDraft, matrixTransition, publishDueMatrices } from './writes';
+export { createMatrixDraft, editMatrixDraft, matrixTransition, publishDueMatrices } from './writes';
 export { getMatrixVersionPage, listMatrixLibrary, listMatrixQueue, type MatrixLibraryEntryDto, type MatrixVersionPageDto } from './reads';
 export { matricesInForce, matrixVersions, publishedMatrices } from './consumer';

@@ -70,7 +70,7 @@ export async function getMatrixVersionPage(actor: SessionUser, id: number, now: 
     .orderBy(asc(factorMatrixAudit.id));
   const schedulerRunning = !(await getHealth()).worker.stale;
   const today = todayIso(now);
-  const makers = matrixMakerIds(row);
+  const makers = await matrixMakerIds(db, row);
   return {
     version,
     versions: dtos,
@@ -114,7 +114,7 @@ export async function listMatrixQueue(actor: SessionUser): Promise<QueueItemDto[
   const rows = await db.select().from(factorMatrixVersions).where(inArray(factorMatrixVersions.status, statuses)).orderBy(asc(factorMatrixVersions.updatedAt));
   const out: QueueItemDto[] = [];
   for (const v of rows) {
-    const makers = matrixMakerIds(v);
+    const makers = await matrixMakerIds(db, v);
     const [last] = await db.select().from(factorMatrixAudit).where(eq(factorMatrixAudit.versionId, v.id)).orderBy(desc(factorMatrixAudit.id)).limit(1);
     let why: string | null = null;
     if (actor.role === 'validator') {

@@ -1,17 +1,18 @@
 import 'server-only';
-import { and, asc, eq, lt, lte } from 'drizzle-orm';
+import { and, asc, eq, inArray, lt, lte } from 'drizzle-orm';
 import { getDb } from '@/db/client';
-import type { Db, Tx } from '@/db/connection';
+import type { Db, DbOrTx, Tx } from '@/db/connection';
 import { transactionWithRetry } from '@/db/transaction';
-import { factorMatrices, factorMatrixVersions, type AssumptionStatus, type FactorMatrixVersion } from '@/db/schema';
+import { factorMatrices, factorMatrixAudit, factorMatrixVersions, type AssumptionStatus, type FactorMatrixVersion } from '@/db/schema';
 import { defaultReviewBy, todayIso } from '@/lib/assumptions/dates';
-import { backDatingProblem, openStatuses, planTransition, statusLabels, type UserAction } from '@/lib/assumptions/lifecycle';
+import { backDatingProblem, openStatuses, planEdit, planTransition, statusLabels, type UserAction } from '@/lib/assumptions/lifecycle';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { appUrl } from '@/lib/env';
 import { AppError, parseOrThrow } from '@/lib/errors';
 import {
   matrixContentHash,
   matrixDraftSchema,
+  matrixEditSchema,
   matrixJudgementProblem,
   matrixValue,
   pickMatrixEvidence,
@@ -19,13 +20,14 @@ import {
   segmentKeyHash,
   type MatrixContent,
   type MatrixDraftInput,
+  type MatrixEditInput,
   type MatrixVersionDto,
 } from '@/lib/factor-matrices/content';
 import { asActor, SYSTEM, type Actor } from '../assumptions/actors';
 import { queueTransitionMail } from '../assumptions/notify';
 import { loadFitEvidence } from '../fit-evidence';
 import { overduePolicyIn } from '../overdue-policy';
-import { appendMatrixAudit, lockMatrixVersion, matrixDtos } from './rows';
+import { appendMatrixAudit, lockMatrixVersion, matrixContentOf, matrixDtos } from './rows';
 
 /**
  * The writes of a factor-correlation matrix's lifecycle: drafting from a fit, every transition (the
@@ -96,9 +98,73 @@ export async function createMatrixDraft(actor: SessionUser, input: MatrixDraftIn
   });
 }
 
-/** The makers of a matrix version: its author (a matrix's evidence and judgement are not edited after drafting). */
-export function matrixMakerIds(v: FactorMatrixVersion): number[] {
-  return [v.authorId];
+/** The makers of a matrix version: its author and everyone who edited it (from the append-only audit trail). */
+export async function matrixMakerIds(db: DbOrTx, v: FactorMatrixVersion): Promise<number[]> {
+  const rows = await db
+    .selectDistinct({ id: factorMatrixAudit.actorId })
+    .from(factorMatrixAudit)
+    .where(and(eq(factorMatrixAudit.versionId, v.id), inArray(factorMatrixAudit.action, ['draft', 'edit'])));
+  return [...new Set([v.authorId, ...rows.map((r) => r.id).filter((x): x is number => x !== null)])];
+}
+
+/**
+ * Edits the analyst's judgement of a matrix version (margin and rationale, uses, limitations,
+ * dates) by the rules of lib/assumptions/lifecycle.ts planEdit: only analysts; a version after
+ * submission returns to draft and its earlier decision is cleared; a published, superseded,
+ * expired, retired or rejected version is immutable. The evidence stays frozen; the value is
+ * recomputed and checked again.
+ */
+export async function editMatrixDraft(actor: SessionUser, id: number, input: MatrixEditInput, now: Date = new Date()): Promise<MatrixVersionDto> {
+  const e = parseOrThrow(matrixEditSchema, input, 'invalid:assumption', 'The matrix draft is not valid.');
+  return transactionWithRetry(getDb(), async (tx) => {
+    const v = await lockMatrixVersion(tx, id);
+    assertCan(actor, 'assumptions:read');
+    const { from, to } = planEdit({ actor, status: v.status });
+    const reviewBy = e.reviewBy ?? defaultReviewBy(e.effectiveDate);
+    matrixJudgementProblem({ effectiveDate: e.effectiveDate, reviewBy });
+    const base = matrixContentOf(v);
+    const { value, smallestEigenvalue } = matrixValue(base, e.margin.value);
+    const content: MatrixContent = {
+      ...base,
+      margin: e.margin.value,
+      marginRationale: e.margin.rationale,
+      value,
+      valueSmallestEigenvalue: smallestEigenvalue,
+      intendedUses: e.intendedUses,
+      limitations: e.limitations,
+      effectiveDate: e.effectiveDate,
+      reviewBy,
+    };
+    const contentHash = matrixContentHash(content);
+    await tx
+      .update(factorMatrixVersions)
+      .set({
+        margin: content.margin,
+        marginRationale: content.marginRationale,
+        value,
+        valueSmallestEigenvalue: smallestEigenvalue,
+        intendedUses: content.intendedUses,
+        limitations: content.limitations,
+        effectiveDate: content.effectiveDate,
+        reviewBy,
+        contentHash,
+        status: to,
+        validatorId: null,
+        decisionComment: null,
+        decidedAt: null,
+        updatedAt: now,
+      })
+      .where(eq(factorMatrixVersions.id, id));
+    await appendMatrixAudit(
+      tx,
+      { ...v, contentHash },
+      asActor(actor),
+      { action: 'edit', from, to, comment: from !== 'draft' ? `Edited while ${statusLabels[from]}: returned to draft.` : null },
+      now,
+    );
+    const [row] = await tx.select().from(factorMatrixVersions).where(eq(factorMatrixVersions.id, id));
+    return (await matrixDtos(tx, [row]))[0];
+  });
 }
 
 /** Applies a person's transition under the lifecycle's rules, in the transaction that writes it. */
@@ -114,7 +180,7 @@ export async function matrixTransition(
     const { from, to } = planTransition(input.action, {
       actor,
       status: v.status,
-      makerIds: matrixMakerIds(v),
+      makerIds: await matrixMakerIds(tx, v),
       comment: input.comment,
       effectiveDate: v.effectiveDate,
       today: todayIso(now),
@@ -150,7 +216,7 @@ async function applyMatrixTransition(
   // The same e-mail as a segment's version (the outbox's version_id is left empty: it names segment versions).
   await queueTransitionMail(tx, {
     action,
-    makers: matrixMakerIds(v),
+    makers: await matrixMakerIds(tx, v),
     validatorId: action === 'approve' || action === 'reject' ? actor.id : v.validatorId,
     facts: {
       segment: `the factor-correlation matrix of ${v.segments.join(', ')}`,

@@ -4,7 +4,7 @@ import { closeDb, getDb } from '@/db/connection';
 import { mailOutbox } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
 import { runScheduledTransitions } from '@/lib/dal/assumptions';
-import { createMatrixDraft, getMatrixVersionPage, listMatrixQueue, matricesInForce, matrixTransition, matrixVersions } from '@/lib/dal/factor-matrices';
+import { createMatrixDraft, editMatrixDraft, getMatrixVersionPage, listMatrixQueue, matricesInForce, matrixTransition, matrixVersions } from '@/lib/dal/factor-matrices';
 import { createToken } from '@/lib/dal/tokens';
 import { AppError } from '@/lib/errors';
 import { NEGATIVE_MARGIN } from '@/lib/factor-matrices/cautions';
@@ -13,6 +13,7 @@ import { checkCorrelationMatrix } from '@/lib/stats/correlation-matrix-check';
 import { assembleFactorCorrelationMatrix } from '@/lib/stats/factor-correlation-matrix';
 import type { FactorCorrelation } from '@/lib/stats/factor-correlation';
 import * as draftRoute from '@/app/api/factor-matrices/route';
+import * as editRoute from '@/app/api/factor-matrices/[id]/route';
 import * as transitionRoute from '@/app/api/factor-matrices/[id]/transitions/route';
 import * as inForceRoute from '@/app/api/v1/factor-matrices/route';
 import * as versionsRoute from '@/app/api/v1/factor-matrices/[id]/versions/route';
@@ -230,6 +231,42 @@ describe('the lifecycle of a matrix version: the rules of the segment assumption
     await matrixTransition(analyst, v.id, { action: 'submit' });
     await matrixTransition(validator, v.id, { action: 'start-review' });
     await matrixTransition(validator, v.id, { action: 'reject', comment: 'Closed for the next test.' });
+  });
+
+  it('edits the judgement of a version sent back (another analyst): the value recomputed and re-checked, a new hash, the editor a maker too', async () => {
+    const v = await createMatrixDraft(analyst, body(fitA, { margin: { value: 0, rationale: 'None.' } }));
+    await matrixTransition(analyst, v.id, { action: 'submit' });
+    const analyst2 = await makeUser('analyst');
+    // An edit after submission returns the version to draft.
+    session.user = analyst2;
+    const edited = await call(editRoute.PATCH, {
+      method: 'PATCH',
+      params: { id: String(v.id) },
+      body: { margin: { value: 0.03, rationale: 'Twelve years: a small add-on.' }, intendedUses: v.intendedUses, limitations: v.limitations, effectiveDate: v.effectiveDate },
+    });
+    expect(edited.status).toBe(200);
+    expect(edited.body).toMatchObject({ status: 'draft' });
+    expect(edited.body.contentHash).not.toBe(v.contentHash);
+    const page = await getMatrixVersionPage(analyst2, v.id);
+    expect(page.version.value[0][1]).toBeCloseTo(0.65, 14);
+    expect(page.version.margin).toBe(0.03);
+    expect(page.makerIds.sort()).toEqual([analyst.id, analyst2.id].sort());
+    expect(page.audit.filter((a) => a.versionId === v.id).map((a) => [a.action, a.fromStatus, a.toStatus])).toEqual([
+      ['draft', null, 'draft'],
+      ['submit', 'draft', 'submitted'],
+      ['edit', 'submitted', 'draft'],
+    ]);
+    // A margin that breaks the matrix is refused at its field; a validator cannot edit.
+    const broken = await refusal(editMatrixDraft(analyst2, v.id, { margin: { value: 0.45, rationale: 'Too much.' }, intendedUses: 'x', limitations: 'y', effectiveDate: v.effectiveDate }));
+    expect(broken.code).toBe('invalid:matrix-margin');
+    expect((await refusal(editMatrixDraft(validator, v.id, { margin: { value: 0, rationale: 'x' }, intendedUses: 'x', limitations: 'y', effectiveDate: v.effectiveDate }))).code).toBe('forbidden:edit');
+    await matrixTransition(analyst2, v.id, { action: 'submit' });
+    // The editor, were they a validator now, may not review it.
+    expect((await refusal(matrixTransition({ ...analyst2, role: 'validator' }, v.id, { action: 'start-review' }))).code).toBe('forbidden:start-review:maker');
+    await matrixTransition(validator, v.id, { action: 'start-review' });
+    await matrixTransition(validator, v.id, { action: 'reject', comment: 'Closed for the next test.' });
+    // A rejected version is immutable.
+    expect((await refusal(editMatrixDraft(analyst2, v.id, { margin: { value: 0, rationale: 'x' }, intendedUses: 'x', limitations: 'y', effectiveDate: v.effectiveDate }))).code).toBe('conflict:edit');
   });
 
   it('keeps the audit trail append-only', async () => {

@@ -10,7 +10,10 @@ import { VersionCautions } from '@/components/assumptions/version-cautions';
 import { Heatmap } from '@/components/fits/correlation-heatmap';
 import { Breadcrumbs } from '@/components/layout/breadcrumbs';
 import { ScrollBox } from '@/components/layout/scroll-box';
-import { statusLabels } from '@/lib/assumptions/lifecycle';
+import { MatrixDraftForm } from '@/components/factor-matrices/matrix-draft-form';
+import { todayIso } from '@/lib/assumptions/dates';
+import { editableStatuses, statusLabels } from '@/lib/assumptions/lifecycle';
+import { can } from '@/lib/auth/permissions';
 import { requireUser } from '@/lib/auth/session';
 import { getMatrixVersionPage } from '@/lib/dal/factor-matrices';
 import { AppError } from '@/lib/errors';
@@ -169,9 +172,19 @@ export default async function MatrixVersionPage({ params }: { params: Promise<{ 
           {actor.role === 'validator' && page.makerIds.includes(actor.id) ? (
             <p className="notice-caution text-sm">You drafted this version: another validator must review it.</p>
           ) : null}
-          <p className="text-sm text-[var(--color-muted)]">
-            A matrix version is not edited: to change it, request changes or reject it, and draft a new version from a fit.
-          </p>
+          {can(actor.role, 'assumptions:draft') && editableStatuses.includes(v.status) ? (
+            <MatrixDraftForm
+              fitId={v.fitRunId}
+              today={todayIso()}
+              complete
+              psd={v.nearest === null}
+              edit={{
+                versionId: v.id,
+                initial: { margin: v.margin, marginRationale: v.marginRationale, intendedUses: v.intendedUses, limitations: v.limitations, effectiveDate: v.effectiveDate, reviewBy: v.reviewBy },
+              }}
+            />
+          ) : null}
+          <p className="text-sm text-[var(--color-muted)]">The evidence of a version is frozen: to use another fit, draft a new version from it.</p>
         </div>
       </section>
 
