@@ -64,10 +64,11 @@
  * Saumard, A. & Wellner, J. A. (2014), "Log-concavity and strong log-concavity: a review",
  * Statistics Surveys 8:45-114; Louis, T. A. (1982), JRSS B 44:226-233.
  */
-import { binomialLogPmf, logBinomialCoefficient } from './log-binomial';
+import { binomialLogPmf } from './log-binomial';
 import { assertPanel, type Panel } from './panel';
 import { normalCdf, normalQuantile } from './normal';
 import { normalTails, TAIL, TAIL_SLOTS } from './normal-tails';
+import { panelArrays } from './panel-arrays';
 
 /** Log-units below the mode at which each year's filtered density is truncated. */
 export const AR1_TRUNCATION_LOG_UNITS = 40;
@@ -183,12 +184,8 @@ export class Ar1Likelihood {
       throw new RangeError(`Ar1Likelihood: nodesPerScale must be from 1 to 64; got ${nodesPerScale}.`);
     }
     this.nodesPerScale = nodesPerScale;
-    const T = panel.obligors.length;
-    this.periods = T;
-    this.obligors = Float64Array.from(panel.obligors);
-    this.defaults = Float64Array.from(panel.defaults);
-    this.logChoose = new Float64Array(T);
-    for (let t = 0; t < T; t++) this.logChoose[t] = logBinomialCoefficient(this.obligors[t], this.defaults[t]);
+    ({ periods: this.periods, obligors: this.obligors, defaults: this.defaults, logChoose: this.logChoose } = panelArrays(panel, 'Ar1Likelihood'));
+    const T = this.periods;
     this.modes = new Float64Array(T);
     this.widths = new Float64Array(2 * T);
     this.hasMode = new Uint8Array(T);

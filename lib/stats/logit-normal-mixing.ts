@@ -15,8 +15,8 @@
  */
 import { LogConcaveIntegrator, type LogConcaveIntegrand } from './log-concave-integral';
 import { PeriodWarmStarts } from './period-warm-starts';
-import { logBinomialCoefficient } from './log-binomial';
-import { assertPanel, type Panel } from './panel';
+import type { Panel } from './panel';
+import { panelArrays } from './panel-arrays';
 
 const LN_SQRT_2PI = 0.9189385332046727418;
 
@@ -148,14 +148,8 @@ export class LogitNormalLikelihood {
   evaluations = 0;
 
   constructor(panel: Panel) {
-    assertPanel(panel, 'LogitNormalLikelihood');
-    const T = panel.obligors.length;
-    this.periods = T;
-    this.obligors = Float64Array.from(panel.obligors);
-    this.defaults = Float64Array.from(panel.defaults);
-    this.logChoose = new Float64Array(T);
-    this.warm = new PeriodWarmStarts(T);
-    for (let t = 0; t < T; t++) this.logChoose[t] = logBinomialCoefficient(this.obligors[t], this.defaults[t]);
+    ({ periods: this.periods, obligors: this.obligors, defaults: this.defaults, logChoose: this.logChoose } = panelArrays(panel, 'LogitNormalLikelihood'));
+    this.warm = new PeriodWarmStarts(this.periods);
   }
 
   /** Log-likelihood at (mu, sigma). */

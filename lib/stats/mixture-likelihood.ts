@@ -26,12 +26,13 @@
  * (lemma 1, used for the rho-derivative near 0).
  */
 import { GaussianPeriodIntegrand, GAUSSIAN_MOMENTS, type DerivativeOrder } from './gaussian-mixing';
-import { binomialLogPmf, logBinomialCoefficient } from './log-binomial';
+import { binomialLogPmf } from './log-binomial';
 import { LogConcaveIntegrator } from './log-concave-integral';
 import { PeriodWarmStarts } from './period-warm-starts';
 import { normalCdf, normalQuantile } from './normal';
 import { normalTails, TAIL_SLOTS } from './normal-tails';
 import { assertPanel, type Panel } from './panel';
+import { panelArrays } from './panel-arrays';
 
 // Re-exported for callers that import the panel from the likelihood (its home is panel.ts).
 export { assertPanel, type Panel };
@@ -115,21 +116,8 @@ export class MixtureLikelihood {
   }
 
   constructor(panel: Panel) {
-    assertPanel(panel, 'MixtureLikelihood');
-    const T = panel.obligors.length;
-    this.periods = T;
-    this.obligors = Float64Array.from(panel.obligors);
-    this.defaults = Float64Array.from(panel.defaults);
-    this.logChoose = new Float64Array(T);
-    this.warm = new PeriodWarmStarts(T);
-    let sn = 0;
-    let sd = 0;
-    for (let t = 0; t < T; t++) {
-      this.logChoose[t] = logBinomialCoefficient(this.obligors[t], this.defaults[t]);
-      sn += this.obligors[t];
-      sd += this.defaults[t];
-    }
-    this.pooledRate = sd / sn;
+    ({ periods: this.periods, obligors: this.obligors, defaults: this.defaults, logChoose: this.logChoose, pooledRate: this.pooledRate } = panelArrays(panel, 'MixtureLikelihood'));
+    this.warm = new PeriodWarmStarts(this.periods);
   }
 
   /** How the integrations went so far: evaluations, integrals that missed the tolerance, the worst error estimate. */

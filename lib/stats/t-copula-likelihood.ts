@@ -13,10 +13,10 @@ import studentTCdf from '@stdlib/stats-base-dists-t-cdf';
 import studentTQuantile from '@stdlib/stats-base-dists-t-quantile';
 import { LogConcaveIntegrator, type LogConcaveOptions } from './log-concave-integral';
 import { PeriodWarmStarts } from './period-warm-starts';
-import { logBinomialCoefficient } from './log-binomial';
 import { MixtureLikelihood, type IntegrationReport } from './mixture-likelihood';
 import { normalCdf, normalQuantile } from './normal';
-import { assertPanel, type Panel } from './panel';
+import type { Panel } from './panel';
+import { panelArrays } from './panel-arrays';
 import { TCopulaPeriodIntegrand, T_COPULA_MOMENTS } from './t-copula-mixing';
 import { FULL_TABLE_ACCURACY, ThresholdLikelihood, type TableAccuracy } from './threshold-likelihood';
 
@@ -117,23 +117,14 @@ export class TCopulaLikelihood {
    * options.tableAccuracy their spacing and tolerances (default FULL_TABLE_ACCURACY, 1e-10).
    */
   constructor(panel: Panel, options: { tabulate?: boolean; tableAccuracy?: Readonly<TableAccuracy> } = {}) {
-    assertPanel(panel, 'TCopulaLikelihood');
+    ({ periods: this.periods, obligors: this.obligors, defaults: this.defaults, logChoose: this.logChoose, pooledRate: this.pooledRate } = panelArrays(panel, 'TCopulaLikelihood'));
     this.tabulate = options.tabulate ?? true;
     this.tableAccuracy = options.tableAccuracy ?? FULL_TABLE_ACCURACY;
-    const T = panel.obligors.length;
-    this.periods = T;
-    this.obligors = Float64Array.from(panel.obligors);
-    this.defaults = Float64Array.from(panel.defaults);
-    this.logChoose = new Float64Array(T);
-    let sn = 0;
-    let sd = 0;
+    const T = this.periods;
     const groupOf = new Map<string, number>();
     const first: number[] = [];
     const size: number[] = [];
     for (let t = 0; t < T; t++) {
-      this.logChoose[t] = logBinomialCoefficient(this.obligors[t], this.defaults[t]);
-      sn += this.obligors[t];
-      sd += this.defaults[t];
       const key = `${this.obligors[t]}/${this.defaults[t]}`;
       const g = groupOf.get(key);
       if (g === undefined) {
@@ -147,7 +138,6 @@ export class TCopulaLikelihood {
     this.groupFirst = Int32Array.from(first);
     this.groupSize = Float64Array.from(size);
     this.warm = new PeriodWarmStarts(first.length);
-    this.pooledRate = sd / sn;
     this.gaussian = new MixtureLikelihood(panel);
   }
 
