@@ -25,6 +25,16 @@ const interval = z.object({
 const margin = z.object({ value: z.number(), rationale: z.string() });
 const definitionSpan = z.object({ definition: z.string().nullable(), from: z.string(), to: z.string(), periods: z.array(z.string()) });
 
+/** What ties a published value to the evidence it was drawn from, for every kind of value. */
+export const lineageSchema = z.object({
+  fitRunId: z.number().int().nullable(),
+  datasetId: z.number().int().nullable(),
+  datasetSha256: z.string(),
+  engineVersion: z.string(),
+  seeds: z.unknown(),
+  contentHash: z.string(),
+});
+
 export const consumerVersionSchema = z.object({
   assumptionId: z.number().int(),
   segment: z.string(),
@@ -117,13 +127,7 @@ export const consumerVersionSchema = z.object({
     })
     .describe('The review state of the value.'),
   cautions: z.array(z.string()).describe('Cautions of this version in particular (a mix of definitions of default, evidence that has aged); the general cautions are in the answer beside it.'),
-  lineage: z.object({
-    fitRunId: z.number().int().nullable(),
-    datasetId: z.number().int().nullable(),
-    datasetSha256: z.string(),
-    engineVersion: z.string(),
-    seeds: z.unknown(),
-    contentHash: z.string(),
+  lineage: lineageSchema.extend({
     fitUrl: z.string().nullable(),
     datasetUrl: z.string().nullable(),
   }),

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { assumptionStatuses, overduePolicyKinds } from '@/db/schema';
 import { toCsv, type CsvValue } from '@/lib/csv';
+import { lineageSchema } from '@/lib/assumptions/consumer';
 import type { MatrixVersionDto } from './content';
 import { matrixCautions } from './cautions';
 
@@ -45,14 +46,7 @@ export const consumerMatrixSchema = z.object({
   publishedAt: z.string().nullable(),
   endedAt: z.string().nullable(),
   review: z.object({ reviewBy: z.string(), overdue: z.boolean(), policy: z.enum(overduePolicyKinds) }),
-  lineage: z.object({
-    fitRunId: z.number().int().nullable(),
-    datasetId: z.number().int().nullable(),
-    datasetSha256: z.string(),
-    engineVersion: z.string(),
-    seeds: z.unknown(),
-    contentHash: z.string(),
-  }),
+  lineage: lineageSchema,
   validator: z.string().nullable(),
   decisionComment: z.string().nullable(),
 });

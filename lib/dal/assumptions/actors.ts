@@ -1,7 +1,7 @@
 import 'server-only';
 import { and, eq, inArray } from 'drizzle-orm';
 import type { DbOrTx } from '@/db/connection';
-import { assumptionAudit, type AssumptionVersion, type Role } from '@/db/schema';
+import { assumptionAudit, type AssumptionStatus, type AssumptionVersion, type Role } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
 
 /** Who acted on a version: a person, or the scheduler. */
@@ -20,4 +20,19 @@ export async function makerIds(db: DbOrTx, v: AssumptionVersion): Promise<number
     .from(assumptionAudit)
     .where(and(eq(assumptionAudit.versionId, v.id), inArray(assumptionAudit.action, ['draft', 'edit'])));
   return [...new Set([v.authorId, ...(v.lastEditedBy ? [v.lastEditedBy] : []), ...rows.map((r) => r.id).filter((x): x is number => x !== null)])];
+}
+
+/** What every audit row of a value says of an event, whatever the kind of value (a segment's version or a matrix's). */
+export function auditEventFields(actor: Actor, e: { action: string; from: AssumptionStatus | null; to: AssumptionStatus; comment?: string | null }, contentHash: string, at: Date) {
+  return {
+    action: e.action,
+    actorId: actor.id,
+    actorEmail: actor.email,
+    actorRole: actor.role,
+    fromStatus: e.from,
+    toStatus: e.to,
+    comment: e.comment?.trim() || null,
+    contentHash,
+    at,
+  };
 }

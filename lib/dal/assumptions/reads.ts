@@ -16,6 +16,7 @@ import { getHealth } from '../health';
 import { evidenceOf } from '../evidence-store';
 import { overduePolicyIn } from '../overdue-policy';
 import { makerIds } from './actors';
+import { queueReason } from '@/lib/assumptions/queue';
 import {
   peopleById,
   toAuditDto,
@@ -259,28 +260,23 @@ export async function listQueue(actor: SessionUser): Promise<QueueItemDto[]> {
     .orderBy(asc(assumptionVersions.updatedAt));
   const out: QueueItemDto[] = [];
   for (const { v, segment } of rows) {
-    const makers = await makerIds(db, v);
-    let why: string | null = null;
-    if (actor.role === 'validator') {
-      if (makers.includes(actor.id)) continue;
-      if (v.status === 'submitted') why = 'Submitted: awaiting review';
-      else {
+    const why = await queueReason(
+      v,
+      actor.role,
+      (await makerIds(db, v)).includes(actor.id),
+      async () => {
         const [mine] = await db
           .select({ id: assumptionReviews.id })
           .from(assumptionReviews)
           .where(and(eq(assumptionReviews.versionId, v.id), eq(assumptionReviews.reviewerId, actor.id), eq(assumptionReviews.voided, false)))
           .limit(1);
-        if (mine) why = 'In review by you: decide';
-      }
-    } else if (makers.includes(actor.id)) {
-      const [last] = await db
-        .select({ action: assumptionAudit.action })
-        .from(assumptionAudit)
-        .where(eq(assumptionAudit.versionId, v.id))
-        .orderBy(desc(assumptionAudit.id))
-        .limit(1);
-      if (last?.action === 'request-changes') why = `Changes requested: ${v.decisionComment ?? 'see the comment'}`;
-    }
+        return Boolean(mine);
+      },
+      async () => {
+        const [last] = await db.select({ action: assumptionAudit.action }).from(assumptionAudit).where(eq(assumptionAudit.versionId, v.id)).orderBy(desc(assumptionAudit.id)).limit(1);
+        return last?.action ?? null;
+      },
+    );
     if (why) out.push({ id: v.id, segment, version: v.version, status: v.status, why, updatedAt: v.updatedAt.toISOString(), href: `/library/versions/${v.id}`, finalValue: v.finalValue });
   }
   return out;

@@ -23,7 +23,7 @@ import { definitionsOf } from '../default-definitions';
 import { loadFitEvidence } from '../fit-evidence';
 import { blockingRefusal } from '../findings';
 import { notifyModels } from '../model-notify';
-import { asActor, makerIds, SYSTEM, type Actor } from './actors';
+import { asActor, auditEventFields, makerIds, SYSTEM, type Actor } from './actors';
 import { contentOf, versionDtos, type VersionDto } from './dto';
 import { notifyTransition } from './notify';
 
@@ -53,15 +53,7 @@ async function appendAudit(
     assumptionId: v.assumptionId,
     versionId: v.id,
     version: v.version,
-    action: e.action,
-    actorId: actor.id,
-    actorEmail: actor.email,
-    actorRole: actor.role,
-    fromStatus: e.from,
-    toStatus: e.to,
-    comment: e.comment?.trim() || null,
-    contentHash: e.contentHash,
-    at,
+    ...auditEventFields(actor, e, e.contentHash, at),
   });
 }
 

@@ -13,6 +13,7 @@ import { canSeeVersion } from '../assumptions/visibility';
 import { getHealth } from '../health';
 import { matrixDtos } from './rows';
 import { matrixMakerIds } from './writes';
+import { queueReason } from '@/lib/assumptions/queue';
 
 /** What the library and the version page read of the matrix assumptions; viewers see only what has been published. */
 export type MatrixLibraryEntryDto = {
@@ -114,23 +115,23 @@ export async function listMatrixQueue(actor: SessionUser): Promise<QueueItemDto[
   const rows = await db.select().from(factorMatrixVersions).where(inArray(factorMatrixVersions.status, statuses)).orderBy(asc(factorMatrixVersions.updatedAt));
   const out: QueueItemDto[] = [];
   for (const v of rows) {
-    const makers = await matrixMakerIds(db, v);
-    const [last] = await db.select().from(factorMatrixAudit).where(eq(factorMatrixAudit.versionId, v.id)).orderBy(desc(factorMatrixAudit.id)).limit(1);
-    let why: string | null = null;
-    if (actor.role === 'validator') {
-      if (makers.includes(actor.id)) continue;
-      if (v.status === 'submitted') why = 'Submitted: awaiting review';
-      else {
+    const why = await queueReason(
+      v,
+      actor.role,
+      (await matrixMakerIds(db, v)).includes(actor.id),
+      async () => {
         const [mine] = await db
           .select({ id: factorMatrixAudit.id })
           .from(factorMatrixAudit)
           .where(and(eq(factorMatrixAudit.versionId, v.id), eq(factorMatrixAudit.action, 'start-review'), eq(factorMatrixAudit.actorId, actor.id)))
           .limit(1);
-        if (mine) why = 'In review by you: decide';
-      }
-    } else if (makers.includes(actor.id) && last?.action === 'request-changes') {
-      why = `Changes requested: ${v.decisionComment ?? 'see the comment'}`;
-    }
+        return Boolean(mine);
+      },
+      async () => {
+        const [last] = await db.select({ action: factorMatrixAudit.action }).from(factorMatrixAudit).where(eq(factorMatrixAudit.versionId, v.id)).orderBy(desc(factorMatrixAudit.id)).limit(1);
+        return last?.action ?? null;
+      },
+    );
     if (why) {
       out.push({ id: v.id, segment: `Matrix of ${v.segments.join(', ')}`, version: v.version, status: v.status, why, updatedAt: v.updatedAt.toISOString(), href: `/library/matrices/${v.id}` });
     }

@@ -4,7 +4,7 @@ import type { DbOrTx, Tx } from '@/db/connection';
 import { factorMatrixAudit, factorMatrixVersions, type AssumptionStatus, type FactorMatrixVersion } from '@/db/schema';
 import type { MatrixContent, MatrixVersionDto } from '@/lib/factor-matrices/content';
 import { AppError } from '@/lib/errors';
-import type { Actor } from '../assumptions/actors';
+import { auditEventFields, type Actor } from '../assumptions/actors';
 import { peopleById } from '../assumptions/dto';
 
 /** A matrix version's rows as the DTO the screens and the consumer API read, and the audit row every write appends. */
@@ -73,15 +73,7 @@ export async function appendMatrixAudit(
     matrixId: v.matrixId,
     versionId: v.id,
     version: v.version,
-    action: e.action,
-    actorId: actor.id,
-    actorEmail: actor.email,
-    actorRole: actor.role,
-    fromStatus: e.from,
-    toStatus: e.to,
-    comment: e.comment?.trim() || null,
-    contentHash: v.contentHash,
-    at,
+    ...auditEventFields(actor, e, v.contentHash, at),
   });
 }
 
