@@ -9,7 +9,8 @@
  * given after it, labelled as such.
  */
 import { fixed, pct, pd, pValue, rho } from '@/lib/format';
-import { lawRateQuantile, MIXING_LAW_LABELS, type FittedLaw, type MixingLaw } from '@/lib/stats/copula-comparison';
+import { lawRateQuantile, MIXING_LAW_LABELS, type MixingLaw } from '@/lib/stats/copula-comparison';
+import type { FittedLaw } from '@/lib/stats/fitted-law';
 import { COPULA_TEST_LEVEL } from '@/lib/stats/copula-lr-test';
 import { LOW_POWER, type ModelComparison } from '@/lib/stats/mixing-laws-block';
 import type { FitSegmentResult } from './results';

@@ -14,6 +14,7 @@ import { logitNormalMoment, logitNormalRateQuantile } from './logit-normal-mixin
 import { normalQuantile } from './normal';
 import { bivariateTJointDefault, tCopulaTailDependence, tDefaultRateQuantile } from './t-copula-tail';
 import { jointDefaultProbability, vasicekQuantile } from './vasicek';
+import type { FittedLaw } from './fitted-law';
 
 /** The law names of the comparison. */
 export const MIXING_LAWS = ['gaussian', 't', 'beta', 'logitNormal'] as const;
@@ -57,13 +58,6 @@ export interface LawComparison {
   /** Why pit is null, in a sentence. */
   pitNote?: string;
 }
-
-/** The fitted values a law's row is computed from. */
-export type FittedLaw =
-  | { law: 'gaussian'; logLik: number; pd: number; rho: number }
-  | { law: 't'; logLik: number; pd: number; rho: number; nu: number }
-  | { law: 'beta'; logLik: number; pd: number; equivalentRho: number }
-  | { law: 'logitNormal'; logLik: number; mu: number; sigma: number };
 
 /** The fitted laws of the estimators' results that have a maximum (undefined ones are left out). */
 export function fittedLaws(

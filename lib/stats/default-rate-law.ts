@@ -26,7 +26,7 @@ import betainc from '@stdlib/math-base-special-betainc';
 import betaln from '@stdlib/math-base-special-betaln';
 import gammainc from '@stdlib/math-base-special-gammainc';
 import { betaParameters } from './beta-binomial';
-import type { FittedLaw } from './copula-comparison';
+import type { FittedLaw } from './fitted-law';
 import { betaThetaFromEquivalentRho } from './estimators/beta-mixing-mle';
 import { LogConcaveIntegrator, type LogConcaveIntegrand } from './log-concave-integral';
 import { logistic, logLogistic } from './logit-normal-mixing';

@@ -8,7 +8,8 @@
  * threads), {@link completeMixingLaws} attaches them (the power study needs the bootstrap's
  * critical value, so its replications are counted only once the bootstrap is done).
  */
-import { compareMixingLaws, fittedLaws, type FittedLaw, type LawComparison, type MixingLaw } from './copula-comparison';
+import { compareMixingLaws, fittedLaws, type LawComparison, type MixingLaw } from './copula-comparison';
+import type { FittedLaw } from './fitted-law';
 import { rateLawOf } from './default-rate-law';
 import { lawPanelPit } from './law-count-pit';
 import {
