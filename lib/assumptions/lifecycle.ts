@@ -76,6 +76,21 @@ export const editableStatuses: readonly AssumptionStatus[] = ['draft', 'submitte
 /** Statuses of a version still on its way to publication: at most one per assumption. */
 export const openStatuses: readonly AssumptionStatus[] = ['draft', 'submitted', 'in_review', 'approved'];
 
+/**
+ * The number of the next version of a value (one more than the highest), or a 409 when a version is
+ * still open: one version at a time is on its way to publication. `what` names the value in the
+ * sentence ("Prime auto loans", "the matrix of A, B"), `label` writes a status.
+ *
+ * @example nextVersionNumber([{ version: 1, status: 'published' }], 'Prime auto loans', (s) => s) // 2
+ */
+export function nextVersionNumber(existing: readonly { version: number; status: AssumptionStatus }[], what: string, label: (s: AssumptionStatus) => string): number {
+  const open = existing.find((e) => openStatuses.includes(e.status));
+  if (open) {
+    throw new AppError('conflict:open-version', `Version ${open.version} of ${what} is still ${label(open.status)}: finish or withdraw it before drafting another.`);
+  }
+  return existing.reduce((m, e) => Math.max(m, e.version), 0) + 1;
+}
+
 export type TransitionContext = {
   actor: { id: number; role: Role };
   status: AssumptionStatus;

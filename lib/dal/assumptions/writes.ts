@@ -15,7 +15,7 @@ import {
 } from '@/lib/assumptions/content';
 import { defaultReviewBy, todayIso } from '@/lib/assumptions/dates';
 import { pickEvidence } from '@/lib/assumptions/evidence';
-import { openStatuses, planEdit, planTransition, type UserAction } from '@/lib/assumptions/lifecycle';
+import { nextVersionNumber, planEdit, planTransition, type UserAction } from '@/lib/assumptions/lifecycle';
 import { conservativeValue } from '@/lib/assumptions/margins';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { AppError, parseOrThrow } from '@/lib/errors';
@@ -100,14 +100,7 @@ export async function createDraft(actor: SessionUser, input: DraftInput, now: Da
       .from(assumptionVersions)
       .where(eq(assumptionVersions.assumptionId, a.id))
       .for('update');
-    const open = existing.find((e) => openStatuses.includes(e.status));
-    if (open) {
-      throw new AppError(
-        'conflict:open-version',
-        `Version ${open.version} of ${d.segment} is still ${open.status.replace('_', ' ')}: finish or withdraw it before drafting another.`,
-      );
-    }
-    const version = existing.reduce((m, e) => Math.max(m, e.version), 0) + 1;
+    const version = nextVersionNumber(existing, d.segment, (s) => s.replace('_', ' '));
     const content: VersionContent = {
       segment: d.segment,
       fitRunId: fit.fitRunId,

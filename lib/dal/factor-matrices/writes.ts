@@ -5,10 +5,10 @@ import type { Db, DbOrTx, Tx } from '@/db/connection';
 import { transactionWithRetry } from '@/db/transaction';
 import { factorMatrices, factorMatrixAudit, factorMatrixVersions, type AssumptionStatus, type FactorMatrixVersion } from '@/db/schema';
 import { defaultReviewBy, todayIso } from '@/lib/assumptions/dates';
-import { backDatingProblem, openStatuses, planEdit, planTransition, statusLabels, type UserAction } from '@/lib/assumptions/lifecycle';
+import { backDatingProblem, nextVersionNumber, planEdit, planTransition, statusLabels, type UserAction } from '@/lib/assumptions/lifecycle';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { appUrl } from '@/lib/env';
-import { AppError, parseOrThrow } from '@/lib/errors';
+import { parseOrThrow } from '@/lib/errors';
 import {
   matrixContentHash,
   matrixDraftSchema,
@@ -61,14 +61,7 @@ export async function createMatrixDraft(actor: SessionUser, input: MatrixDraftIn
       .from(factorMatrixVersions)
       .where(eq(factorMatrixVersions.matrixId, m.id))
       .for('update');
-    const open = existing.find((e) => openStatuses.includes(e.status));
-    if (open) {
-      throw new AppError(
-        'conflict:open-version',
-        `Version ${open.version} of the matrix of ${evidence.segments.join(', ')} is still ${statusLabels[open.status]}: finish or withdraw it before drafting another.`,
-      );
-    }
-    const version = existing.reduce((mx, e) => Math.max(mx, e.version), 0) + 1;
+    const version = nextVersionNumber(existing, `the matrix of ${evidence.segments.join(', ')}`, (s) => statusLabels[s]);
     const content: MatrixContent = {
       ...evidence,
       margin: d.margin.value,

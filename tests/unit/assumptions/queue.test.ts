@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { nextVersionNumber } from '@/lib/assumptions/lifecycle';
 import { queueReason } from '@/lib/assumptions/queue';
 
 const yes = async () => true;
@@ -26,5 +27,20 @@ describe('queueReason: what awaits a person (maker-checker, DESIGN.md lifecycle)
   it('viewers and administrators have no queue', async () => {
     expect(await queueReason({ status: 'submitted', decisionComment: null }, 'viewer', false, never, never)).toBeNull();
     expect(await queueReason({ status: 'draft', decisionComment: null }, 'admin', true, never, never)).toBeNull();
+  });
+});
+
+describe('nextVersionNumber: one version at a time on its way to publication (DESIGN.md lifecycle)', () => {
+  it('is one more than the highest when none is open', () => {
+    expect(nextVersionNumber([], 'A', (s) => s)).toBe(1);
+    expect(nextVersionNumber([{ version: 1, status: 'superseded' }, { version: 3, status: 'published' }, { version: 2, status: 'rejected' }], 'A', (s) => s)).toBe(4);
+  });
+
+  it('refuses with 409 naming the open version and the value while one is draft, submitted, in review or approved', () => {
+    for (const status of ['draft', 'submitted', 'in_review', 'approved'] as const) {
+      expect(() => nextVersionNumber([{ version: 1, status: 'published' }, { version: 2, status }], 'Prime auto loans', (s) => s.replace('_', ' '))).toThrow(
+        `Version 2 of Prime auto loans is still ${status.replace('_', ' ')}: finish or withdraw it before drafting another.`,
+      );
+    }
   });
 });
