@@ -69,12 +69,14 @@ describe('backup and restore', () => {
     expect(Date.now() - Date.parse(manifest.createdAt)).toBeLessThan(600_000);
     const journal = JSON.parse(readFileSync(path.join(root, 'db/migrations/meta/_journal.json'), 'utf8'));
     expect(manifest.schema).toEqual({ migrations: journal.entries.length, lastMigration: journal.entries.at(-1).tag });
-    // every append-only table's two triggers (db/migrations: 0001, 0004, 0009, 0012)
+    // every append-only table's two triggers (db/migrations: 0001, 0004, 0009, 0012, 0019)
     expect(manifest.triggers).toEqual([
       'admin_audit_no_delete',
       'admin_audit_no_update',
       'assumption_audit_no_delete',
       'assumption_audit_no_update',
+      'factor_matrix_audit_no_delete',
+      'factor_matrix_audit_no_update',
       'finding_events_no_delete',
       'finding_events_no_update',
       'overdue_policy_changes_no_delete',
@@ -84,7 +86,7 @@ describe('backup and restore', () => {
 
     const r = script(['restore', path.resolve(root, file), '--database', TARGET], SOURCE);
     expect(r.code, r.err).toBe(0);
-    expect(r.out).toMatch(/restored and checked: \d+ tables, 8 triggers/);
+    expect(r.out).toMatch(/restored and checked: \d+ tables, 10 triggers/);
 
     const before = await checksums(SOURCE);
     const after = await checksums(TARGET);
