@@ -88,3 +88,17 @@ export function count(n: number, singular: string, pluralForm?: string): string 
 export function when(iso: string | null | undefined): string {
   return iso ? `${iso.replace('T', ' ').slice(0, 16)} UTC` : DASH;
 }
+
+const SEED_NAMES: Record<string, string> = { bootstrap: 'bootstrap', audit: 'simulation study', breakTest: 'break test', mixingLaws: 'copula test' };
+
+/**
+ * A fit's seeds ({ bootstrap, audit, breakTest, mixingLaws }) in words, "bootstrap 7; simulation
+ * study not run", as the version pages and reports write them; anything else as JSON.
+ */
+export function seedsText(seeds: unknown): string {
+  if (seeds && typeof seeds === 'object' && !Array.isArray(seeds)) {
+    const parts = Object.entries(seeds as Record<string, unknown>).map(([k, v]) => `${SEED_NAMES[k] ?? k} ${v === null || v === undefined ? 'not run' : String(v)}`);
+    return parts.length ? parts.join('; ') : 'none';
+  }
+  return seeds === null || seeds === undefined ? '—' : JSON.stringify(seeds);
+}

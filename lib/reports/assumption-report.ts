@@ -6,7 +6,7 @@ import { nuIntervalText, nuText } from '@/lib/assumptions/t-copula-evidence';
 import type { VersionPageDto } from '@/lib/dal/assumptions';
 import type { FindingDto } from '@/lib/dal/findings';
 import type { FitSegmentResult } from '@/lib/fits/results';
-import { level as levelText, pd as pdText, rho as rhoText, when } from '@/lib/format';
+import { level as levelText, pd as pdText, rho as rhoText, seedsText, when } from '@/lib/format';
 import { describeSpans } from '@/lib/ingest/default-definition';
 import type { ReportDocument, Section } from './document';
 import { dataBlocks, findingsBlocks, type DatasetFacts } from './fit-report';
@@ -19,14 +19,6 @@ import { segmentSections } from './segment-blocks';
  * it, the cautions, the frozen evidence of its fit (data, estimators, charts, diagnostics, audit)
  * and what reproduces it.
  */
-function seedsText(seeds: unknown): string {
-  if (seeds && typeof seeds === 'object' && !Array.isArray(seeds)) {
-    const parts = Object.entries(seeds as Record<string, unknown>).map(([k, v]) => `${k} ${v === null || v === undefined ? 'not run' : String(v)}`);
-    return parts.join('; ') || 'none';
-  }
-  return JSON.stringify(seeds ?? null);
-}
-
 export function buildAssumptionReport(input: {
   page: VersionPageDto;
   segment: FitSegmentResult | null;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { count, integer, interval, level, pct, pd, plural, pValue, rho, RHO_DECIMALS, signed, when } from '@/lib/format';
+import { count, integer, interval, level, pct, pd, plural, pValue, rho, RHO_DECIMALS, seedsText, signed, when } from '@/lib/format';
 
 describe('one format for each number', () => {
   it('writes a PD as a percentage with three significant digits below 1% (common practice in credit reporting)', () => {
@@ -44,5 +44,14 @@ describe('one format for each number', () => {
     expect(pct(0.5, 2)).toBe('50.0%');
     expect(when('2025-03-04T05:06:07.000Z')).toBe('2025-03-04 05:06 UTC');
     expect(when(null)).toBe('—');
+  });
+});
+
+describe('seedsText', () => {
+  it('writes a fit’s seeds in words, a seed not used as not run (common practice: a result names what reproduces it)', () => {
+    expect(seedsText({ bootstrap: 7, audit: null, breakTest: null, mixingLaws: 11 })).toBe('bootstrap 7; simulation study not run; break test not run; copula test 11');
+    expect(seedsText({})).toBe('none');
+    expect(seedsText(null)).toBe('—');
+    expect(seedsText([1, 2])).toBe('[1,2]');
   });
 });

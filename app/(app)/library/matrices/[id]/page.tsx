@@ -18,7 +18,7 @@ import { requireUser } from '@/lib/auth/session';
 import { getMatrixVersionPage } from '@/lib/dal/factor-matrices';
 import { AppError } from '@/lib/errors';
 import { matrixCautions } from '@/lib/factor-matrices/cautions';
-import { interval, level, rho } from '@/lib/format';
+import { interval, level, rho, seedsText } from '@/lib/format';
 
 export const metadata: Metadata = { title: 'Factor-correlation matrix' };
 
@@ -114,7 +114,7 @@ export default async function MatrixVersionPage({ params }: { params: Promise<{ 
             <dt>Engine version</dt>
             <dd className="num">{v.engineVersion}</dd>
             <dt>Seeds</dt>
-            <dd className="num">{JSON.stringify(v.seeds)}</dd>
+            <dd>{seedsText(v.seeds)}</dd>
             <dt>Content hash</dt>
             <dd className="num text-xs break-all">{v.contentHash}</dd>
             <dt>Margin</dt>

@@ -28,24 +28,12 @@ import { findingsPanel } from '@/lib/dal/findings';
 import { modelsUsing } from '@/lib/dal/models';
 import { lowDefaultThreshold } from '@/lib/env';
 import { AppError } from '@/lib/errors';
-import { interval, level, pd, rho } from '@/lib/format';
+import { interval, level, pd, rho, seedsText } from '@/lib/format';
 import { priorText, valueSourceInSentence, valueSourceLabel } from '@/lib/assumptions/posterior-evidence';
 import { nuIntervalText, nuText } from '@/lib/assumptions/t-copula-evidence';
 import { FIT_MODEL_LABELS } from '@/lib/stats/fit-models';
 
 export const metadata: Metadata = { title: 'Assumption' };
-
-const seedNames: Record<string, string> = { bootstrap: 'bootstrap', audit: 'simulation study' };
-
-/** The fit's seeds ({ bootstrap, audit }) in words; anything else as JSON. */
-function seedsText(seeds: unknown): string {
-  if (seeds && typeof seeds === 'object' && !Array.isArray(seeds)) {
-    const o = seeds as Record<string, unknown>;
-    const parts = Object.entries(o).map(([k, val]) => `${seedNames[k] ?? k} ${val === null || val === undefined ? 'not run' : String(val)}`);
-    return parts.length ? parts.join('; ') : 'none';
-  }
-  return show(seeds);
-}
 
 const roleName = (r: string | null) => (r ? (roleLabels[r as keyof typeof roleLabels] ?? r).toLowerCase() : 'an unknown role');
 const when = (s: string | null) => (s ? `${s.replace('T', ' ').slice(0, 16)} UTC` : '—');
