@@ -23,7 +23,7 @@
 import { GradeYearIntegrand, gradeMoments } from './grade-mixing';
 import type { IntegrationReport } from './mixture-likelihood';
 import { logBinomialCoefficient } from './log-binomial';
-import { LogConcaveIntegrator } from './log-concave-integral';
+import { LogConcaveIntegrator, type LogConcaveOptions } from './log-concave-integral';
 import { PeriodWarmStarts } from './period-warm-starts';
 import { assertPanel, type Panel } from './panel';
 
@@ -51,6 +51,8 @@ export class GradeLikelihood {
   readonly defaults: Float64Array;
   private readonly logChoose: Float64Array;
   private readonly warm: PeriodWarmStarts;
+  /** The integrator's options, refilled per period by optionsInto (no object per integral). */
+  private readonly options: LogConcaveOptions = { curvatureBound: 1 };
   private readonly integrand: GradeYearIntegrand;
   private readonly integrator: LogConcaveIntegrator;
   evaluations = 0;
@@ -115,7 +117,7 @@ export class GradeLikelihood {
     for (let t = 0; t < this.years; t++) {
       const o = t * G;
       f.setYear(this.obligors.subarray(o, o + G), this.defaults.subarray(o, o + G), this.logChoose.subarray(o, o + G));
-      const r = this.integrator.integrate(f, this.warm.options(t, { curvatureBound: 1 }));
+      const r = this.integrator.integrate(f, this.warm.optionsInto(t, this.options));
       this.warm.record(t, r, () => `grade log-likelihood: the integral of year ${t + 1} failed: ${r.reason}.`);
       value += r.value;
       if (!withDerivatives) continue;

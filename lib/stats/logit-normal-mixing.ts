@@ -13,7 +13,7 @@
  * ed., section 11.2.4 (probit- and logit-normal mixing); Frey, R. & McNeil, A. J. (2003), Journal
  * of Risk 6(1):59-92, section 4.
  */
-import { LogConcaveIntegrator, type LogConcaveIntegrand } from './log-concave-integral';
+import { LogConcaveIntegrator, type LogConcaveIntegrand, type LogConcaveOptions } from './log-concave-integral';
 import { PeriodWarmStarts } from './period-warm-starts';
 import type { Panel } from './panel';
 import { panelArrays } from './panel-arrays';
@@ -139,6 +139,8 @@ export class LogitNormalLikelihood {
   private readonly defaults: Float64Array;
   private readonly logChoose: Float64Array;
   private readonly warm: PeriodWarmStarts;
+  /** The integrator's options, refilled per period by optionsInto (no object per integral). */
+  private readonly options: LogConcaveOptions = { curvatureBound: 1 };
   private readonly integrand = new LogitNormalPeriodIntegrand();
   private readonly integrator = new LogConcaveIntegrator(LOGIT_NORMAL_MOMENTS);
   /** Period integrals that missed the tolerance of the adaptive rule (their finite values are used). */
@@ -178,7 +180,7 @@ export class LogitNormalLikelihood {
     let h11 = 0;
     for (let t = 0; t < this.periods; t++) {
       f.setPeriod(this.obligors[t], this.defaults[t], this.logChoose[t]);
-      const r = this.integrator.integrate(f, this.warm.options(t, { curvatureBound: 1 }));
+      const r = this.integrator.integrate(f, this.warm.optionsInto(t, this.options));
       this.warm.record(t, r, () => `logit-normal log-likelihood: the integral of period ${t + 1} (n = ${this.obligors[t]}, d = ${this.defaults[t]}) failed at mu = ${mu}, sigma = ${sigma}: ${r.reason}.`);
       value += r.value;
       if (derivatives) {

@@ -27,7 +27,7 @@
  */
 import { GaussianPeriodIntegrand, GAUSSIAN_MOMENTS, type DerivativeOrder } from './gaussian-mixing';
 import { binomialLogPmf } from './log-binomial';
-import { LogConcaveIntegrator } from './log-concave-integral';
+import { LogConcaveIntegrator, type LogConcaveOptions } from './log-concave-integral';
 import { PeriodWarmStarts } from './period-warm-starts';
 import { normalCdf, normalQuantile } from './normal';
 import { normalTails, TAIL_SLOTS } from './normal-tails';
@@ -103,6 +103,8 @@ export class MixtureLikelihood {
   readonly defaults: Float64Array;
   private readonly logChoose: Float64Array;
   private readonly warm: PeriodWarmStarts;
+  /** The integrator's options, refilled per period by optionsInto (no object per integral). */
+  private readonly options: LogConcaveOptions = { curvatureBound: 1 };
   private readonly integrand = new GaussianPeriodIntegrand();
   private readonly integrator = new LogConcaveIntegrator(GAUSSIAN_MOMENTS[2]);
   private readonly tails = new Float64Array(TAIL_SLOTS);
@@ -168,7 +170,7 @@ export class MixtureLikelihood {
     const M = this.integrator.moments;
     for (let t = 0; t < this.periods; t++) {
       f.setPeriod(this.obligors[t], this.defaults[t], this.logChoose[t]);
-      const r = this.integrator.integrate(f, this.warm.options(t, { curvatureBound: 1 }));
+      const r = this.integrator.integrate(f, this.warm.optionsInto(t, this.options));
       this.warm.record(t, r, () => `mixture log-likelihood: the integral of period ${t + 1} (n = ${this.obligors[t]}, d = ${this.defaults[t]}) failed at k = ${k}, rho = ${rho}: ${r.reason}.`);
       value += r.value;
       if (order > 0) {

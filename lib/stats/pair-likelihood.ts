@@ -20,7 +20,7 @@
  */
 import { GradeLikelihood } from './grade-likelihood';
 import { logBinomialCoefficient } from './log-binomial';
-import { LogConcaveIntegrator, type LogConcaveIntegral } from './log-concave-integral';
+import { LogConcaveIntegrator, type LogConcaveIntegral, type LogConcaveOptions } from './log-concave-integral';
 import { PeriodWarmStarts } from './period-warm-starts';
 import type { IntegrationReport } from './mixture-likelihood';
 import { normalQuantile } from './normal';
@@ -63,6 +63,8 @@ export class PairLikelihood {
   private readonly integrand = new PairYearIntegrand();
   private readonly integrator = new LogConcaveIntegrator(PAIR_MOMENTS);
   private readonly warm: PeriodWarmStarts;
+  /** The integrator's options, refilled per period by optionsInto (no object per integral). */
+  private readonly options: LogConcaveOptions = { curvatureBound: 1, truncation: OUTER_TRUNCATION };
   private readonly panels: readonly [Panel, Panel];
   private readonly ends = new Map<number, GradeLikelihood>();
   private readonly tabulate: boolean;
@@ -165,7 +167,7 @@ export class PairLikelihood {
 
   /** One year's outer integral at r (the integrand set up), keeping its mode and widths as the next warm start. */
   private integrateYear(t: number, r: number): LogConcaveIntegral {
-    const res = this.integrator.integrate(this.integrand, this.warm.options(t, { curvatureBound: 1, truncation: OUTER_TRUNCATION }));
+    const res = this.integrator.integrate(this.integrand, this.warm.optionsInto(t, this.options));
     this.warm.record(t, res, () => `pair log-likelihood: the integral of year ${t + 1} failed at r = ${r}: ${res.reason}.`);
     return res;
   }

@@ -344,18 +344,26 @@ export function rhoPosterior(panel: Panel, options: RhoPosteriorOptions): RhoPos
   const kCells = 1500;
   const dk = (kHi - kLo) / kCells;
   const kEdges = Array.from({ length: kCells + 1 }, (_, i) => kLo + dk * i);
+  // Each node's conditional log-density of k on the k-cells, and the cells [from, to) where it is
+  // finite (inside the node's rule): a contiguous run, outside which the density is taken as 0.
+  const reach: { from: number; to: number }[] = [];
   const logDensity = integrals.map((r) => {
     const row = new Float64Array(kCells).fill(-Infinity);
     let s = 0;
+    let from = kCells;
+    let to = 0;
     for (let i = 0; i < kCells; i++) {
       const k = kLo + dk * (i + 0.5);
       if (k <= r.nodes[0].k || k >= r.nodes[r.nodes.length - 1].k) continue;
       while (s < r.nodes.length - 2 && k > r.nodes[s + 1].k) s++;
       row[i] = quintic(r.nodes[s], r.nodes[s + 1], k) - r.logValue;
+      if (i < from) from = i;
+      to = i + 1;
     }
+    reach.push({ from, to });
     return row;
   });
-  const kMass = new Array<number>(kCells).fill(0);
+  const kMass = new Float64Array(kCells);
   const du = (uHi - uLo) / (nodeCount - 1);
   const row = new Float64Array(kCells);
   for (let c = 0; c < cells; c++) {
@@ -379,22 +387,32 @@ export function rhoPosterior(panel: Panel, options: RhoPosteriorOptions): RhoPos
     const l1 = logDensity[base + 1];
     const l2 = logDensity[base + 2];
     const l3 = logDensity[base + 3];
-    let top = -Infinity;
-    for (let i = 0; i < kCells; i++) {
-      if (a[i] === -Infinity || b[i] === -Infinity) row[i] = -Infinity;
-      else if (cubic && l0[i] !== -Infinity && l1[i] !== -Infinity && l2[i] !== -Infinity && l3[i] !== -Infinity) row[i] = w0 * l0[i] + w1 * l1[i] + w2 * l2[i] + w3 * l3[i];
-      else row[i] = (1 - f) * a[i] + f * b[i];
-      if (row[i] > top) top = row[i];
+    // Only the k-cells both neighbours reach: elsewhere the density is 0 (the rules' tails,
+    // below e^-30 of their peaks, are left out as in kIntegral).
+    const from = Math.max(reach[j].from, reach[j + 1].from);
+    const to = Math.min(reach[j].to, reach[j + 1].to);
+    // Where all four reach k the cubic rule; in the rest of [from, to) the linear one.
+    let cFrom = to;
+    let cTo = to;
+    if (cubic) {
+      cFrom = Math.max(from, reach[base].from, reach[base + 1].from, reach[base + 2].from, reach[base + 3].from);
+      cTo = Math.max(cFrom, Math.min(to, reach[base].to, reach[base + 1].to, reach[base + 2].to, reach[base + 3].to));
     }
+    let top = -Infinity;
+    for (let i = from; i < cFrom; i++) row[i] = (1 - f) * a[i] + f * b[i];
+    for (let i = cFrom; i < cTo; i++) row[i] = w0 * l0[i] + w1 * l1[i] + w2 * l2[i] + w3 * l3[i];
+    for (let i = cTo; i < to; i++) row[i] = (1 - f) * a[i] + f * b[i];
+    for (let i = from; i < to; i++) if (row[i] > top) top = row[i];
     if (top === -Infinity) continue;
     let z = 0;
-    for (let i = 0; i < kCells; i++) {
+    for (let i = from; i < to; i++) {
       row[i] = Math.exp(row[i] - top);
       z += row[i];
     }
-    for (let i = 0; i < kCells; i++) kMass[i] += (mass[c] * row[i]) / z;
+    const scale = mass[c] / z;
+    for (let i = from; i < to; i++) kMass[i] += scale * row[i];
   }
-  const kSummary = summarise(kEdges, kMass, level);
+  const kSummary = summarise(kEdges, Array.from(kMass), level);
   const pd: PosteriorSummary = {
     median: normalCdf(kSummary.median),
     mean: kMass.reduce((s, m, i) => s + m * normalCdf(0.5 * (kEdges[i] + kEdges[i + 1])), 0) / kMass.reduce((s, m) => s + m, 0),
