@@ -1,5 +1,5 @@
 import 'server-only';
-import { and, asc, eq, gt, inArray } from 'drizzle-orm';
+import { and, asc, eq, gt, inArray, sql } from 'drizzle-orm';
 import type { Db, DbOrTx, Tx } from '@/db/connection';
 import { assumptions, assumptionVersions, cohortRows, datasets, evidenceBacktests, segments, users, type AssumptionVersion, type BacktestStatus } from '@/db/schema';
 import { evidenceCautionOf } from '@/lib/assumptions/consumer';
@@ -11,6 +11,7 @@ import { queueMail } from '@/lib/mail/outbox';
 import { renderEvidenceMail } from '@/lib/mail/templates';
 import { ENGINE_VERSION } from '@/lib/stats/version';
 import { makerIds } from './assumptions/actors';
+import { prepared } from './prepared';
 
 /**
  * Evidence that ages: whether the dataset an assumption was drawn from has been superseded, or a
@@ -56,24 +57,41 @@ export async function evidenceOf(db: DbOrTx, versions: readonly VersionRef[]): P
   const withData = versions.filter((v) => v.datasetId !== null);
   for (const v of versions) out.set(v.id, NONE);
   if (!withData.length) return out;
-  const all = await db
-    .select({ id: datasets.id, name: datasets.name, status: datasets.status, createdAt: datasets.createdAt, supersededById: datasets.supersededById })
-    .from(datasets);
+  // One version (the consumer API's answer for a segment) reads through prepared queries, built
+  // once per handle (./prepared.ts); a list builds its queries for its own set of names and ids.
+  const all = await prepared(db, 'evidence-datasets', () =>
+    db.select({ id: datasets.id, name: datasets.name, status: datasets.status, createdAt: datasets.createdAt, supersededById: datasets.supersededById }).from(datasets).prepare(),
+  ).execute();
   const byId = new Map(all.map((d) => [d.id, d]));
   const names = [...new Set(withData.map((v) => v.segment))];
   const minTo = Math.min(...withData.map((v) => Number(v.windowTo) || 0));
-  const later = await db
-    .select({ datasetId: cohortRows.datasetId, segment: segments.name, period: cohortRows.period })
-    .from(cohortRows)
-    .innerJoin(segments, eq(segments.id, cohortRows.segmentId))
-    .where(and(inArray(segments.name, names), gt(cohortRows.period, minTo)))
-    .orderBy(asc(cohortRows.period));
+  const laterRows = () =>
+    db
+      .select({ datasetId: cohortRows.datasetId, segment: segments.name, period: cohortRows.period })
+      .from(cohortRows)
+      .innerJoin(segments, eq(segments.id, cohortRows.segmentId));
+  const later =
+    names.length === 1
+      ? await prepared(db, 'evidence-later-rows-of-segment', () =>
+          laterRows()
+            .where(and(eq(segments.name, sql.placeholder('segment')), gt(cohortRows.period, sql.placeholder('after'))))
+            .orderBy(asc(cohortRows.period))
+            .prepare(),
+        ).execute({ segment: names[0], after: minTo })
+      : await laterRows()
+          .where(and(inArray(segments.name, names), gt(cohortRows.period, minTo)))
+          .orderBy(asc(cohortRows.period));
   const periodsOf = (datasetId: number, segment: string, after: number) =>
     later.filter((r) => r.datasetId === datasetId && r.segment === segment && r.period > after).map((r) => String(r.period));
-  const tests = await db
-    .select()
-    .from(evidenceBacktests)
-    .where(inArray(evidenceBacktests.versionId, withData.map((v) => v.id)));
+  const tests =
+    withData.length === 1
+      ? await prepared(db, 'evidence-backtests-of-version', () =>
+          db.select().from(evidenceBacktests).where(eq(evidenceBacktests.versionId, sql.placeholder('versionId'))).prepare(),
+        ).execute({ versionId: withData[0].id })
+      : await db
+          .select()
+          .from(evidenceBacktests)
+          .where(inArray(evidenceBacktests.versionId, withData.map((v) => v.id)));
   for (const v of withData) {
     const own = byId.get(v.datasetId!);
     if (!own) continue;

@@ -8,6 +8,7 @@ import { DEFAULT_OVERDUE_POLICY, overduePolicyAt } from '@/lib/assumptions/overd
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { AppError, parseOrThrow } from '@/lib/errors';
 import { recordAdminAction } from './admin-audit';
+import { prepared } from './prepared';
 
 /**
  * The overdue policy (lib/assumptions/overdue-policy.ts): administrators set it, with a reason;
@@ -22,7 +23,9 @@ export type OverduePolicyDto = {
 
 /** Every change, oldest first (for overduePolicyAt). */
 export async function policyChanges(db: DbOrTx): Promise<{ policy: OverduePolicy; at: Date }[]> {
-  return db.select({ policy: overduePolicyChanges.policy, at: overduePolicyChanges.at }).from(overduePolicyChanges).orderBy(asc(overduePolicyChanges.id));
+  return prepared(db, 'policy-changes', () =>
+    db.select({ policy: overduePolicyChanges.policy, at: overduePolicyChanges.at }).from(overduePolicyChanges).orderBy(asc(overduePolicyChanges.id)).prepare(),
+  ).execute();
 }
 
 /** The policy in force at `at` (default now). */

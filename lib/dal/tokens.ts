@@ -7,6 +7,7 @@ import { apiTokens, consumingModels, users } from '@/db/schema';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { AppError, parseOrThrow } from '@/lib/errors';
 import { recordAdminAction } from './admin-audit';
+import { prepared } from './prepared';
 
 /**
  * API tokens for downstream models (the consumer API under /api/v1). An administrator creates a
@@ -137,11 +138,14 @@ export async function authenticateToken(authorization: string | null, scope: Tok
   if (!m || !m[1].startsWith(TOKEN_PREFIX)) throw new AppError('unauthorized:token', REFUSED);
   const hash = hashToken(m[1]);
   const db = getDb();
-  const [t] = await db
-    .select()
-    .from(apiTokens)
-    .where(and(eq(apiTokens.tokenHash, hash), isNull(apiTokens.revokedAt)))
-    .limit(1);
+  const [t] = await prepared(db, 'token-by-hash', () =>
+    db
+      .select()
+      .from(apiTokens)
+      .where(and(eq(apiTokens.tokenHash, sql.placeholder('hash')), isNull(apiTokens.revokedAt)))
+      .limit(1)
+      .prepare(),
+  ).execute({ hash });
   if (!t || !timingSafeEqual(Buffer.from(t.tokenHash), Buffer.from(hash)) || (t.expiresAt && t.expiresAt <= now)) {
     throw new AppError('unauthorized:token', REFUSED);
   }

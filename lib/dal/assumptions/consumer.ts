@@ -1,5 +1,5 @@
 import 'server-only';
-import { and, asc, desc, eq, inArray, isNotNull, lte } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, isNotNull, lte, sql } from 'drizzle-orm';
 import { getDb } from '@/db/client';
 import type { DbOrTx } from '@/db/connection';
 import { assumptions, assumptionVersions, type AssumptionStatus, type AssumptionVersion, type OverduePolicy } from '@/db/schema';
@@ -10,6 +10,7 @@ import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { AppError } from '@/lib/errors';
 import { evidenceOf, type EvidenceDto } from '../evidence-store';
 import { policyChanges } from '../overdue-policy';
+import { prepared } from '../prepared';
 import type { ApiPrincipal, TokenScope } from '../tokens';
 import { versionDtos, type VersionDto } from './dto';
 
@@ -51,13 +52,16 @@ export async function versionInForce(consumer: Consumer, segment: string, asOf: 
   assertConsumer(consumer, 'assumptions:read');
   const db = getDb();
   const cutoff = inForceCutoff(asOf, now);
-  const [last] = await db
-    .select({ v: assumptionVersions, segment: assumptions.segment })
-    .from(assumptionVersions)
-    .innerJoin(assumptions, eq(assumptions.id, assumptionVersions.assumptionId))
-    .where(and(eq(assumptions.segment, segment), isNotNull(assumptionVersions.publishedAt), lte(assumptionVersions.publishedAt, cutoff)))
-    .orderBy(desc(assumptionVersions.publishedAt), desc(assumptionVersions.version))
-    .limit(1);
+  const [last] = await prepared(db, 'last-publication-of-segment', () =>
+    db
+      .select({ v: assumptionVersions, segment: assumptions.segment })
+      .from(assumptionVersions)
+      .innerJoin(assumptions, eq(assumptions.id, assumptionVersions.assumptionId))
+      .where(and(eq(assumptions.segment, sql.placeholder('segment')), isNotNull(assumptionVersions.publishedAt), lte(assumptionVersions.publishedAt, sql.placeholder('cutoff'))))
+      .orderBy(desc(assumptionVersions.publishedAt), desc(assumptionVersions.version))
+      .limit(1)
+      .prepare(),
+  ).execute({ segment, cutoff });
   const policy = overduePolicyAt(await policyChanges(db), cutoff);
   const judged = judgeSegment(segment, last ? last.v : null, asOf, cutoff, policy);
   if (judged instanceof AppError) throw judged;
@@ -132,18 +136,24 @@ export async function listInForce(consumer: Consumer, asOf: string, now: Date = 
   assertConsumer(consumer, 'assumptions:read');
   const db = getDb();
   const cutoff = inForceCutoff(asOf, now);
-  const segs = await db
-    .selectDistinct({ segment: assumptions.segment })
-    .from(assumptions)
-    .innerJoin(assumptionVersions, eq(assumptionVersions.assumptionId, assumptions.id))
-    .where(inArray(assumptionVersions.status, everPublished))
-    .orderBy(asc(assumptions.segment));
-  const published = await db
-    .select({ v: assumptionVersions, segment: assumptions.segment })
-    .from(assumptionVersions)
-    .innerJoin(assumptions, eq(assumptions.id, assumptionVersions.assumptionId))
-    .where(and(isNotNull(assumptionVersions.publishedAt), lte(assumptionVersions.publishedAt, cutoff)))
-    .orderBy(desc(assumptionVersions.publishedAt), desc(assumptionVersions.version));
+  const segs = await prepared(db, 'segments-ever-published', () =>
+    db
+      .selectDistinct({ segment: assumptions.segment })
+      .from(assumptions)
+      .innerJoin(assumptionVersions, eq(assumptionVersions.assumptionId, assumptions.id))
+      .where(inArray(assumptionVersions.status, everPublished))
+      .orderBy(asc(assumptions.segment))
+      .prepare(),
+  ).execute();
+  const published = await prepared(db, 'publications-up-to', () =>
+    db
+      .select({ v: assumptionVersions, segment: assumptions.segment })
+      .from(assumptionVersions)
+      .innerJoin(assumptions, eq(assumptions.id, assumptionVersions.assumptionId))
+      .where(and(isNotNull(assumptionVersions.publishedAt), lte(assumptionVersions.publishedAt, sql.placeholder('cutoff'))))
+      .orderBy(desc(assumptionVersions.publishedAt), desc(assumptionVersions.version))
+      .prepare(),
+  ).execute({ cutoff });
   // The first row of a segment in that order is its last publication up to the cutoff.
   const lastOf = new Map<string, (typeof published)[number]>();
   for (const row of published) if (!lastOf.has(row.segment)) lastOf.set(row.segment, row);

@@ -1,5 +1,5 @@
 import 'server-only';
-import { inArray } from 'drizzle-orm';
+import { inArray, sql } from 'drizzle-orm';
 import type { DbOrTx } from '@/db/connection';
 import { users, type AssumptionAuditRow, type AssumptionStatus, type AssumptionVersion } from '@/db/schema';
 import type { FieldChange, VersionContent } from '@/lib/assumptions/content';
@@ -8,6 +8,7 @@ import type { EvidenceDto } from '../evidence-store';
 import type { OverduePolicy } from '@/db/schema';
 import type { UserAction } from '@/lib/assumptions/lifecycle';
 import type { PublicationNote } from '@/lib/assumptions/publication';
+import { prepared } from '../prepared';
 
 /**
  * What the assumption screens, route handlers and the consumer API receive: small objects built
@@ -135,7 +136,19 @@ export function contentOf(v: AssumptionVersion, segment: string): VersionContent
 export async function peopleById(db: DbOrTx, ids: (number | null)[]): Promise<Map<number, PersonDto>> {
   const wanted = [...new Set(ids.filter((x): x is number => typeof x === 'number'))];
   if (!wanted.length) return new Map();
-  const rows = await db.select({ id: users.id, name: users.name, email: users.email }).from(users).where(inArray(users.id, wanted));
+  const columns = { id: users.id, name: users.name, email: users.email };
+  // Up to three people (a version's author, editor and validator) through one prepared query, the
+  // list padded with its first id; more through a query built for the list.
+  const rows =
+    wanted.length <= 3
+      ? await prepared(db, 'people-up-to-three', () =>
+          db
+            .select(columns)
+            .from(users)
+            .where(inArray(users.id, [sql.placeholder('a'), sql.placeholder('b'), sql.placeholder('c')]))
+            .prepare(),
+        ).execute({ a: wanted[0], b: wanted[1] ?? wanted[0], c: wanted[2] ?? wanted[0] })
+      : await db.select(columns).from(users).where(inArray(users.id, wanted));
   return new Map(rows.map((r) => [r.id, r]));
 }
 
