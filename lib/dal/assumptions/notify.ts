@@ -78,16 +78,31 @@ export async function queueTransitionMail(
   });
 }
 
+/** The reminder due with `daysLeft` whole days to the review-by date: 7 days or fewer, 30 days or fewer, or none. */
+export function reviewReminderKind(daysLeft: number): 'review-by-7' | 'review-by-30' | null {
+  return daysLeft <= 7 && daysLeft >= 0 ? 'review-by-7' : daysLeft <= 30 && daysLeft > 7 ? 'review-by-30' : null;
+}
+
 /** Queues the 30- or 7-day review-by reminder of a published version once (deduplicated). Returns the rows written. */
 export async function queueReviewReminder(db: DbOrTx, v: AssumptionVersion, segment: string, kind: MailKind, daysLeft: number): Promise<number> {
-  const makers = await makerIds(db, v);
-  const to = (await activeEmails(db, { ids: [...makers, ...(v.validatorId ? [v.validatorId] : [])] })).map((u) => u.email);
+  return queueReminder(db, { kind, daysLeft, makers: await makerIds(db, v), validatorId: v.validatorId, versionId: v.id, dedupe: `${kind}:${v.id}:${v.reviewBy}`, facts: versionFacts(v, segment) });
+}
+
+/**
+ * The review-by reminder of any kind of assumption (a segment's version, a factor-correlation
+ * matrix's) to its makers and validator, once per `dedupe` key and address. Returns the rows written.
+ */
+export async function queueReminder(
+  db: DbOrTx,
+  r: { kind: MailKind; daysLeft: number; makers: number[]; validatorId: number | null; versionId?: number; dedupe: string; facts: Omit<MailFacts, 'actorName' | 'comment' | 'daysLeft'> },
+): Promise<number> {
+  const to = (await activeEmails(db, { ids: [...r.makers, ...(r.validatorId ? [r.validatorId] : [])] })).map((u) => u.email);
   return queueMail(db, {
-    kind,
+    kind: r.kind,
     to,
-    versionId: v.id,
-    dedupeKey: (addr) => `${kind}:${v.id}:${v.reviewBy}:${addr}`,
-    facts: { ...versionFacts(v, segment), daysLeft },
+    ...(r.versionId !== undefined ? { versionId: r.versionId } : {}),
+    dedupeKey: (addr) => `${r.dedupe}:${addr}`,
+    facts: { ...r.facts, daysLeft: r.daysLeft },
   });
 }
 
@@ -97,12 +112,21 @@ export async function queueReviewReminder(db: DbOrTx, v: AssumptionVersion, segm
  * withdrawn, by the overdue policy. Returns the rows written.
  */
 export async function queueOverdueEscalation(db: DbOrTx, v: AssumptionVersion, segment: string, kind: 'review-overdue' | 'review-withdrawn'): Promise<number> {
+  return queueEscalation(db, kind, { what: segment, version: v.version, reviewBy: v.reviewBy, url: appUrl(`/library/versions/${v.id}`), versionId: v.id, dedupe: `${kind}:${v.id}:${v.reviewBy}` });
+}
+
+/** The escalation of any kind of assumption past its review-by date (see queueOverdueEscalation), once per `dedupe` key and address. */
+export async function queueEscalation(
+  db: DbOrTx,
+  kind: 'review-overdue' | 'review-withdrawn',
+  e: { what: string; version: number; reviewBy: string; url: string; versionId?: number; dedupe: string },
+): Promise<number> {
   const to = [...(await activeEmails(db, { role: 'validator' })), ...(await activeEmails(db, { role: 'admin' }))].map((u) => u.email);
   return queueMail(db, {
     kind,
     to,
-    versionId: v.id,
-    dedupeKey: (addr) => `${kind}:${v.id}:${v.reviewBy}:${addr}`,
-    message: renderOverdueMail(kind, { segment, version: v.version, reviewBy: v.reviewBy, url: appUrl(`/library/versions/${v.id}`) }),
+    ...(e.versionId !== undefined ? { versionId: e.versionId } : {}),
+    dedupeKey: (addr) => `${e.dedupe}:${addr}`,
+    message: renderOverdueMail(kind, { segment: e.what, version: e.version, reviewBy: e.reviewBy, url: e.url }),
   });
 }

@@ -5,14 +5,13 @@ import type { Db } from '@/db/connection';
 import { assumptions, assumptionVersions } from '@/db/schema';
 import { daysBetween, todayIso } from '@/lib/assumptions/dates';
 import { backDatingProblem } from '@/lib/assumptions/lifecycle';
-import type { MailKind } from '@/lib/mail/templates';
 import { sweepEvidence } from '../evidence-store';
-import { publishDueMatrices } from '../factor-matrices/writes';
+import { publishDueMatrices, type MatrixScheduleReport } from '../factor-matrices/writes';
 import { queueFindingReminders } from '../findings';
 import { notifyModels } from '../model-notify';
 import { overduePolicyIn } from '../overdue-policy';
 import { SYSTEM } from './actors';
-import { queueOverdueEscalation, queueReviewReminder } from './notify';
+import { queueOverdueEscalation, queueReviewReminder, reviewReminderKind } from './notify';
 import { applyTransition, lockVersion } from './writes';
 
 /**
@@ -40,8 +39,8 @@ export type ScheduleReport = {
   findingReminders: number;
   /** Approved versions not published because their effective date is before their approval date. */
   refused: { id: number; reason: string }[];
-  /** Factor-correlation matrix versions published, and those refused as back-dated (lib/dal/factor-matrices). */
-  matrices: { published: number[]; expired: number[]; refused: { id: number; reason: string }[] };
+  /** Factor-correlation matrix versions published, expired and refused as back-dated, their reminders and escalations (lib/dal/factor-matrices). */
+  matrices: MatrixScheduleReport;
 };
 
 export async function runScheduledTransitions(now: Date = new Date(), db: Db = getDb()): Promise<ScheduleReport> {
@@ -55,7 +54,7 @@ export async function runScheduledTransitions(now: Date = new Date(), db: Db = g
     reminders: 0,
     findingReminders: 0,
     refused: [],
-    matrices: { published: [], expired: [], refused: [] },
+    matrices: { published: [], expired: [], refused: [], reminders: 0, escalations: 0 },
   };
 
   const due = await db
@@ -117,7 +116,7 @@ export async function runScheduledTransitions(now: Date = new Date(), db: Db = g
     .where(eq(assumptionVersions.status, 'published'));
   for (const { v, segment } of live) {
     const left = daysBetween(today, v.reviewBy);
-    const kind: MailKind | null = left <= 7 && left >= 0 ? 'review-by-7' : left <= 30 && left > 7 ? 'review-by-30' : null;
+    const kind = reviewReminderKind(left);
     if (!kind) continue;
     report.reminders += await queueReviewReminder(db, v, segment, kind, left);
   }

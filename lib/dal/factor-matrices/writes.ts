@@ -4,7 +4,7 @@ import { getDb } from '@/db/client';
 import type { Db, DbOrTx, Tx } from '@/db/connection';
 import { transactionWithRetry } from '@/db/transaction';
 import { factorMatrices, factorMatrixAudit, factorMatrixVersions, type AssumptionStatus, type FactorMatrixVersion } from '@/db/schema';
-import { defaultReviewBy, todayIso } from '@/lib/assumptions/dates';
+import { daysBetween, defaultReviewBy, todayIso } from '@/lib/assumptions/dates';
 import { backDatingProblem, nextVersionNumber, planEdit, planTransition, statusLabels, type UserAction } from '@/lib/assumptions/lifecycle';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { appUrl } from '@/lib/env';
@@ -24,7 +24,7 @@ import {
   type MatrixVersionDto,
 } from '@/lib/factor-matrices/content';
 import { asActor, SYSTEM, type Actor } from '../assumptions/actors';
-import { queueTransitionMail } from '../assumptions/notify';
+import { queueEscalation, queueReminder, queueTransitionMail, reviewReminderKind } from '../assumptions/notify';
 import { loadFitEvidence } from '../fit-evidence';
 import { overduePolicyIn } from '../overdue-policy';
 import { appendMatrixAudit, lockMatrixVersion, matrixContentOf, matrixDtos } from './rows';
@@ -211,14 +211,7 @@ async function applyMatrixTransition(
     action,
     makers: await matrixMakerIds(tx, v),
     validatorId: action === 'approve' || action === 'reject' ? actor.id : v.validatorId,
-    facts: {
-      segment: `the factor-correlation matrix of ${v.segments.join(', ')}`,
-      version: v.version,
-      finalValue: null,
-      effectiveDate: v.effectiveDate,
-      reviewBy: v.reviewBy,
-      url: appUrl(`/library/matrices/${v.id}`),
-    },
+    facts: matrixMailFacts(v),
     actor,
     comment,
   });
@@ -235,16 +228,47 @@ async function applyMatrixTransition(
   }
 }
 
+/** What the scheduler did to matrix versions (lib/dal/assumptions/scheduler.ts reports it). */
+export type MatrixScheduleReport = {
+  published: number[];
+  expired: number[];
+  refused: { id: number; reason: string }[];
+  /** 30- and 7-day review-by reminders written (messages). */
+  reminders: number;
+  /** Escalations past review-by written (messages): flagged overdue, or withdrawn. */
+  escalations: number;
+};
+
+/** What a message about a matrix version says of it. */
+function matrixMailFacts(v: FactorMatrixVersion) {
+  return {
+    segment: `the factor-correlation matrix of ${v.segments.join(', ')}`,
+    version: v.version,
+    finalValue: null,
+    effectiveDate: v.effectiveDate,
+    reviewBy: v.reviewBy,
+    url: appUrl(`/library/matrices/${v.id}`),
+  };
+}
+
+/** The escalation of a matrix version past its review-by date, once per version and date (dedupe keys apart from the segment versions'). */
+function escalateMatrix(db: DbOrTx, v: FactorMatrixVersion, kind: 'review-overdue' | 'review-withdrawn'): Promise<number> {
+  const f = matrixMailFacts(v);
+  return queueEscalation(db, kind, { what: f.segment, version: v.version, reviewBy: v.reviewBy, url: f.url, dedupe: `matrix:${kind}:${v.id}:${v.reviewBy}` });
+}
+
 /**
- * The scheduler's step for matrices (lib/dal/assumptions/scheduler.ts calls it): publishes approved
- * versions on their effective date, never one whose effective date is before its approval date;
- * past a published version's review-by date, expires it under the withdraw policy (under the flag
- * policy it stays in force, flagged overdue in the API's `review`). Re-checks each under its row
- * lock, so several workers may run it at once.
+ * The scheduler's step for matrices (lib/dal/assumptions/scheduler.ts calls it), the rules of a
+ * segment's version: publishes approved versions on their effective date, never one whose
+ * effective date is before its approval date; reminds the makers and the validator 30 and 7 days
+ * before a published version's review-by date (once each); past it, escalates once to the
+ * validators and administrators and, under the withdraw policy, expires the version (under the
+ * flag policy it stays in force, flagged overdue in the API's `review`). Re-checks each under its
+ * row lock, so several workers may run it at once.
  */
-export async function publishDueMatrices(now: Date, db: Db): Promise<{ published: number[]; expired: number[]; refused: { id: number; reason: string }[] }> {
+export async function publishDueMatrices(now: Date, db: Db): Promise<MatrixScheduleReport> {
   const today = todayIso(now);
-  const out = { published: [] as number[], expired: [] as number[], refused: [] as { id: number; reason: string }[] };
+  const out: MatrixScheduleReport = { published: [], expired: [], refused: [], reminders: 0, escalations: 0 };
   const due = await db
     .select({ id: factorMatrixVersions.id })
     .from(factorMatrixVersions)
@@ -263,7 +287,7 @@ export async function publishDueMatrices(now: Date, db: Db): Promise<{ published
       out.published.push(id);
     });
   }
-  if ((await overduePolicyIn(db, now)) !== 'withdraw') return out;
+  const policy = await overduePolicyIn(db, now);
   const stale = await db
     .select({ id: factorMatrixVersions.id })
     .from(factorMatrixVersions)
@@ -272,8 +296,27 @@ export async function publishDueMatrices(now: Date, db: Db): Promise<{ published
     await db.transaction(async (tx) => {
       const v = await lockMatrixVersion(tx, id);
       if (v.status !== 'published' || v.reviewBy >= today) return;
-      await applyMatrixTransition(tx, v, SYSTEM, 'expire', 'published', 'expired', `Review-by date ${v.reviewBy} passed without a new version: withdrawn under the overdue policy.`, now);
-      out.expired.push(id);
+      if (policy === 'withdraw') {
+        await applyMatrixTransition(tx, v, SYSTEM, 'expire', 'published', 'expired', `Review-by date ${v.reviewBy} passed without a new version: withdrawn under the overdue policy.`, now);
+        out.expired.push(id);
+        out.escalations += await escalateMatrix(tx, v, 'review-withdrawn');
+      } else {
+        out.escalations += await escalateMatrix(tx, v, 'review-overdue');
+      }
+    });
+  }
+  const live = await db.select().from(factorMatrixVersions).where(eq(factorMatrixVersions.status, 'published'));
+  for (const v of live) {
+    const left = daysBetween(today, v.reviewBy);
+    const kind = reviewReminderKind(left);
+    if (!kind) continue;
+    out.reminders += await queueReminder(db, {
+      kind,
+      daysLeft: left,
+      makers: await matrixMakerIds(db, v),
+      validatorId: v.validatorId,
+      dedupe: `matrix:${kind}:${v.id}:${v.reviewBy}`,
+      facts: matrixMailFacts(v),
     });
   }
   return out;

@@ -5,6 +5,8 @@ import { mailOutbox } from '@/db/schema';
 import type { SessionUser } from '@/lib/auth/guard';
 import { runScheduledTransitions } from '@/lib/dal/assumptions';
 import { createMatrixDraft, editMatrixDraft, getMatrixVersionPage, listMatrixQueue, matricesInForce, matrixTransition, matrixVersions } from '@/lib/dal/factor-matrices';
+import { publishDueMatrices } from '@/lib/dal/factor-matrices/writes';
+import { overduePolicyIn } from '@/lib/dal/overdue-policy';
 import { createToken } from '@/lib/dal/tokens';
 import { AppError } from '@/lib/errors';
 import { NEGATIVE_MARGIN } from '@/lib/factor-matrices/cautions';
@@ -369,5 +371,33 @@ describe('publication, supersession and the consumer API', () => {
     expect(l.map((r) => r.split(',').slice(1, 3).join(' '))).toEqual(['2 published', '2 published', '2 published']);
     const noComments = await call(exportRoute.GET, { url: 'http://127.0.0.1/api/v1/factor-matrices/export?comments=0', headers: { authorization: `Bearer ${token}` } });
     expect(noComments.text.replace(/^\uFEFF/, '').startsWith('matrix_id,')).toBe(true);
+  });
+  it('reminds the makers and the validator 30 and 7 days before review-by, once each, and escalates once past it (the segment versions\' rules)', async () => {
+    const v = (await getMatrixVersionPage(validator, v2)).version;
+    const reviewBy = new Date(`${v.reviewBy}T12:00:00Z`);
+    const at = (days: number) => new Date(reviewBy.getTime() + days * 86_400_000);
+    const mails = (kind: string) => getDb().select().from(mailOutbox).where(sql`${mailOutbox.dedupeKey} like ${`matrix:${kind}:${v2}:%`}`);
+    const r30 = await publishDueMatrices(at(-20), getDb());
+    expect(r30.reminders).toBeGreaterThanOrEqual(2);
+    const thirty = await mails('review-by-30');
+    expect(thirty.map((m) => m.toAddress).sort()).toEqual([analyst.email, validator.email].sort());
+    expect(thirty[0].subject).toBe(`Review due in 20 days: the factor-correlation matrix of ${setL.join(', ')} v2`);
+    expect(thirty[0].body).toContain(`/library/matrices/${v2}`);
+    await publishDueMatrices(at(-19), getDb());
+    expect((await mails('review-by-30')).length).toBe(2); // once
+    await publishDueMatrices(at(-3), getDb());
+    expect((await mails('review-by-7')).map((m) => m.toAddress).sort()).toEqual([analyst.email, validator.email].sort());
+    // Past review-by: one escalation to the validators and administrators, whichever policy is in force then.
+    const policy = await overduePolicyIn(getDb(), at(1));
+    const late = await publishDueMatrices(at(1), getDb());
+    const kind = policy === 'withdraw' ? 'review-withdrawn' : 'review-overdue';
+    const escalated = await mails(kind);
+    expect(escalated.map((m) => m.toAddress)).toEqual(expect.arrayContaining([validator.email, admin.email]));
+    expect(escalated.map((m) => m.toAddress)).not.toContain(analyst.email);
+    // (the test database keeps other runs' matrices: the counts cover them too)
+    expect(late.escalations).toBeGreaterThanOrEqual(escalated.length);
+    expect(late.expired.includes(v2)).toBe(policy === 'withdraw');
+    await publishDueMatrices(at(2), getDb());
+    expect((await mails(kind)).length).toBe(escalated.length); // once
   });
 });
