@@ -15,6 +15,8 @@
  *    - Owner-occupied mortgages: submitted three days ago, waiting in the validator's queue,
  *      effective on the first of next month;
  *    - Credit cards: reviewed and sent back with changes requested two days ago.
+ *    and, from a second fit with the correlations between segments' factors, a factor-correlation
+ *    matrix of the SME, auto and mortgage books, published by the scheduler two months ago;
  *
  * 3. the governance around them:
  *    - a consuming model, the economic capital model, registered by the analyst as using the auto
@@ -33,6 +35,7 @@ import { addDays, addMonths, todayIso } from '@/lib/assumptions/dates';
 import { conservativeValue, type Margins } from '@/lib/assumptions/margins';
 import type { SessionUser } from '@/lib/auth/guard';
 import { createDraft, runScheduledTransitions, transition } from '@/lib/dal/assumptions';
+import { createMatrixDraft, matrixTransition } from '@/lib/dal/factor-matrices';
 import { queuedBacktestJobs } from '@/lib/dal/evidence-store';
 import { recordFinding } from '@/lib/dal/findings';
 import { createFit, getFit } from '@/lib/dal/fits';
@@ -47,10 +50,24 @@ import type { Db } from '@/db/connection';
 export type RunJobHere = (db: Db, jobId: number, kind: string) => Promise<void>;
 
 const SEGMENTS = ['SME term loans', 'Prime auto loans', 'Owner-occupied mortgages', 'Credit cards'] as const;
+/** The segments of the demo's factor-correlation matrix (the end-to-end test drafts another set's). */
+const MATRIX_SEGMENTS = ['SME term loans', 'Prime auto loans', 'Owner-occupied mortgages'] as const;
 
 /** The first day of the month `months` months before `today`. */
 function monthsBefore(today: string, months: number): string {
   return `${addMonths(today, -months).slice(0, 8)}01`;
+}
+
+/** Runs `work` with FIT_THREADS=0: the bootstrap and the pairs on this thread, as the seed starts no worker threads. */
+async function withoutThreads(work: () => Promise<void>): Promise<void> {
+  const threads = process.env.FIT_THREADS;
+  process.env.FIT_THREADS = '0';
+  try {
+    await work();
+  } finally {
+    if (threads === undefined) delete process.env.FIT_THREADS;
+    else process.env.FIT_THREADS = threads;
+  }
 }
 
 /** A moment of the seed's past: the date at the given time of day (UTC). */
@@ -72,15 +89,10 @@ export async function seedDemoLibrary(
   const fit = await createFit(analyst, { datasetId: cohortDatasetId, segments: [...SEGMENTS], level: 0.95, bootstrap: { replications: 200, seed: 20260101 } });
   const { jobIds } = await getFit(analyst, fit.id);
   if (jobIds.length === 0) throw new Error(`The demo fit ${fit.id} has no job.`);
-  // The bootstrap on this thread: the seed starts no worker threads. One job per segment, in order.
-  const threads = process.env.FIT_THREADS;
-  process.env.FIT_THREADS = '0';
-  try {
+  // One job per segment, in order.
+  await withoutThreads(async () => {
     for (const jobId of jobIds) await runJob(db, jobId, FIT_JOB);
-  } finally {
-    if (threads === undefined) delete process.env.FIT_THREADS;
-    else process.env.FIT_THREADS = threads;
-  }
+  });
 
   // The analyst rounds the estimate plus margins up to two decimals, as a published figure would be.
   const fitted = await getFit(analyst, fit.id);
@@ -166,6 +178,38 @@ export async function seedDemoLibrary(
     at(addDays(smeEffective, -6), '11:40'),
   );
   await runScheduledTransitions(at(smeEffective, '00:05'), db);
+
+  // A factor-correlation matrix of the SME, auto and mortgage books: a second fit, with the
+  // correlations between their factors, drafted as an assumption with a margin on every pair,
+  // approved and published by the scheduler two months ago.
+  const pairsFit = await createFit(analyst, { datasetId: cohortDatasetId, segments: [...MATRIX_SEGMENTS], level: 0.95, pairs: true });
+  await withoutThreads(async () => {
+    for (const jobId of (await getFit(analyst, pairsFit.id)).jobIds) await runJob(db, jobId, FIT_JOB);
+  });
+  const matrixEffective = monthsBefore(today, 2);
+  const matrix = await createMatrixDraft(
+    analyst,
+    {
+      fitId: pairsFit.id,
+      margin: {
+        value: 0.05,
+        rationale: 'Each pair rests on the annual cohorts of the demo cohort file only; the profile intervals are wide, so every factor correlation is raised by 0.05 (less diversification).',
+      },
+      intendedUses: 'Economic capital across the SME, auto and mortgage books: the correlation between their systematic factors.',
+      limitations: 'Valid only with the segments’ fitted PDs and asset correlations under the Gaussian one-factor model per segment.',
+      effectiveDate: matrixEffective,
+    },
+    at(addDays(matrixEffective, -9), '10:30'),
+  );
+  await matrixTransition(analyst, matrix.id, { action: 'submit' }, at(addDays(matrixEffective, -8), '15:10'));
+  await matrixTransition(validator, matrix.id, { action: 'start-review' }, at(addDays(matrixEffective, -6), '09:00'));
+  await matrixTransition(
+    validator,
+    matrix.id,
+    { action: 'approve', comment: 'Pairs, intervals and the margin checked against the fit; the matrix is positive semi-definite. Approved for economic capital.' },
+    at(addDays(matrixEffective, -4), '16:45'),
+  );
+  await runScheduledTransitions(at(matrixEffective, '00:05'), db);
 
   // Owner-occupied mortgages: submitted, in the validator's queue.
   const mortgages = await createDraft(
@@ -255,5 +299,5 @@ export async function seedDemoLibrary(
   await runScheduledTransitions(now, db);
   for (const jobId of await queuedBacktestJobs(db)) await runJob(db, jobId, MONITOR_BACKTEST_JOB);
 
-  console.log(`[seed] demo assumptions (fit ${fit.id}; four segments), a consuming model, findings and a restated dataset in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
+  console.log(`[seed] demo assumptions (fit ${fit.id}; four segments), a factor-correlation matrix (fit ${pairsFit.id}), a consuming model, findings and a restated dataset in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
 }

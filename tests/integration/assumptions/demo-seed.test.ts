@@ -46,9 +46,10 @@ async function person(email: string) {
 describe('the demo library', () => {
   it('comes from one succeeded fit run recorded by its fit jobs (one per segment), on the demo cohort dataset', async () => {
     const { fitRuns, fitRunSegments, jobs, datasets } = m.schema;
-    const runs = await m.db.getDb().select().from(fitRuns);
-    expect(runs).toHaveLength(1);
-    expect(runs[0].status).toBe('succeeded');
+    // Two runs: the segments' (four jobs) and, second, the factor correlations of three of them (one job).
+    const runs = await m.db.getDb().select().from(fitRuns).orderBy(fitRuns.id);
+    expect(runs).toHaveLength(2);
+    expect(runs.map((r) => r.status)).toEqual(['succeeded', 'succeeded']);
     const segs = await m.db.getDb().select().from(fitRunSegments).where(m.orm.eq(fitRunSegments.fitRunId, runs[0].id));
     expect(segs).toHaveLength(4);
     const done = await m.db.getDb().select().from(jobs).where(m.orm.inArray(jobs.id, segs.map((s) => s.jobId!)));
@@ -147,9 +148,34 @@ describe('the demo library', () => {
     const { mailOutbox } = m.schema;
     const mail = await m.db.getDb().select({ kind: mailOutbox.kind, to: mailOutbox.toAddress, subject: mailOutbox.subject }).from(mailOutbox);
     const of = (kind: string) => mail.filter((x) => x.kind === kind);
-    expect(of('awaiting-review').map((x) => x.to)).toEqual(Array(4).fill('validator@fenmoor.example'));
+    // Four segment versions and the matrix were submitted; the auto and SME values and the matrix published.
+    expect(of('awaiting-review').map((x) => x.to)).toEqual(Array(5).fill('validator@fenmoor.example'));
     expect(of('changes-requested')).toEqual([expect.objectContaining({ to: 'analyst@fenmoor.example', subject: 'Changes requested: Credit cards v1' })]);
-    expect(of('published').map((x) => x.to).sort()).toEqual(['analyst@fenmoor.example', 'analyst@fenmoor.example', 'validator@fenmoor.example', 'validator@fenmoor.example']);
+    expect(of('published').map((x) => x.to).sort()).toEqual([...Array(3).fill('analyst@fenmoor.example'), ...Array(3).fill('validator@fenmoor.example')]);
+    expect(of('published').filter((x) => x.subject.includes('factor-correlation matrix of SME term loans, Prime auto loans, Owner-occupied mortgages v1'))).toHaveLength(2);
+  });
+});
+
+describe('the demo factor-correlation matrix', () => {
+  it('is published from the second fit, approved by the validator before its effective date, and served by the consumer API', async () => {
+    const matrices = await import('@/lib/dal/factor-matrices');
+    const viewer = await person('viewer@fenmoor.example');
+    const segments = ['SME term loans', 'Prime auto loans', 'Owner-occupied mortgages'];
+    const { matrices: inForce } = await matrices.matricesInForce(viewer, new Date().toISOString().slice(0, 10), segments);
+    expect(inForce).toHaveLength(1);
+    const mx = inForce[0];
+    expect(mx).toMatchObject({ version: 1, status: 'published', margin: { value: 0.05 } });
+    expect(mx.segments).toEqual(segments);
+    expect(mx.pairs).toHaveLength(3);
+    // The value is each pair's estimate plus the margin (common practice: a valid correlation matrix, unit diagonal).
+    for (const p of mx.pairs) if (p.r !== null) expect(p.value).toBeCloseTo(Math.min(1, p.r + 0.05), 12);
+    mx.value.forEach((row, i) => expect(row[i]).toBe(1));
+    const { factorMatrixVersions } = m.schema;
+    const [row] = await m.db.getDb().select({ id: factorMatrixVersions.id }).from(factorMatrixVersions).where(m.orm.eq(factorMatrixVersions.matrixId, mx.matrixId));
+    const page = await matrices.getMatrixVersionPage(await person('validator@fenmoor.example'), row.id);
+    expect(page.audit.map((a) => a.action)).toEqual(['draft', 'submit', 'start-review', 'approve', 'publish']);
+    expect(page.version.decidedAt!.slice(0, 10) < page.version.effectiveDate).toBe(true);
+    expect(page.version.publishedAt!.slice(0, 10)).toBe(page.version.effectiveDate);
   });
 });
 
