@@ -118,11 +118,11 @@ test('Compare offers only runs that share a segment, says why others are greyed 
   const cards = await fitOf(page.request, ds, ['Credit cards']);
   const auto = await fitOf(page.request, ds, ['Prime auto loans']);
   await page.goto('/fits');
-  await page.getByLabel(`Compare fit ${cards}`).check();
-  await expect(page.getByLabel(`Compare fit ${auto}`)).toBeDisabled();
+  await page.getByLabel(`Compare fit ${cards}`, { exact: true }).check();
+  await expect(page.getByLabel(`Compare fit ${auto}`, { exact: true })).toBeDisabled();
   await expect(page.getByTestId(`why-${auto}`)).toHaveText('Cannot be compared now: No segment in common with the runs ticked.');
-  await expect(page.getByLabel('Compare fit 1')).toBeEnabled();
-  await page.getByLabel('Compare fit 1').check();
+  await expect(page.getByLabel('Compare fit 1', { exact: true })).toBeEnabled();
+  await page.getByLabel('Compare fit 1', { exact: true }).check();
   await expect(page.getByTestId('compare-hint')).toHaveText('2 ticked; segments in common: Credit cards.');
   await keepScreenshot(page, testInfo, 'fits-compare-choice', { narrow: true });
   await page.getByRole('button', { name: 'Compare ticked runs' }).click();
