@@ -206,6 +206,9 @@ export async function restore(file, { database = settings.database } = {}) {
     if (manifest.tables.includes(t) && !triggers.some((name) => name.startsWith(t))) problems.push(`no trigger guards ${t}`);
   }
   if (problems.length) throw new Error(`The restored database ${database} does not match the backup: ${problems.join('; ')}.`);
+  // A new epoch for the consumer API's change stamp (lib/dal/change-stamp.ts): a web process that
+  // cached an answer from this database before it was dropped must not serve it again.
+  if (tables.includes('consumer_change_epoch')) query('UPDATE consumer_change_epoch SET epoch = UUID() WHERE id = 1', database);
   say(`restored and checked: ${tables.length} tables, ${triggers.length} triggers, schema at migration ${version.migrations} (${version.lastMigration})`);
   if (version.migrations < known) say(`this checkout has ${known - version.migrations} newer migration(s); npm start applies them`);
   return { database, tables, triggers, schema: version };

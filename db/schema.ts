@@ -938,3 +938,26 @@ export const factorMatrixAudit = mysqlTable(
   (t) => [index('factor_matrix_audit_matrix_idx').on(t.matrixId, t.id), index('factor_matrix_audit_version_idx').on(t.versionId)],
 );
 export type FactorMatrixAuditRow = typeof factorMatrixAudit.$inferSelect;
+
+// ---------------------------------------------------------------------------------------------
+// The change stamp of what the consumer API reads (lib/dal/change-stamp.ts). Triggers in the
+// migration count every row written to the tables an in-force answer is built from (the watched
+// tables), in one row per database connection, so that writers never wait on one another; the
+// stamp is the epoch and the sum of the counts plus those pruned. It changes with every commit
+// that touches a watched table, in the same snapshot as the change, so a cached answer is served
+// only while nothing it was built from has changed.
+// ---------------------------------------------------------------------------------------------
+
+/** Rows written to the watched tables, counted per database connection (the triggers' upsert). */
+export const consumerChanges = mysqlTable('consumer_changes', {
+  connectionId: bigint('connection_id', { mode: 'number', unsigned: true }).primaryKey(),
+  n: bigint('n', { mode: 'number', unsigned: true }).notNull(),
+  at: datetime('at', { mode: 'date', fsp: 6 }).notNull(),
+});
+
+/** One row: the database's epoch (new at every migration from empty and every restore) and the counts pruned so far. */
+export const consumerChangeEpoch = mysqlTable('consumer_change_epoch', {
+  id: int('id').primaryKey(),
+  epoch: varchar('epoch', { length: 36 }).notNull(),
+  pruned: bigint('pruned', { mode: 'number', unsigned: true }).notNull().default(0),
+});

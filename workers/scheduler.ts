@@ -1,5 +1,6 @@
 import type { Db } from '@/db/connection';
 import { runScheduledTransitions } from '@/lib/dal/assumptions';
+import { pruneChangeCounts } from '@/lib/dal/change-stamp';
 import { env } from '@/lib/env';
 import { sleep } from './mail-loop';
 
@@ -7,9 +8,12 @@ import { sleep } from './mail-loop';
  * The assumption scheduler: once a minute (SCHEDULER_INTERVAL_SECONDS) it publishes approved versions whose effective date has
  * come (the segment's previous published version becomes superseded; never a back-dated one), expires published versions
  * whose review-by date has passed, and queues the 30- and 7-day review reminders and the findings'
- * reminders (once each).
+ * reminders (once each). It also folds the change counts of connections idle for ten minutes into the
+ * consumer API's change stamp (lib/dal/change-stamp.ts), which keeps that stamp's sum over a few rows.
  * Every step is idempotent and re-checks the state under a row lock, so several workers may run it.
  */
+const PRUNE_IDLE_MS = 10 * 60_000;
+
 export async function runScheduler(opts: { db: Db; signal: AbortSignal; intervalMs?: number }): Promise<void> {
   const interval = opts.intervalMs ?? env().SCHEDULER_INTERVAL_SECONDS * 1000;
   const told = new Set<number>();
@@ -33,6 +37,11 @@ export async function runScheduler(opts: { db: Db; signal: AbortSignal; interval
       }
     } catch (err) {
       console.error('[worker] scheduler error:', err instanceof Error ? err.message : err);
+    }
+    try {
+      await pruneChangeCounts(opts.db, new Date(Date.now() - PRUNE_IDLE_MS));
+    } catch (err) {
+      console.error('[worker] change-stamp pruning error:', err instanceof Error ? err.message : err);
     }
     await sleep(interval, opts.signal);
   }

@@ -7,6 +7,7 @@ import { apiTokens, consumingModels, users } from '@/db/schema';
 import { assertCan, type SessionUser } from '@/lib/auth/guard';
 import { AppError, parseOrThrow } from '@/lib/errors';
 import { recordAdminAction } from './admin-audit';
+import { changeStampSql } from './change-stamp';
 import { prepared } from './prepared';
 
 /**
@@ -18,7 +19,11 @@ import { prepared } from './prepared';
 export const tokenScopes = ['assumptions:read', 'assumptions:export'] as const;
 export type TokenScope = (typeof tokenScopes)[number];
 
-export type ApiPrincipal = { kind: 'token'; tokenId: number; name: string; scopes: TokenScope[]; modelId: number | null };
+/**
+ * A token that was let in. `stamp` is the consumer API's change stamp (./change-stamp.ts), read in
+ * the token's own statement so that a kept answer costs one round trip to the database.
+ */
+export type ApiPrincipal = { kind: 'token'; tokenId: number; name: string; scopes: TokenScope[]; modelId: number | null; stamp?: string };
 
 export type TokenDto = {
   id: number;
@@ -138,14 +143,15 @@ export async function authenticateToken(authorization: string | null, scope: Tok
   if (!m || !m[1].startsWith(TOKEN_PREFIX)) throw new AppError('unauthorized:token', REFUSED);
   const hash = hashToken(m[1]);
   const db = getDb();
-  const [t] = await prepared(db, 'token-by-hash', () =>
+  const [found] = await prepared(db, 'token-by-hash', () =>
     db
-      .select()
+      .select({ t: apiTokens, stamp: changeStampSql })
       .from(apiTokens)
       .where(and(eq(apiTokens.tokenHash, sql.placeholder('hash')), isNull(apiTokens.revokedAt)))
       .limit(1)
       .prepare(),
   ).execute({ hash });
+  const t = found?.t;
   if (!t || !timingSafeEqual(Buffer.from(t.tokenHash), Buffer.from(hash)) || (t.expiresAt && t.expiresAt <= now)) {
     throw new AppError('unauthorized:token', REFUSED);
   }
@@ -157,5 +163,5 @@ export async function authenticateToken(authorization: string | null, scope: Tok
   if (!t.lastUsedAt || now.getTime() - t.lastUsedAt.getTime() >= LAST_USE_RESOLUTION_MS) {
     await db.update(apiTokens).set({ lastUsedAt: now }).where(eq(apiTokens.id, t.id));
   }
-  return { kind: 'token', tokenId: t.id, name: t.name, scopes, modelId: t.modelId };
+  return { kind: 'token', tokenId: t.id, name: t.name, scopes, modelId: t.modelId, stamp: found.stamp };
 }

@@ -69,8 +69,11 @@ describe('backup and restore', () => {
     expect(Date.now() - Date.parse(manifest.createdAt)).toBeLessThan(600_000);
     const journal = JSON.parse(readFileSync(path.join(root, 'db/migrations/meta/_journal.json'), 'utf8'));
     expect(manifest.schema).toEqual({ migrations: journal.entries.length, lastMigration: journal.entries.at(-1).tag });
-    // every append-only table's two triggers (db/migrations: 0001, 0004, 0009, 0012, 0019)
-    expect(manifest.triggers).toEqual([
+    // every append-only table's two triggers (db/migrations: 0001, 0004, 0009, 0012, 0019), and the
+    // change stamp's three on each watched table (0021, lib/dal/change-stamp.ts)
+    const { WATCHED_TABLES } = await import('@/lib/dal/change-stamp');
+    const stampTriggers = WATCHED_TABLES.flatMap((t) => ['ad', 'ai', 'au'].map((s) => `${t}_consumer_change_${s}`));
+    expect([...manifest.triggers].sort()).toEqual([
       'admin_audit_no_delete',
       'admin_audit_no_update',
       'assumption_audit_no_delete',
@@ -81,19 +84,29 @@ describe('backup and restore', () => {
       'finding_events_no_update',
       'overdue_policy_changes_no_delete',
       'overdue_policy_changes_no_update',
-    ]);
+      ...stampTriggers,
+    ].sort());
     expect(manifest.note).toMatch(/session secret .* is not in this dump/);
 
     const r = script(['restore', path.resolve(root, file), '--database', TARGET], SOURCE);
     expect(r.code, r.err).toBe(0);
-    expect(r.out).toMatch(/restored and checked: \d+ tables, 10 triggers/);
+    expect(r.out).toMatch(new RegExp(`restored and checked: \\d+ tables, ${10 + stampTriggers.length} triggers`));
 
     const before = await checksums(SOURCE);
     const after = await checksums(TARGET);
     expect(Object.keys(before).length).toBeGreaterThan(15);
     // The demo's data is there: users, datasets with their rows, a fit, the library and its audit trail.
     for (const t of ['users', 'datasets', 'cohort_rows', 'fit_runs', 'assumption_versions', 'assumption_audit']) expect(before[t].rows, t).toBeGreaterThan(0);
-    expect(after).toEqual(before);
+    // The change stamp's epoch is new after a restore (a web process's cached answers from before
+    // never match again); every other table, and that one's pruned count, is as it was.
+    const epochOf = async (db: string) => (await conn.query<mysql.RowDataPacket[]>(`SELECT epoch, pruned FROM \`${db}\`.consumer_change_epoch`))[0][0];
+    const [e0, e1] = [await epochOf(SOURCE), await epochOf(TARGET)];
+    expect(e1.epoch).not.toBe(e0.epoch);
+    expect(e1.pruned).toBe(e0.pruned);
+    const { consumer_change_epoch: _b, ...beforeRest } = before;
+    const { consumer_change_epoch: _a, ...afterRest } = after;
+    expect(afterRest).toEqual(beforeRest);
+    expect(_a.rows).toBe(1);
 
     // The demo writes no administration log; a row appended now (appending is allowed) gives the trigger a row to guard.
     expect(before.assumption_audit.rows).toBeGreaterThan(0);
