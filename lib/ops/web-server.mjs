@@ -4,21 +4,34 @@
 // carries the socket address it came from (lib/ops/socket-stamp.mjs); the sign-in throttle reads it
 // (lib/auth/client-address.ts), believing X-Forwarded-For only from TRUSTED_PROXIES. Before Next it
 // refuses methods the app does not serve (405) and, in production, the public development session
-// secret (lib/ops/http-guard.mjs).
+// secret (lib/ops/http-guard.mjs). With WEB_PROCESSES above 1 (the default is one per core, up to
+// two) this process is the primary of that many copies sharing the port (lib/ops/web-processes.mjs).
 //
-//   NODE_ENV=production HOST=127.0.0.1 PORT=3000 node lib/ops/web-server.mjs
+//   NODE_ENV=production HOST=127.0.0.1 PORT=3000 [WEB_PROCESSES=2] node lib/ops/web-server.mjs
+import cluster from 'node:cluster';
 import { randomBytes } from 'node:crypto';
 import http from 'node:http';
 import next from 'next';
 import { root } from './common.mjs';
 import { productionSecretProblem, refuseUnknownMethod } from './http-guard.mjs';
 import { stampSocket } from './socket-stamp.mjs';
+import { leaveWithPrimary, runPrimary, webProcessCount } from './web-processes.mjs';
 
 const secretProblem = productionSecretProblem(process.env);
 if (secretProblem) {
   console.error(`[web] refusing to start: ${secretProblem}`);
   process.exit(2);
 }
+
+let processes = 1;
+try {
+  processes = webProcessCount();
+} catch (err) {
+  console.error(`[web] refusing to start: ${err.message}`);
+  process.exit(2);
+}
+if (processes > 1 && cluster.isPrimary) await runPrimary(processes);
+leaveWithPrimary();
 
 const port = Number(process.env.PORT ?? 3000);
 const host = process.env.HOST ?? '127.0.0.1';
