@@ -11,24 +11,16 @@
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { alive, sparePort } from '../../support/processes';
 
 const root = path.resolve(import.meta.dirname, '../../..');
 const dataDir = mkdtempSync(path.join(os.tmpdir(), 'rhobook-supervisor-'));
 const DB = 'rhobook_supervised_test';
 let port: number;
 const procs: ChildProcess[] = [];
-
-async function sparePort(): Promise<number> {
-  const server = net.createServer();
-  await new Promise<void>((r) => server.listen(0, '127.0.0.1', () => r()));
-  const p = (server.address() as net.AddressInfo).port;
-  await new Promise<void>((r) => server.close(() => r()));
-  return p;
-}
 
 type Supervised = { proc: ChildProcess; output: () => string; waitFor: (re: RegExp, ms?: number) => Promise<string> };
 
@@ -56,14 +48,6 @@ function supervise(extra: Record<string, string> = {}): Promise<Supervised> {
 }
 
 const mariadbPid = () => Number(readFileSync(path.join(dataDir, 'mariadb', 'mariadb.pid'), 'utf8').trim());
-const alive = (pid: number) => {
-  try {
-    process.kill(pid, 0);
-    return true;
-  } catch {
-    return false;
-  }
-};
 
 async function interrupt(s: Supervised) {
   const done = new Promise((r) => s.proc.once('exit', r));

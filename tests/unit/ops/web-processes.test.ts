@@ -5,10 +5,10 @@
  * the copies, SIGTERM stops them all, and a primary killed outright leaves no copy behind.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import net from 'node:net';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { webProcessCount } from '@/lib/ops/web-processes.mjs';
+import { alive, sparePort } from '../../support/processes';
 
 const root = path.resolve(import.meta.dirname, '../../..');
 const procs: ChildProcess[] = [];
@@ -32,23 +32,6 @@ describe('how many web processes', () => {
     }
   });
 });
-
-async function sparePort(): Promise<number> {
-  const server = net.createServer();
-  await new Promise<void>((r) => server.listen(0, '127.0.0.1', () => r()));
-  const p = (server.address() as net.AddressInfo).port;
-  await new Promise<void>((r) => server.close(() => r()));
-  return p;
-}
-
-const alive = (pid: number) => {
-  try {
-    process.kill(pid, 0);
-    return true;
-  } catch {
-    return false;
-  }
-};
 
 async function until<T>(what: string, f: () => T | undefined | false, ms = 15_000): Promise<T> {
   const end = Date.now() + ms;
