@@ -1,4 +1,4 @@
-import { and, inArray, lt, sql } from 'drizzle-orm';
+import { eq, lt, sql } from 'drizzle-orm';
 import type { Db, DbOrTx } from '@/db/connection';
 import { consumerChangeEpoch, consumerChanges } from '@/db/schema';
 import { prepared } from './prepared';
@@ -53,7 +53,9 @@ export async function pruneChangeCounts(db: Db, before: Date): Promise<number> {
         .for('update', { skipLocked: true });
       if (!rows.length) return 0;
       const sum = rows.reduce((s, r) => s + Number(r.n), 0);
-      await tx.delete(consumerChanges).where(and(inArray(consumerChanges.connectionId, rows.map((r) => r.connectionId))));
+      // One primary-key delete per row: a delete by a list may scan the table and wait on the row
+      // of a writer in flight (InnoDB reads a locked row semi-consistently for UPDATE, not DELETE).
+      for (const r of rows) await tx.delete(consumerChanges).where(eq(consumerChanges.connectionId, r.connectionId));
       await tx
         .update(consumerChangeEpoch)
         .set({ pruned: sql`${consumerChangeEpoch.pruned} + ${sum}` })

@@ -64,7 +64,8 @@ describe('the primary', () => {
     expect([...pids].sort()).toEqual(first.map((c) => String(c.pid)).sort());
 
     process.kill(first[0].pid, 'SIGKILL');
-    await until('the restart line', () => /web process 1 of 2 \(pid \d+\) exited \(signal SIGKILL\); starting it again in 200 ms/.test(p.output()));
+    const line = new RegExp(`web process ${first[0].slot + 1} of 2 \\(pid ${first[0].pid}\\) exited \\(signal SIGKILL\\); starting it again in 200 ms`);
+    await until('the restart line', () => line.test(p.output()));
     const again = await until('a third copy', () => p.copies().length === 3 && p.copies()[2]);
     expect(again.slot).toBe(first[0].slot);
     expect(alive(again.pid)).toBe(true);
