@@ -72,7 +72,8 @@ async function main() {
   await closeDb();
 
   if (ensureBuild()) console.log('[bench] built the app');
-  const web = spawn(process.execPath, ['lib/ops/web-server.mjs'], {
+  const { webNodeFlags } = await import('../ops/web-processes.mjs');
+  const web = spawn(process.execPath, [...webNodeFlags(), 'lib/ops/web-server.mjs'], {
     cwd: root,
     env: { ...process.env, ...env, NODE_ENV: 'production', HOST: '127.0.0.1', PORT: String(PORT) },
     stdio: ['ignore', 'ignore', 'inherit'],

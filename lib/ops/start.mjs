@@ -9,6 +9,7 @@
 //      alone a database that was already running
 import { ensureDependencies, localSecret, say, startChild, tsx, ensureBuild, waitForHttp } from './common.mjs';
 import { Supervisor } from './supervisor.mjs';
+import { webNodeFlags } from './web-processes.mjs';
 
 const port = Number(process.env.PORT ?? 3000);
 const host = process.env.HOST ?? '127.0.0.1';
@@ -45,7 +46,7 @@ async function main() {
 
   supervisor.watchDatabase(mariadb, db);
   supervisor.add('web', () =>
-    startChild('web', process.execPath, ['lib/ops/web-server.mjs'], {
+    startChild('web', process.execPath, [...webNodeFlags({ ...process.env, ...env }), 'lib/ops/web-server.mjs'], {
       env: { ...env, NODE_ENV: 'production', HOST: host, PORT: String(port) },
     }),
   );

@@ -11,6 +11,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { dataDir, ensureBuild, ensureChromium, ensureDependencies, root, say, startChild, tsx, waitForHttp } from './common.mjs';
 import { exited, hasExited } from './supervisor.mjs';
+import { webNodeFlags } from './web-processes.mjs';
 
 const ALL = ['typecheck', 'lint', 'unit', 'integration', 'build', 'e2e'];
 const wanted = process.argv.slice(2).filter((a) => ALL.includes(a));
@@ -118,7 +119,7 @@ async function e2eStep() {
   const serverLog = path.join(logDir, 'e2e-server.log');
   fs.writeFileSync(serverLog, '');
   const env = { ...testEnv };
-  const web = startChild('web', process.execPath, ['lib/ops/web-server.mjs'], {
+  const web = startChild('web', process.execPath, [...webNodeFlags({ ...process.env, ...env }), 'lib/ops/web-server.mjs'], {
     env: { ...env, NODE_ENV: 'production', HOST: '127.0.0.1', PORT: String(E2E_PORT) },
     logFile: serverLog,
   });

@@ -7,7 +7,8 @@
 // secret (lib/ops/http-guard.mjs). With WEB_PROCESSES above 1 (the default is one per core, up to
 // two) this process is the primary of that many copies sharing the port (lib/ops/web-processes.mjs).
 //
-//   NODE_ENV=production HOST=127.0.0.1 PORT=3000 [WEB_PROCESSES=2] node lib/ops/web-server.mjs
+//   NODE_ENV=production HOST=127.0.0.1 PORT=3000 [WEB_PROCESSES=2] node [--single-threaded-gc] lib/ops/web-server.mjs
+//   (npm start adds the flag when the web processes take every core: webNodeFlags in web-processes.mjs)
 import cluster from 'node:cluster';
 import { randomBytes } from 'node:crypto';
 import http from 'node:http';

@@ -7,7 +7,7 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { webProcessCount } from '@/lib/ops/web-processes.mjs';
+import { webNodeFlags, webProcessCount } from '@/lib/ops/web-processes.mjs';
 import { alive, sparePort } from '../../support/processes';
 
 const root = path.resolve(import.meta.dirname, '../../..');
@@ -24,6 +24,14 @@ describe('how many web processes', () => {
     expect(webProcessCount({ WEB_PROCESSES: '' }, 4)).toBe(2);
     expect(webProcessCount({ WEB_PROCESSES: '1' }, 8)).toBe(1);
     expect(webProcessCount({ WEB_PROCESSES: '6' }, 2)).toBe(6);
+  });
+
+  it('collects garbage on one thread when the web processes take every core, in parallel otherwise', () => {
+    expect(webNodeFlags({}, 1)).toEqual(['--single-threaded-gc']);
+    expect(webNodeFlags({}, 2)).toEqual(['--single-threaded-gc']);
+    expect(webNodeFlags({}, 8)).toEqual([]);
+    expect(webNodeFlags({ WEB_PROCESSES: '8' }, 8)).toEqual(['--single-threaded-gc']);
+    expect(webNodeFlags({ WEB_PROCESSES: '1' }, 2)).toEqual([]);
   });
 
   it('refuses anything but a whole number from 1 to 16, naming the setting and the value', () => {
