@@ -118,10 +118,9 @@ describe('the change stamp', () => {
     await setPolicy(current === 'flag' ? 'withdraw' : 'flag'); // one policy row (and the administration log, not watched)
     expect(await total()).toBe(before + 7);
     // a multi-row statement counts each row
-    await db.execute(sql`UPDATE users SET updated_at = updated_at WHERE id IN (${analyst.id}, ${validator.id})`);
-    const afterMulti = await total();
-    expect(afterMulti - (before + 7)).toBeGreaterThanOrEqual(0);
-    before = afterMulti;
+    await db.execute(sql`UPDATE users SET updated_at = DATE_ADD(updated_at, INTERVAL 1 SECOND) WHERE id IN (${analyst.id}, ${validator.id})`);
+    expect(await total()).toBe(before + 9);
+    before += 9;
     // writes the answers never read: the token's last use, the job queue, the mail outbox
     await db.update(apiTokens).set({ lastUsedAt: new Date() }).where(eq(apiTokens.name, `Cache test ${tag}`));
     await db.execute(sql`INSERT INTO worker_heartbeats (worker_id, pid, host, started_at, last_beat_at) VALUES (${`stamp-${tag}`}, 1, 'test', NOW(3), NOW(3))`);
